@@ -1,0 +1,235 @@
+package mesh
+
+import (
+	"fmt"
+
+	"github.com/paulmach/orb"
+)
+
+// TaggedEdge marks the boundary edge between nodes A and B (either order)
+// with the tag Tags[Tag] of the builder input.
+type TaggedEdge struct {
+	A, B int32
+	Tag  int16
+}
+
+// Input is what Build turns into a Mesh: node positions, cells in CSR form
+// (counter-clockwise), and the tags of boundary edges.
+type Input struct {
+	Nodes     []orb.Point
+	CellStart []int32
+	CellNodes []int32
+	// Tags are the boundary tag names; their face groups appear in this order.
+	Tags []string
+	// Edges tag boundary edges. Every listed edge must be a boundary face;
+	// boundary faces not listed stay untagged.
+	Edges []TaggedEdge
+	// Blocks and Interfaces are copied into the mesh's structured view.
+	Blocks     []Block
+	Interfaces []BlockInterface
+}
+
+// Build derives the faces of a mesh from its cells and orders everything
+// deterministically:
+//
+//   - each edge used by one cell is a boundary face, by two cells an interior
+//     face, by more an error naming the edge and its cells;
+//   - a face's owner is the lower-numbered of its cells and its nodes are in
+//     the owner's counter-clockwise order, so the normal points from owner to
+//     neighbour and outward on the boundary;
+//   - interior faces come first in order of (owner, position in the owner),
+//     then boundary faces grouped by tag in the order of in.Tags, each group
+//     in the same order, then untagged boundary faces.
+//
+// Faces are matched by a counting sort on the lower node index, so building
+// is linear in the number of cell edges. The input slices are kept, not
+// copied.
+func Build(in Input) (*Mesh, error) {
+	nn := int32(len(in.Nodes))
+	nc := len(in.CellStart) - 1
+	if nc < 0 {
+		return nil, fmt.Errorf("mesh: CellStart is empty; it needs one entry more than the cell count")
+	}
+	if len(in.Tags) > 32767 {
+		return nil, fmt.Errorf("mesh: %d boundary tags; at most 32767 are allowed", len(in.Tags))
+	}
+	if in.CellStart[0] != 0 || int(in.CellStart[nc]) != len(in.CellNodes) {
+		return nil, fmt.Errorf("mesh: CellStart must run from 0 to len(CellNodes)=%d, got %d..%d", len(in.CellNodes), in.CellStart[0], in.CellStart[nc])
+	}
+	nh := len(in.CellNodes)
+	halfCell := make([]int32, nh)
+	for c := 0; c < nc; c++ {
+		s, e := in.CellStart[c], in.CellStart[c+1]
+		if e-s < 3 {
+			return nil, fmt.Errorf("mesh: cell %d has %d nodes; a cell needs at least 3", c, e-s)
+		}
+		for h := s; h < e; h++ {
+			if v := in.CellNodes[h]; v < 0 || v >= nn {
+				return nil, fmt.Errorf("mesh: cell %d refers to node %d; nodes run from 0 to %d", c, v, nn-1)
+			}
+			halfCell[h] = int32(c)
+		}
+	}
+	// next returns the node after position h in its cell.
+	next := func(h int32) int32 {
+		c := halfCell[h]
+		if h+1 == in.CellStart[c+1] {
+			return in.CellNodes[in.CellStart[c]]
+		}
+		return in.CellNodes[h+1]
+	}
+	lohi := func(h int32) (int32, int32) {
+		a, b := in.CellNodes[h], next(h)
+		if a > b {
+			a, b = b, a
+		}
+		return a, b
+	}
+
+	// Bucket half-edges by their lower node (counting sort, stable in h).
+	start := make([]int32, nn+1)
+	for h := int32(0); h < int32(nh); h++ {
+		lo, _ := lohi(h)
+		start[lo+1]++
+	}
+	for i := int32(0); i < nn; i++ {
+		start[i+1] += start[i]
+	}
+	bucket := make([]int32, nh)
+	fill := make([]int32, nn)
+	copy(fill, start[:nn])
+	for h := int32(0); h < int32(nh); h++ {
+		lo, _ := lohi(h)
+		bucket[fill[lo]] = h
+		fill[lo]++
+	}
+	fill = nil
+
+	// twin[h] is the other half-edge of h's face, -1 on the boundary; only
+	// the first half-edge (lowest h, so lowest cell) of each face owns it.
+	twin := make([]int32, nh)
+	isOwner := make([]bool, nh)
+	for lo := int32(0); lo < nn; lo++ {
+		b := bucket[start[lo]:start[lo+1]]
+		for x, h := range b {
+			if h < 0 {
+				continue
+			}
+			_, hi := lohi(h)
+			twin[h] = -1
+			isOwner[h] = true
+			for y := x + 1; y < len(b); y++ {
+				g := b[y]
+				if g < 0 {
+					continue
+				}
+				if _, ghi := lohi(g); ghi != hi {
+					continue
+				}
+				if twin[h] >= 0 {
+					return nil, fmt.Errorf("mesh: edge between nodes %d and %d is shared by cells %d, %d and %d; an edge may belong to at most two cells",
+						lo, hi, halfCell[h], halfCell[twin[h]], halfCell[g])
+				}
+				twin[h] = g
+				twin[g] = h
+				b[y] = -1
+			}
+		}
+	}
+
+	// Tagged edges, bucketed the same way.
+	tagOf := make([]int16, nh)
+	for h := range tagOf {
+		tagOf[h] = -1
+	}
+	if len(in.Edges) > 0 {
+		for i, e := range in.Edges {
+			if e.A < 0 || e.A >= nn || e.B < 0 || e.B >= nn {
+				return nil, fmt.Errorf("mesh: tagged edge %d refers to node %d-%d; nodes run from 0 to %d", i, e.A, e.B, nn-1)
+			}
+			if e.Tag < 0 || int(e.Tag) >= len(in.Tags) {
+				return nil, fmt.Errorf("mesh: tagged edge %d (nodes %d-%d) has tag index %d; there are %d tags", i, e.A, e.B, e.Tag, len(in.Tags))
+			}
+			lo, hi := min(e.A, e.B), max(e.A, e.B)
+			found := false
+			for _, h := range bucket[start[lo]:start[lo+1]] {
+				if h < 0 {
+					continue
+				}
+				if _, hhi := lohi(h); hhi == hi {
+					if twin[h] >= 0 {
+						return nil, fmt.Errorf("mesh: edge %d-%d tagged %q is an interior face (cells %d and %d), not a boundary face",
+							e.A, e.B, in.Tags[e.Tag], halfCell[h], halfCell[twin[h]])
+					}
+					if tagOf[h] >= 0 && tagOf[h] != e.Tag {
+						return nil, fmt.Errorf("mesh: boundary edge %d-%d is tagged both %q and %q", e.A, e.B, in.Tags[tagOf[h]], in.Tags[e.Tag])
+					}
+					tagOf[h] = e.Tag
+					found = true
+					break
+				}
+			}
+			if !found {
+				return nil, fmt.Errorf("mesh: edge %d-%d tagged %q is not an edge of any cell", e.A, e.B, in.Tags[e.Tag])
+			}
+		}
+	}
+	bucket, start = nil, nil
+
+	// Count faces per group: interior, each tag, untagged.
+	ng := len(in.Tags) + 2
+	count := make([]int32, ng+1)
+	group := func(h int32) int {
+		if twin[h] >= 0 {
+			return 0
+		}
+		if t := tagOf[h]; t >= 0 {
+			return 1 + int(t)
+		}
+		return ng - 1
+	}
+	for h := int32(0); h < int32(nh); h++ {
+		if isOwner[h] {
+			count[group(h)+1]++
+		}
+	}
+	for i := 0; i < ng; i++ {
+		count[i+1] += count[i]
+	}
+	nf := int(count[ng])
+	m := &Mesh{
+		Nodes:       in.Nodes,
+		CellStart:   in.CellStart,
+		CellNodes:   in.CellNodes,
+		FaceNodes:   make([][2]int32, nf),
+		Owner:       make([]int32, nf),
+		Neighbour:   make([]int32, nf),
+		NumInterior: int(count[1]),
+		Tags:        in.Tags,
+		FaceTag:     make([]int16, nf),
+		TagStart:    make([]int32, len(in.Tags)+1),
+		Blocks:      in.Blocks,
+		Interfaces:  in.Interfaces,
+	}
+	copy(m.TagStart, count[1:len(in.Tags)+2])
+	pos := make([]int32, ng)
+	copy(pos, count[:ng])
+	for h := int32(0); h < int32(nh); h++ {
+		if !isOwner[h] {
+			continue
+		}
+		gi := group(h)
+		f := pos[gi]
+		pos[gi]++
+		m.FaceNodes[f] = [2]int32{in.CellNodes[h], next(h)}
+		m.Owner[f] = halfCell[h]
+		if t := twin[h]; t >= 0 {
+			m.Neighbour[f] = halfCell[t]
+		} else {
+			m.Neighbour[f] = -1
+		}
+		m.FaceTag[f] = tagOf[h]
+	}
+	m.Geo = ComputeGeometry(m)
+	return m, nil
+}

@@ -1,0 +1,123 @@
+package mesh
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/paulmach/orb"
+)
+
+// grid returns an nx × ny unit-square grid of quads with its four sides
+// tagged south, east, north, west.
+func grid(nx, ny int) Input {
+	var in Input
+	for j := 0; j <= ny; j++ {
+		for i := 0; i <= nx; i++ {
+			in.Nodes = append(in.Nodes, orb.Point{float64(i) / float64(nx), float64(j) / float64(ny)})
+		}
+	}
+	id := func(i, j int) int32 { return int32(j*(nx+1) + i) }
+	in.CellStart = []int32{0}
+	for j := 0; j < ny; j++ {
+		for i := 0; i < nx; i++ {
+			in.CellNodes = append(in.CellNodes, id(i, j), id(i+1, j), id(i+1, j+1), id(i, j+1))
+			in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+		}
+	}
+	in.Tags = []string{"south", "east", "north", "west"}
+	for i := 0; i < nx; i++ {
+		in.Edges = append(in.Edges, TaggedEdge{id(i, 0), id(i+1, 0), 0}, TaggedEdge{id(i+1, ny), id(i, ny), 2})
+	}
+	for j := 0; j < ny; j++ {
+		in.Edges = append(in.Edges, TaggedEdge{id(nx, j), id(nx, j+1), 1}, TaggedEdge{id(0, j+1), id(0, j), 3})
+	}
+	return in
+}
+
+func TestBuildGrid(t *testing.T) {
+	m, err := Build(grid(3, 2))
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Euler's formula for a planar grid: faces = nx(ny+1) + ny(nx+1).
+	if m.NumCells() != 6 || m.NumFaces() != 3*3+2*4 || m.NumBoundary() != 10 {
+		t.Fatalf("cells %d faces %d boundary %d", m.NumCells(), m.NumFaces(), m.NumBoundary())
+	}
+	for f := 0; f < m.NumFaces(); f++ {
+		interior := f < m.NumInterior
+		if interior != (m.Neighbour[f] >= 0) {
+			t.Fatalf("face %d out of order", f)
+		}
+		if interior && m.Owner[f] >= m.Neighbour[f] {
+			t.Fatalf("face %d owner %d not below neighbour %d", f, m.Owner[f], m.Neighbour[f])
+		}
+		// The normal points from the owner centroid towards the face.
+		c := m.Geo.CellCentroid[m.Owner[f]]
+		d := orb.Point{m.Geo.FaceMid[f][0] - c[0], m.Geo.FaceMid[f][1] - c[1]}
+		if d[0]*m.Geo.FaceNormal[f][0]+d[1]*m.Geo.FaceNormal[f][1] <= 0 {
+			t.Fatalf("face %d normal points into its owner", f)
+		}
+	}
+	for ti, name := range m.Tags {
+		lo, hi, _ := m.TagRange(name)
+		want := map[string]int{"south": 3, "north": 3, "east": 2, "west": 2}[name]
+		if hi-lo != want {
+			t.Fatalf("tag %s has %d faces, want %d", name, hi-lo, want)
+		}
+		for f := lo; f < hi; f++ {
+			if int(m.FaceTag[f]) != ti {
+				t.Fatalf("face %d in %s range has tag %d", f, name, m.FaceTag[f])
+			}
+		}
+	}
+	if lo, hi := m.UntaggedRange(); lo != hi {
+		t.Fatalf("%d untagged faces", hi-lo)
+	}
+	var sum float64
+	for _, a := range m.Geo.CellArea {
+		sum += a
+	}
+	if math.Abs(sum-1) > 1e-15 {
+		t.Fatalf("area sum %v, want 1 (the unit square)", sum)
+	}
+}
+
+func TestBuildRejectsThreeCellsOnAnEdge(t *testing.T) {
+	in := Input{
+		Nodes:     []orb.Point{{0, 0}, {1, 0}, {0, 1}, {0, -1}, {1, 1}},
+		CellStart: []int32{0, 3, 6, 9},
+		CellNodes: []int32{0, 1, 2, 1, 0, 3, 0, 1, 4},
+	}
+	_, err := Build(in)
+	if err == nil || !strings.Contains(err.Error(), "nodes 0 and 1") {
+		t.Fatalf("got %v", err)
+	}
+}
+
+func TestBuildUntaggedAndBadTag(t *testing.T) {
+	in := grid(2, 2)
+	in.Edges = in.Edges[:2]
+	m, err := Build(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if lo, hi := m.UntaggedRange(); hi-lo != 6 {
+		t.Fatalf("%d untagged faces, want 6", hi-lo)
+	}
+	in = grid(2, 2)
+	in.Edges = append(in.Edges, TaggedEdge{A: 1, B: 4, Tag: 0})
+	if _, err := Build(in); err == nil || !strings.Contains(err.Error(), "interior face") {
+		t.Fatalf("got %v", err)
+	}
+}
+
+func TestPolygonAreaCentroidFarFromOrigin(t *testing.T) {
+	// A unit square shifted by 1e8: the shift by the first vertex keeps the
+	// area exact (common practice; orb planar.Area does the same).
+	nodes := []orb.Point{{1e8, 1e8}, {1e8 + 1, 1e8}, {1e8 + 1, 1e8 + 1}, {1e8, 1e8 + 1}}
+	a, c := PolygonAreaCentroid(nodes, []int32{0, 1, 2, 3})
+	if a != 1 || c != (orb.Point{1e8 + 0.5, 1e8 + 0.5}) {
+		t.Fatalf("area %v centroid %v", a, c)
+	}
+}
