@@ -81,6 +81,10 @@ func (tr *triangulation) orient(a, b int32, p orb.Point) float64 {
 	return predicates.Orient2d(pa[0], pa[1], pb[0], pb[1], p[0], p[1])
 }
 
+func orient2d(a, b, c orb.Point) float64 {
+	return predicates.Orient2d(a[0], a[1], b[0], b[1], c[0], c[1])
+}
+
 func (tr *triangulation) link(e, f int32) {
 	tr.adj[e] = f
 	if f >= 0 {
@@ -218,16 +222,13 @@ func (tr *triangulation) digCavity(p orb.Point, seeds []int32, skip int32) error
 	for _, s := range seeds {
 		// Push the three edges so that they pop in counter-clockwise order,
 		// starting after the skipped edge when there is one.
-		first := 3 * s
-		if skip >= 0 && (skip/3 == s || tr.adj[skip]/3 == s) {
-			if skip/3 == s {
-				first = next(skip)
-			} else {
-				first = next(tr.adj[skip])
-			}
-			st = append(st, prev(first), first)
-		} else {
-			st = append(st, prev(first), next(first), first)
+		switch {
+		case skip >= 0 && skip/3 == s:
+			st = append(st, prev(skip), next(skip))
+		case skip >= 0 && tr.adj[skip]/3 == s:
+			st = append(st, prev(tr.adj[skip]), next(tr.adj[skip]))
+		default:
+			st = append(st, 3*s+2, 3*s+1, 3*s)
 		}
 		for len(st) > 0 {
 			e := st[len(st)-1]
