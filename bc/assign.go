@@ -77,7 +77,7 @@ func Assign(m *mesh.Mesh, s Setup) (*Assignment, error) {
 
 	for ci, c := range s.Conditions {
 		if !c.Kind.valid() {
-			fail(c.Where, c.Tag, "unknown boundary kind %s", c.Kind)
+			fail(c.Where, c.Tag, "no valid boundary kind (got %s); give one of: %s", c.Kind, kindList())
 			continue
 		}
 		t := tagIndex(c, c.Tag, "the condition")
