@@ -288,3 +288,18 @@ func TestAssignPeriodicSameSide(t *testing.T) {
 	_, err = Assign(m, Setup{Conditions: conds})
 	expectOne(t, err, "low", "p:1:1", "face opposite ways")
 }
+
+// A periodic condition with a bad value claims both its tags: the partner is
+// not also reported as having no condition.
+func TestAssignPeriodicBadValueClaimsPartner(t *testing.T) {
+	m := channel(t, 6, 3, 3, 1, 0, ductTags)
+	ref := seaLevel(t)
+	c := ductConditions(ref)[:2]
+	c = append(c, Condition{Tag: "wall", Kind: Periodic, Partner: "top", Where: "q:1:1",
+		Values: []Value{vector(KeyTranslation, 0, 1, "q:2:1"), scalar(KeyTolerance, -1, "q:3:1")}})
+	_, err := Assign(m, Setup{Reference: ref, Conditions: c})
+	expectOne(t, err, "wall", "q:1:1", "tolerance = -1 m is not physical")
+	if errs := errorList(t, err); len(errs) != 1 {
+		t.Errorf("want one error, got %d:\n%v", len(errs), err)
+	}
+}
