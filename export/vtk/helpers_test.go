@@ -20,7 +20,7 @@ const python = "/usr/bin/python3"
 
 // needVTK skips the test when the VTK library's Python module is missing,
 // or fails it under CI=true, where a missing reference tool is an error.
-func needVTK(t *testing.T) {
+func needVTK(t testing.TB) {
 	t.Helper()
 	out, err := exec.Command(python, "-c", "import vtk; print(vtk.vtkVersion.GetVTKVersion())").CombinedOutput()
 	if err == nil {
@@ -35,7 +35,7 @@ func needVTK(t *testing.T) {
 
 // runPython runs script with the VTK interpreter and decodes its JSON
 // output into v.
-func runPython(t *testing.T, script string, v any, args ...string) {
+func runPython(t testing.TB, script string, v any, args ...string) {
 	t.Helper()
 	needVTK(t)
 	p := filepath.Join(t.TempDir(), "check.py")

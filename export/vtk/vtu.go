@@ -32,11 +32,7 @@ func WriteVTU(w io.Writer, m *mesh.Mesh, fields []Field) error {
 	d.line(3, "<Cells>")
 	d.array(4, int32Array("connectivity", m.CellNodes))
 	d.array(4, int32Array("offsets", m.CellStart[1:]))
-	d.array(4, dataArray{name: "types", typ: "UInt8", nbytes: int64(nc), write: func(e *encoder) {
-		for c := 0; c < nc; c++ {
-			e.u8(cellType(m.CellStart[c+1] - m.CellStart[c]))
-		}
-	}})
+	d.array(4, dataArray{name: "types", typ: "UInt8", nbytes: int64(nc), write: func(e *encoder) { e.cellTypes(m.CellStart) }})
 	d.line(3, "</Cells>")
 	writeCellData(d, m.Geo.CellArea, fields)
 	d.line(2, "</Piece>")

@@ -81,7 +81,7 @@ func (d *appendedDoc) write(w io.Writer) error {
 		a.write(e)
 	}
 	e.text("\n  </AppendedData>\n</VTKFile>\n")
-	return e.flush()
+	return e.finish()
 }
 
 // attr escapes s for use inside a double-quoted XML attribute.
@@ -93,20 +93,12 @@ func attr(s string) string {
 
 // float64Array is a Float64 array of the given values.
 func float64Array(name string, v []float64) dataArray {
-	return dataArray{name: name, typ: "Float64", nbytes: 8 * int64(len(v)), write: func(e *encoder) {
-		for _, x := range v {
-			e.f64(x)
-		}
-	}}
+	return dataArray{name: name, typ: "Float64", nbytes: 8 * int64(len(v)), write: func(e *encoder) { e.f64s(v) }}
 }
 
 // int32Array is an Int32 array of the given values.
 func int32Array(name string, v []int32) dataArray {
-	return dataArray{name: name, typ: "Int32", nbytes: 4 * int64(len(v)), write: func(e *encoder) {
-		for _, x := range v {
-			e.i32(x)
-		}
-	}}
+	return dataArray{name: name, typ: "Int32", nbytes: 4 * int64(len(v)), write: func(e *encoder) { e.i32s(v) }}
 }
 
 // stringArray is a String array: each value's bytes followed by a NUL, as
@@ -131,20 +123,5 @@ func pointsArray(nodes []orb.Point, sel []int32) dataArray {
 	if sel != nil {
 		n = len(sel)
 	}
-	return dataArray{name: "Points", typ: "Float64", comps: 3, nbytes: 24 * int64(n), write: func(e *encoder) {
-		if sel == nil {
-			for _, p := range nodes {
-				e.f64(p[0])
-				e.f64(p[1])
-				e.f64(0)
-			}
-			return
-		}
-		for _, k := range sel {
-			p := nodes[k]
-			e.f64(p[0])
-			e.f64(p[1])
-			e.f64(0)
-		}
-	}}
+	return dataArray{name: "Points", typ: "Float64", comps: 3, nbytes: 24 * int64(n), write: func(e *encoder) { e.xyz(nodes, sel) }}
 }
