@@ -107,4 +107,3 @@ func TestInterruptedWrite(t *testing.T) {
 		})
 	}
 }
-
