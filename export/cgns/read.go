@@ -38,7 +38,8 @@ import (
 //     keeps the structured view (one mesh.Block per zone, and a
 //     mesh.BlockInterface for every join of two whole sides). A
 //     left-handed zone's cells are turned counter-clockwise. BCs are
-//     Vertex point ranges or lists, or IFaceCenter/JFaceCenter ranges.
+//     Vertex point ranges or lists, or face ranges (EdgeCenter, the 2D
+//     face location, or IFaceCenter/JFaceCenter).
 //
 // Tags are ordered as the base's Family_t nodes, then in the order BCs
 // first use them. Errors name the node path that could not be read.
