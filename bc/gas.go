@@ -1,0 +1,117 @@
+package bc
+
+import (
+	"fmt"
+	"math"
+)
+
+// Gas is a calorically perfect ideal gas: p = ρ R T with a constant ratio of
+// specific heats γ = cp/cv.
+type Gas struct {
+	// Gamma is the ratio of specific heats γ; it must exceed 1.
+	Gamma float64
+	// R is the specific gas constant in J/(kg K); it must be positive.
+	R float64
+}
+
+// Air is dry air: γ = 1.4 and R = 287.05287 J/(kg K), the specific gas
+// constant of dry air in ISO 2533:1975 (Standard Atmosphere) and the ICAO
+// standard atmosphere (from memory).
+var Air = Gas{Gamma: 1.4, R: 287.05287}
+
+// Validate reports a γ ≤ 1 or an R ≤ 0 (or either not finite) as an error
+// wrapping ErrInput; where is the case-file place, possibly empty.
+func (g Gas) Validate(where string) error {
+	if !(g.Gamma > 1) || math.IsInf(g.Gamma, 0) {
+		return inputErr(where, "", "ratio of specific heats gamma = %g; it must be greater than 1 (air: 1.4)", g.Gamma)
+	}
+	if !(g.R > 0) || math.IsInf(g.R, 0) {
+		return inputErr(where, "", "gas constant R = %g J/(kg K); it must be positive (air: 287.05287)", g.R)
+	}
+	return nil
+}
+
+// Cp is the specific heat at constant pressure, cp = γR/(γ−1), J/(kg K).
+func (g Gas) Cp() float64 { return g.Gamma * g.R / (g.Gamma - 1) }
+
+// SpeedOfSound is a = √(γ R T), m/s.
+func (g Gas) SpeedOfSound(t float64) float64 { return math.Sqrt(g.Gamma * g.R * t) }
+
+// Density is ρ = p/(R T), kg/m³.
+func (g Gas) Density(p, t float64) float64 { return p / (g.R * t) }
+
+// TemperatureRatio is the isentropic static-to-total temperature ratio
+//
+//	T/T0 = [1 + (γ−1)/2 M²]^−1
+//
+// (NACA Report 1135).
+func (g Gas) TemperatureRatio(mach float64) float64 {
+	return 1 / (1 + 0.5*(g.Gamma-1)*mach*mach)
+}
+
+// PressureRatio is the isentropic static-to-total pressure ratio
+//
+//	p/p0 = [1 + (γ−1)/2 M²]^(−γ/(γ−1))
+//
+// (NACA Report 1135).
+func (g Gas) PressureRatio(mach float64) float64 {
+	return math.Pow(g.TemperatureRatio(mach), g.Gamma/(g.Gamma-1))
+}
+
+// DensityRatio is the isentropic static-to-total density ratio
+//
+//	ρ/ρ0 = [1 + (γ−1)/2 M²]^(−1/(γ−1))
+//
+// (NACA Report 1135).
+func (g Gas) DensityRatio(mach float64) float64 {
+	return math.Pow(g.TemperatureRatio(mach), 1/(g.Gamma-1))
+}
+
+// AreaRatio is the isentropic ratio of the stream-tube area to its sonic
+// (throat) area,
+//
+//	A/A* = (1/M) {[2/(γ+1)] [1 + (γ−1)/2 M²]}^((γ+1)/(2(γ−1)))
+//
+// (NACA Report 1135). It is +Inf at M = 0.
+func (g Gas) AreaRatio(mach float64) float64 {
+	gm := g.Gamma
+	return math.Pow(2/(gm+1)*(1+0.5*(gm-1)*mach*mach), (gm+1)/(2*(gm-1))) / mach
+}
+
+// MachFromPressureRatio inverts PressureRatio: the Mach number at which the
+// isentropic static-to-total pressure ratio is pr, 0 < pr ≤ 1, from
+//
+//	M = √{ 2/(γ−1) [pr^(−(γ−1)/γ) − 1] }.
+func (g Gas) MachFromPressureRatio(pr float64) (float64, error) {
+	if !(pr > 0 && pr <= 1) {
+		return 0, fmt.Errorf("static-to-total pressure ratio %g is outside (0, 1]: %w", pr, ErrInput)
+	}
+	gm := g.Gamma
+	return math.Sqrt(2 / (gm - 1) * (math.Pow(pr, -(gm-1)/gm) - 1)), nil
+}
+
+// MachFromAreaRatio inverts AreaRatio on the subsonic or the supersonic
+// branch: the Mach number at which A/A* = ar, ar ≥ 1. It brackets the root
+// (M in (0, 1] or [1, ∞)) and bisects, since A/A* is monotone on each branch.
+func (g Gas) MachFromAreaRatio(ar float64, supersonic bool) (float64, error) {
+	if !(ar >= 1) || math.IsInf(ar, 0) {
+		return 0, fmt.Errorf("area ratio A/A* = %g; it must be at least 1: %w", ar, ErrInput)
+	}
+	lo, hi := 1e-12, 1.0
+	if supersonic {
+		lo, hi = 1, 2
+		for g.AreaRatio(hi) < ar {
+			hi *= 2
+		}
+	}
+	for i := 0; i < 200 && hi-lo > 1e-15*hi; i++ {
+		mid := 0.5 * (lo + hi)
+		// A/A* falls with M below 1 and rises above it.
+		if (g.AreaRatio(mid) > ar) != supersonic {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return 0.5 * (lo + hi), nil
+}

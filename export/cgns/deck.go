@@ -1,0 +1,245 @@
+package cgns
+
+/*
+#include <cgnslib.h>
+*/
+import "C"
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"cvdeck/mesh"
+)
+
+// Deck is everything written to one CGNS file: the mesh, its boundary
+// conditions, the reference flow state and per-cell fields. It is a plain
+// struct of its own so this package does not depend on the packages that
+// produce those values; the deck package fills it.
+type Deck struct {
+	// Mesh is the mesh to write. If Mesh.Blocks is empty it is written as
+	// one unstructured zone, otherwise as one structured zone per block.
+	Mesh *mesh.Mesh
+	// Name is the CGNS base name (at most 32 characters, no '/');
+	// "Base" if empty.
+	Name string
+	// BCs gives the boundary condition of every boundary tag of the mesh.
+	BCs []BC
+	// Flow is the reference (free-stream) state and gas model; nil writes
+	// neither FlowEquationSet nor ReferenceState.
+	Flow *FlowState
+	// CellFields are per-cell values (quality metrics), written as a
+	// FlowSolution at CellCenter.
+	CellFields []Field
+	// FieldsInFlowSolution writes CellFields as the FlowSolution_t
+	// "CellQuality" (for viewers that read only flow solutions) instead of
+	// the DiscreteData_t "CellQuality". SIDS meant DiscreteData_t for field
+	// data that is not part of the flow solution, and cgnscheck warns "not
+	// a CGNS data-name identifier" for every non-SIDS name in a
+	// FlowSolution_t, so the default keeps the file free of warnings.
+	FieldsInFlowSolution bool
+}
+
+// BC is the boundary condition of one boundary tag.
+type BC struct {
+	// Tag is the mesh boundary tag.
+	Tag string
+	// BCType is a CGNS BCType_t name such as "BCWallViscousHeatFlux",
+	// "BCFarfield", "BCSymmetryPlane", "BCInflowSubsonic".
+	BCType string
+}
+
+// FlowState is the free stream and gas model, all values SI.
+type FlowState struct {
+	// Gamma is the ratio of specific heats (SpecificHeatRatio), > 1.
+	Gamma float64
+	// GasConstant is the specific gas constant R in J/(kg K)
+	// (IdealGasConstant).
+	GasConstant float64
+	Mach        float64
+	Pressure    float64    // Pa
+	Temperature float64    // K
+	Density     float64    // kg/m³
+	Velocity    [2]float64 // m/s
+	// SpeedOfSound is the free-stream speed of sound in m/s
+	// (VelocitySound).
+	SpeedOfSound float64
+	// Viscosity is the free-stream dynamic viscosity in Pa s
+	// (ViscosityMolecular); written when Viscous.
+	Viscosity float64
+	// Reynolds is the free-stream Reynolds number based on ReynoldsLength.
+	Reynolds float64
+	// ReynoldsLength is the reference length of Reynolds in m
+	// (LengthReference); written when > 0.
+	ReynoldsLength float64
+	// Viscous selects GoverningEquations NSLaminar instead of Euler.
+	Viscous bool
+	// Sutherland, if set on a viscous deck, is written as ViscosityModel
+	// SutherlandLaw; a viscous deck without it gets ViscosityModel Constant.
+	Sutherland *Sutherland
+	// Prandtl, if > 0 on a viscous deck, is written as
+	// ThermalConductivityModel ConstantPrandtl.
+	Prandtl float64
+}
+
+// Sutherland holds the constants of Sutherland's law
+// μ = μref (T/Tref)^(3/2) (Tref + S)/(T + S) (White, Viscous Fluid Flow).
+type Sutherland struct {
+	ViscosityRef   float64 // μref, Pa s
+	TemperatureRef float64 // Tref, K
+	Constant       float64 // S, K
+}
+
+// Field is one per-cell array, such as a quality metric.
+type Field struct {
+	// Name is the array name (at most 32 characters, no '/').
+	Name string
+	// Values has one value per mesh cell, in cell order.
+	Values []float64
+	// Exponents are the SI dimensional exponents (mass, length, time,
+	// temperature, angle) of the values; all zero marks a dimensionless
+	// metric (DataClass NondimensionalParameter). A cell area has
+	// {0, 2, 0, 0, 0}.
+	Exponents [5]float64
+}
+
+// checkName reports whether s can be a CGNS node name: non-empty, at most
+// 32 characters, no '/'.
+func checkName(what, s string) error {
+	switch {
+	case s == "":
+		return fmt.Errorf("%s is empty; a CGNS node name needs 1 to %d characters", what, maxNameLen)
+	case len(s) > maxNameLen:
+		return fmt.Errorf("%s %q has %d characters; CGNS node names have at most %d", what, s, len(s), maxNameLen)
+	case strings.ContainsRune(s, '/'):
+		return fmt.Errorf("%s %q contains '/', which CGNS node names may not", what, s)
+	case s == "." || s == "..":
+		return fmt.Errorf("%s %q is not a valid CGNS node name", what, s)
+	}
+	return nil
+}
+
+// validate checks the deck before anything is written and returns the
+// BCType of every mesh tag, in tag order.
+func (d *Deck) validate() ([]C.BCType_t, error) {
+	if d == nil || d.Mesh == nil {
+		return nil, fmt.Errorf("cgns: deck has no mesh")
+	}
+	m := d.Mesh
+	if m.NumCells() == 0 {
+		return nil, fmt.Errorf("cgns: mesh has no cells")
+	}
+	if err := checkName("base name", d.baseName()); err != nil {
+		return nil, fmt.Errorf("cgns: %w", err)
+	}
+	byTag := make(map[string]string, len(d.BCs))
+	for i, bc := range d.BCs {
+		if _, ok := byTag[bc.Tag]; ok {
+			return nil, fmt.Errorf("cgns: BC %d: tag %q has more than one boundary condition", i, bc.Tag)
+		}
+		if _, _, ok := m.TagRange(bc.Tag); !ok {
+			return nil, fmt.Errorf("cgns: BC %d: tag %q is not a boundary tag of the mesh; mesh tags are %v", i, bc.Tag, m.Tags)
+		}
+		byTag[bc.Tag] = bc.BCType
+	}
+	types := make([]C.BCType_t, len(m.Tags))
+	for t, tag := range m.Tags {
+		if err := checkName("boundary tag", tag); err != nil {
+			return nil, fmt.Errorf("cgns: %w", err)
+		}
+		if reservedZoneChild[tag] || reservedBaseChild[tag] {
+			return nil, fmt.Errorf("cgns: boundary tag %q is also the name of a standard CGNS node of the deck; rename the tag", tag)
+		}
+		name, ok := byTag[tag]
+		if !ok {
+			return nil, fmt.Errorf("cgns: boundary tag %q has no boundary condition; give it a CGNS BCType such as BCWall or BCFarfield", tag)
+		}
+		bt, err := bcTypeByName(name)
+		if err != nil {
+			return nil, fmt.Errorf("cgns: boundary tag %q: %w", tag, err)
+		}
+		types[t] = C.BCType_t(bt)
+	}
+	seen := map[string]bool{}
+	for i, f := range d.CellFields {
+		if err := checkName(fmt.Sprintf("cell field %d name", i), f.Name); err != nil {
+			return nil, fmt.Errorf("cgns: %w", err)
+		}
+		if seen[f.Name] {
+			return nil, fmt.Errorf("cgns: cell field %d: name %q is used twice", i, f.Name)
+		}
+		seen[f.Name] = true
+		if len(f.Values) != m.NumCells() {
+			return nil, fmt.Errorf("cgns: cell field %q has %d values; the mesh has %d cells", f.Name, len(f.Values), m.NumCells())
+		}
+	}
+	if d.Flow != nil {
+		if err := d.Flow.validate(); err != nil {
+			return nil, fmt.Errorf("cgns: flow state: %w", err)
+		}
+	}
+	return types, nil
+}
+
+func (d *Deck) baseName() string {
+	if d.Name == "" {
+		return "Base"
+	}
+	return d.Name
+}
+
+// reservedZoneChild are names of standard children of a zone, which
+// element sections (named after boundary tags) must not take.
+var reservedZoneChild = map[string]bool{
+	"GridCoordinates": true, "ZoneBC": true, "ZoneGridConnectivity": true,
+	"ZoneType": true, "FlowSolution": true, "CellQuality": true,
+	"Cells": true, "InteriorFaces": true, "UntaggedBoundary": true,
+	"FamilyName": true, "ReferenceState": true, "FlowEquationSet": true,
+}
+
+// reservedBaseChild are names of standard children of the base, which
+// families (named after boundary tags) and zones must not take.
+var reservedBaseChild = map[string]bool{
+	"FlowEquationSet": true, "ReferenceState": true, "DataClass": true,
+	"DimensionalUnits": true, "ReferenceStateDescription": true,
+}
+
+func (f *FlowState) validate() error {
+	positive := []struct {
+		name string
+		v    float64
+	}{
+		{"GasConstant", f.GasConstant}, {"Pressure", f.Pressure},
+		{"Temperature", f.Temperature}, {"Density", f.Density},
+		{"SpeedOfSound", f.SpeedOfSound},
+	}
+	if !(f.Gamma > 1) || math.IsInf(f.Gamma, 0) {
+		return fmt.Errorf("Gamma is %g; the ratio of specific heats must be greater than 1", f.Gamma)
+	}
+	for _, p := range positive {
+		if !(p.v > 0) || math.IsInf(p.v, 0) {
+			return fmt.Errorf("%s is %g; it must be a positive finite number", p.name, p.v)
+		}
+	}
+	finite := []struct {
+		name string
+		v    float64
+	}{
+		{"Mach", f.Mach}, {"Velocity[0]", f.Velocity[0]}, {"Velocity[1]", f.Velocity[1]},
+		{"Viscosity", f.Viscosity}, {"Reynolds", f.Reynolds}, {"ReynoldsLength", f.ReynoldsLength},
+		{"Prandtl", f.Prandtl},
+	}
+	for _, p := range finite {
+		if math.IsNaN(p.v) || math.IsInf(p.v, 0) || p.v < 0 && !strings.HasPrefix(p.name, "Velocity") {
+			return fmt.Errorf("%s is %g; it must be a finite number, not negative", p.name, p.v)
+		}
+	}
+	if f.Viscous && !(f.Viscosity > 0) {
+		return fmt.Errorf("a viscous flow needs Viscosity > 0, got %g", f.Viscosity)
+	}
+	if s := f.Sutherland; s != nil && (!(s.ViscosityRef > 0) || !(s.TemperatureRef > 0) || !(s.Constant > 0)) {
+		return fmt.Errorf("Sutherland constants must be positive, got μref=%g Tref=%g S=%g", s.ViscosityRef, s.TemperatureRef, s.Constant)
+	}
+	return nil
+}

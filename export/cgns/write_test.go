@@ -1,0 +1,148 @@
+package cgns
+
+import (
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// deckCases are the test decks of our own: unstructured triangles, quads,
+// triangles and quads mixed, quads with hexagons (NGON_n), two structured
+// blocks joined with and without a reversing transform, an O-type block
+// joined to itself side to side and a C-type block with a wake cut (part
+// of one side joined to another part of it).
+func deckCases(t *testing.T) []struct {
+	name string
+	deck *Deck
+} {
+	return []struct {
+		name string
+		deck *Deck
+	}{
+		{"tri", testDeck(triMesh(t, 8, 4))},
+		{"quad", testDeck(quadMesh(t, 8, 4))},
+		{"mixed", testDeck(mixedMesh(t, 8, 5))},
+		{"poly", testDeck(polyMesh(t, 8, 4))},
+		{"twoblock", testDeck(twoBlockMesh(t, 8, 4, true))},
+		{"twoblock-aligned", testDeck(twoBlockMesh(t, 8, 4, false))},
+		{"ring", testDeck(ringMesh(t, 12, 3))},
+		{"cgrid", testDeck(cgridMesh(t, 6, 3, 2))},
+	}
+}
+
+// TestWriteChecked: every file passes the CGNS library's own checker with
+// no error and no warning, and HDF5's h5dump reads all of it.
+func TestWriteChecked(t *testing.T) {
+	dir := t.TempDir()
+	for _, c := range deckCases(t) {
+		t.Run(c.name, func(t *testing.T) {
+			path := filepath.Join(dir, c.name+".cgns")
+			if _, err := Write(path, c.deck); err != nil {
+				t.Fatal(err)
+			}
+			cgnscheck(t, path)
+			out := h5dump(t, path)
+			// The CGNS/HDF5 mapping stores every node as an HDF5 group
+			// named after it (CGNS standard, HDF5 file mapping).
+			for _, g := range []string{`GROUP "CGNSLibraryVersion"`, `GROUP "TestDeck"`, `GROUP "FlowEquationSet"`, `GROUP "ReferenceState"`, `GROUP "ZoneBC"`, `GROUP "CellQuality"`, `GROUP "wall"`} {
+				if !strings.Contains(out, g) {
+					t.Errorf("h5dump of %s has no %s", c.name, g)
+				}
+			}
+		})
+	}
+}
+
+// TestFieldsInFlowSolution: the FlowSolution variant is read by cgnscheck
+// with no error; its only warnings are the checker's advisory about
+// non-SIDS field names (the reason DiscreteData_t is the default).
+func TestFieldsInFlowSolution(t *testing.T) {
+	d := testDeck(quadMesh(t, 4, 2))
+	d.FieldsInFlowSolution = true
+	path := filepath.Join(t.TempDir(), "sol.cgns")
+	if _, err := Write(path, d); err != nil {
+		t.Fatal(err)
+	}
+	out, err := exec.Command(tool(t, "cgnscheck"), "-v", path).CombinedOutput()
+	if err != nil {
+		t.Fatalf("cgnscheck: %v\n%s", err, out)
+	}
+	text := string(out)
+	if !strings.Contains(text, `checking solution "CellQuality"`) || !strings.Contains(text, "Grid Location=CellCenter") {
+		t.Fatalf("cgnscheck sees no CellCenter FlowSolution:\n%s", text)
+	}
+	for _, line := range strings.Split(text, "\n") {
+		if strings.HasPrefix(line, "ERROR") || strings.HasPrefix(line, "WARNING") && !strings.Contains(line, "not a CGNS data-name identifier") {
+			t.Fatalf("unexpected finding %q:\n%s", line, text)
+		}
+	}
+}
+
+// TestContentHash: writing the same deck twice gives the same hash and
+// files the CGNS library's cgnsdiff finds equal in content, although HDF5
+// time stamps may make the bytes differ; changing one coordinate changes
+// the hash.
+func TestContentHash(t *testing.T) {
+	dir := t.TempDir()
+	a, b := filepath.Join(dir, "a.cgns"), filepath.Join(dir, "b.cgns")
+	d := testDeck(mixedMesh(t, 6, 3))
+	ha, err := Write(a, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	hb, err := Write(b, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ha != hb || len(ha) != 64 {
+		t.Fatalf("hashes of the same deck differ or are malformed: %s vs %s", ha, hb)
+	}
+	out, err := exec.Command(tool(t, "cgnsdiff"), "-d", a, b).CombinedOutput()
+	if err != nil || len(strings.TrimSpace(string(out))) != 0 {
+		t.Fatalf("cgnsdiff -d of two writes of one deck: %v\n%s", err, out)
+	}
+	d.Mesh.Nodes[3][1] += 1e-12
+	hc, err := Write(b, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if hc == ha {
+		t.Fatal("moving a node did not change the content hash")
+	}
+	if out, _ := exec.Command(tool(t, "cgnsdiff"), "-d", a, b).CombinedOutput(); len(strings.TrimSpace(string(out))) == 0 {
+		t.Fatal("cgnsdiff finds no difference after moving a node; the comparison cannot fail")
+	}
+}
+
+// TestWriteRejects: bad decks get an error naming the problem, and no file
+// is left behind.
+func TestWriteRejects(t *testing.T) {
+	dir := t.TempDir()
+	cases := []struct {
+		name string
+		edit func(d *Deck)
+		want string
+	}{
+		{"unknown BCType", func(d *Deck) { d.BCs[0].BCType = "BCSlipperyWall" }, `"BCSlipperyWall" is not a CGNS BCType`},
+		{"tag without BC", func(d *Deck) { d.BCs = d.BCs[1:] }, `boundary tag "wall" has no boundary condition`},
+		{"BC of unknown tag", func(d *Deck) { d.BCs = append(d.BCs, BC{Tag: "inlet", BCType: "BCInflow"}) }, `tag "inlet" is not a boundary tag`},
+		{"short field", func(d *Deck) { d.CellFields[0].Values = d.CellFields[0].Values[1:] }, `cell field "CellArea" has 31 values; the mesh has 32 cells`},
+		{"long name", func(d *Deck) { d.Name = strings.Repeat("x", 33) }, "at most 32"},
+		{"gamma", func(d *Deck) { d.Flow.Gamma = 1 }, "Gamma is 1"},
+		{"no mesh", func(d *Deck) { d.Mesh = nil }, "deck has no mesh"},
+	}
+	for _, c := range cases {
+		d := testDeck(quadMesh(t, 8, 4))
+		c.edit(d)
+		path := filepath.Join(dir, "bad.cgns")
+		_, err := Write(path, d)
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: got error %v, want one containing %q", c.name, err, c.want)
+		}
+	}
+	if left, _ := os.ReadDir(dir); len(left) != 0 {
+		t.Errorf("rejected writes left files: %v", left)
+	}
+}

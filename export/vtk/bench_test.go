@@ -1,0 +1,100 @@
+package vtk
+
+import (
+	"os"
+	"path/filepath"
+	"sync"
+	"testing"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/mesh"
+)
+
+var (
+	benchOnce sync.Once
+	benchMesh *mesh.Mesh
+)
+
+// gridMesh is an n × n grid of unit-square quads, its four sides tagged.
+func gridMesh(tb testing.TB, n int) *mesh.Mesh {
+	in := mesh.Input{CellStart: make([]int32, 1, n*n+1), CellNodes: make([]int32, 0, 4*n*n), Nodes: make([]orb.Point, 0, (n+1)*(n+1))}
+	for j := 0; j <= n; j++ {
+		for i := 0; i <= n; i++ {
+			in.Nodes = append(in.Nodes, orb.Point{float64(i) * 1e-3, float64(j) * 1e-3})
+		}
+	}
+	id := func(i, j int) int32 { return int32(j*(n+1) + i) }
+	for j := 0; j < n; j++ {
+		for i := 0; i < n; i++ {
+			in.CellNodes = append(in.CellNodes, id(i, j), id(i+1, j), id(i+1, j+1), id(i, j+1))
+			in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+		}
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return m
+}
+
+// vtkWriterScript reads a .vtu and times the VTK library's own XML writer
+// writing it uncompressed with raw appended data, best of three, printing
+// {"seconds": s, "bytes": n}.
+const vtkWriterScript = `
+import sys, json, time, os, vtk
+r = vtk.vtkXMLUnstructuredGridReader(); r.SetFileName(sys.argv[1]); r.Update()
+g = r.GetOutput()
+w = vtk.vtkXMLUnstructuredGridWriter()
+w.SetInputData(g); w.SetFileName(sys.argv[2])
+w.SetCompressorTypeToNone(); w.SetDataModeToAppended(); w.EncodeAppendedDataOff()
+best = None
+for _ in range(3):
+    t = time.perf_counter(); ok = w.Write(); dt = time.perf_counter() - t
+    if not ok: raise SystemExit('vtk writer failed')
+    best = dt if best is None else min(best, dt)
+print(json.dumps({'seconds': best, 'bytes': os.path.getsize(sys.argv[2]), 'cells': g.GetNumberOfCells()}))
+`
+
+// BenchmarkWriteVTU writes a 1-million-cell VTU to a file and, in the same
+// run, times the VTK library's XML writer (uncompressed, appended raw) on
+// the same mesh. Metrics: vtk-ns/op (the library's best of three) and
+// ratio (ours / the library's; the target is ≤ 1).
+func BenchmarkWriteVTU(b *testing.B) {
+	benchOnce.Do(func() { benchMesh = gridMesh(b, 1000) })
+	m := benchMesh
+	dir := b.TempDir()
+	ours := filepath.Join(dir, "cvdeck.vtu")
+	write := func() {
+		f, err := os.Create(ours)
+		if err != nil {
+			b.Fatal(err)
+		}
+		if err := WriteVTU(f, m, nil); err != nil {
+			b.Fatal(err)
+		}
+		if err := f.Close(); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		write()
+	}
+	b.StopTimer()
+	perOp := float64(b.Elapsed().Nanoseconds()) / float64(b.N)
+	fi, _ := os.Stat(ours)
+	b.SetBytes(fi.Size())
+	var lib struct {
+		Seconds float64 `json:"seconds"`
+		Bytes   int64   `json:"bytes"`
+		Cells   int     `json:"cells"`
+	}
+	runPython(b, vtkWriterScript, &lib, ours, filepath.Join(dir, "vtk.vtu"))
+	if lib.Cells != m.NumCells() {
+		b.Fatalf("VTK read %d cells, want %d", lib.Cells, m.NumCells())
+	}
+	b.ReportMetric(lib.Seconds*1e9, "vtk-ns/op")
+	b.ReportMetric(perOp/(lib.Seconds*1e9), "ratio")
+	b.ReportMetric(float64(lib.Bytes), "vtk-bytes")
+}

@@ -1,0 +1,23 @@
+// Package vtk writes cvdeck meshes in the VTK file formats and reads
+// unstructured grids back for checking.
+//
+// Writers (the XML formats are those of the VTK file-format document, "VTK
+// File Formats", Kitware; the legacy one its "Simple Legacy Formats"
+// section):
+//
+//   - WriteVTU: XML UnstructuredGrid, binary appended raw data, no
+//     compression, header_type UInt64; points Float64 (x, y, 0); cells as
+//     VTK_TRIANGLE (5), VTK_QUAD (9) or VTK_POLYGON (7) with Int32
+//     connectivity and offsets; cell data "area" plus the given fields.
+//   - WriteBoundaryVTP: XML PolyData of the boundary faces as line cells
+//     with the tag index, condition index and face index per line, the tag
+//     and condition names as String arrays in FieldData.
+//   - WriteLegacy: legacy .vtk UNSTRUCTURED_GRID, version 4.2 layout, ASCII
+//     or binary (big-endian, as the legacy format requires).
+//   - WriteVTS and WriteVTM: one XML StructuredGrid per structured block
+//     and the multiblock index that lists them.
+//
+// Readers (ReadFile, ReadVTU, ReadLegacy) accept what the VTK library
+// writes, including its defaults (zlib-compressed, base64 appended data),
+// and return a mesh.Mesh whose line cells became tagged boundary faces.
+package vtk

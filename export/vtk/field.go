@@ -1,0 +1,71 @@
+package vtk
+
+import (
+	"fmt"
+	"strings"
+
+	"cvdeck/mesh"
+)
+
+// Field is one cell-data array: one value per cell of the mesh.
+type Field struct {
+	Name   string
+	Values []float64
+}
+
+// AreaName is the name of the cell-area array every mesh file carries.
+const AreaName = "area"
+
+// VTK cell type codes (vtkCellType.h, VTK file-format document).
+const (
+	cellLine     = 3
+	cellPolyLine = 4
+	cellTriangle = 5
+	cellPolygon  = 7
+	cellPixel    = 8
+	cellQuad     = 9
+)
+
+// cellType returns the VTK type of a cell with n nodes.
+func cellType(n int32) uint8 {
+	switch n {
+	case 3:
+		return cellTriangle
+	case 4:
+		return cellQuad
+	}
+	return cellPolygon
+}
+
+// checkFields checks that every field has one value per cell of a mesh of
+// nc cells and a usable, unique name.
+func checkFields(fields []Field, nc int) error {
+	seen := map[string]bool{AreaName: true}
+	for i, f := range fields {
+		switch {
+		case f.Name == "":
+			return fmt.Errorf("vtk: field %d has no name", i)
+		case seen[f.Name]:
+			return fmt.Errorf("vtk: field %d name %q is used twice (%q is reserved for the cell area)", i, f.Name, AreaName)
+		case strings.ContainsAny(f.Name, "\x00\"<>&"):
+			return fmt.Errorf("vtk: field %d name %q contains a NUL, quote, <, > or &", i, f.Name)
+		case len(f.Values) != nc:
+			return fmt.Errorf("vtk: field %q has %d values; the mesh has %d cells", f.Name, len(f.Values), nc)
+		}
+		seen[f.Name] = true
+	}
+	return nil
+}
+
+// checkMesh rejects a mesh whose arrays disagree, so writers never index
+// out of range.
+func checkMesh(m *mesh.Mesh) error {
+	if m == nil {
+		return fmt.Errorf("vtk: no mesh")
+	}
+	nc := m.NumCells()
+	if nc < 0 || len(m.Geo.CellArea) != nc {
+		return fmt.Errorf("vtk: mesh has %d cells but %d cell areas; build it with mesh.Build", nc, len(m.Geo.CellArea))
+	}
+	return nil
+}

@@ -1,0 +1,388 @@
+package structured
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/mesh"
+)
+
+// AssembleOptions tune Assemble.
+type AssembleOptions struct {
+	// Tol is the largest distance between two nodes of shared sides that
+	// still counts as the same node; 0 means 1e-9 times the bounding-box
+	// diagonal of all blocks.
+	Tol float64
+}
+
+// sideRef names one side of one block.
+type sideRef struct {
+	block int
+	side  mesh.Side
+}
+
+// sideSample holds a side's nodes and five points at arc-length fractions
+// 0, ¼, ½, ¾, 1, used to recognise sides that are meant to be shared.
+type sideSample struct {
+	ref    sideRef
+	pts    []orb.Point
+	length float64
+	at     [5]orb.Point
+}
+
+// Assemble joins structured blocks into one face-based mesh.
+//
+// Two sides are taken to be shared when their points at arc-length
+// fractions 0, ¼, ½, ¾ and 1 agree, in the same or the opposite direction,
+// to within 5% of the shorter side's length. A shared pair must then
+// conform: equal node counts and every node within Tol of its partner,
+// otherwise the error names the two blocks and sides and gives the counts,
+// or the largest mismatch and where it is. Two sides of one block may be
+// shared (the seam of an O-grid). Shared nodes become one mesh node (the
+// first block's position is kept), so interfaces become interior faces and
+// are listed in Mesh.Interfaces.
+//
+// Every side that is not shared must carry a boundary tag on each edge, and
+// no node of one block may touch a node of another except through a shared
+// side (a side meeting only part of another is a non-conforming join and an
+// error). Mesh nodes are numbered block by block in (i, j) order, skipping
+// nodes already placed; cells block by block, i fastest; boundary tags in
+// order of first appearance.
+func Assemble(blocks []*Block, opt AssembleOptions) (*mesh.Mesh, error) {
+	if len(blocks) == 0 {
+		return nil, fmt.Errorf("structured: no blocks to assemble")
+	}
+	offset := make([]int, len(blocks)+1)
+	var lo, hi orb.Point
+	for b, blk := range blocks {
+		if err := blk.check(); err != nil {
+			return nil, fmt.Errorf("structured: %w", err)
+		}
+		offset[b+1] = offset[b] + blk.NI*blk.NJ
+		for k := range blk.X {
+			p := orb.Point{blk.X[k], blk.Y[k]}
+			if b == 0 && k == 0 {
+				lo, hi = p, p
+			}
+			lo = orb.Point{math.Min(lo[0], p[0]), math.Min(lo[1], p[1])}
+			hi = orb.Point{math.Max(hi[0], p[0]), math.Max(hi[1], p[1])}
+		}
+	}
+	tol := opt.Tol
+	if tol <= 0 {
+		tol = 1e-9 * math.Hypot(hi[0]-lo[0], hi[1]-lo[1])
+	}
+	for b, blk := range blocks {
+		if a := blockArea(blk); a <= 0 {
+			return nil, fmt.Errorf("structured: block %d %q has signed area %.3g: its i and j must run so that cells are counter-clockwise (i along south west to east, j south to north)", b, blk.Name, a)
+		}
+	}
+
+	// Find the shared sides.
+	var sides []sideSample
+	for b, blk := range blocks {
+		for s := mesh.South; s <= mesh.West; s++ {
+			sides = append(sides, sampleSide(sideRef{b, s}, blk.SidePoints(s)))
+		}
+	}
+	partner := make([]int, len(sides))
+	for k := range partner {
+		partner[k] = -1
+	}
+	reversed := make([]bool, len(sides))
+	var ifaces []mesh.BlockInterface
+	parent := make([]int32, offset[len(blocks)])
+	for k := range parent {
+		parent[k] = int32(k)
+	}
+	for x := range sides {
+		for y := x + 1; y < len(sides); y++ {
+			sx, sy := &sides[x], &sides[y]
+			rev, ok := sameCurve(sx, sy)
+			if !ok {
+				continue
+			}
+			if err := conform(blocks, sx, sy, rev, tol); err != nil {
+				return nil, err
+			}
+			for _, z := range [2]int{x, y} {
+				if partner[z] >= 0 {
+					o := sides[partner[z]].ref
+					other := sides[x+y-z].ref
+					return nil, fmt.Errorf("structured: %s coincides with both %s and %s; a side can be shared with one other side only",
+						refName(blocks, sides[z].ref), refName(blocks, o), refName(blocks, other))
+				}
+			}
+			partner[x], partner[y] = y, x
+			reversed[x], reversed[y] = rev, rev
+			ifaces = append(ifaces, mesh.BlockInterface{A: sx.ref.block, B: sy.ref.block, SideA: sx.ref.side, SideB: sy.ref.side, Reversed: rev})
+			n := len(sx.pts)
+			bx, by := blocks[sx.ref.block], blocks[sy.ref.block]
+			for k := 0; k < n; k++ {
+				ky := k
+				if rev {
+					ky = n - 1 - k
+				}
+				union(parent, int32(offset[sx.ref.block]+bx.SideNode(sx.ref.side, k)), int32(offset[sy.ref.block]+by.SideNode(sy.ref.side, ky)))
+			}
+		}
+	}
+
+	// Number the nodes: each merged set takes the number of its first member.
+	global := make([]int32, len(parent))
+	nodes := make([]orb.Point, 0, len(parent))
+	for b, blk := range blocks {
+		for k := range blk.X {
+			f := offset[b] + k
+			r := find(parent, int32(f))
+			if int(r) == f {
+				global[f] = int32(len(nodes))
+				nodes = append(nodes, orb.Point{blk.X[k], blk.Y[k]})
+			} else {
+				global[f] = global[r]
+			}
+		}
+	}
+	if err := checkTouching(blocks, offset, global, nodes, tol); err != nil {
+		return nil, err
+	}
+
+	// Cells, structured view, boundary tags.
+	in := mesh.Input{Nodes: nodes, Interfaces: ifaces}
+	ncell := 0
+	for _, blk := range blocks {
+		ncell += (blk.NI - 1) * (blk.NJ - 1)
+	}
+	in.CellStart = make([]int32, 0, ncell+1)
+	in.CellNodes = make([]int32, 0, 4*ncell)
+	in.CellStart = append(in.CellStart, 0)
+	nedge := 0
+	for z, sd := range sides {
+		if partner[z] < 0 {
+			nedge += len(sd.pts) - 1
+		}
+	}
+	in.Edges = make([]mesh.TaggedEdge, 0, nedge)
+	tagIndex := map[string]int16{}
+	for b, blk := range blocks {
+		g := global[offset[b]:offset[b+1]]
+		mb := mesh.Block{Name: blk.Name, NI: blk.NI, NJ: blk.NJ, Node: append([]int32(nil), g...), FirstCell: int32(len(in.CellStart) - 1)}
+		in.Blocks = append(in.Blocks, mb)
+		ni := blk.NI
+		for j := 0; j+1 < blk.NJ; j++ {
+			for i := 0; i+1 < ni; i++ {
+				k := j*ni + i
+				in.CellNodes = append(in.CellNodes, g[k], g[k+1], g[k+1+ni], g[k+ni])
+				in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+			}
+		}
+		for s := mesh.South; s <= mesh.West; s++ {
+			if partner[4*b+int(s)] >= 0 {
+				continue
+			}
+			for e, tag := range blk.Tags[s] {
+				if tag == "" {
+					p := blk.At(nodeIJ(blk, s, e))
+					return nil, fmt.Errorf("structured: block %q %s side is not shared with any block, and its edge %d (from (%g, %g)) has no boundary tag", blk.Name, s, e, p[0], p[1])
+				}
+				t, ok := tagIndex[tag]
+				if !ok {
+					if len(in.Tags) >= math.MaxInt16 {
+						return nil, fmt.Errorf("structured: more than %d boundary tags", math.MaxInt16)
+					}
+					t = int16(len(in.Tags))
+					tagIndex[tag] = t
+					in.Tags = append(in.Tags, tag)
+				}
+				in.Edges = append(in.Edges, mesh.TaggedEdge{A: g[blk.SideNode(s, e)], B: g[blk.SideNode(s, e+1)], Tag: t})
+			}
+		}
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		return nil, fmt.Errorf("structured: %w", err)
+	}
+	return m, nil
+}
+
+// nodeIJ returns the (i, j) of the k-th node of side s.
+func nodeIJ(b *Block, s mesh.Side, k int) (int, int) {
+	q := b.SideNode(s, k)
+	return q % b.NI, q / b.NI
+}
+
+func refName(blocks []*Block, r sideRef) string {
+	return fmt.Sprintf("block %q %s side", blocks[r.block].Name, r.side)
+}
+
+func sampleSide(r sideRef, pts []orb.Point) sideSample {
+	s := sideSample{ref: r, pts: pts}
+	cum := make([]float64, len(pts))
+	for k := 1; k < len(pts); k++ {
+		cum[k] = cum[k-1] + dist(pts[k-1], pts[k])
+	}
+	s.length = cum[len(cum)-1]
+	k := 0
+	for q := 0; q < 5; q++ {
+		target := s.length * float64(q) / 4
+		for k+2 < len(pts) && cum[k+1] < target {
+			k++
+		}
+		seg := cum[k+1] - cum[k]
+		t := 0.0
+		if seg > 0 {
+			t = math.Min(1, math.Max(0, (target-cum[k])/seg))
+		}
+		a, b := pts[k], pts[k+1]
+		s.at[q] = orb.Point{a[0] + t*(b[0]-a[0]), a[1] + t*(b[1]-a[1])}
+	}
+	return s
+}
+
+// sameCurve reports whether two sides trace the same curve (within 5% of
+// the shorter length at five arc-length fractions) and whether they run in
+// opposite directions.
+func sameCurve(a, b *sideSample) (rev, ok bool) {
+	L := math.Min(a.length, b.length)
+	if L == 0 {
+		return false, false
+	}
+	loose := 0.05 * L
+	fwd, bwd := true, true
+	for q := 0; q < 5; q++ {
+		if dist(a.at[q], b.at[q]) > loose {
+			fwd = false
+		}
+		if dist(a.at[q], b.at[4-q]) > loose {
+			bwd = false
+		}
+	}
+	if fwd {
+		return false, true
+	}
+	return bwd, bwd
+}
+
+// conform checks that two sides recognised as shared match node for node.
+func conform(blocks []*Block, a, b *sideSample, rev bool, tol float64) error {
+	na, nb := len(a.pts), len(b.pts)
+	if na != nb {
+		return fmt.Errorf("structured: %s (%d nodes) and %s (%d nodes) meet along the same curve but differ by %d nodes; shared sides need equal node counts",
+			refName(blocks, a.ref), na, refName(blocks, b.ref), nb, abs(na-nb))
+	}
+	worst, at := 0.0, 0
+	for k := 0; k < na; k++ {
+		kb := k
+		if rev {
+			kb = na - 1 - k
+		}
+		if d := dist(a.pts[k], b.pts[kb]); d > worst {
+			worst, at = d, k
+		}
+	}
+	if worst > tol {
+		kb := at
+		if rev {
+			kb = na - 1 - at
+		}
+		ba, bb := blocks[a.ref.block], blocks[b.ref.block]
+		ia, ja := nodeIJ(ba, a.ref.side, at)
+		ib, jb := nodeIJ(bb, b.ref.side, kb)
+		return fmt.Errorf("structured: %s and %s are shared but do not conform: node (%d, %d) at (%g, %g) and node (%d, %d) at (%g, %g) are %.3g apart, more than the tolerance %.3g",
+			refName(blocks, a.ref), refName(blocks, b.ref), ia, ja, a.pts[at][0], a.pts[at][1], ib, jb, b.pts[kb][0], b.pts[kb][1], worst, tol)
+	}
+	return nil
+}
+
+func find(parent []int32, x int32) int32 {
+	for parent[x] != x {
+		parent[x] = parent[parent[x]]
+		x = parent[x]
+	}
+	return x
+}
+
+// union joins the sets of a and b, keeping the smaller index as the root so
+// that the root of a set is its first member in block order.
+func union(parent []int32, a, b int32) {
+	ra, rb := find(parent, a), find(parent, b)
+	if ra < rb {
+		parent[rb] = ra
+	} else if rb < ra {
+		parent[ra] = rb
+	}
+}
+
+// blockArea returns the signed area of the block's cells.
+func blockArea(b *Block) float64 {
+	var a2 float64
+	ni := b.NI
+	for j := 0; j+1 < b.NJ; j++ {
+		for i := 0; i+1 < ni; i++ {
+			k := j*ni + i
+			// Twice the quad area is the cross product of its diagonals.
+			d1x, d1y := b.X[k+1+ni]-b.X[k], b.Y[k+1+ni]-b.Y[k]
+			d2x, d2y := b.X[k+ni]-b.X[k+1], b.Y[k+ni]-b.Y[k+1]
+			a2 += d1x*d2y - d1y*d2x
+		}
+	}
+	return a2 / 2
+}
+
+// checkTouching reports two distinct mesh nodes on block sides that lie
+// within tol of each other: the mark of a join that is not side to side.
+func checkTouching(blocks []*Block, offset []int, global []int32, nodes []orb.Point, tol float64) error {
+	seen := make([]bool, len(nodes))
+	var ids []int32
+	where := make([][2]int, len(nodes)) // mesh node -> (block, local index), first seen
+	for b, blk := range blocks {
+		for s := mesh.South; s <= mesh.West; s++ {
+			for k := 0; k < blk.SideLen(s); k++ {
+				q := blk.SideNode(s, k)
+				g := global[offset[b]+q]
+				if !seen[g] {
+					seen[g] = true
+					ids = append(ids, g)
+					where[g] = [2]int{b, q}
+				}
+			}
+		}
+	}
+	h := 4 * tol
+	key := func(g int32) float64 { return math.Floor(nodes[g][0] / h) }
+	sort.Slice(ids, func(a, b int) bool {
+		ka, kb := key(ids[a]), key(ids[b])
+		if ka != kb {
+			return ka < kb
+		}
+		if nodes[ids[a]][1] != nodes[ids[b]][1] {
+			return nodes[ids[a]][1] < nodes[ids[b]][1]
+		}
+		return ids[a] < ids[b]
+	})
+	for a, g := range ids {
+		p := nodes[g]
+		kx := key(g)
+		for _, cx := range [2]float64{kx, kx + 1} {
+			// First index with key cx and y ≥ p.y − tol.
+			lo := sort.Search(len(ids), func(n int) bool {
+				k := key(ids[n])
+				return k > cx || (k == cx && nodes[ids[n]][1] >= p[1]-tol)
+			})
+			for n := lo; n < len(ids) && key(ids[n]) == cx && nodes[ids[n]][1] <= p[1]+tol; n++ {
+				o := ids[n]
+				if n == a || dist(p, nodes[o]) > tol {
+					continue
+				}
+				w1, w2 := where[g], where[o]
+				b1, b2 := blocks[w1[0]], blocks[w2[0]]
+				return fmt.Errorf("structured: node (%d, %d) of block %q and node (%d, %d) of block %q both lie at (%g, %g) but are not joined by a shared side; blocks must meet side to side with matching nodes",
+					w1[1]%b1.NI, w1[1]/b1.NI, b1.Name, w2[1]%b2.NI, w2[1]/b2.NI, b2.Name, p[0], p[1])
+			}
+		}
+	}
+	return nil
+}
