@@ -1,0 +1,412 @@
+package sweep
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"math"
+	"os"
+	"path/filepath"
+	"reflect"
+	"sort"
+	"strings"
+	"sync"
+	"testing"
+)
+
+const fakeSweep = `
+base: wedge.yaml
+parameters:
+  thickness: {from: 0.06, to: 0.14, step: 0.02}
+  angle: [0, 4, 8, 12]
+  skew: [0.2]
+constraints:
+  - thickness * 100 + angle <= 22
+refine: {levels: 2, ratio: 2}
+`
+
+func TestShardsPartitionTheSweep(t *testing.T) {
+	f := mustParse(t, fakeSweep)
+	all, err := f.Variants()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for n := 1; n <= 7; n++ {
+		seen := map[string]int{}
+		var loads []float64
+		for k := 1; k <= n; k++ {
+			part := Select(all, Shard{K: k, N: n})
+			load := 0.0
+			for i, v := range part {
+				if i > 0 && part[i-1].Index >= v.Index {
+					t.Errorf("shard %d/%d is not in sweep order", k, n)
+				}
+				// The same id and name whatever the slicing.
+				if all[v.Index].ID != v.ID || all[v.Index].Name != v.Name {
+					t.Errorf("shard %d/%d changed variant %d", k, n, v.Index)
+				}
+				seen[v.ID]++
+				load += cost(v)
+			}
+			loads = append(loads, load)
+		}
+		if len(seen) != len(all) {
+			t.Errorf("%d shards cover %d of %d variants", n, len(seen), len(all))
+		}
+		for id, c := range seen {
+			if c != 1 {
+				t.Errorf("%d shards: variant %s is in %d shards", n, id, c)
+			}
+		}
+		// LPT bound (Graham 1969): no shard exceeds the mean by more than
+		// the largest single job.
+		sort.Float64s(loads)
+		total := 0.0
+		for _, l := range loads {
+			total += l
+		}
+		if loads[len(loads)-1] > total/float64(n)+4 {
+			t.Errorf("%d shards: loads %v are not balanced", n, loads)
+		}
+	}
+	// Equal costs: a round robin, sizes differ by at most one.
+	g := mustParse(t, "base: a.yaml\nparameters:\n  a: {from: 1, to: 10, count: 10}\n")
+	vs, _ := g.Variants()
+	if got := Assign(vs, 3); !reflect.DeepEqual(got, []int{1, 2, 3, 1, 2, 3, 1, 2, 3, 1}) {
+		t.Errorf("round robin: %v", got)
+	}
+}
+
+func TestParseShard(t *testing.T) {
+	if s, err := ParseShard("3/8"); err != nil || s != (Shard{3, 8}) {
+		t.Errorf("3/8: %v %v", s, err)
+	}
+	for _, bad := range []string{"0/4", "5/4", "4", "a/b", "1/0", "-1/2"} {
+		if _, err := ParseShard(bad); err == nil {
+			t.Errorf("%q accepted", bad)
+		}
+	}
+}
+
+// rowsWithoutRun strips the run columns, which describe a run rather
+// than the sweep.
+func rowsWithoutRun(rows []Row) []Row {
+	out := append([]Row(nil), rows...)
+	for i := range out {
+		out[i].Run, out[i].Seconds = "", 0
+	}
+	return out
+}
+
+// csvWithoutRun drops the last two CSV columns (run, seconds).
+func csvWithoutRun(t *testing.T, data []byte) string {
+	t.Helper()
+	var b strings.Builder
+	for _, line := range strings.Split(strings.TrimSpace(string(data)), "\n") {
+		f := strings.Split(line, ",")
+		if len(f) < 3 {
+			t.Fatalf("short CSV line %q", line)
+		}
+		b.WriteString(strings.Join(f[:len(f)-2], ","))
+		b.WriteByte('\n')
+	}
+	return b.String()
+}
+
+// treeFiles returns every file under dir except the summaries, relative
+// path to content.
+func treeFiles(t *testing.T, dir string) map[string][]byte {
+	t.Helper()
+	out := map[string][]byte{}
+	err := filepath.WalkDir(dir, func(p string, d os.DirEntry, err error) error {
+		if err != nil || d.IsDir() || strings.HasPrefix(d.Name(), "summary") {
+			return err
+		}
+		rel, _ := filepath.Rel(dir, p)
+		out[rel], err = os.ReadFile(p)
+		return err
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return out
+}
+
+func TestShardsTogetherEqualTheWholeRun(t *testing.T) {
+	f := mustParse(t, fakeSweep)
+	whole := t.TempDir()
+	ws, err := Run(context.Background(), f, whole, &fakeRunner{}, Options{Workers: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, n := range []int{1, 3, 5} {
+		shared := t.TempDir()
+		for k := n; k >= 1; k-- { // any order of the shards
+			if _, err := Run(context.Background(), f, shared, &fakeRunner{}, Options{Workers: 1 + k%2, Shard: Shard{k, n}}); err != nil {
+				t.Fatal(err)
+			}
+		}
+		if n == 1 {
+			// 1/1 is the whole sweep and writes summary.json itself.
+			if _, err := os.Stat(filepath.Join(shared, "summary.json")); err != nil {
+				t.Fatal(err)
+			}
+		}
+		merged, rep, err := MergeDirs([]string{shared}, shared)
+		if err != nil || len(rep.Duplicates) > 0 {
+			t.Fatalf("%d shards: merge: %v %+v", n, err, rep)
+		}
+		if !reflect.DeepEqual(rowsWithoutRun(merged.Rows), rowsWithoutRun(ws.Rows)) || merged.Plan != ws.Plan {
+			t.Errorf("%d shards: merged rows differ from the whole run", n)
+		}
+		a, _ := os.ReadFile(filepath.Join(whole, "summary.csv"))
+		b, _ := os.ReadFile(filepath.Join(shared, "summary.csv"))
+		if csvWithoutRun(t, a) != csvWithoutRun(t, b) {
+			t.Errorf("%d shards: summary.csv differs apart from the run columns:\n%s\n%s", n, a, b)
+		}
+		wa, wb := treeFiles(t, whole), treeFiles(t, shared)
+		if !reflect.DeepEqual(wa, wb) {
+			t.Errorf("%d shards: decks differ: %d files against %d", n, len(wa), len(wb))
+		}
+	}
+}
+
+func TestMergeReportsMissingAndDuplicates(t *testing.T) {
+	f := mustParse(t, fakeSweep)
+	dir := t.TempDir()
+	for _, k := range []int{1, 3} {
+		if _, err := Run(context.Background(), f, dir, &fakeRunner{}, Options{Workers: 1, Shard: Shard{k, 3}}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	merged, rep, err := MergeDirs([]string{dir}, t.TempDir())
+	var me *MergeError
+	if !errors.As(err, &me) || me.ExitCode() != 1 {
+		t.Fatalf("merging 2 of 3 shards: %v", err)
+	}
+	all, _ := f.Variants()
+	want := 0
+	for _, s := range Assign(all, 3) {
+		if s == 2 {
+			want++
+		}
+	}
+	if len(rep.Missing) != want || len(merged.Rows)+want != len(all) {
+		t.Errorf("missing %v, want the %d variants of shard 2", rep.Missing, want)
+	}
+	for _, i := range rep.Missing {
+		if Assign(all, 3)[i] != 2 {
+			t.Errorf("variant %d reported missing but belongs to a merged shard", i)
+		}
+	}
+	if !strings.Contains(err.Error(), "are missing") {
+		t.Errorf("error %q", err)
+	}
+	// The same shard twice: duplicates, reported, not an error.
+	other := t.TempDir()
+	for _, k := range []int{1, 2, 3} {
+		Run(context.Background(), f, other, &fakeRunner{}, Options{Workers: 1, Shard: Shard{k, 3}})
+	}
+	_, rep, err = MergeDirs([]string{dir, other}, t.TempDir())
+	if err != nil || len(rep.Duplicates) == 0 {
+		t.Errorf("duplicates: %v %+v", err, rep)
+	}
+	// A different sweep cannot be merged in.
+	g := mustParse(t, strings.Replace(fakeSweep, "[0, 4, 8, 12]", "[0, 4, 8]", 1))
+	third := t.TempDir()
+	Run(context.Background(), g, third, &fakeRunner{}, Options{Workers: 1})
+	if _, _, err := MergeDirs([]string{dir, third}, t.TempDir()); err == nil || !strings.Contains(err.Error(), "another sweep") {
+		t.Errorf("merging two sweeps: %v", err)
+	}
+}
+
+func TestResumeRedoesNothing(t *testing.T) {
+	f := mustParse(t, fakeSweep)
+	dir := t.TempDir()
+	r := &fakeRunner{}
+	first, err := Run(context.Background(), f, dir, r, Options{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := int(r.builds.Load())
+	if n != len(first.Rows) {
+		t.Fatalf("first run built %d of %d", n, len(first.Rows))
+	}
+	before := treeFiles(t, dir)
+	r2 := &fakeRunner{}
+	second, err := Run(context.Background(), f, dir, r2, Options{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r2.builds.Load() != 0 {
+		t.Errorf("the resumed sweep built %d decks, want 0", r2.builds.Load())
+	}
+	for _, row := range second.Rows {
+		if row.Run != RunReused {
+			t.Errorf("%s: run %q, want reused", row.Name, row.Run)
+		}
+	}
+	if !reflect.DeepEqual(rowsWithoutRun(first.Rows), rowsWithoutRun(second.Rows)) {
+		t.Error("the resumed summary differs from the first apart from the run columns")
+	}
+	if !reflect.DeepEqual(before, treeFiles(t, dir)) {
+		t.Error("the resumed sweep changed a deck")
+	}
+	r3 := &fakeRunner{}
+	if _, err := Run(context.Background(), f, dir, r3, Options{Workers: 2, Force: true}); err != nil || int(r3.builds.Load()) != n {
+		t.Errorf("--force rebuilt %d of %d (%v)", r3.builds.Load(), n, err)
+	}
+	// A deck built from other inputs is rebuilt.
+	victim := first.Rows[3]
+	os.WriteFile(filepath.Join(dir, victim.Name, "deck.json"), []byte(`{"hash":"old"}`), 0o644)
+	r4 := &fakeRunner{}
+	Run(context.Background(), f, dir, r4, Options{Workers: 2})
+	if r4.builds.Load() != 1 {
+		t.Errorf("after one stale deck, %d builds, want 1", r4.builds.Load())
+	}
+}
+
+func TestInterruptedSweepContinues(t *testing.T) {
+	f := mustParse(t, fakeSweep)
+	dir := t.TempDir()
+	ctx, cancel := context.WithCancel(context.Background())
+	var once sync.Once
+	var mu sync.Mutex
+	started := 0
+	r := &fakeRunner{onBuild: func(v Variant) {
+		mu.Lock()
+		started++
+		if started == 5 {
+			once.Do(cancel)
+		}
+		mu.Unlock()
+	}}
+	s, err := Run(ctx, f, dir, r, Options{Workers: 2})
+	if !errors.Is(err, context.Canceled) {
+		t.Fatalf("interrupted run: %v", err)
+	}
+	built := int(r.builds.Load())
+	notRun := 0
+	for _, row := range s.Rows {
+		if row.Status == StatusNotRun {
+			notRun++
+		}
+	}
+	if built+notRun != len(s.Rows) || notRun == 0 {
+		t.Fatalf("built %d, not run %d, of %d", built, notRun, len(s.Rows))
+	}
+	r2 := &fakeRunner{}
+	s2, err := Run(context.Background(), f, dir, r2, Options{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if int(r2.builds.Load()) != notRun {
+		t.Errorf("the continued sweep built %d, want the %d not run", r2.builds.Load(), notRun)
+	}
+	for _, row := range s2.Rows {
+		if row.Status != StatusOK {
+			t.Errorf("%s: %s", row.Name, row.Status)
+		}
+	}
+}
+
+func TestFailingVariantIsReportedAndOthersComplete(t *testing.T) {
+	f := mustParse(t, "base: a.yaml\nparameters:\n  fail: [0, 1, 0, 0]\n  skew: [0.1, 0.95]\n")
+	_, err := f.Variants()
+	if err == nil {
+		t.Fatal("repeated values accepted")
+	}
+	f = mustParse(t, "base: a.yaml\nparameters:\n  fail: [0, 1, 2]\n  skew: [0.1, 0.95]\n")
+	dir := t.TempDir()
+	s, err := Run(context.Background(), f, dir, &fakeRunner{}, Options{Workers: 2})
+	var fe *FailedError
+	if !errors.As(err, &fe) || fe.ExitCode() != 1 || fe.Failed != 2 || fe.ChecksFailed != 2 {
+		t.Fatalf("got %v, want 2 failed variants and 2 failed checks", err)
+	}
+	for _, row := range s.Rows {
+		failing := row.Params["fail"] == 1
+		if failing != (row.Status == StatusFailed) {
+			t.Errorf("%s: status %s", row.Name, row.Status)
+		}
+		if failing && row.Error != "segment 2 of loop 1 crosses segment 5 in "+filepath.Join(row.Name, "case.yaml") {
+			t.Errorf("%s: error %q (want it relative to the output folder)", row.Name, row.Error)
+		}
+		if !failing {
+			if _, err := os.Stat(filepath.Join(dir, row.Name, "deck.json")); err != nil {
+				t.Errorf("%s: %v", row.Name, err)
+			}
+		}
+	}
+	csv, _ := os.ReadFile(filepath.Join(dir, "summary.csv"))
+	if !bytes.Contains(csv, []byte("failed")) || !bytes.Contains(csv, []byte("crosses segment 5")) {
+		t.Errorf("summary.csv does not report the failure:\n%s", csv)
+	}
+}
+
+// TestRepresentativeSize checks h and the ratio on the three grids of the
+// worked example of Celik et al. 2008 (J. Fluids Eng. 130, 078001, table
+// 1, from memory): N = 18000, 8000, 4500 cells give r21 = 1.5 and
+// r32 = 1.333 for one domain area.
+func TestRepresentativeSize(t *testing.T) {
+	s := &Summary{Rows: []Row{
+		{Index: 0, Family: "f", Level: 1, Status: StatusOK, Cells: 4500, Area: 1},
+		{Index: 1, Family: "f", Level: 2, Status: StatusOK, Cells: 8000, Area: 1},
+		{Index: 2, Family: "f", Level: 3, Status: StatusOK, Cells: 18000, Area: 1},
+		{Index: 3, Family: "g", Level: 1, Status: StatusOK, Cells: 1000, Area: 1},
+		{Index: 4, Family: "g", Level: 2, Status: StatusOK, Cells: 1440, Area: 1, Name: "close"},
+	}}
+	s.Finish()
+	if math.Abs(s.Rows[0].H-math.Sqrt(1.0/4500)) > 1e-15 {
+		t.Errorf("h = %v", s.Rows[0].H)
+	}
+	if math.Abs(s.Rows[1].Ratio-4.0/3) > 1e-12 || math.Abs(s.Rows[2].Ratio-1.5) > 1e-12 || s.Rows[0].Ratio != 0 {
+		t.Errorf("ratios %v %v %v", s.Rows[0].Ratio, s.Rows[1].Ratio, s.Rows[2].Ratio)
+	}
+	// sqrt(1440/1000) = 1.2 < 1.3: one warning, for that pair only.
+	if len(s.Warnings) != 1 || !strings.HasPrefix(s.Warnings[0], "close: the effective refinement ratio from level 1 is 1.200") {
+		t.Errorf("warnings %q", s.Warnings)
+	}
+}
+
+func TestRefinementFamilyRun(t *testing.T) {
+	f := mustParse(t, "base: a.yaml\nparameters:\n  skew: [0.1]\nrefine: {levels: 3, ratio: 1.2}\n")
+	s, err := Run(context.Background(), f, t.TempDir(), &fakeRunner{}, Options{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The fake's cell count grows with the factor squared, so the
+	// effective ratio is the factor ratio (up to the rounding of N).
+	for _, row := range s.Rows[1:] {
+		if math.Abs(row.Ratio-1.2) > 2e-3 {
+			t.Errorf("level %d: ratio %v, want 1.2", row.Level, row.Ratio)
+		}
+	}
+	if len(s.Warnings) != 2 {
+		t.Errorf("warnings %q, want two (1.2 < 1.3)", s.Warnings)
+	}
+	// Level 1 is the case as written and shares the plain variant's id.
+	if s.Rows[0].ID != ID(Canonical([]Value{{"skew", 0.1}}, 1)) {
+		t.Error("level 1 id differs from the plain variant's")
+	}
+}
+
+func TestWorkersDoNotChangeTheResult(t *testing.T) {
+	f := mustParse(t, fakeSweep)
+	var ref map[string][]byte
+	var refCSV string
+	for _, j := range []int{1, 2, 4, 16} {
+		dir := t.TempDir()
+		if _, err := Run(context.Background(), f, dir, &fakeRunner{}, Options{Workers: j}); err != nil {
+			t.Fatal(err)
+		}
+		files := treeFiles(t, dir)
+		csv, _ := os.ReadFile(filepath.Join(dir, "summary.csv"))
+		if ref == nil {
+			ref, refCSV = files, csvWithoutRun(t, csv)
+			continue
+		}
+		if !reflect.DeepEqual(files, ref) || csvWithoutRun(t, csv) != refCSV {
+			t.Errorf("-j %d gives other decks or another summary", j)
+		}
+	}
+}
