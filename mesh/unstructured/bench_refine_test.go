@@ -49,7 +49,7 @@ func BenchmarkRefine(b *testing.B) {
 				var base runtime.MemStats
 				runtime.ReadMemStats(&base)
 				go watchHeap(base.HeapAlloc, stop, done)
-				tr, err := triangulateOutline(g, o)
+				tr, err := triangulateOutline(g, g, o)
 				if err != nil {
 					b.Fatal(err)
 				}

@@ -58,6 +58,9 @@ type refiner struct {
 	segQ   []segRef
 	maxTri int
 	minLen float64 // segments shorter than this are not split
+	// frozen is the tag index of segments that may not be split (the
+	// boundary layers' front), or noSeg.
+	frozen int16
 	tmp    [2]int32
 }
 
@@ -69,7 +72,7 @@ var errTooMany = errors.New("too many cells")
 
 func newRefiner(tr *triangulation, g *pslg, size *sizeField, minAngle float64, maxTri int) *refiner {
 	n := len(tr.pts)
-	r := &refiner{tr: tr, g: g, size: size, maxTri: maxTri}
+	r := &refiner{tr: tr, g: g, size: size, maxTri: maxTri, frozen: noSeg}
 	s := math.Sin(minAngle * math.Pi / 180)
 	r.sin2 = s * s
 	r.kind = make([]uint8, n, cap(tr.pts))
@@ -139,7 +142,7 @@ func (r *refiner) checkNew(t int32) {
 	}
 	for k := int32(0); k < 3; k++ {
 		e := 3*t + k
-		if tr.seg[e] == noSeg {
+		if tr.seg[e] == noSeg || tr.seg[e] == r.frozen {
 			continue
 		}
 		a, b, c := tr.pts[tr.v[e]], tr.pts[tr.v[next(e)]], tr.pts[tr.v[prev(e)]]
@@ -250,7 +253,7 @@ func (r *refiner) splitSegment(e int32) bool {
 	a, b := tr.v[e], tr.v[next(e)]
 	pa, pb := tr.pts[a], tr.pts[b]
 	l := math.Hypot(pb[0]-pa[0], pb[1]-pa[1])
-	if l < r.minLen {
+	if l < r.minLen || tr.seg[e] == r.frozen {
 		return false
 	}
 	t := 0.5
@@ -331,7 +334,7 @@ func (r *refiner) splitTriangle(t int32) {
 	}
 	encroached := false
 	for _, be := range tr.border {
-		if be.seg == noSeg || be.flag&flagInside == 0 {
+		if be.seg == noSeg || be.seg == r.frozen || be.flag&flagInside == 0 {
 			continue
 		}
 		pa, pb := tr.pts[be.a], tr.pts[be.b]
