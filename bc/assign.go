@@ -36,6 +36,9 @@ func Assign(m *mesh.Mesh, s Setup) (*Assignment, error) {
 	gas := s.Gas
 	if gas == (Gas{}) {
 		gas = Air
+		if s.Reference != nil {
+			gas = s.Reference.Gas
+		}
 	}
 	var errs []error
 	fail := func(where, tag, format string, args ...any) {
@@ -77,7 +80,7 @@ func Assign(m *mesh.Mesh, s Setup) (*Assignment, error) {
 
 	for ci, c := range s.Conditions {
 		if !c.Kind.valid() {
-			fail(c.Where, c.Tag, "unknown boundary kind %s", c.Kind)
+			fail(c.Where, c.Tag, "no valid boundary kind (got %s); give one of: %s", c.Kind, kindList())
 			continue
 		}
 		t := tagIndex(c, c.Tag, "the condition")
@@ -95,10 +98,13 @@ func Assign(m *mesh.Mesh, s Setup) (*Assignment, error) {
 			fail(c.Where, c.Tag, "only a periodic condition takes a partner tag, not %s", c.Kind)
 		}
 		vals, ok := checkValues(c, fail)
-		if t < 0 || !claim(ci, c, t) || !ok {
-			continue
+		// Claim both tags before giving up on bad values, so that a tag
+		// with a faulty condition is not also reported as having none.
+		ok = t >= 0 && claim(ci, c, t) && ok
+		if c.Kind == Periodic {
+			ok = pt >= 0 && claim(ci, c, pt) && ok
 		}
-		if c.Kind == Periodic && (pt < 0 || !claim(ci, c, pt)) {
+		if !ok {
 			continue
 		}
 		lo, hi := int(m.TagStart[t]), int(m.TagStart[t+1])

@@ -5,6 +5,10 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"cvdeck/mesh"
+
+	"github.com/paulmach/orb"
 )
 
 func scalar(key string, x float64, where string) Value {
@@ -258,5 +262,44 @@ func TestParseKind(t *testing.T) {
 	_, err := ParseKind("wall-adiabtic")
 	if !errors.Is(err, ErrInput) || !strings.Contains(err.Error(), `did you mean "wall-adiabatic"`) {
 		t.Errorf("typo: %v", err)
+	}
+}
+
+// Two separate unit squares, the second 2 m above the first, each with its
+// south side tagged: moving "low" by (0, 2) lands every face on "high", but
+// both have the domain above them, so they cannot be periodic partners.
+func TestAssignPeriodicSameSide(t *testing.T) {
+	in := mesh.Input{
+		Nodes:     []orb.Point{{0, 0}, {1, 0}, {1, 1}, {0, 1}, {0, 2}, {1, 2}, {1, 3}, {0, 3}},
+		CellStart: []int32{0, 4, 8},
+		CellNodes: []int32{0, 1, 2, 3, 4, 5, 6, 7},
+		Tags:      []string{"low", "high", "rest"},
+		Edges: []mesh.TaggedEdge{{A: 0, B: 1, Tag: 0}, {A: 4, B: 5, Tag: 1},
+			{A: 1, B: 2, Tag: 2}, {A: 2, B: 3, Tag: 2}, {A: 3, B: 0, Tag: 2}, {A: 5, B: 6, Tag: 2}, {A: 6, B: 7, Tag: 2}, {A: 7, B: 4, Tag: 2}},
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	conds := []Condition{
+		{Tag: "low", Kind: Periodic, Partner: "high", Where: "p:1:1", Values: []Value{vector(KeyTranslation, 0, 2, "")}},
+		{Tag: "rest", Kind: WallSlip},
+	}
+	_, err = Assign(m, Setup{Conditions: conds})
+	expectOne(t, err, "low", "p:1:1", "face opposite ways")
+}
+
+// A periodic condition with a bad value claims both its tags: the partner is
+// not also reported as having no condition.
+func TestAssignPeriodicBadValueClaimsPartner(t *testing.T) {
+	m := channel(t, 6, 3, 3, 1, 0, ductTags)
+	ref := seaLevel(t)
+	c := ductConditions(ref)[:2]
+	c = append(c, Condition{Tag: "wall", Kind: Periodic, Partner: "top", Where: "q:1:1",
+		Values: []Value{vector(KeyTranslation, 0, 1, "q:2:1"), scalar(KeyTolerance, -1, "q:3:1")}})
+	_, err := Assign(m, Setup{Reference: ref, Conditions: c})
+	expectOne(t, err, "wall", "q:1:1", "tolerance = -1 m is not physical")
+	if errs := errorList(t, err); len(errs) != 1 {
+		t.Errorf("want one error, got %d:\n%v", len(errs), err)
 	}
 }

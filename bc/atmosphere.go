@@ -92,10 +92,11 @@ var atmLayers = [...]atmLayer{
 
 // AtmosphereTop and AtmosphereBottom bound the geopotential altitudes
 // StandardAtmosphere accepts: 86 km geometric (84 852 m geopotential), the
-// top of the standard's linear-temperature layers, and −5 km.
+// top of the standard's linear-temperature layers, and −5 km geometric
+// (−5 004 m geopotential), the bottom of its tables.
 const (
 	AtmosphereTop    = EarthRadius * 86000 / (EarthRadius + 86000)
-	AtmosphereBottom = -5000.0
+	AtmosphereBottom = EarthRadius * -5000 / (EarthRadius - 5000)
 )
 
 // Atmosphere is the static state of the standard atmosphere at an altitude.
@@ -106,8 +107,8 @@ type Atmosphere struct {
 }
 
 // StandardAtmosphere returns the temperature, pressure and density of the
-// U.S. Standard Atmosphere 1976 at altitude a, from −5 km to 84.852 km
-// geopotential. Within a layer of base H_b, T_b, p_b and lapse rate L,
+// U.S. Standard Atmosphere 1976 at altitude a, from −5 km to 86 km
+// geometric. Within a layer of base H_b, T_b, p_b and lapse rate L,
 //
 //	T = T_b + L (H − H_b)
 //	p = p_b (T_b/T)^(g0/(R L))     for L ≠ 0
@@ -121,7 +122,7 @@ func StandardAtmosphere(a Altitude) (Atmosphere, error) {
 	}
 	h := a.Geopotential()
 	if h < AtmosphereBottom || h > AtmosphereTop {
-		return Atmosphere{}, fmt.Errorf("%s altitude %g m (geopotential %.1f m) is outside the standard atmosphere's range %g to %g m geopotential: %w",
+		return Atmosphere{}, fmt.Errorf("%s altitude %g m (geopotential %.1f m) is outside the standard atmosphere's range, -5000 to 86000 m geometric (%.0f to %.0f m geopotential): %w",
 			a.Kind, a.Metres, h, AtmosphereBottom, AtmosphereTop, ErrInput)
 	}
 	t, p := atmT0, atmP0

@@ -20,6 +20,8 @@ func TestStandardAtmosphere1976(t *testing.T) {
 		{Altitude{20000, Geopotential}, 216.65, 5474.889, 0.088035, "Table 4"},
 		{Altitude{32000, Geopotential}, 228.65, 868.0187, 0.013225, "Table 4"},
 		{Altitude{47000, Geopotential}, 270.65, 110.9063, 0.0014275, "Table 4"},
+		{Altitude{51000, Geopotential}, 270.65, 66.93887, 0.00086160, "Table 4"},
+		{Altitude{71000, Geopotential}, 214.65, 3.956420, 0.000064211, "Table 4"},
 		{Altitude{11000, Geometric}, 216.774, 22700, 0.36480, "Table I"},
 		{Altitude{20000, Geometric}, 216.65, 5529.3, 0.088910, "Table I"},
 	} {
@@ -54,8 +56,15 @@ func TestStandardAtmosphereRange(t *testing.T) {
 			t.Errorf("%+v accepted: %v", a, err)
 		}
 	}
-	// The top of the range is accepted.
-	if _, err := StandardAtmosphere(Altitude{86000, Geometric}); err != nil {
-		t.Error(err)
+	// The ends of the range are accepted.
+	for _, a := range []Altitude{{86000, Geometric}, {-5000, Geometric}, {84852, Geopotential}} {
+		if _, err := StandardAtmosphere(a); err != nil {
+			t.Error(err)
+		}
+	}
+	// Below sea level the lapse rate carries on (Table I gives
+	// 320.676 K at -5 km; from memory).
+	if a, _ := StandardAtmosphere(Altitude{-5000, Geometric}); !near(a.Temperature, 320.676, 2e-5) {
+		t.Errorf("-5 km: %g K", a.Temperature)
 	}
 }

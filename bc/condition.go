@@ -28,7 +28,8 @@ type Condition struct {
 
 // Setup is everything Assign needs besides the mesh.
 type Setup struct {
-	// Gas is the working gas; the zero value means Air.
+	// Gas is the working gas; the zero value means the reference state's
+	// gas, or Air without a reference.
 	Gas Gas
 	// GasWhere is the case-file place of the gas, for errors.
 	GasWhere string

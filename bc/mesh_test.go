@@ -12,7 +12,7 @@ import (
 // sides tagged by tags (south, east, north, west; "" leaves a side
 // untagged). shear moves the north row of nodes by shear·lx/nx in x, so a
 // periodic south–north pair no longer matches.
-func channel(t *testing.T, nx, ny int, lx, ly, shear float64, tags [4]string) *mesh.Mesh {
+func channel(t testing.TB, nx, ny int, lx, ly, shear float64, tags [4]string) *mesh.Mesh {
 	t.Helper()
 	var in mesh.Input
 	for j := 0; j <= ny; j++ {

@@ -79,6 +79,13 @@ func matchPeriodic(m *mesh.Mesh, a, b string, aLo, aHi, bLo, bHi int, t orb.Poin
 			if d > ftol {
 				continue
 			}
+			// Under a translation the normals keep their direction, so a
+			// periodic partner face must face the other way: the two cells
+			// lie on opposite sides of the joined face.
+			if na, nb := m.Geo.FaceNormal[f], m.Geo.FaceNormal[g]; na[0]*nb[0]+na[1]*nb[1] > 0 {
+				return pm, fmt.Errorf("face %d of tag %q lands on face %d of %q, but both have the domain on the same side (normals (%.3g, %.3g) and (%.3g, %.3g)); periodic partner faces must face opposite ways",
+					f, a, g, b, na[0]+0, na[1]+0, nb[0]+0, nb[1]+0)
+			}
 			if used[g] {
 				return pm, fmt.Errorf("faces of tag %q land twice on face %d of %q; periodic faces must match one to one", a, g, b)
 			}

@@ -75,7 +75,11 @@ func (es Entries) Table() string {
 		fmt.Fprintf(w, "%s\t%.6g\t%s\n", e.Key, e.Value, unit)
 	}
 	w.Flush()
-	return b.String()
+	lines := strings.SplitAfter(b.String(), "\n")
+	for i, l := range lines {
+		lines[i] = strings.TrimRight(l, " \n")
+	}
+	return strings.Join(lines, "\n")
 }
 
 // Entries returns the gas constants: gamma and gas_constant.

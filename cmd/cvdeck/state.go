@@ -1,0 +1,197 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+
+	"cvdeck/bc"
+
+	"github.com/spf13/cobra"
+)
+
+// stateFlags are the flags of `cvdeck state`.
+type stateFlags struct {
+	mach, altitude, pressure, temperature, velocity, density float64
+	altitudeKind, gas                                        string
+	gamma, gasConstant, length, yplus                        float64
+	normalShock, json                                        bool
+}
+
+// newStateCommand returns `cvdeck state`: the reference flow state and the
+// derived figures from flags, without a mesh. Every error it returns for bad
+// flags wraps bc.ErrInput (exit code 2).
+func newStateCommand() *cobra.Command {
+	var f stateFlags
+	cmd := &cobra.Command{
+		Use:   "state",
+		Short: "Compute a reference flow state and its derived figures",
+		Long: `state computes an ideal-gas flow state and prints it: static and total
+pressure and temperature, density, speed of sound, velocity, dynamic pressure,
+viscosity (Sutherland's law) and Reynolds number per metre; with --length the
+Reynolds number over that length, with --yplus the first-cell height for that
+y+ at a distance --length from a flat plate's leading edge.
+
+Give the state by one of:
+  --mach M --altitude H [--altitude-kind geometric|geopotential]
+      (U.S. Standard Atmosphere 1976, -5 km to 86 km)
+  --mach M --pressure P --temperature T
+  --velocity V --density RHO --temperature T
+
+All values are SI: m, Pa, K, kg/m^3, m/s.`,
+		Example: `  cvdeck state --mach 0.78 --altitude 11000 --length 4.2 --yplus 1
+  cvdeck state --mach 2 --pressure 5000 --temperature 220 --normal-shock --json`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			return runState(cmd, f, cmd.OutOrStdout())
+		},
+	}
+	fl := cmd.Flags()
+	fl.Float64Var(&f.mach, "mach", 0, "free-stream Mach number")
+	fl.Float64Var(&f.altitude, "altitude", 0, "altitude in metres in the U.S. Standard Atmosphere 1976")
+	fl.StringVar(&f.altitudeKind, "altitude-kind", "geometric", "how --altitude is measured: geometric or geopotential")
+	fl.Float64Var(&f.pressure, "pressure", 0, "static pressure, Pa")
+	fl.Float64Var(&f.temperature, "temperature", 0, "static temperature, K")
+	fl.Float64Var(&f.velocity, "velocity", 0, "flow speed, m/s (with --density and --temperature)")
+	fl.Float64Var(&f.density, "density", 0, "density, kg/m^3 (with --velocity and --temperature)")
+	fl.StringVar(&f.gas, "gas", "air", "working gas: air (gamma 1.4, R 287.05287 J/(kg K))")
+	fl.Float64Var(&f.gamma, "gamma", 0, "ratio of specific heats, instead of --gas (with --gas-constant)")
+	fl.Float64Var(&f.gasConstant, "gas-constant", 0, "specific gas constant R in J/(kg K), instead of --gas (with --gamma)")
+	fl.Float64Var(&f.length, "length", 0, "reference length in metres, for the Reynolds number and the first-cell height")
+	fl.Float64Var(&f.yplus, "yplus", 0, "target y+ for the first-cell height (needs --length)")
+	fl.BoolVar(&f.normalShock, "normal-shock", false, "also give the state behind a normal shock (needs M > 1)")
+	fl.BoolVar(&f.json, "json", false, "print one JSON object of SI values instead of a table")
+	cmd.SetFlagErrorFunc(func(_ *cobra.Command, err error) error {
+		return fmt.Errorf("state: %w: %w", err, bc.ErrInput)
+	})
+	return cmd
+}
+
+// usage wraps a flag problem as a bad-input error.
+func usage(format string, args ...any) error {
+	return fmt.Errorf("state: "+format+": %w", append(args, bc.ErrInput)...)
+}
+
+func runState(cmd *cobra.Command, f stateFlags, out io.Writer) error {
+	set := func(name string) bool { return cmd.Flags().Changed(name) }
+	gas := bc.Air
+	switch {
+	case set("gamma") || set("gas-constant"):
+		if set("gas") {
+			return usage("give either --gas or --gamma with --gas-constant, not both")
+		}
+		if !set("gamma") || !set("gas-constant") {
+			return usage("--gamma and --gas-constant go together; give both")
+		}
+		gas = bc.Gas{Gamma: f.gamma, R: f.gasConstant}
+	case f.gas != "air":
+		return usage("unknown gas %q; use --gas air, or --gamma and --gas-constant", f.gas)
+	}
+
+	byAltitude := set("altitude")
+	byPT := set("pressure")
+	byVelocity := set("velocity") || set("density")
+	var st bc.State
+	var err error
+	source := ""
+	switch {
+	case countTrue(byAltitude, byPT, byVelocity) != 1:
+		return usage("give the state by exactly one of: --mach with --altitude; --mach with --pressure and --temperature; --velocity with --density and --temperature")
+	case byAltitude:
+		if !set("mach") || set("temperature") {
+			return usage("--altitude needs --mach and takes no --temperature (the standard atmosphere gives it)")
+		}
+		kind, kerr := bc.ParseAltitudeKind(f.altitudeKind)
+		if kerr != nil {
+			return fmt.Errorf("state: --altitude-kind: %w", kerr)
+		}
+		alt := bc.Altitude{Metres: f.altitude, Kind: kind}
+		st, err = bc.StateFromAltitude(gas, alt, f.mach)
+		source = fmt.Sprintf("U.S. Standard Atmosphere 1976 at %g m %s (%.1f m geopotential)", f.altitude, kind, alt.Geopotential())
+	case byPT:
+		if !set("mach") || !set("temperature") {
+			return usage("--pressure needs --mach and --temperature")
+		}
+		st, err = bc.StateFromMach(gas, f.mach, f.pressure, f.temperature)
+		source = "given Mach number, pressure and temperature"
+	default:
+		if !set("velocity") || !set("density") || !set("temperature") || set("mach") {
+			return usage("--velocity and --density need --temperature and take no --mach (it follows from them)")
+		}
+		st, err = bc.StateFromVelocity(gas, f.velocity, f.density, f.temperature)
+		source = "given velocity, density and temperature"
+	}
+	if err == nil && set("altitude-kind") && !byAltitude {
+		err = usage("--altitude-kind goes with --altitude")
+	}
+	if err != nil {
+		return fmt.Errorf("state: %w", err)
+	}
+
+	entries := append(gas.Entries(), st.Entries()...)
+	if set("length") {
+		if !(f.length > 0) {
+			return usage("--length %g m must be positive", f.length)
+		}
+		entries = append(entries, bc.Entry{Key: "reynolds", Value: st.Reynolds(f.length), Unit: "1"})
+	}
+	if set("yplus") {
+		if !set("length") {
+			return usage("--yplus needs --length, the distance from the leading edge at which y+ is wanted")
+		}
+		w, err := bc.FirstCellHeight(st, f.length, f.yplus)
+		if err != nil {
+			return fmt.Errorf("state: --yplus: %w", err)
+		}
+		entries = append(entries, bc.Entry{Key: "first_cell_height", Value: w.Height, Unit: "m"},
+			bc.Entry{Key: "skin_friction", Value: w.SkinFriction, Unit: "1"})
+	}
+	var shock bc.Entries
+	if f.normalShock {
+		post, err := st.PostNormalShock()
+		if err != nil {
+			return fmt.Errorf("state: --normal-shock: %w", err)
+		}
+		shock = post.Entries()
+	}
+
+	if f.json {
+		return writeStateJSON(out, entries, shock)
+	}
+	fmt.Fprintf(out, "Reference state (%s)\n\n%s", source, entries.Table())
+	if set("yplus") {
+		fmt.Fprintf(out, "\nfirst_cell_height: y+ = %g at x = %g m, turbulent flat plate, Schlichting's C_f = [2 log10(Re_x) - 0.65]^-2.3\n", f.yplus, f.length)
+	}
+	if shock != nil {
+		fmt.Fprintf(out, "\nBehind a normal shock\n\n%s", shock.Table())
+	}
+	return nil
+}
+
+// writeStateJSON prints one object: the entries, and the post-shock state
+// under "post_shock" when asked.
+func writeStateJSON(out io.Writer, entries, shock bc.Entries) error {
+	b, err := json.Marshal(entries)
+	if err != nil {
+		return fmt.Errorf("state: %w", err)
+	}
+	if shock != nil {
+		s, err := json.Marshal(shock)
+		if err != nil {
+			return fmt.Errorf("state: %w", err)
+		}
+		b = append(append(append(b[:len(b)-1], `,"post_shock":`...), s...), '}')
+	}
+	_, err = fmt.Fprintf(out, "%s\n", b)
+	return err
+}
+
+func countTrue(bs ...bool) int {
+	n := 0
+	for _, b := range bs {
+		if b {
+			n++
+		}
+	}
+	return n
+}

@@ -1,0 +1,94 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"math"
+	"strings"
+	"testing"
+
+	"cvdeck/bc"
+)
+
+// runStateCmd runs `cvdeck state` with args and returns its output.
+func runStateCmd(t *testing.T, args ...string) (string, error) {
+	t.Helper()
+	cmd := newStateCommand()
+	var out bytes.Buffer
+	cmd.SetOut(&out)
+	cmd.SetErr(&out)
+	cmd.SetArgs(args)
+	cmd.SilenceUsage = true
+	cmd.SilenceErrors = true
+	err := cmd.Execute()
+	return out.String(), err
+}
+
+func TestStateJSONAtAltitude(t *testing.T) {
+	out, err := runStateCmd(t, "--mach", "2", "--altitude", "11000", "--altitude-kind", "geopotential", "--length", "2", "--yplus", "1", "--json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got map[string]float64
+	if err := json.Unmarshal([]byte(out), &got); err != nil {
+		t.Fatalf("%v in %s", err, out)
+	}
+	// U.S. Standard Atmosphere 1976, Table 4, 11 km geopotential (216.65 K,
+	// 22 632 Pa, 0.36392 kg/m³), and NACA Report 1135 at M = 2 (p/p0 =
+	// 0.12780, T/T0 = 0.55556); from memory, as quoted in the issue.
+	for _, c := range []struct {
+		key       string
+		want, tol float64
+	}{
+		{"mach", 2, 0}, {"static_temperature", 216.65, 1e-9}, {"static_pressure", 22632.06, 5e-6},
+		{"density", 0.36392, 5e-5}, {"total_pressure", 22632.06 / 0.12780, 5e-5}, {"total_temperature", 216.65 / 0.55556, 5e-5},
+	} {
+		if v, ok := got[c.key]; !ok || math.Abs(v-c.want) > c.tol*c.want {
+			t.Errorf("%s = %v (present %v), want %g", c.key, v, ok, c.want)
+		}
+	}
+	for _, k := range []string{"speed_of_sound", "velocity", "dynamic_pressure", "dynamic_viscosity", "reynolds_per_metre", "reynolds", "first_cell_height"} {
+		if _, ok := got[k]; !ok {
+			t.Errorf("no %q in %s", k, out)
+		}
+	}
+	if math.Abs(got["reynolds"]-2*got["reynolds_per_metre"]) > 1e-9*got["reynolds"] {
+		t.Errorf("reynolds %g, per metre %g", got["reynolds"], got["reynolds_per_metre"])
+	}
+}
+
+func TestStateTableAndShock(t *testing.T) {
+	out, err := runStateCmd(t, "--mach", "2", "--pressure", "10000", "--temperature", "220", "--normal-shock")
+	if err != nil {
+		t.Fatal(err)
+	}
+	// NACA Report 1135 normal shock at M = 2: p2/p1 = 4.5000, M2 = 0.57735.
+	for _, want := range []string{"static_pressure", "10000", "Pa", "Behind a normal shock", "45000", "0.57735"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("no %q in:\n%s", want, out)
+		}
+	}
+}
+
+func TestStateBadFlags(t *testing.T) {
+	for _, args := range [][]string{
+		{"--mach", "0.5"},
+		{"--mach", "0.5", "--altitude", "1000", "--pressure", "1e5", "--temperature", "300"},
+		{"--mach", "0.5", "--pressure", "-1e5", "--temperature", "300"},
+		{"--mach", "0.5", "--altitude", "1000", "--altitude-kind", "sideways"},
+		{"--mach", "0.5", "--altitude", "200000"},
+		{"--mach", "0.5", "--altitude", "1000", "--gamma", "1.3"},
+		{"--mach", "0.5", "--altitude", "1000", "--gamma", "0.9", "--gas-constant", "287"},
+		{"--mach", "0.5", "--altitude", "1000", "--gas", "helium"},
+		{"--mach", "0.5", "--altitude", "1000", "--yplus", "1"},
+		{"--mach", "0.5", "--altitude", "1000", "--normal-shock"},
+		{"--mach", "abc", "--altitude", "1000"},
+		{"--velocity", "100", "--density", "1.2"},
+	} {
+		out, err := runStateCmd(t, args...)
+		if !errors.Is(err, bc.ErrInput) {
+			t.Errorf("%v: error %v does not wrap bc.ErrInput (output %q)", args, err, out)
+		}
+	}
+}

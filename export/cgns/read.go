@@ -1,0 +1,309 @@
+package cgns
+
+/*
+#include <stdlib.h>
+#include <cgnslib.h>
+*/
+import "C"
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"unsafe"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/mesh"
+)
+
+// Read reads the 2D mesh of a CGNS file written by cvdeck or another
+// program and returns it as a face-based mesh built with mesh.Build.
+//
+// The file's first base must have cell dimension 2 (physical dimension 2,
+// or 3 with a constant CoordinateZ) and hold either one unstructured zone
+// or one or more structured zones:
+//
+//   - unstructured: sections of TRI_3, QUAD_4, MIXED (of those) and NGON_n
+//     (polygons) are the cells, in element-number order whatever the order
+//     or numbering of the sections; BAR_2 elements are faces. Each BC_t
+//     names the faces it covers by element number (PointList, PointRange,
+//     ElementList or ElementRange at EdgeCenter or FaceCenter) or by nodes
+//     (GridLocation Vertex: every boundary edge with both nodes listed);
+//     its tag is its FamilyName, or its own name if it has none. (This
+//     library version, 3.4, has no FamilyName under Elements_t.)
+//   - structured: each zone's quadrilaterals, i fastest, zone after zone;
+//     nodes joined by GridConnectivity1to1_t records (PointRange,
+//     PointRangeDonor, Transform) are merged into one node, and the result
+//     keeps the structured view (one mesh.Block per zone, and a
+//     mesh.BlockInterface for every join of two whole sides). A
+//     left-handed zone's cells are turned counter-clockwise. BCs are
+//     Vertex point ranges or lists, or face ranges (EdgeCenter, the 2D
+//     face location, or IFaceCenter/JFaceCenter).
+//
+// Tags are ordered as the base's Family_t nodes, then in the order BCs
+// first use them. Errors name the node path that could not be read.
+func Read(path string) (*mesh.Mesh, error) {
+	if _, err := os.Stat(path); err != nil {
+		return nil, fmt.Errorf("cgns: %w", err)
+	}
+	libMu.Lock()
+	defer libMu.Unlock()
+	p := cstr(path)
+	defer free(p)
+	var fn C.int
+	if err := libError(C.cg_open(p, C.CG_MODE_READ, &fn), "open "+path); err != nil {
+		return nil, err
+	}
+	defer C.cg_close(fn)
+	r := &reader{fn: fn, b: 1}
+	m, err := r.read()
+	if err != nil {
+		return nil, fmt.Errorf("cgns: read %s: %w", path, err)
+	}
+	return m, nil
+}
+
+type reader struct {
+	fn   C.int
+	b    C.int
+	base string
+	pdim int
+	// families are the Family_t names of the base, in file order.
+	families []string
+	// tags collects tag names in the order of families, then of use.
+	tags  []string
+	tagIx map[string]int16
+}
+
+func (r *reader) read() (*mesh.Mesh, error) {
+	var nb C.int
+	if err := libError(C.cg_nbases(r.fn, &nb), "count bases"); err != nil {
+		return nil, err
+	}
+	if nb < 1 {
+		return nil, errors.New("the file has no CGNSBase_t node")
+	}
+	var name [maxNameLen + 1]C.char
+	var cdim, pdim C.int
+	if err := libError(C.cg_base_read(r.fn, r.b, &name[0], &cdim, &pdim), "read base 1"); err != nil {
+		return nil, err
+	}
+	r.base = C.GoString(&name[0])
+	r.pdim = int(pdim)
+	bp := "/" + r.base
+	if cdim != 2 || pdim < 2 || pdim > 3 {
+		return nil, fmt.Errorf("%s: cell dimension %d, physical dimension %d; cvdeck reads 2D meshes (cell dimension 2, physical dimension 2 or 3)", bp, cdim, pdim)
+	}
+	var nf C.int
+	if err := libError(C.cg_nfamilies(r.fn, r.b, &nf), "count families of "+bp); err != nil {
+		return nil, err
+	}
+	for f := C.int(1); f <= nf; f++ {
+		var nboco, ngeo C.int
+		if err := libError(C.cg_family_read(r.fn, r.b, f, &name[0], &nboco, &ngeo), fmt.Sprintf("read family %d of %s", f, bp)); err != nil {
+			return nil, err
+		}
+		r.families = append(r.families, C.GoString(&name[0]))
+	}
+	var nz C.int
+	if err := libError(C.cg_nzones(r.fn, r.b, &nz), "count zones of "+bp); err != nil {
+		return nil, err
+	}
+	if nz < 1 {
+		return nil, fmt.Errorf("%s has no zone", bp)
+	}
+	types := make([]C.ZoneType_t, nz)
+	nstruct := 0
+	for z := C.int(1); z <= nz; z++ {
+		if err := libError(C.cg_zone_type(r.fn, r.b, z, &types[z-1]), fmt.Sprintf("read type of zone %d of %s", z, bp)); err != nil {
+			return nil, err
+		}
+		if types[z-1] == C.Structured {
+			nstruct++
+		}
+	}
+	switch {
+	case nstruct == int(nz):
+		return r.structured(int(nz))
+	case nstruct == 0 && nz == 1:
+		return r.unstructured(1)
+	case nstruct == 0:
+		return nil, fmt.Errorf("%s has %d unstructured zones; cvdeck reads one unstructured zone, or structured zones", bp, nz)
+	default:
+		return nil, fmt.Errorf("%s mixes %d structured and %d unstructured zones; cvdeck reads one kind", bp, nstruct, int(nz)-nstruct)
+	}
+}
+
+// zoneName reads the name and size of zone z.
+func (r *reader) zoneName(z C.int, size []int32) (string, error) {
+	var name [maxNameLen + 1]C.char
+	if err := libError(C.cg_zone_read(r.fn, r.b, z, &name[0], ip(size)), fmt.Sprintf("read zone %d of /%s", z, r.base)); err != nil {
+		return "", err
+	}
+	return C.GoString(&name[0]), nil
+}
+
+// coords reads the n Cartesian node positions of a zone, over the index
+// range [1, rmax] (one entry per index dimension).
+func (r *reader) coords(z C.int, zp string, rmax []int32, n int) ([]orb.Point, error) {
+	var nc C.int
+	if err := libError(C.cg_ncoords(r.fn, r.b, z, &nc), "count coordinates of "+zp); err != nil {
+		return nil, err
+	}
+	have := map[string]bool{}
+	var name [maxNameLen + 1]C.char
+	for c := C.int(1); c <= nc; c++ {
+		var dt C.DataType_t
+		if err := libError(C.cg_coord_info(r.fn, r.b, z, c, &dt, &name[0]), fmt.Sprintf("read coordinate %d of %s", c, zp)); err != nil {
+			return nil, err
+		}
+		have[C.GoString(&name[0])] = true
+	}
+	if !have["CoordinateX"] || !have["CoordinateY"] {
+		return nil, fmt.Errorf("%s/GridCoordinates has no CoordinateX and CoordinateY; cvdeck reads Cartesian coordinates", zp)
+	}
+	rmin := make([]int32, len(rmax))
+	for i := range rmin {
+		rmin[i] = 1
+	}
+	read := func(axis string) ([]float64, error) {
+		v := make([]float64, n)
+		a := cstr(axis)
+		defer free(a)
+		err := libError(C.cg_coord_read(r.fn, r.b, z, a, C.RealDouble, ip(rmin), ip(rmax), unsafe.Pointer(&v[0])), "read "+zp+"/GridCoordinates/"+axis)
+		return v, err
+	}
+	x, err := read("CoordinateX")
+	if err != nil {
+		return nil, err
+	}
+	y, err := read("CoordinateY")
+	if err != nil {
+		return nil, err
+	}
+	if r.pdim == 3 && have["CoordinateZ"] {
+		zc, err := read("CoordinateZ")
+		if err != nil {
+			return nil, err
+		}
+		for i, v := range zc {
+			if v != zc[0] {
+				return nil, fmt.Errorf("%s/GridCoordinates/CoordinateZ varies (node %d has z = %g, node 1 has %g); cvdeck reads planar meshes", zp, i+1, v, zc[0])
+			}
+		}
+	}
+	pts := make([]orb.Point, n)
+	for i := range pts {
+		pts[i] = orb.Point{x[i], y[i]}
+	}
+	return pts, nil
+}
+
+// bcInfo is one BC_t as read: its point set expanded to a list.
+type bcInfo struct {
+	path string
+	name string
+	tag  string
+	set  C.PointSetType_t
+	loc  C.GridLocation_t
+	pts  []int32
+}
+
+// bocos reads the BCs of a zone whose index dimension is idim.
+func (r *reader) bocos(z C.int, zp string, idim int) ([]bcInfo, error) {
+	var n C.int
+	if err := libError(C.cg_nbocos(r.fn, r.b, z, &n), "count BCs of "+zp); err != nil {
+		return nil, err
+	}
+	out := make([]bcInfo, 0, n)
+	var name [maxNameLen + 1]C.char
+	for bc := C.int(1); bc <= n; bc++ {
+		var (
+			typ    C.BCType_t
+			set    C.PointSetType_t
+			npts   C.int
+			nindex [3]C.int
+			nlist  C.int
+			ndt    C.DataType_t
+			nds    C.int
+		)
+		if err := libError(C.cg_boco_info(r.fn, r.b, z, bc, &name[0], &typ, &set, &npts, &nindex[0], &nlist, &ndt, &nds), fmt.Sprintf("read BC %d of %s/ZoneBC", bc, zp)); err != nil {
+			return nil, err
+		}
+		b := bcInfo{name: C.GoString(&name[0]), set: set}
+		b.path = zp + "/ZoneBC/" + b.name
+		if err := libError(C.cg_boco_gridlocation_read(r.fn, r.b, z, bc, &b.loc), "read GridLocation of "+b.path); err != nil {
+			return nil, err
+		}
+		raw := make([]int32, max(int(npts)*idim, 1))
+		var normals []float64
+		var np unsafe.Pointer
+		if nlist > 0 {
+			normals = make([]float64, int(nlist)*r.pdim)
+			np = unsafe.Pointer(&normals[0])
+		}
+		if err := libError(C.cg_boco_read(r.fn, r.b, z, bc, ip(raw), np), "read points of "+b.path); err != nil {
+			return nil, err
+		}
+		raw = raw[:int(npts)*idim]
+		tag, err := r.familyAt(b.path)
+		if err != nil {
+			return nil, err
+		}
+		if tag == "" {
+			tag = b.name
+		}
+		b.tag = tag
+		b.pts = raw
+		out = append(out, b)
+	}
+	return out, nil
+}
+
+// familyAt reads the FamilyName child of the node at path, "" if none.
+func (r *reader) familyAt(path string) (string, error) {
+	if err := gopath(r.fn, path); err != nil {
+		return "", err
+	}
+	var fam [maxNameLen + 1]C.char
+	switch rc := C.cg_famname_read(&fam[0]); rc {
+	case 0:
+		return C.GoString(&fam[0]), nil
+	case C.CG_NODE_NOT_FOUND:
+		return "", nil
+	default:
+		return "", libError(rc, "read FamilyName of "+path)
+	}
+}
+
+// tag returns the index of tag name, adding it if new.
+func (r *reader) tag(name string) int16 {
+	if r.tagIx == nil {
+		r.tagIx = map[string]int16{}
+	}
+	if t, ok := r.tagIx[name]; ok {
+		return t
+	}
+	t := int16(len(r.tags))
+	r.tagIx[name] = t
+	r.tags = append(r.tags, name)
+	return t
+}
+
+// orderTags registers the used tags: families first, in file order, then
+// the others in the order given.
+func (r *reader) orderTags(used []string) {
+	isUsed := map[string]bool{}
+	for _, u := range used {
+		isUsed[u] = true
+	}
+	for _, f := range r.families {
+		if isUsed[f] {
+			r.tag(f)
+		}
+	}
+	for _, u := range used {
+		r.tag(u)
+	}
+}

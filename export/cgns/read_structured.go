@@ -1,0 +1,403 @@
+package cgns
+
+/*
+#include <cgnslib.h>
+*/
+import "C"
+
+import (
+	"fmt"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/mesh"
+)
+
+// szone is one structured zone as read.
+type szone struct {
+	name   string
+	path   string
+	ni, nj int
+	first  int32 // global id of node (1, 1): nodes are first + j*ni + i
+	nodes  []orb.Point
+}
+
+// join is one GridConnectivity1to1_t as read.
+type join struct {
+	path      string
+	a, b      int // zone indices
+	rng, drng [4]int32
+	transform [2]int32
+}
+
+// donorOf maps 1-based index (i, j) of the receiving zone to the donor
+// zone by the SIDS rule index_donor = T·(index − Begin) + Begin_donor, where
+// column c of T has sign(Transform[c]) in row |Transform[c]| − 1.
+func (jn *join) donorOf(i, j int32) (int32, int32) {
+	d := [2]int32{jn.drng[0], jn.drng[1]}
+	delta := [2]int32{i - jn.rng[0], j - jn.rng[1]}
+	for c, t := range jn.transform {
+		row, sign := t-1, int32(1)
+		if t < 0 {
+			row, sign = -t-1, -1
+		}
+		d[row] += sign * delta[c]
+	}
+	return d[0], d[1]
+}
+
+// structured reads nz structured zones and merges them (see Read).
+func (r *reader) structured(nz int) (*mesh.Mesh, error) {
+	zones := make([]szone, nz)
+	byName := map[string]int{}
+	total := int32(0)
+	for zi := range zones {
+		z := C.int(zi + 1)
+		var idim C.int
+		if err := libError(C.cg_index_dim(r.fn, r.b, z, &idim), fmt.Sprintf("read index dimension of zone %d of /%s", z, r.base)); err != nil {
+			return nil, err
+		}
+		size := make([]int32, 3*idim)
+		name, err := r.zoneName(z, size)
+		if err != nil {
+			return nil, err
+		}
+		s := &zones[zi]
+		s.name, s.path = name, "/"+r.base+"/"+name
+		if idim != 2 {
+			return nil, fmt.Errorf("%s is a structured zone of index dimension %d; cvdeck reads 2D zones", s.path, idim)
+		}
+		s.ni, s.nj = int(size[0]), int(size[1])
+		if s.ni < 2 || s.nj < 2 {
+			return nil, fmt.Errorf("%s is %d×%d nodes; a structured zone needs at least 2×2", s.path, s.ni, s.nj)
+		}
+		if int64(total)+int64(s.ni*s.nj) > maxIndex {
+			return nil, fmt.Errorf("%s: the zones hold more than %d nodes", s.path, maxIndex)
+		}
+		s.first = total
+		total += int32(s.ni * s.nj)
+		if s.nodes, err = r.coords(z, s.path, size[:2], s.ni*s.nj); err != nil {
+			return nil, err
+		}
+		byName[name] = zi
+	}
+
+	// Merge the nodes of every 1-to-1 join (union-find on global ids).
+	parent := make([]int32, total)
+	for i := range parent {
+		parent[i] = int32(i)
+	}
+	var find func(int32) int32
+	find = func(x int32) int32 {
+		for parent[x] != x {
+			parent[x] = parent[parent[x]]
+			x = parent[x]
+		}
+		return x
+	}
+	var joins []join
+	for zi := range zones {
+		js, err := r.joins(C.int(zi+1), &zones[zi], zones, byName)
+		if err != nil {
+			return nil, err
+		}
+		for _, jn := range js {
+			a, b := &zones[jn.a], &zones[jn.b]
+			si, sj := step(jn.rng[0], jn.rng[2]), step(jn.rng[1], jn.rng[3])
+			for j := jn.rng[1]; ; j += sj {
+				for i := jn.rng[0]; ; i += si {
+					di, dj := jn.donorOf(i, j)
+					if di < 1 || dj < 1 || int(di) > b.ni || int(dj) > b.nj {
+						return nil, fmt.Errorf("%s: point (%d, %d) maps to (%d, %d), outside donor zone %s (%d×%d)", jn.path, i, j, di, dj, b.name, b.ni, b.nj)
+					}
+					x, y := find(a.id(i, j)), find(b.id(di, dj))
+					if x != y {
+						parent[max(x, y)] = min(x, y)
+					}
+					if i == jn.rng[2] {
+						break
+					}
+				}
+				if j == jn.rng[3] {
+					break
+				}
+			}
+		}
+		joins = append(joins, js...)
+	}
+	newID := make([]int32, total)
+	var nodes []orb.Point
+	for zi := range zones {
+		s := &zones[zi]
+		for k := 0; k < s.ni*s.nj; k++ {
+			g := s.first + int32(k)
+			root := find(g)
+			if root == g {
+				newID[g] = int32(len(nodes))
+				nodes = append(nodes, s.nodes[k])
+			} else {
+				newID[g] = newID[root]
+			}
+		}
+	}
+
+	in := mesh.Input{Nodes: nodes, CellStart: []int32{0}}
+	for zi := range zones {
+		s := &zones[zi]
+		blk := mesh.Block{Name: s.name, NI: s.ni, NJ: s.nj, Node: make([]int32, s.ni*s.nj), FirstCell: int32(len(in.CellStart) - 1)}
+		for k := range blk.Node {
+			blk.Node[k] = newID[s.first+int32(k)]
+		}
+		// A left-handed zone (negative total signed area) is turned
+		// counter-clockwise.
+		area := 0.0
+		for j := 0; j+1 < s.nj; j++ {
+			for i := 0; i+1 < s.ni; i++ {
+				p := [4]orb.Point{s.nodes[j*s.ni+i], s.nodes[j*s.ni+i+1], s.nodes[(j+1)*s.ni+i+1], s.nodes[(j+1)*s.ni+i]}
+				area += (p[2][0]-p[0][0])*(p[3][1]-p[1][1]) - (p[3][0]-p[1][0])*(p[2][1]-p[0][1])
+			}
+		}
+		for j := 0; j+1 < s.nj; j++ {
+			for i := 0; i+1 < s.ni; i++ {
+				q := [4]int32{blk.Node[j*s.ni+i], blk.Node[j*s.ni+i+1], blk.Node[(j+1)*s.ni+i+1], blk.Node[(j+1)*s.ni+i]}
+				if area < 0 {
+					q[1], q[3] = q[3], q[1]
+				}
+				n0 := len(in.CellNodes)
+				for k, v := range q {
+					if v != q[(k+3)%4] {
+						in.CellNodes = append(in.CellNodes, v)
+					}
+				}
+				if len(in.CellNodes)-n0 < 3 {
+					return nil, fmt.Errorf("%s: cell (%d, %d) collapses to %d distinct nodes after the 1-to-1 joins are merged", s.path, i+1, j+1, len(in.CellNodes)-n0)
+				}
+				in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+			}
+		}
+		in.Blocks = append(in.Blocks, blk)
+	}
+	in.Interfaces = interfaces(joins, zones)
+
+	type tagged struct {
+		tag   string
+		edges [][2]int32
+	}
+	var found []tagged
+	for zi := range zones {
+		s := &zones[zi]
+		bcs, err := r.bocos(C.int(zi+1), s.path, 2)
+		if err != nil {
+			return nil, err
+		}
+		for _, b := range bcs {
+			edges, err := s.bcEdges(b)
+			if err != nil {
+				return nil, err
+			}
+			t := tagged{tag: b.tag}
+			for _, e := range edges {
+				t.edges = append(t.edges, [2]int32{newID[e[0]], newID[e[1]]})
+			}
+			found = append(found, t)
+		}
+	}
+	used := make([]string, len(found))
+	for i, t := range found {
+		used[i] = t.tag
+	}
+	r.orderTags(used)
+	in.Tags = r.tags
+	for _, t := range found {
+		ti := r.tag(t.tag)
+		for _, e := range t.edges {
+			in.Edges = append(in.Edges, mesh.TaggedEdge{A: e[0], B: e[1], Tag: ti})
+		}
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		return nil, fmt.Errorf("/%s: %w", r.base, err)
+	}
+	return m, nil
+}
+
+func step(a, b int32) int32 {
+	if b < a {
+		return -1
+	}
+	return 1
+}
+
+// id is the global id of 1-based node (i, j) of the zone.
+func (s *szone) id(i, j int32) int32 { return s.first + (j-1)*int32(s.ni) + i - 1 }
+
+// inside reports whether the 1-based (i, j) is a node of the zone.
+func (s *szone) inside(i, j int32) bool {
+	return i >= 1 && j >= 1 && int(i) <= s.ni && int(j) <= s.nj
+}
+
+// joins reads the GridConnectivity1to1_t nodes of zone z.
+func (r *reader) joins(z C.int, s *szone, zones []szone, byName map[string]int) ([]join, error) {
+	var n C.int
+	if err := libError(C.cg_n1to1(r.fn, r.b, z, &n), "count 1-to-1 joins of "+s.path); err != nil {
+		return nil, err
+	}
+	var name, donor [maxNameLen + 1]C.char
+	out := make([]join, 0, n)
+	for k := C.int(1); k <= n; k++ {
+		var jn join
+		var tr [2]C.int
+		if err := libError(C.cg_1to1_read(r.fn, r.b, z, k, &name[0], &donor[0], ip(jn.rng[:]), ip(jn.drng[:]), &tr[0]), fmt.Sprintf("read 1-to-1 join %d of %s", k, s.path)); err != nil {
+			return nil, err
+		}
+		jn.path = s.path + "/ZoneGridConnectivity/" + C.GoString(&name[0])
+		jn.transform = [2]int32{int32(tr[0]), int32(tr[1])}
+		jn.a = int(z - 1)
+		d, ok := byName[C.GoString(&donor[0])]
+		if !ok {
+			return nil, fmt.Errorf("%s: donor zone %q is not a zone of /%s", jn.path, C.GoString(&donor[0]), r.base)
+		}
+		jn.b = d
+		if t := jn.transform; t[0] == 0 || t[1] == 0 || abs(t[0]) > 2 || abs(t[1]) > 2 || abs(t[0]) == abs(t[1]) {
+			return nil, fmt.Errorf("%s: Transform %v is not a permutation of ±1, ±2", jn.path, t)
+		}
+		if !s.inside(jn.rng[0], jn.rng[1]) || !s.inside(jn.rng[2], jn.rng[3]) {
+			return nil, fmt.Errorf("%s: PointRange %v lies outside the zone (%d×%d)", jn.path, jn.rng, s.ni, s.nj)
+		}
+		if di, dj := jn.donorOf(jn.rng[2], jn.rng[3]); di != jn.drng[2] || dj != jn.drng[3] {
+			return nil, fmt.Errorf("%s: the Transform %v maps the range end to (%d, %d), not to the donor range end (%d, %d)", jn.path, jn.transform, di, dj, jn.drng[2], jn.drng[3])
+		}
+		out = append(out, jn)
+	}
+	return out, nil
+}
+
+func abs(v int32) int32 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// fullSide returns the side a 1-based point range covers completely.
+func (s *szone) fullSide(rng [4]int32) (mesh.Side, bool) {
+	lo := func(a, b int32) int32 { return min(a, b) }
+	hi := func(a, b int32) int32 { return max(a, b) }
+	switch {
+	case rng[0] == rng[2] && lo(rng[1], rng[3]) == 1 && int(hi(rng[1], rng[3])) == s.nj:
+		if rng[0] == 1 {
+			return mesh.West, true
+		}
+		if int(rng[0]) == s.ni {
+			return mesh.East, true
+		}
+	case rng[1] == rng[3] && lo(rng[0], rng[2]) == 1 && int(hi(rng[0], rng[2])) == s.ni:
+		if rng[1] == 1 {
+			return mesh.South, true
+		}
+		if int(rng[1]) == s.nj {
+			return mesh.North, true
+		}
+	}
+	return 0, false
+}
+
+// interfaces lists the joins of two whole sides, once per pair.
+func interfaces(joins []join, zones []szone) []mesh.BlockInterface {
+	var out []mesh.BlockInterface
+	for _, jn := range joins {
+		sa, ok := zones[jn.a].fullSide(jn.rng)
+		if !ok {
+			continue
+		}
+		sb, ok := zones[jn.b].fullSide(jn.drng)
+		if !ok || jn.a > jn.b || jn.a == jn.b && sa >= sb {
+			continue
+		}
+		// The sides run the same way if the range and donor range both
+		// increase or both decrease along their side.
+		along := func(rng [4]int32) int32 {
+			if rng[0] == rng[2] {
+				return rng[3] - rng[1]
+			}
+			return rng[2] - rng[0]
+		}
+		out = append(out, mesh.BlockInterface{A: jn.a, B: jn.b, SideA: sa, SideB: sb, Reversed: (along(jn.rng) > 0) != (along(jn.drng) > 0)})
+	}
+	return out
+}
+
+// bcEdges returns the edges (global node ids) of a structured BC.
+func (s *szone) bcEdges(b bcInfo) ([][2]int32, error) {
+	var edges [][2]int32
+	switch {
+	case b.set == C.PointRange && (b.loc == C.Vertex || b.loc == C.EdgeCenter || b.loc == C.IFaceCenter || b.loc == C.JFaceCenter):
+		if len(b.pts) != 4 {
+			return nil, fmt.Errorf("%s: a PointRange needs 2 points, got %d values", b.path, len(b.pts))
+		}
+		i0, j0, i1, j1 := min(b.pts[0], b.pts[2]), min(b.pts[1], b.pts[3]), max(b.pts[0], b.pts[2]), max(b.pts[1], b.pts[3])
+		// A face range (EdgeCenter in 2D, or IFaceCenter/JFaceCenter) has one
+		// constant index, the face's, and a cell range along the other; a
+		// single EdgeCenter face is an i-face if it lies on an i = const
+		// side of the zone.
+		iface := b.loc == C.IFaceCenter || b.loc == C.EdgeCenter && i0 == i1 && (j0 != j1 || i0 == 1 || int(i0) == s.ni)
+		switch {
+		case b.loc == C.Vertex:
+			if !s.inside(i0, j0) || !s.inside(i1, j1) {
+				return nil, fmt.Errorf("%s: PointRange %v lies outside the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
+			}
+			switch {
+			case i0 == i1 && j0 < j1:
+				for j := j0; j < j1; j++ {
+					edges = append(edges, [2]int32{s.id(i0, j), s.id(i0, j+1)})
+				}
+			case j0 == j1 && i0 < i1:
+				for i := i0; i < i1; i++ {
+					edges = append(edges, [2]int32{s.id(i, j0), s.id(i+1, j0)})
+				}
+			default:
+				return nil, fmt.Errorf("%s: Vertex PointRange %v is not a line of nodes along one index", b.path, b.pts)
+			}
+		case iface:
+			if i0 != i1 || !s.inside(i0, j0) || !s.inside(i1, j1+1) {
+				return nil, fmt.Errorf("%s: face PointRange %v is not a line of i-faces of the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
+			}
+			for j := j0; j <= j1; j++ {
+				edges = append(edges, [2]int32{s.id(i0, j), s.id(i0, j+1)})
+			}
+		default:
+			if j0 != j1 || !s.inside(i0, j0) || !s.inside(i1+1, j1) {
+				return nil, fmt.Errorf("%s: face PointRange %v is not a line of j-faces of the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
+			}
+			for i := i0; i <= i1; i++ {
+				edges = append(edges, [2]int32{s.id(i, j0), s.id(i+1, j0)})
+			}
+		}
+	case b.set == C.PointList && b.loc == C.Vertex:
+		in := map[[2]int32]bool{}
+		for k := 0; k+1 < len(b.pts); k += 2 {
+			if !s.inside(b.pts[k], b.pts[k+1]) {
+				return nil, fmt.Errorf("%s: point %d (%d, %d) lies outside the zone (%d×%d)", b.path, k/2+1, b.pts[k], b.pts[k+1], s.ni, s.nj)
+			}
+			in[[2]int32{b.pts[k], b.pts[k+1]}] = true
+		}
+		add := func(i, j, i2, j2 int32) {
+			if in[[2]int32{i, j}] && in[[2]int32{i2, j2}] {
+				edges = append(edges, [2]int32{s.id(i, j), s.id(i2, j2)})
+			}
+		}
+		ni, nj := int32(s.ni), int32(s.nj)
+		for i := int32(1); i < ni; i++ {
+			add(i, 1, i+1, 1)
+			add(i, nj, i+1, nj)
+		}
+		for j := int32(1); j < nj; j++ {
+			add(1, j, 1, j+1)
+			add(ni, j, ni, j+1)
+		}
+	default:
+		return nil, fmt.Errorf("%s: %s at %s; cvdeck reads structured BCs as Vertex point ranges or lists, or face ranges (EdgeCenter, IFaceCenter, JFaceCenter)",
+			b.path, C.GoString(C.cg_PointSetTypeName(b.set)), C.GoString(C.cg_GridLocationName(b.loc)))
+	}
+	return edges, nil
+}

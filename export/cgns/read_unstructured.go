@@ -1,0 +1,260 @@
+package cgns
+
+/*
+#include <cgnslib.h>
+*/
+import "C"
+
+import (
+	"fmt"
+	"sort"
+
+	"cvdeck/mesh"
+)
+
+// elemSection is one Elements_t node as read.
+type elemSection struct {
+	path       string
+	typ        C.ElementType_t
+	start, end int32
+	conn       []int32
+	off        []int32 // ElementStartOffset of MIXED and NGON_n sections
+	npe        int     // nodes per element of fixed-size sections
+	// bar[e] is the index into the reader's bar list of element start+e,
+	// or -1 if that element is not a BAR_2.
+	bar []int32
+}
+
+// element returns the type and 1-based nodes of element e (0-based in the
+// section).
+func (s *elemSection) element(e int) (C.ElementType_t, []int32) {
+	switch s.typ {
+	case C.MIXED:
+		a, b := s.off[e], s.off[e+1]
+		return C.ElementType_t(s.conn[a]), s.conn[a+1 : b]
+	case C.NGON_n:
+		return C.NGON_n, s.conn[s.off[e]:s.off[e+1]]
+	default:
+		return s.typ, s.conn[e*s.npe : (e+1)*s.npe]
+	}
+}
+
+// unstructured reads unstructured zone z (see Read).
+func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
+	size := make([]int32, 3)
+	zn, err := r.zoneName(z, size)
+	if err != nil {
+		return nil, err
+	}
+	zp := "/" + r.base + "/" + zn
+	nn := int(size[0])
+	if nn < 3 {
+		return nil, fmt.Errorf("%s has %d nodes; a mesh needs at least 3", zp, nn)
+	}
+	nodes, err := r.coords(z, zp, size[:1], nn)
+	if err != nil {
+		return nil, err
+	}
+	secs, err := r.sections(z, zp)
+	if err != nil {
+		return nil, err
+	}
+	sort.SliceStable(secs, func(a, b int) bool { return secs[a].start < secs[b].start })
+	for i := 1; i < len(secs); i++ {
+		if secs[i].start <= secs[i-1].end {
+			return nil, fmt.Errorf("%s (elements %d..%d) overlaps %s (elements %d..%d); element numbers must be unique in a zone",
+				secs[i].path, secs[i].start, secs[i].end, secs[i-1].path, secs[i-1].start, secs[i-1].end)
+		}
+	}
+
+	in := mesh.Input{Nodes: nodes, CellStart: []int32{0}}
+	var bars [][2]int32
+	for si := range secs {
+		s := &secs[si]
+		s.bar = make([]int32, s.end-s.start+1)
+		for e := range s.bar {
+			s.bar[e] = -1
+			typ, vs := s.element(e)
+			for _, v := range vs {
+				if v < 1 || int(v) > nn {
+					return nil, fmt.Errorf("%s: element %d refers to node %d; the zone's nodes run from 1 to %d", s.path, int(s.start)+e, v, nn)
+				}
+			}
+			switch typ {
+			case C.TRI_3, C.QUAD_4, C.NGON_n:
+				for _, v := range vs {
+					in.CellNodes = append(in.CellNodes, v-1)
+				}
+				in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+			case C.BAR_2:
+				s.bar[e] = int32(len(bars))
+				bars = append(bars, [2]int32{vs[0] - 1, vs[1] - 1})
+			case C.NODE:
+			default:
+				return nil, fmt.Errorf("%s: element %d is %s; cvdeck reads TRI_3, QUAD_4, MIXED of those, NGON_n polygons and BAR_2 faces", s.path, int(s.start)+e, elementTypeName(typ))
+			}
+		}
+	}
+	if len(in.CellStart) == 1 {
+		return nil, fmt.Errorf("%s has no 2D elements (TRI_3, QUAD_4, MIXED, NGON_n)", zp)
+	}
+	barOf := func(id int32) int32 {
+		k := sort.Search(len(secs), func(i int) bool { return secs[i].end >= id })
+		if k == len(secs) || id < secs[k].start {
+			return -1
+		}
+		return secs[k].bar[id-secs[k].start]
+	}
+
+	bcs, err := r.bocos(z, zp, 1)
+	if err != nil {
+		return nil, err
+	}
+	type tagged struct {
+		tag   string
+		edges [][2]int32
+	}
+	var found []tagged
+	var vertexBCs []bcInfo
+	for _, b := range bcs {
+		ids := b.pts
+		if b.set == C.PointRange || b.set == C.ElementRange {
+			if len(ids) != 2 || ids[1] < ids[0] {
+				return nil, fmt.Errorf("%s: range %v is not a range [first, last]", b.path, ids)
+			}
+			ids = make([]int32, 0, b.pts[1]-b.pts[0]+1)
+			for id := b.pts[0]; id <= b.pts[1]; id++ {
+				ids = append(ids, id)
+			}
+		}
+		byElement := b.set == C.ElementRange || b.set == C.ElementList
+		switch {
+		case !byElement && b.loc == C.Vertex:
+			vertexBCs = append(vertexBCs, bcInfo{path: b.path, tag: b.tag, pts: ids})
+			continue
+		case byElement || b.loc == C.EdgeCenter || b.loc == C.FaceCenter:
+		default:
+			return nil, fmt.Errorf("%s: GridLocation %s; cvdeck reads boundary faces at EdgeCenter, FaceCenter or Vertex",
+				b.path, C.GoString(C.cg_GridLocationName(b.loc)))
+		}
+		t := tagged{tag: b.tag}
+		for i, id := range ids {
+			k := barOf(id)
+			if k < 0 {
+				return nil, fmt.Errorf("%s: point %d is element %d, which is not a BAR_2 element of the zone", b.path, i+1, id)
+			}
+			t.edges = append(t.edges, bars[k])
+		}
+		found = append(found, t)
+	}
+	if len(vertexBCs) > 0 {
+		// Vertex BCs tag the boundary edges whose two nodes they list, so
+		// the boundary edges are needed first.
+		plain, err := mesh.Build(mesh.Input{Nodes: in.Nodes, CellStart: in.CellStart, CellNodes: in.CellNodes})
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", zp, err)
+		}
+		for _, b := range vertexBCs {
+			in := make(map[int32]bool, len(b.pts))
+			for i, v := range b.pts {
+				if v < 1 || int(v) > nn {
+					return nil, fmt.Errorf("%s: point %d is node %d; the zone's nodes run from 1 to %d", b.path, i+1, v, nn)
+				}
+				in[v-1] = true
+			}
+			t := tagged{tag: b.tag}
+			for f := plain.NumInterior; f < plain.NumFaces(); f++ {
+				if fn := plain.FaceNodes[f]; in[fn[0]] && in[fn[1]] {
+					t.edges = append(t.edges, fn)
+				}
+			}
+			found = append(found, t)
+		}
+	}
+	used := make([]string, len(found))
+	for i, t := range found {
+		used[i] = t.tag
+	}
+	r.orderTags(used)
+	in.Tags = r.tags
+	for _, t := range found {
+		ti := r.tag(t.tag)
+		for _, e := range t.edges {
+			in.Edges = append(in.Edges, mesh.TaggedEdge{A: e[0], B: e[1], Tag: ti})
+		}
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", zp, err)
+	}
+	return m, nil
+}
+
+// sections reads every Elements_t node of zone z.
+func (r *reader) sections(z C.int, zp string) ([]elemSection, error) {
+	var ns C.int
+	if err := libError(C.cg_nsections(r.fn, r.b, z, &ns), "count element sections of "+zp); err != nil {
+		return nil, err
+	}
+	out := make([]elemSection, 0, ns)
+	var name [maxNameLen + 1]C.char
+	for si := C.int(1); si <= ns; si++ {
+		var (
+			s                 elemSection
+			start, end        C.int
+			nbndry, parentFlg C.int
+		)
+		if err := libError(C.cg_section_read(r.fn, r.b, z, si, &name[0], &s.typ, &start, &end, &nbndry, &parentFlg), fmt.Sprintf("read element section %d of %s", si, zp)); err != nil {
+			return nil, err
+		}
+		s.path = zp + "/" + C.GoString(&name[0])
+		s.start, s.end = int32(start), int32(end)
+		if s.start < 1 || s.end < s.start {
+			return nil, fmt.Errorf("%s: ElementRange [%d, %d] is not a range of positive element numbers", s.path, s.start, s.end)
+		}
+		ne := int(s.end - s.start + 1)
+		var dsize C.int
+		if err := libError(C.cg_ElementDataSize(r.fn, r.b, z, si, &dsize), "read size of "+s.path); err != nil {
+			return nil, err
+		}
+		s.conn = make([]int32, max(int(dsize), 1))
+		switch s.typ {
+		case C.MIXED, C.NGON_n:
+			s.off = make([]int32, ne+1)
+			if err := libError(C.cg_poly_elements_read(r.fn, r.b, z, si, ip(s.conn), ip(s.off), nil), "read "+s.path); err != nil {
+				return nil, err
+			}
+			if s.off[0] != 0 || s.off[ne] != int32(dsize) {
+				return nil, fmt.Errorf("%s: ElementStartOffset runs from %d to %d; it must run from 0 to the connectivity size %d", s.path, s.off[0], s.off[ne], dsize)
+			}
+			for e := 0; e < ne; e++ {
+				if s.off[e+1] <= s.off[e] {
+					return nil, fmt.Errorf("%s: element %d has an empty or negative offset range", s.path, int(s.start)+e)
+				}
+				if s.typ == C.MIXED {
+					var npe C.int
+					t := C.ElementType_t(s.conn[s.off[e]])
+					if C.cg_npe(t, &npe) != 0 || npe <= 0 || int(npe) != int(s.off[e+1]-s.off[e])-1 {
+						return nil, fmt.Errorf("%s: element %d has type code %d and %d nodes, which do not match", s.path, int(s.start)+e, t, s.off[e+1]-s.off[e]-1)
+					}
+				}
+			}
+		case C.NFACE_n:
+			return nil, fmt.Errorf("%s is NFACE_n; cvdeck reads 2D cells as TRI_3, QUAD_4, MIXED or NGON_n polygons", s.path)
+		default:
+			var npe C.int
+			if err := libError(C.cg_npe(s.typ, &npe), "nodes per element of "+s.path); err != nil {
+				return nil, err
+			}
+			s.npe = int(npe)
+			if s.npe <= 0 || int(dsize) != ne*s.npe {
+				return nil, fmt.Errorf("%s: %d connectivity entries for %d elements of %s", s.path, dsize, ne, elementTypeName(s.typ))
+			}
+			if err := libError(C.cg_elements_read(r.fn, r.b, z, si, ip(s.conn), nil), "read "+s.path); err != nil {
+				return nil, err
+			}
+		}
+		out = append(out, s)
+	}
+	return out, nil
+}

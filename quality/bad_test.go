@@ -1,0 +1,222 @@
+package quality
+
+import (
+	"slices"
+	"strings"
+	"testing"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/mesh"
+)
+
+// failedCells returns the cells that fail metric name.
+func failedCells(t *testing.T, r *Report, name string) []int {
+	t.Helper()
+	var out []int
+	l := everyday(t)
+	d := metricByName(name)
+	for c, v := range field(t, r, name) {
+		if d.status(v, *d.bound(&l)) == Fail {
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
+// problems returns the defects of one connectivity check.
+func problems(r *Report, check string) []Problem {
+	for _, c := range r.Connectivity {
+		if c.Name == check {
+			return c.Problems
+		}
+	}
+	return nil
+}
+
+// Moving the node (1,1) of a 3×3 unit grid to (2.2, 2.2) folds cell 4 over
+// its neighbours: its shoelace area is −0.2 (hand computation), the others
+// stay positive.
+func TestFoldedCell(t *testing.T) {
+	nodes := gridNodes(3, 3, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0)
+	nodes[5] = orb.Point{2.2, 2.2}
+	m := build(t, nodes, quadCells(3, 3, false), true)
+	r := evaluate(t, m)
+	if got := failedCells(t, r, "area"); !slices.Equal(got, []int{4}) {
+		t.Errorf("cells failing area: %v, want [4]", got)
+	}
+	if a := field(t, r, "area")[4]; !near(a, -0.2, 1e-15) {
+		t.Errorf("area of cell 4 = %g, want -0.2", a)
+	}
+	s, _ := r.Metric("area")
+	if s.Worst[0].Index != 4 || r.Verdict != Fail {
+		t.Errorf("worst area cell %d, verdict %s", s.Worst[0].Index, r.Verdict)
+	}
+}
+
+// A cell listed clockwise among counter-clockwise ones traverses its
+// shared faces the same way as its neighbours: the orientation check names
+// it, and its area is negative.
+func TestReversedCell(t *testing.T) {
+	cells := quadCells(3, 1, false)
+	slices.Reverse(cells[1])
+	m := build(t, gridNodes(3, 1, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0), cells, true)
+	r := evaluate(t, m)
+	ps := problems(r, CheckOrientation)
+	if len(ps) != 2 {
+		t.Fatalf("orientation problems %v, want the two faces of cell 1", ps)
+	}
+	for _, p := range ps {
+		if p.Cell != 1 {
+			t.Errorf("orientation problem names cell %d, want 1: %s", p.Cell, p.Message)
+		}
+	}
+	if got := failedCells(t, r, "area"); !slices.Equal(got, []int{1}) {
+		t.Errorf("cells failing area: %v", got)
+	}
+}
+
+// A unit square cut into four triangles around a centre node pulled to
+// (0.5, 1e-7): triangle 0, on the bottom edge, becomes a sliver with an
+// angle of 180° − 2·atan(2e-7) ≈ 179.99998°, past the 179° fail limit.
+func TestSliver(t *testing.T) {
+	nodes := []orb.Point{{0, 0}, {1, 0}, {1, 1}, {0, 1}, {0.5, 1e-7}}
+	cells := [][]int32{{0, 1, 4}, {1, 2, 4}, {2, 3, 4}, {3, 0, 4}}
+	r := evaluate(t, build(t, nodes, cells, true))
+	if got := failedCells(t, r, "max_angle"); !slices.Equal(got, []int{0}) {
+		t.Errorf("cells failing max_angle: %v, want [0]", got)
+	}
+	s, _ := r.Metric("aspect_ratio")
+	if s.Worst[0].Index != 0 || !(float64(s.Worst[0].Value) > 1e6) {
+		t.Errorf("worst aspect ratio %+v, want cell 0 above 1e6", s.Worst[0])
+	}
+	if r.Verdict != Fail {
+		t.Errorf("verdict %s", r.Verdict)
+	}
+}
+
+// Two unit quads on the left of a 1×2 quad: the left cells' shared node
+// (1,1), node 4, lies inside the right cell's left face, which is then a
+// boundary face inside the domain. All boundary faces are tagged, so only
+// the hanging-node check can see it.
+func TestHangingNode(t *testing.T) {
+	nodes := []orb.Point{{0, 0}, {1, 0}, {2, 0}, {0, 1}, {1, 1}, {0, 2}, {1, 2}, {2, 2}}
+	cells := [][]int32{{0, 1, 4, 3}, {3, 4, 6, 5}, {1, 2, 7, 6}}
+	r := evaluate(t, build(t, nodes, cells, true))
+	ps := problems(r, CheckHanging)
+	if len(ps) != 1 || ps[0].Node != 4 || ps[0].Cell != 2 {
+		t.Fatalf("hanging problems %+v, want node 4 on a face of cell 2", ps)
+	}
+	if !strings.Contains(ps[0].Message, "node 4") || !strings.Contains(ps[0].Message, "cell 2") {
+		t.Errorf("message does not name node and cell: %s", ps[0].Message)
+	}
+	if r.Verdict != Fail || r.CellStatus[2] != Fail {
+		t.Errorf("verdict %s, cell 2 %s", r.Verdict, r.CellStatus[2])
+	}
+}
+
+// Two unit quads side by side that do not share their interface nodes: nodes
+// 1 and 4, and 2 and 7, coincide.
+func TestDuplicateNode(t *testing.T) {
+	nodes := []orb.Point{{0, 0}, {1, 0}, {1, 1}, {0, 1}, {1, 0}, {2, 0}, {2, 1}, {1, 1 + 1e-12}}
+	cells := [][]int32{{0, 1, 2, 3}, {4, 5, 6, 7}}
+	r := evaluate(t, build(t, nodes, cells, true))
+	ps := problems(r, CheckDuplicate)
+	if len(ps) != 2 {
+		t.Fatalf("duplicate problems %+v, want 2", ps)
+	}
+	want := [][2]int{{4, 1}, {7, 1}} // (node, cell) named
+	for i, p := range ps {
+		if p.Node != want[i][0] || p.Cell != want[i][1] {
+			t.Errorf("duplicate %d names node %d cell %d, want %v: %s", i, p.Node, p.Cell, want[i], p.Message)
+		}
+	}
+	// Pulled apart by more than the tolerance they are no longer duplicates.
+	nodes[7] = orb.Point{1, 1.01}
+	r = evaluate(t, build(t, nodes, cells, true))
+	if ps := problems(r, CheckDuplicate); len(ps) != 1 || ps[0].Node != 4 {
+		t.Errorf("after separating: %+v", ps)
+	}
+}
+
+// A 2×2 grid whose last boundary face is lost, as a file missing one
+// boundary line would give: the cell of that edge is named, and the
+// boundary is open at the edge's two nodes.
+func TestBoundaryGap(t *testing.T) {
+	m := build(t, gridNodes(2, 2, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0), quadCells(2, 2, false), true)
+	f := m.NumFaces() - 1
+	lost, owner := m.FaceNodes[f], int(m.Owner[f])
+	dropLastFace(m)
+	r := evaluate(t, m)
+	ps := problems(r, CheckCellFaces)
+	if len(ps) != 1 || ps[0].Cell != owner {
+		t.Fatalf("cell_faces problems %+v, want cell %d", ps, owner)
+	}
+	var open []int
+	for _, p := range problems(r, CheckWatertight) {
+		if p.Node >= 0 {
+			open = append(open, p.Node)
+		}
+	}
+	want := []int{int(min(lost[0], lost[1])), int(max(lost[0], lost[1]))}
+	if !slices.Equal(open, want) {
+		t.Errorf("open boundary at nodes %v, want %v", open, want)
+	}
+	if !(float64(r.Audit.BoundaryClosure) > 0.1) || r.Verdict != Fail {
+		t.Errorf("boundary closure %g, verdict %s", r.Audit.BoundaryClosure, r.Verdict)
+	}
+}
+
+// dropLastFace removes the last face from m and its geometry.
+func dropLastFace(m *mesh.Mesh) {
+	n := m.NumFaces() - 1
+	m.FaceNodes, m.Owner, m.Neighbour, m.FaceTag = m.FaceNodes[:n], m.Owner[:n], m.Neighbour[:n], m.FaceTag[:n]
+	g := &m.Geo
+	g.FaceLength, g.FaceNormal, g.FaceMid = g.FaceLength[:n], g.FaceNormal[:n], g.FaceMid[:n]
+	for i := range m.TagStart {
+		m.TagStart[i] = min(m.TagStart[i], int32(n))
+	}
+}
+
+// A 3×1 grid with one boundary edge left out of the tag list: the check
+// names the face and its cell.
+func TestUntaggedFace(t *testing.T) {
+	cells := quadCells(3, 1, false)
+	in := mesh.Input{Nodes: gridNodes(3, 1, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0), CellStart: []int32{0}, Tags: []string{"wall"}}
+	for _, c := range cells {
+		in.CellNodes = append(in.CellNodes, c...)
+		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+	}
+	for _, e := range boundaryEdges(cells) {
+		if (e.A == 5 && e.B == 6) || (e.A == 6 && e.B == 5) {
+			continue // the top edge of cell 1 stays untagged
+		}
+		in.Edges = append(in.Edges, e)
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := evaluate(t, m)
+	ps := problems(r, CheckBoundaryTag)
+	if len(ps) != 1 || ps[0].Cell != 1 {
+		t.Fatalf("boundary_tag problems %+v, want one naming cell 1", ps)
+	}
+	fn := m.FaceNodes[ps[0].Face]
+	if min(fn[0], fn[1]) != 5 || max(fn[0], fn[1]) != 6 {
+		t.Errorf("named face joins %v, want 5-6", fn)
+	}
+}
+
+// Inconsistent arrays are an error naming what is wrong, not a panic.
+func TestInconsistentArrays(t *testing.T) {
+	m := build(t, gridNodes(2, 1, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0), quadCells(2, 1, false), true)
+	m.Owner[3] = 9
+	_, err := Evaluate(m, everyday(t))
+	if err == nil || !strings.Contains(err.Error(), "face 3 has owner 9") {
+		t.Errorf("err = %v", err)
+	}
+	if _, err := Evaluate(m, Limits{}); err == nil {
+		t.Error("empty limits accepted")
+	}
+}

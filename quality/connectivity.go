@@ -1,0 +1,290 @@
+package quality
+
+import (
+	"fmt"
+	"math"
+
+	"cvdeck/mesh"
+)
+
+// The connectivity checks, in the order the report lists them.
+const (
+	CheckFaceCells   = "face_cells"       // each face has its owner, and a neighbour exactly when interior
+	CheckCellFaces   = "cell_faces"       // each cell edge is exactly one face (a missing one is a gap)
+	CheckOrientation = "orientation"      // the two cells of a face traverse it in opposite directions
+	CheckBoundaryTag = "boundary_tag"     // each boundary face carries a tag
+	CheckWatertight  = "watertight"       // boundary loops are closed: Σ S n = 0, every node balanced
+	CheckZeroFace    = "zero_length_face" // no face of zero length
+	CheckDuplicate   = "duplicate_node"   // no two nodes closer than the tolerance
+	CheckUnused      = "unused_node"      // every node belongs to a cell
+	CheckHanging     = "hanging_node"     // no node lies inside another cell's face
+)
+
+var checkNames = []string{CheckFaceCells, CheckCellFaces, CheckOrientation, CheckBoundaryTag,
+	CheckWatertight, CheckZeroFace, CheckDuplicate, CheckUnused, CheckHanging}
+
+// Problem is one connectivity defect, located by the cell, face and node it
+// concerns (-1 where it concerns none) and the position (X, Y) where to look.
+type Problem struct {
+	Check   string  `json:"check"`
+	Cell    int     `json:"cell"`
+	Face    int     `json:"face"`
+	Node    int     `json:"node"`
+	X       float64 `json:"x"`
+	Y       float64 `json:"y"`
+	Message string  `json:"message"`
+}
+
+// CheckResult is the outcome of one connectivity check: how many defects it
+// found and the first ones, at most Limits.MaxProblems of them.
+type CheckResult struct {
+	Name     string    `json:"name"`
+	Status   Status    `json:"status"`
+	Count    int       `json:"count"`
+	Problems []Problem `json:"problems"`
+}
+
+// connectivity gathers problems by check.
+type connectivity struct {
+	max     int
+	results map[string]*CheckResult
+	// cellBad counts connectivity defects per cell.
+	cellBad []int32
+}
+
+func newConnectivity(nc, maxProblems int) *connectivity {
+	c := &connectivity{max: maxProblems, results: map[string]*CheckResult{}, cellBad: make([]int32, nc)}
+	for _, n := range checkNames {
+		c.results[n] = &CheckResult{Name: n, Problems: []Problem{}}
+	}
+	return c
+}
+
+func (c *connectivity) add(p Problem) {
+	r := c.results[p.Check]
+	r.Count++
+	r.Status = Fail
+	if len(r.Problems) < c.max {
+		r.Problems = append(r.Problems, p)
+	}
+	if p.Cell >= 0 {
+		c.cellBad[p.Cell]++
+	}
+}
+
+// list returns the results in the fixed check order.
+func (c *connectivity) list() []CheckResult {
+	out := make([]CheckResult, len(checkNames))
+	for i, n := range checkNames {
+		out[i] = *c.results[n]
+	}
+	return out
+}
+
+// validateArrays checks that the mesh arrays agree in length and that every
+// index is in range, so that the metrics can be computed at all. It returns
+// an error naming the first array or index that is wrong.
+func validateArrays(m *mesh.Mesh) error {
+	nc, nf, nn := m.NumCells(), m.NumFaces(), len(m.Nodes)
+	if nc < 0 {
+		return fmt.Errorf("quality: CellStart is empty; it needs one entry more than the cell count")
+	}
+	if int(m.CellStart[nc]) != len(m.CellNodes) || m.CellStart[0] != 0 {
+		return fmt.Errorf("quality: CellStart runs %d..%d; it must run from 0 to len(CellNodes)=%d", m.CellStart[0], m.CellStart[nc], len(m.CellNodes))
+	}
+	for c := 0; c < nc; c++ {
+		if m.CellStart[c+1]-m.CellStart[c] < 3 {
+			return fmt.Errorf("quality: cell %d has %d nodes; a cell needs at least 3", c, m.CellStart[c+1]-m.CellStart[c])
+		}
+	}
+	for i, v := range m.CellNodes {
+		if v < 0 || int(v) >= nn {
+			return fmt.Errorf("quality: CellNodes[%d] = %d; nodes run from 0 to %d", i, v, nn-1)
+		}
+	}
+	if len(m.Owner) != nf || len(m.Neighbour) != nf || len(m.FaceTag) != nf {
+		return fmt.Errorf("quality: %d faces but %d owners, %d neighbours and %d face tags; all four must agree", nf, len(m.Owner), len(m.Neighbour), len(m.FaceTag))
+	}
+	if m.NumInterior < 0 || m.NumInterior > nf {
+		return fmt.Errorf("quality: NumInterior = %d; it must lie in 0..%d", m.NumInterior, nf)
+	}
+	for f := 0; f < nf; f++ {
+		fn := m.FaceNodes[f]
+		if fn[0] < 0 || int(fn[0]) >= nn || fn[1] < 0 || int(fn[1]) >= nn {
+			return fmt.Errorf("quality: face %d joins nodes %d-%d; nodes run from 0 to %d", f, fn[0], fn[1], nn-1)
+		}
+		if o := m.Owner[f]; o < 0 || int(o) >= nc {
+			return fmt.Errorf("quality: face %d has owner %d; cells run from 0 to %d", f, o, nc-1)
+		}
+		if nb := m.Neighbour[f]; nb < -1 || int(nb) >= nc {
+			return fmt.Errorf("quality: face %d has neighbour %d; it must be -1 (boundary) or a cell 0..%d", f, nb, nc-1)
+		}
+		if t := m.FaceTag[f]; t < -1 || int(t) >= len(m.Tags) {
+			return fmt.Errorf("quality: face %d has tag index %d; there are %d tags", f, t, len(m.Tags))
+		}
+	}
+	g := &m.Geo
+	if len(g.FaceLength) != nf || len(g.FaceNormal) != nf || len(g.FaceMid) != nf || len(g.CellArea) != nc || len(g.CellCentroid) != nc {
+		return fmt.Errorf("quality: derived geometry does not match the mesh (%d faces, %d cells); recompute it with mesh.ComputeGeometry", nf, nc)
+	}
+	return nil
+}
+
+// edgeAt returns the position k in cell nodes idx where the edge a→b
+// starts (idx[k] = a, idx[k+1] = b), or -1.
+func edgeAt(idx []int32, a, b int32) int {
+	n := len(idx)
+	for k, v := range idx {
+		if v == a && idx[(k+1)%n] == b {
+			return k
+		}
+	}
+	return -1
+}
+
+// checkFaces runs the per-face checks: face_cells, orientation,
+// boundary_tag, zero_length_face, and cell_faces through cf.
+func checkFaces(m *mesh.Mesh, cf cellFaces, cn *connectivity) {
+	g := &m.Geo
+	for f := 0; f < m.NumFaces(); f++ {
+		fn := m.FaceNodes[f]
+		a, b := fn[0], fn[1]
+		o, nb := int(m.Owner[f]), int(m.Neighbour[f])
+		mid := g.FaceMid[f]
+		p := Problem{Cell: o, Face: f, Node: -1, X: mid[0], Y: mid[1]}
+		interior := f < m.NumInterior
+		switch {
+		case interior && nb < 0:
+			p.Check = CheckFaceCells
+			p.Message = fmt.Sprintf("face %d (nodes %d-%d) is listed among the interior faces but has only cell %d", f, a, b, o)
+			cn.add(p)
+		case !interior && nb >= 0:
+			p.Check = CheckFaceCells
+			p.Message = fmt.Sprintf("face %d (nodes %d-%d) is listed among the boundary faces but has two cells, %d and %d", f, a, b, o, nb)
+			cn.add(p)
+		case nb == o:
+			p.Check = CheckFaceCells
+			p.Message = fmt.Sprintf("face %d (nodes %d-%d) has cell %d on both sides", f, a, b, o)
+			cn.add(p)
+		}
+		if edgeAt(m.Cell(o), a, b) < 0 {
+			p.Check = CheckFaceCells
+			if edgeAt(m.Cell(o), b, a) >= 0 {
+				p.Check = CheckOrientation
+				p.Message = fmt.Sprintf("face %d runs %d→%d but its owner, cell %d, traverses it %d→%d; the normal would point into the owner", f, a, b, o, b, a)
+			} else {
+				p.Message = fmt.Sprintf("face %d (nodes %d-%d) is not an edge of its owner, cell %d", f, a, b, o)
+			}
+			cn.add(p)
+		}
+		if nb >= 0 && nb != o && edgeAt(m.Cell(nb), b, a) < 0 {
+			q := p
+			q.Cell = nb
+			if edgeAt(m.Cell(nb), a, b) >= 0 {
+				q.Check = CheckOrientation
+				// Name the cell that is turned the wrong way, if one is.
+				if g.CellArea[o] < 0 && g.CellArea[nb] >= 0 {
+					q.Cell = o
+				}
+				q.Message = fmt.Sprintf("cells %d and %d both traverse face %d as %d→%d; neighbouring cells must traverse a shared face in opposite directions (cell %d area %.6g, cell %d area %.6g)",
+					o, nb, f, a, b, o, g.CellArea[o], nb, g.CellArea[nb])
+			} else {
+				q.Check = CheckFaceCells
+				q.Message = fmt.Sprintf("face %d (nodes %d-%d) is not an edge of its neighbour, cell %d", f, a, b, nb)
+			}
+			cn.add(q)
+		}
+		if !interior && nb < 0 && m.FaceTag[f] < 0 {
+			p.Check = CheckBoundaryTag
+			p.Message = fmt.Sprintf("boundary face %d (nodes %d-%d) of cell %d has no tag; an untagged face inside the domain is a crack, a hole or a hanging node", f, a, b, o)
+			cn.add(p)
+		}
+		if g.FaceLength[f] == 0 {
+			p.Check = CheckZeroFace
+			p.Message = fmt.Sprintf("face %d joins nodes %d and %d at the same position", f, a, b)
+			cn.add(p)
+		}
+	}
+	for c := 0; c < m.NumCells(); c++ {
+		have, want := int(cf.start[c+1]-cf.start[c]), len(m.Cell(c))
+		if have == want {
+			continue
+		}
+		cc := g.CellCentroid[c]
+		p := Problem{Check: CheckCellFaces, Cell: c, Face: -1, Node: -1, X: cc[0], Y: cc[1]}
+		if have < want {
+			idx := m.Cell(c)
+			missing := ""
+			for k := range idx {
+				a, b := idx[k], idx[(k+1)%len(idx)]
+				if !cellHasFace(m, cf, c, a, b) {
+					missing += fmt.Sprintf(" %d-%d", a, b)
+				}
+			}
+			p.Message = fmt.Sprintf("cell %d has %d edges but only %d faces; no face for edge(s)%s: a gap in the mesh", c, want, have, missing)
+		} else {
+			p.Message = fmt.Sprintf("cell %d has %d edges but %d faces refer to it", c, want, have)
+		}
+		cn.add(p)
+	}
+}
+
+// cellHasFace reports whether a face of cell c joins nodes a and b.
+func cellHasFace(m *mesh.Mesh, cf cellFaces, c int, a, b int32) bool {
+	for _, f := range cf.faces[cf.start[c]:cf.start[c+1]] {
+		fn := m.FaceNodes[f]
+		if (fn[0] == a && fn[1] == b) || (fn[0] == b && fn[1] == a) {
+			return true
+		}
+	}
+	return false
+}
+
+// nodeCells returns, for each node, the lowest-numbered cell that uses it,
+// or -1 for an unused node.
+func nodeCells(m *mesh.Mesh) []int32 {
+	first := make([]int32, len(m.Nodes))
+	for i := range first {
+		first[i] = -1
+	}
+	for c := m.NumCells() - 1; c >= 0; c-- {
+		for _, v := range m.Cell(c) {
+			first[v] = int32(c)
+		}
+	}
+	return first
+}
+
+// checkNodes runs unused_node and the node balance of watertight: on a
+// closed boundary every node starts as many boundary faces as it ends.
+func checkNodes(m *mesh.Mesh, first []int32, bclosure, tol float64, cn *connectivity) {
+	for v, c := range first {
+		if c < 0 {
+			p := m.Nodes[v]
+			cn.add(Problem{Check: CheckUnused, Cell: -1, Face: -1, Node: v, X: p[0], Y: p[1],
+				Message: fmt.Sprintf("node %d at (%.9g, %.9g) belongs to no cell", v, p[0], p[1])})
+		}
+	}
+	balance := make([]int32, len(m.Nodes))
+	for f := m.NumInterior; f < m.NumFaces(); f++ {
+		fn := m.FaceNodes[f]
+		balance[fn[0]]++
+		balance[fn[1]]--
+	}
+	for v, b := range balance {
+		if b == 0 {
+			continue
+		}
+		p := m.Nodes[v]
+		dir := "starts"
+		if b < 0 {
+			dir, b = "ends", -b
+		}
+		cn.add(Problem{Check: CheckWatertight, Cell: int(first[v]), Face: -1, Node: v, X: p[0], Y: p[1],
+			Message: fmt.Sprintf("the boundary is open at node %d (%.9g, %.9g): it %s %d more boundary face(s) than the other way round", v, p[0], p[1], dir, b)})
+	}
+	if bclosure > tol || math.IsNaN(bclosure) {
+		cn.add(Problem{Check: CheckWatertight, Cell: -1, Face: -1, Node: -1,
+			Message: fmt.Sprintf("the boundary faces do not close: |Σ S n| / Σ S = %.3g, above %.3g", bclosure, tol)})
+	}
+}

@@ -1,0 +1,232 @@
+package quality
+
+import (
+	"fmt"
+	"math"
+	"math/bits"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/mesh"
+)
+
+// gridHash buckets points on a uniform grid of square buckets of side size,
+// in an open-addressing table keyed by the bucket's (i, j), each slot
+// holding a chain of point indices in increasing order. Building is linear
+// and a look-up touches one bucket, so proximity queries on n points cost
+// O(n) rather than O(n²).
+type gridHash struct {
+	x0, y0, size float64
+	mask         uint64
+	slotKey      [][2]int64
+	slotHead     []int32
+	next         []int32 // chain: next point in the same bucket, -1 at the end
+}
+
+// maxBuckets bounds the grid extent in buckets along an axis, so that bucket
+// indices stay exact in float64 and int64.
+const maxBuckets = 1 << 50
+
+// newGridHash prepares a hash for count items over the box lo..hi with the
+// given bucket size, enlarged if the box would span more than maxBuckets.
+func newGridHash(lo, hi orb.Point, size float64, count int) *gridHash {
+	ext := max(hi[0]-lo[0], hi[1]-lo[1])
+	if !(size > 0) || ext/size > maxBuckets {
+		size = max(ext/maxBuckets, math.SmallestNonzeroFloat64)
+	}
+	nslots := 1 << bits.Len(uint(2*count+1))
+	h := &gridHash{x0: lo[0], y0: lo[1], size: size, mask: uint64(nslots - 1),
+		slotKey: make([][2]int64, nslots), slotHead: make([]int32, nslots)}
+	for i := range h.slotHead {
+		h.slotHead[i] = -1
+	}
+	return h
+}
+
+func (h *gridHash) key(p orb.Point) [2]int64 {
+	return [2]int64{int64(math.Floor((p[0] - h.x0) / h.size)), int64(math.Floor((p[1] - h.y0) / h.size))}
+}
+
+// slot returns the table slot of key k: the slot holding k, or the empty
+// slot where k belongs.
+func (h *gridHash) slot(k [2]int64) int {
+	s := (uint64(k[0])*0x9E3779B97F4A7C15 ^ uint64(k[1])*0xC2B2AE3D27D4EB4F)
+	s ^= s >> 29
+	for i := s & h.mask; ; i = (i + 1) & h.mask {
+		if h.slotHead[i] < 0 || h.slotKey[i] == k {
+			return int(i)
+		}
+	}
+}
+
+// bucket returns the first item in bucket k, or -1.
+func (h *gridHash) bucket(k [2]int64) int32 {
+	return h.slotHead[h.slot(k)]
+}
+
+// findDuplicates reports every pair of nodes closer than tol, each pair once
+// from its lower node. Nodes are hashed in buckets of 16·tol; a node within
+// tol of a bucket side also looks in the bucket beyond it.
+func findDuplicates(m *mesh.Mesh, first []int32, tol float64, cn *connectivity) {
+	nn := len(m.Nodes)
+	if nn == 0 || !(tol > 0) {
+		return
+	}
+	lo, hi := bounds(m.Nodes)
+	h := newGridHash(lo, hi, 16*tol, nn)
+	h.next = make([]int32, nn)
+	keys := make([][2]int64, nn)
+	// Insert in decreasing order so every chain runs in increasing order.
+	for v := nn - 1; v >= 0; v-- {
+		k := h.key(m.Nodes[v])
+		keys[v] = k
+		s := h.slot(k)
+		h.slotKey[s] = k
+		h.next[v] = h.slotHead[s]
+		h.slotHead[s] = int32(v)
+	}
+	for v := 0; v < nn; v++ {
+		p, k := m.Nodes[v], keys[v]
+		fx := (p[0]-h.x0)/h.size - float64(k[0])
+		fy := (p[1]-h.y0)/h.size - float64(k[1])
+		r := tol / h.size
+		di0, di1, dj0, dj1 := int64(0), int64(0), int64(0), int64(0)
+		if fx < r {
+			di0 = -1
+		}
+		if fx > 1-r {
+			di1 = 1
+		}
+		if fy < r {
+			dj0 = -1
+		}
+		if fy > 1-r {
+			dj1 = 1
+		}
+		for di := di0; di <= di1; di++ {
+			for dj := dj0; dj <= dj1; dj++ {
+				for w := h.bucket([2]int64{k[0] + di, k[1] + dj}); w >= 0; w = h.next[w] {
+					if int(w) <= v {
+						continue
+					}
+					q := m.Nodes[w]
+					if d := math.Hypot(q[0]-p[0], q[1]-p[1]); d < tol {
+						cn.add(Problem{Check: CheckDuplicate, Cell: int(first[w]), Face: -1, Node: int(w), X: q[0], Y: q[1],
+							Message: fmt.Sprintf("node %d (cell %d) and node %d (cell %d) are %.3g apart at (%.9g, %.9g), closer than the tolerance %.3g: they should be one node",
+								v, first[v], w, first[w], d, p[0], p[1], tol)})
+					}
+				}
+			}
+		}
+	}
+}
+
+// findHanging reports boundary nodes that lie inside another boundary face:
+// the node of a cell that splits the face of its neighbour. Such a face is a
+// boundary face inside the domain. A node lies inside face a→b when its
+// parameter along the face is in (ε, 1 − ε) and its distance from the face
+// line is at most ε|b − a|, with ε = relTol.
+//
+// Boundary faces are hashed into the buckets they pass through, with
+// buckets the size of the mean boundary face, so each node looks in one
+// bucket.
+func findHanging(m *mesh.Mesh, relTol float64, cn *connectivity) {
+	nb := m.NumBoundary()
+	if nb == 0 {
+		return
+	}
+	isB := make([]bool, len(m.Nodes))
+	var total float64
+	lo := orb.Point{math.Inf(1), math.Inf(1)}
+	hi := orb.Point{math.Inf(-1), math.Inf(-1)}
+	for f := m.NumInterior; f < m.NumFaces(); f++ {
+		for _, v := range m.FaceNodes[f] {
+			isB[v] = true
+			p := m.Nodes[v]
+			lo = orb.Point{min(lo[0], p[0]), min(lo[1], p[1])}
+			hi = orb.Point{max(hi[0], p[0]), max(hi[1], p[1])}
+		}
+		total += m.Geo.FaceLength[f]
+	}
+	size := total / float64(nb)
+	// Each face is cut into pieces no longer than a bucket, and each piece
+	// goes into the buckets of its bounding box widened by the distance
+	// tolerance (at most 3×3): at most 9(total/size + nb) = 18 nb entries.
+	h := newGridHash(lo, hi, size, 18*nb)
+	size = h.size
+	// Entries are (face, next entry) pairs, appended in face order so each
+	// chain lists faces in increasing order.
+	entFace := make([]int32, 0, 8*nb)
+	entNext := make([]int32, 0, 8*nb)
+	tail := make([]int32, len(h.slotHead))
+	for f := m.NumInterior; f < m.NumFaces(); f++ {
+		fn := m.FaceNodes[f]
+		a, b := m.Nodes[fn[0]], m.Nodes[fn[1]]
+		pieces := max(1, int(math.Ceil(m.Geo.FaceLength[f]/size)))
+		for k := 0; k < pieces; k++ {
+			s0, s1 := float64(k)/float64(pieces), float64(k+1)/float64(pieces)
+			p0 := orb.Point{a[0] + s0*(b[0]-a[0]), a[1] + s0*(b[1]-a[1])}
+			p1 := orb.Point{a[0] + s1*(b[0]-a[0]), a[1] + s1*(b[1]-a[1])}
+			r := relTol * m.Geo.FaceLength[f] // reach of the distance test
+			ka := h.key(orb.Point{min(p0[0], p1[0]) - r, min(p0[1], p1[1]) - r})
+			kb := h.key(orb.Point{max(p0[0], p1[0]) + r, max(p0[1], p1[1]) + r})
+			for i := ka[0]; i <= kb[0]; i++ {
+				for j := ka[1]; j <= kb[1]; j++ {
+					k := [2]int64{i, j}
+					s := h.slot(k)
+					if h.slotHead[s] >= 0 && entFace[tail[s]] == int32(f) {
+						continue // already listed from the previous piece
+					}
+					e := int32(len(entFace))
+					entFace = append(entFace, int32(f))
+					entNext = append(entNext, -1)
+					if h.slotHead[s] < 0 {
+						h.slotKey[s] = k
+						h.slotHead[s] = e
+					} else {
+						entNext[tail[s]] = e
+					}
+					tail[s] = e
+				}
+			}
+		}
+	}
+	for v, ok := range isB {
+		if !ok {
+			continue
+		}
+		p := m.Nodes[v]
+		for e := h.bucket(h.key(p)); e >= 0; e = entNext[e] {
+			f := int(entFace[e])
+			fn := m.FaceNodes[f]
+			if fn[0] == int32(v) || fn[1] == int32(v) {
+				continue
+			}
+			a, b := m.Nodes[fn[0]], m.Nodes[fn[1]]
+			ex, ey := b[0]-a[0], b[1]-a[1]
+			l2 := ex*ex + ey*ey
+			if l2 == 0 {
+				continue
+			}
+			px, py := p[0]-a[0], p[1]-a[1]
+			t := (px*ex + py*ey) / l2
+			dist := math.Abs(px*ey-py*ex) / math.Sqrt(l2)
+			if t > relTol && t < 1-relTol && dist <= relTol*math.Sqrt(l2) {
+				cn.add(Problem{Check: CheckHanging, Cell: int(m.Owner[f]), Face: f, Node: v, X: p[0], Y: p[1],
+					Message: fmt.Sprintf("node %d at (%.9g, %.9g) lies inside face %d (nodes %d-%d) of cell %d without being one of its nodes: a hanging node; split that face at the node",
+						v, p[0], p[1], f, fn[0], fn[1], m.Owner[f])})
+			}
+		}
+	}
+}
+
+// bounds returns the bounding box of the points.
+func bounds(pts []orb.Point) (lo, hi orb.Point) {
+	lo = orb.Point{math.Inf(1), math.Inf(1)}
+	hi = orb.Point{math.Inf(-1), math.Inf(-1)}
+	for _, p := range pts {
+		lo = orb.Point{min(lo[0], p[0]), min(lo[1], p[1])}
+		hi = orb.Point{max(hi[0], p[0]), max(hi[1], p[1])}
+	}
+	return lo, hi
+}

@@ -1,0 +1,315 @@
+package quality
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+
+	"gopkg.in/yaml.v3"
+)
+
+// Bound is the pair of thresholds of one metric. For a metric where larger
+// is worse a value above Warn warns and above Fail fails; for one where
+// smaller is worse (area, face length, minimum angle, scaled Jacobian) a
+// value below Warn warns and below Fail fails.
+type Bound struct {
+	Warn float64 `json:"warn" yaml:"warn"`
+	Fail float64 `json:"fail" yaml:"fail"`
+}
+
+// Limits are the thresholds that turn metrics into pass / warn / fail. Get
+// one from Profile and adjust it with a Patch.
+type Limits struct {
+	// Profile is the name of the profile these limits started from.
+	Profile string
+
+	Area              Bound // m², lower; a non-positive area always fails
+	FaceLength        Bound // m, signed, lower; a non-positive length always fails
+	AspectRatio       Bound
+	MinAngle          Bound // degrees, lower
+	MaxAngle          Bound // degrees
+	EquiangleSkewness Bound
+	ScaledJacobian    Bound // lower, quadrilaterals only
+	NonOrthogonality  Bound // degrees
+	Skewness          Bound
+	Growth            Bound
+	Closure           Bound // also the bound of the watertight boundary sum
+	FreeStream        Bound
+	GradientError     Bound
+	DualClosure       Bound
+
+	// DuplicateTolerance: two nodes closer than DuplicateTolerance times
+	// the shortest non-zero face length of the mesh are duplicates.
+	DuplicateTolerance float64
+	// HangingTolerance: a node within HangingTolerance × |face| of a
+	// boundary face's line, and more than that fraction from its ends, hangs
+	// on the face.
+	HangingTolerance float64
+	// WorstCells is how many of the worst cells the report lists per metric.
+	WorstCells int
+	// MaxProblems is how many defects the report lists per connectivity
+	// check (all are counted).
+	MaxProblems int
+}
+
+// profiles are the named limit sets. Every threshold is common practice
+// for cell-centred finite-volume solvers, chosen by us: "everyday" suits
+// meshes with boundary layers (high aspect ratios and needle cells are
+// allowed, caps, folds and broken conservation are not); "tight" suits
+// isotropic meshes for inviscid or scale-resolving runs; "tolerant" only
+// fails cells that a solver cannot use at all.
+var profiles = map[string]Limits{
+	"everyday": {
+		Area: Bound{0, 0}, FaceLength: Bound{0, 0},
+		AspectRatio: Bound{1e3, 1e5},
+		MinAngle:    Bound{1, 1e-3}, MaxAngle: Bound{160, 179},
+		EquiangleSkewness: Bound{0.9, 1}, ScaledJacobian: Bound{0.2, 1e-3},
+		NonOrthogonality: Bound{70, 85}, Skewness: Bound{0.5, 1},
+		Growth:  Bound{3, 20},
+		Closure: Bound{1e-12, 1e-9}, FreeStream: Bound{1e-12, 1e-9},
+		GradientError: Bound{0.5, 2}, DualClosure: Bound{1e-12, 1e-9},
+		DuplicateTolerance: 1e-3, HangingTolerance: 1e-6, WorstCells: 5, MaxProblems: 20,
+	},
+	"tight": {
+		Area: Bound{0, 0}, FaceLength: Bound{0, 0},
+		AspectRatio: Bound{10, 100},
+		MinAngle:    Bound{20, 5}, MaxAngle: Bound{120, 150},
+		EquiangleSkewness: Bound{0.5, 0.8}, ScaledJacobian: Bound{0.5, 0.2},
+		NonOrthogonality: Bound{45, 70}, Skewness: Bound{0.2, 0.5},
+		Growth:  Bound{1.5, 3},
+		Closure: Bound{1e-14, 1e-12}, FreeStream: Bound{1e-14, 1e-12},
+		GradientError: Bound{0.1, 0.5}, DualClosure: Bound{1e-14, 1e-12},
+		DuplicateTolerance: 1e-2, HangingTolerance: 1e-6, WorstCells: 10, MaxProblems: 50,
+	},
+	"tolerant": {
+		Area: Bound{0, 0}, FaceLength: Bound{0, 0},
+		AspectRatio: Bound{1e4, 1e7},
+		MinAngle:    Bound{0.1, 1e-5}, MaxAngle: Bound{170, 179.9},
+		EquiangleSkewness: Bound{0.98, 1}, ScaledJacobian: Bound{0.05, 0},
+		NonOrthogonality: Bound{80, 89}, Skewness: Bound{1, 5},
+		Growth:  Bound{10, 100},
+		Closure: Bound{1e-10, 1e-6}, FreeStream: Bound{1e-10, 1e-6},
+		GradientError: Bound{1, 5}, DualClosure: Bound{1e-10, 1e-6},
+		DuplicateTolerance: 1e-4, HangingTolerance: 1e-6, WorstCells: 5, MaxProblems: 20,
+	},
+}
+
+// DefaultProfile is the profile used when none is named.
+const DefaultProfile = "everyday"
+
+// ProfileNames returns the names of the limit profiles, sorted.
+func ProfileNames() []string { return []string{"everyday", "tight", "tolerant"} }
+
+// Profile returns the named limit profile.
+func Profile(name string) (Limits, error) {
+	l, ok := profiles[name]
+	if !ok {
+		return Limits{}, fmt.Errorf("quality: no limit profile %q; profiles are %s", name, strings.Join(ProfileNames(), ", "))
+	}
+	l.Profile = name
+	return l, nil
+}
+
+// Patch is a set of changes to a Limits value, read from YAML by
+// DecodePatch or LoadPatch and applied with Apply. The YAML form is a
+// mapping whose keys are optional:
+//
+//	profile: tight              # the profile to start from (Resolve)
+//	non_orthogonality: {warn: 60, fail: 80}
+//	skewness: {fail: 0.8}       # either threshold alone
+//	duplicate_tolerance: 1e-4
+//	hanging_tolerance: 1e-6
+//	worst_cells: 8
+//	max_problems: 30
+//
+// Metric keys are the metric names of the report (MetricNames). Unknown
+// keys are errors that give the file, line and column.
+type Patch struct {
+	// Profile names the profile to start from, "" to keep the base.
+	Profile string
+	entries []patchEntry
+}
+
+type patchEntry struct {
+	key        string
+	warn, fail *float64
+	value      float64
+	pos        string // "file:line:col" of the key
+}
+
+// scalarKeys are the non-metric keys of a patch.
+var scalarKeys = []string{"duplicate_tolerance", "hanging_tolerance", "worst_cells", "max_problems"}
+
+// LoadPatch reads a limits file (see Patch).
+func LoadPatch(path string) (Patch, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return Patch{}, fmt.Errorf("quality: reading limits: %w", err)
+	}
+	var doc yaml.Node
+	if err := yaml.Unmarshal(data, &doc); err != nil {
+		return Patch{}, fmt.Errorf("quality: %s: %w", path, err)
+	}
+	if len(doc.Content) == 0 {
+		return Patch{}, nil
+	}
+	return DecodePatch(doc.Content[0], path)
+}
+
+// DecodePatch reads a Patch from a YAML mapping node, such as the limits
+// section of a case file; file names the source in error messages.
+func DecodePatch(n *yaml.Node, file string) (Patch, error) {
+	var p Patch
+	at := func(n *yaml.Node) string { return fmt.Sprintf("%s:%d:%d", file, n.Line, n.Column) }
+	if n.Kind == yaml.DocumentNode && len(n.Content) > 0 {
+		n = n.Content[0]
+	}
+	if n.Kind != yaml.MappingNode {
+		return p, fmt.Errorf("%s: limits must be a mapping of metric names to {warn, fail}", at(n))
+	}
+	seen := map[string]bool{}
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		k, v := n.Content[i], n.Content[i+1]
+		key := k.Value
+		if seen[key] {
+			return p, fmt.Errorf("%s: key %q given twice", at(k), key)
+		}
+		seen[key] = true
+		e := patchEntry{key: key, pos: at(k)}
+		switch {
+		case key == "profile":
+			if _, ok := profiles[v.Value]; !ok || v.Kind != yaml.ScalarNode {
+				return p, fmt.Errorf("%s: no limit profile %q; profiles are %s", at(v), v.Value, strings.Join(ProfileNames(), ", "))
+			}
+			p.Profile = v.Value
+			continue
+		case isScalarKey(key):
+			x, err := number(v, at)
+			if err != nil {
+				return p, err
+			}
+			e.value = x
+		case metricByName(key) != nil:
+			if v.Kind != yaml.MappingNode {
+				return p, fmt.Errorf("%s: %s must be a mapping {warn: ..., fail: ...}", at(v), key)
+			}
+			for j := 0; j+1 < len(v.Content); j += 2 {
+				bk, bv := v.Content[j], v.Content[j+1]
+				x, err := number(bv, at)
+				if err != nil {
+					return p, err
+				}
+				switch bk.Value {
+				case "warn":
+					e.warn = &x
+				case "fail":
+					e.fail = &x
+				default:
+					return p, fmt.Errorf("%s: unknown key %q in %s; valid keys are warn, fail", at(bk), bk.Value, key)
+				}
+			}
+		default:
+			return p, fmt.Errorf("%s: unknown key %q; valid keys are profile, %s, %s", at(k), key, strings.Join(MetricNames(), ", "), strings.Join(scalarKeys, ", "))
+		}
+		p.entries = append(p.entries, e)
+	}
+	return p, nil
+}
+
+func isScalarKey(k string) bool {
+	for _, s := range scalarKeys {
+		if s == k {
+			return true
+		}
+	}
+	return false
+}
+
+// number reads a finite float from a scalar node.
+func number(v *yaml.Node, at func(*yaml.Node) string) (float64, error) {
+	if v.Kind != yaml.ScalarNode {
+		return 0, fmt.Errorf("%s: expected a number", at(v))
+	}
+	x, err := strconv.ParseFloat(v.Value, 64)
+	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
+		return 0, fmt.Errorf("%s: %q is not a finite number", at(v), v.Value)
+	}
+	return x, nil
+}
+
+// Apply returns base with the patch's changes made, in the order they were
+// written, and checks the result: a warn threshold must not be worse than
+// the fail threshold, tolerances must be positive and counts whole and
+// non-negative. Errors give the position of the offending key. Apply does
+// not change the profile; see Resolve.
+func (p Patch) Apply(base Limits) (Limits, error) {
+	l := base
+	for _, e := range p.entries {
+		if md := metricByName(e.key); md != nil {
+			b := md.bound(&l)
+			if e.warn != nil {
+				b.Warn = *e.warn
+			}
+			if e.fail != nil {
+				b.Fail = *e.fail
+			}
+			if (md.lower && b.Warn < b.Fail) || (!md.lower && b.Warn > b.Fail) {
+				worse := "above"
+				if md.lower {
+					worse = "below"
+				}
+				return base, fmt.Errorf("%s: %s warn %g is %s fail %g; a warning must come before failure", e.pos, e.key, b.Warn, worse, b.Fail)
+			}
+			continue
+		}
+		switch e.key {
+		case "duplicate_tolerance", "hanging_tolerance":
+			if !(e.value > 0) || e.value >= 0.5 {
+				return base, fmt.Errorf("%s: %s = %g; it must lie in (0, 0.5)", e.pos, e.key, e.value)
+			}
+			if e.key == "duplicate_tolerance" {
+				l.DuplicateTolerance = e.value
+			} else {
+				l.HangingTolerance = e.value
+			}
+		case "worst_cells", "max_problems":
+			if e.value < 0 || e.value != math.Trunc(e.value) || e.value > 1e6 {
+				return base, fmt.Errorf("%s: %s = %g; it must be a whole number from 0 to 1000000", e.pos, e.key, e.value)
+			}
+			if e.key == "worst_cells" {
+				l.WorstCells = int(e.value)
+			} else {
+				l.MaxProblems = int(e.value)
+			}
+		}
+	}
+	return l, nil
+}
+
+// Resolve builds the limits of a run: the profile named by the last patch
+// that names one (else DefaultProfile), then every patch applied in order,
+// for example the case file's limits and then a --limits file.
+func Resolve(patches ...Patch) (Limits, error) {
+	name := DefaultProfile
+	for _, p := range patches {
+		if p.Profile != "" {
+			name = p.Profile
+		}
+	}
+	l, err := Profile(name)
+	if err != nil {
+		return Limits{}, err
+	}
+	for _, p := range patches {
+		if l, err = p.Apply(l); err != nil {
+			return Limits{}, fmt.Errorf("quality: %w", err)
+		}
+	}
+	return l, nil
+}
+
+// errNoLimits is returned by Evaluate for a zero Limits value.
+var errNoLimits = errors.New("quality: limits are empty; start from quality.Profile or quality.Resolve")

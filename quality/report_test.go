@@ -1,0 +1,117 @@
+package quality
+
+import (
+	"bytes"
+	"encoding/json"
+	"runtime"
+	"strings"
+	"testing"
+
+	"github.com/paulmach/orb"
+)
+
+// The JSON and text reports are the same bytes whether the loops run on one
+// goroutine or several; the mesh spans several chunks so that the split
+// matters.
+func TestReportDeterministic(t *testing.T) {
+	m := build(t, gridNodes(300, 150, orb.Point{0, 0}, orb.Point{0.01, 0}, orb.Point{0, 0.01}, 0.45), quadCells(300, 150, true), true)
+	if m.NumCells() < 2*chunk {
+		t.Fatalf("mesh of %d cells spans too few chunks", m.NumCells())
+	}
+	run := func(procs int) (string, string) {
+		old := runtime.GOMAXPROCS(procs)
+		defer runtime.GOMAXPROCS(old)
+		r := evaluate(t, m)
+		var j, x bytes.Buffer
+		if err := WriteJSON(&j, r); err != nil {
+			t.Fatal(err)
+		}
+		if err := WriteText(&x, r); err != nil {
+			t.Fatal(err)
+		}
+		return j.String(), x.String()
+	}
+	j1, x1 := run(1)
+	j4, x4 := run(4)
+	if j1 != j4 || x1 != x4 {
+		t.Error("report differs between 1 and 4 goroutines")
+	}
+	var back map[string]any
+	if err := json.Unmarshal([]byte(j1), &back); err != nil {
+		t.Fatalf("JSON does not parse: %v", err)
+	}
+	for _, key := range []string{"verdict", "metrics", "audit", "connectivity", "failed_cells", "duplicate_distance"} {
+		if _, ok := back[key]; !ok {
+			t.Errorf("JSON lacks %q", key)
+		}
+	}
+}
+
+// The fields for cell data have one value per cell, in report order, and
+// the worst lists agree with them.
+func TestFieldsAndWorst(t *testing.T) {
+	m := build(t, gridNodes(30, 20, orb.Point{0, 0}, orb.Point{0.1, 0}, orb.Point{0, 0.1}, 0.4), quadCells(30, 20, false), true)
+	r := evaluate(t, m)
+	var names []string
+	for _, f := range r.CellFields {
+		names = append(names, f.Name)
+		if len(f.Values) != m.NumCells() {
+			t.Errorf("field %s has %d values for %d cells", f.Name, len(f.Values), m.NumCells())
+		}
+	}
+	want := "area face_length aspect_ratio min_angle max_angle equiangle_skewness scaled_jacobian non_orthogonality skewness growth closure free_stream gradient_error status defects"
+	if got := strings.Join(names, " "); got != want {
+		t.Errorf("cell fields %q", got)
+	}
+	s, _ := r.Metric("non_orthogonality")
+	v := field(t, r, "non_orthogonality")
+	for i, w := range s.Worst {
+		if float64(w.Value) != v[w.Index] || (i > 0 && float64(w.Value) > float64(s.Worst[i-1].Value)) {
+			t.Errorf("worst %d: %+v (field %g)", i, w, v[w.Index])
+		}
+		c := m.Geo.CellCentroid[w.Index]
+		if w.X != c[0] || w.Y != c[1] {
+			t.Errorf("worst %d at (%g, %g), centroid %v", i, w.X, w.Y, c)
+		}
+	}
+	for _, x := range v {
+		if x > float64(s.Worst[len(s.Worst)-1].Value) && !containsValue(s.Worst, x) {
+			t.Errorf("value %g beats the worst list", x)
+		}
+	}
+}
+
+func containsValue(l []Located, x float64) bool {
+	for _, w := range l {
+		if float64(w.Value) == x {
+			return true
+		}
+	}
+	return false
+}
+
+// The text table shows every metric, the verdict and the named defects.
+func TestWriteText(t *testing.T) {
+	nodes := []orb.Point{{0, 0}, {1, 0}, {1, 1}, {0, 1}, {1, 0}, {2, 0}, {2, 1}, {1, 1}}
+	r := evaluate(t, build(t, nodes, [][]int32{{0, 1, 2, 3}, {4, 5, 6, 7}}, true))
+	var b bytes.Buffer
+	if err := WriteText(&b, r); err != nil {
+		t.Fatal(err)
+	}
+	out := b.String()
+	for _, want := range []string{"FAIL", "non_orthogonality", "dual_closure (nodes)", "duplicate_node", "node 1 (cell 0) and node 4 (cell 1)", "≤ 0"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text report lacks %q:\n%s", want, out)
+		}
+	}
+}
+
+// Non-finite values become null in JSON rather than breaking the encoder.
+func TestNumberJSON(t *testing.T) {
+	b, err := json.Marshal([]Number{1.5, Number(posInf()), 0})
+	if err != nil || string(b) != "[1.5,null,0]" {
+		t.Errorf("%s %v", b, err)
+	}
+}
+
+func posInf() float64 { x := 0.0; return 1 / x }

@@ -1,0 +1,167 @@
+package quality
+
+import (
+	"math"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/mesh"
+)
+
+// shapeFields holds the per-cell shape metrics.
+type shapeFields struct {
+	aspect, minAngle, maxAngle, equiangle, jacobian []float64
+}
+
+const rad2deg = 180 / math.Pi
+
+// computeShape fills the shape metrics of every cell; see cellShape.
+func computeShape(m *mesh.Mesh) shapeFields {
+	nc := m.NumCells()
+	s := shapeFields{
+		aspect:    make([]float64, nc),
+		minAngle:  make([]float64, nc),
+		maxAngle:  make([]float64, nc),
+		equiangle: make([]float64, nc),
+		jacobian:  make([]float64, nc),
+	}
+	forChunks(nc, func(lo, hi int) {
+		var buf []float64
+		for c := lo; c < hi; c++ {
+			var sh cellShape
+			buf = sh.compute(m.Nodes, m.Cell(c), m.Geo.CellArea[c], buf)
+			s.aspect[c], s.minAngle[c], s.maxAngle[c] = sh.aspect, sh.minAngle, sh.maxAngle
+			s.equiangle[c], s.jacobian[c] = sh.equiangle, sh.jacobian
+		}
+	})
+	return s
+}
+
+// cellShape is the shape of one cell.
+//
+// Interior angles. At corner k, with u = p_{k−1} − p_k and v = p_{k+1} − p_k,
+// the interior angle of a counter-clockwise cell is
+// θ_k = atan2(v × u, v · u) taken in [0°, 360°): a reflex corner gives more
+// than 180°, an inverted cell gives angles above 180° at its corners. atan2
+// of the cross and dot products keeps its accuracy at angles near 0° and
+// 180°, where acos of a cosine loses half the digits (common practice, see
+// Kahan, "How futile are mindless assessments of roundoff", 2006, on
+// needle-like triangles; from memory). Corners are ranked by a monotone key
+// of the cosine, so atan2 is evaluated only for the smallest and largest.
+// A corner with a zero-length edge counts as 0°.
+//
+// Equiangle skewness: max((θmax − θe)/(180° − θe), (θe − θmin)/θe), with
+// θe = 180°(n − 2)/n the angle of the regular n-gon (60° triangles, 90°
+// quadrilaterals); 0 for a regular cell, 1 for a degenerate one, above 1
+// for a reflex corner (common practice).
+//
+// Aspect ratio. Triangles: l_max (l_0 + l_1 + l_2) / (4√3 A), the longest
+// edge over 2√3 times the inradius r = 2A/(l_0+l_1+l_2), which is 1 for the
+// equilateral triangle and grows without bound for needles and slivers
+// (Pébay and Baker 2003, Math. Comp. 72, "Analysis of triangle quality
+// measures"; from memory). Quadrilaterals: the ratio of the larger to the
+// smaller sum of opposite edges, max(l_0+l_2, l_1+l_3)/min(l_0+l_2, l_1+l_3),
+// the cell's extent in its two grid directions (common practice). Other
+// polygons: longest over shortest edge (common practice). A cell with zero
+// or negative area, or a zero-length edge, has aspect ratio +Inf.
+//
+// Scaled Jacobian (quadrilaterals only, NaN for other cells): at each
+// corner (v × u)/(|v||u|), the sine of the corner angle, which is the
+// Jacobian of the bilinear map at that corner divided by the lengths of its
+// two edges; the minimum over the four corners. 1 for a rectangle, 0 for a
+// degenerate corner, negative for an inverted or reflex one (Knupp 2000,
+// "Achieving finite element mesh quality via optimization of the Jacobian
+// matrix norm and associated quantities", Int. J. Numer. Meth. Engng 48;
+// from memory).
+//
+// All edge vectors are differences of node positions, so every quantity is
+// invariant to a shift of the mesh and keeps its digits far from the origin.
+type cellShape struct {
+	aspect, minAngle, maxAngle, equiangle, jacobian float64
+}
+
+// compute fills s for the cell with nodes idx and signed area area. buf is
+// scratch space, returned (perhaps grown) for reuse.
+func (s *cellShape) compute(nodes []orb.Point, idx []int32, area float64, buf []float64) []float64 {
+	n := len(idx)
+	if cap(buf) < 3*n {
+		buf = make([]float64, 3*n)
+	}
+	ex, ey, el := buf[:n], buf[n:2*n], buf[2*n:3*n]
+	lmin, lmax := math.Inf(1), 0.0
+	perim := 0.0
+	for k := 0; k < n; k++ {
+		a, b := nodes[idx[k]], nodes[idx[(k+1)%n]]
+		dx, dy := b[0]-a[0], b[1]-a[1]
+		l := math.Sqrt(dx*dx + dy*dy)
+		ex[k], ey[k], el[k] = dx, dy, l
+		lmin, lmax = min(lmin, l), max(lmax, l)
+		perim += l
+	}
+
+	// Rank corners by key: 1 − cos θ on [0°, 180°], 3 + cos θ beyond.
+	kmin, kmax := math.Inf(1), math.Inf(-1)
+	var cmin, cmax [2]float64 // (cross, dot) of the extreme corners
+	jac := math.Inf(1)
+	for k := 0; k < n; k++ {
+		p := (k + n - 1) % n
+		vx, vy := ex[k], ey[k]
+		ux, uy := -ex[p], -ey[p]
+		cr := vx*uy - vy*ux
+		dt := vx*ux + vy*uy
+		ll := el[k] * el[p]
+		var key float64
+		if ll == 0 {
+			cr, dt, key = 0, 1, 0
+		} else if cos := dt / ll; cr >= 0 {
+			key = 1 - cos
+		} else {
+			key = 3 + cos
+		}
+		if key < kmin {
+			kmin, cmin = key, [2]float64{cr, dt}
+		}
+		if key > kmax {
+			kmax, cmax = key, [2]float64{cr, dt}
+		}
+		if n == 4 {
+			if ll == 0 {
+				jac = min(jac, 0)
+			} else {
+				jac = min(jac, cr/ll)
+			}
+		}
+	}
+	s.minAngle = cornerAngle(cmin)
+	s.maxAngle = cornerAngle(cmax)
+	te := 180 * float64(n-2) / float64(n)
+	s.equiangle = max((s.maxAngle-te)/(180-te), (te-s.minAngle)/te)
+	if n == 4 {
+		s.jacobian = jac
+	} else {
+		s.jacobian = math.NaN()
+	}
+
+	switch {
+	case area <= 0 || lmin == 0:
+		s.aspect = math.Inf(1)
+	case n == 3:
+		s.aspect = lmax * perim / (4 * math.Sqrt(3) * area)
+	case n == 4:
+		a, b := el[0]+el[2], el[1]+el[3]
+		s.aspect = max(a, b) / min(a, b)
+	default:
+		s.aspect = lmax / lmin
+	}
+	return buf
+}
+
+// cornerAngle returns the interior angle in degrees, in [0, 360), of a
+// corner given its (cross, dot) pair.
+func cornerAngle(cd [2]float64) float64 {
+	a := math.Atan2(cd[0], cd[1]) * rad2deg
+	if a < 0 {
+		a += 360
+	}
+	return a
+}

@@ -1,0 +1,117 @@
+package quality
+
+import (
+	"bufio"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+)
+
+// WriteText writes the report as a plain-text table for a terminal: a
+// verdict line, one row per metric (min, mean, max, the warn and fail
+// thresholds, and how many cells pass each), the audit, the connectivity
+// checks with the defects they found, and the worst cells of every metric
+// that has any past its warn threshold.
+func WriteText(w io.Writer, r *Report) error {
+	b := bufio.NewWriter(w)
+	verdict := map[Status]string{Pass: "PASS", Warn: "PASS with warnings", Fail: "FAIL"}[r.Verdict]
+	fmt.Fprintf(b, "cvdeck mesh check: %s   (limits %q)\n", verdict, r.Profile)
+	fmt.Fprintf(b, "%d cells, %d faces (%d on the boundary), %d nodes; %d cells fail, %d warn; %d nodes fail\n\n",
+		r.Cells, r.Faces, r.BoundaryFaces, r.Nodes, r.FailedCells, r.WarnedCells, r.FailedNodes)
+
+	const row = "%-20s %-4s %11s %11s %11s   %-21s %7s %7s\n"
+	fmt.Fprintf(b, row, "metric", "unit", "min", "mean", "max", "warn / fail", "warned", "failed")
+	fmt.Fprintln(b, strings.Repeat("-", 101))
+	for _, s := range r.Metrics {
+		lim := limitText(s)
+		name := s.Name
+		if s.Per == "node" {
+			name += " (nodes)"
+		}
+		fmt.Fprintf(b, row, name, s.Unit, num(float64(s.Min)), num(float64(s.Mean)), num(float64(s.Max)), lim,
+			fmt.Sprint(s.Warned), fmt.Sprint(s.Failed))
+	}
+
+	a := r.Audit
+	fmt.Fprintf(b, "\nconservation audit\n")
+	fmt.Fprintf(b, "  boundary  |Σ S n| / Σ |S| over all boundary faces    %s\n", num(float64(a.BoundaryClosure)))
+	fmt.Fprintf(b, "  cells     closure max %s; free-stream max %s, rms %s; Green–Gauss error max %s\n",
+		num(float64(a.ClosureMax)), num(float64(a.FreeStreamMax)), num(float64(a.FreeStreamRMS)), num(float64(a.GradientMax)))
+	fmt.Fprintf(b, "  nodes     median-dual closure max %s\n", num(float64(a.DualClosureMax)))
+
+	fmt.Fprintf(b, "\nconnectivity\n")
+	for _, c := range r.Connectivity {
+		if c.Count == 0 {
+			fmt.Fprintf(b, "  %-18s ok\n", c.Name)
+			continue
+		}
+		fmt.Fprintf(b, "  %-18s %d defect(s)\n", c.Name, c.Count)
+		for _, p := range c.Problems {
+			fmt.Fprintf(b, "      %s\n", p.Message)
+		}
+		if c.Count > len(c.Problems) {
+			fmt.Fprintf(b, "      ... and %d more\n", c.Count-len(c.Problems))
+		}
+	}
+
+	header := false
+	for _, s := range r.Metrics {
+		if s.Warned+s.Failed == 0 {
+			continue
+		}
+		if !header {
+			fmt.Fprintf(b, "\nworst cells (index at centroid: value)\n")
+			header = true
+		}
+		what := "cell"
+		if s.Per == "node" {
+			what = "node"
+		}
+		fmt.Fprintf(b, "  %s\n", s.Name)
+		for _, l := range s.Worst {
+			fmt.Fprintf(b, "      %s %d at (%.6g, %.6g): %s\n", what, l.Index, l.X, l.Y, num(float64(l.Value)))
+		}
+	}
+	return b.Flush()
+}
+
+// limitText shows the thresholds of a metric as "> warn / > fail" (or with
+// "<" where smaller is worse); a metric whose non-positive values always
+// fail shows "≤ 0" when its fail threshold is 0.
+func limitText(s MetricSummary) string {
+	cmp := ">"
+	if s.Worse == "lower" {
+		cmp = "<"
+	}
+	fail := cmp + " " + num(s.Limit.Fail)
+	if d := metricByName(s.Name); d != nil && d.positive && s.Limit.Fail <= 0 {
+		fail = "≤ 0"
+	}
+	return fmt.Sprintf("%s %s / %s", cmp, num(s.Limit.Warn), fail)
+}
+
+// num formats a value for the table in at most 11 characters.
+func num(x float64) string {
+	switch {
+	case math.IsNaN(x):
+		return "n/a"
+	case math.IsInf(x, 1):
+		return "+inf"
+	case math.IsInf(x, -1):
+		return "-inf"
+	}
+	return fmt.Sprintf("%.4g", x)
+}
+
+// WriteJSON writes the report as indented JSON with snake_case keys, for
+// --json and quality.json. The per-cell, per-face and per-node arrays are
+// left out (they go to the mesh files as cell and point data); values that
+// are not finite are written as null. The output is the same bytes for the
+// same mesh and limits.
+func WriteJSON(w io.Writer, r *Report) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(r)
+}
