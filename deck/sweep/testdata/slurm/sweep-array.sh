@@ -6,8 +6,9 @@
 #
 # Every task writes its decks and OUTDIR/summary-shard-K-of-N.{csv,json}
 # into the same OUTDIR (on a file system all nodes share); the shards never
-# write the same deck. A task that is run again skips the decks it already
-# built, so a failed array can simply be resubmitted.
+# write the same deck. Tasks skip the decks already built, so after a
+# failure the same array can simply be submitted again (all of it: the
+# shard count is the array's task count).
 #SBATCH --job-name=cvdeck-sweep
 #SBATCH --cpus-per-task=1
 #SBATCH --output=slurm-%A_%a.out
