@@ -76,6 +76,8 @@ by a qualified engineer under the applicable codes come first.`,
 	})
 	root.AddCommand(
 		newMeshCommand(g),
+		newCheckCommand(g),
+		newStateCommand(),
 		newSamplesCommand(),
 		newInitCommand(),
 		newVersionCommand(g),

@@ -41,8 +41,9 @@ import (
 //     Vertex point ranges or lists, or face ranges (EdgeCenter, the 2D
 //     face location, or IFaceCenter/JFaceCenter).
 //
-// Tags are ordered as the base's Family_t nodes, then in the order BCs
-// first use them. Errors name the node path that could not be read.
+// Tags are the base's Family_t nodes that have a FamilyBC or are used by a
+// BC, in file order, then the other BC tags in the order BCs first use
+// them. Errors name the node path that could not be read.
 func Read(path string) (*mesh.Mesh, error) {
 	if _, err := os.Stat(path); err != nil {
 		return nil, fmt.Errorf("cgns: %w", err)
@@ -69,8 +70,11 @@ type reader struct {
 	b    C.int
 	base string
 	pdim int
-	// families are the Family_t names of the base, in file order.
+	// families are the Family_t names of the base, in file order, and
+	// bcFamily marks those with a FamilyBC: boundary families, kept as
+	// tags even when no face uses them.
 	families []string
+	bcFamily map[string]bool
 	// tags collects tag names in the order of families, then of use.
 	tags  []string
 	tagIx map[string]int16
@@ -105,6 +109,12 @@ func (r *reader) read() (*mesh.Mesh, error) {
 			return nil, err
 		}
 		r.families = append(r.families, C.GoString(&name[0]))
+		if nboco > 0 {
+			if r.bcFamily == nil {
+				r.bcFamily = map[string]bool{}
+			}
+			r.bcFamily[C.GoString(&name[0])] = true
+		}
 	}
 	var nz C.int
 	if err := libError(C.cg_nzones(r.fn, r.b, &nz), "count zones of "+bp); err != nil {
@@ -291,15 +301,15 @@ func (r *reader) tag(name string) int16 {
 	return t
 }
 
-// orderTags registers the used tags: families first, in file order, then
-// the others in the order given.
+// orderTags registers the tags: families that are used or have a
+// FamilyBC first, in file order, then the others in the order given.
 func (r *reader) orderTags(used []string) {
 	isUsed := map[string]bool{}
 	for _, u := range used {
 		isUsed[u] = true
 	}
 	for _, f := range r.families {
-		if isUsed[f] {
+		if isUsed[f] || r.bcFamily[f] {
 			r.tag(f)
 		}
 	}

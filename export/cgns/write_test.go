@@ -9,8 +9,10 @@ import (
 )
 
 // deckCases are the test decks of our own: unstructured triangles, quads,
-// triangles and quads mixed, quads with hexagons (NGON_n), and two
-// structured blocks whose join needs a reversing transform.
+// triangles and quads mixed, quads with hexagons (NGON_n), two structured
+// blocks joined with and without a reversing transform, an O-type block
+// joined to itself side to side and a C-type block with a wake cut (part
+// of one side joined to another part of it).
 func deckCases(t *testing.T) []struct {
 	name string
 	deck *Deck
@@ -25,6 +27,8 @@ func deckCases(t *testing.T) []struct {
 		{"poly", testDeck(polyMesh(t, 8, 4))},
 		{"twoblock", testDeck(twoBlockMesh(t, 8, 4, true))},
 		{"twoblock-aligned", testDeck(twoBlockMesh(t, 8, 4, false))},
+		{"ring", testDeck(ringMesh(t, 12, 3))},
+		{"cgrid", testDeck(cgridMesh(t, 6, 3, 2))},
 	}
 }
 
