@@ -331,13 +331,18 @@ func interfaces(joins []join, zones []szone) []mesh.BlockInterface {
 func (s *szone) bcEdges(b bcInfo) ([][2]int32, error) {
 	var edges [][2]int32
 	switch {
-	case b.set == C.PointRange && (b.loc == C.Vertex || b.loc == C.IFaceCenter || b.loc == C.JFaceCenter):
+	case b.set == C.PointRange && (b.loc == C.Vertex || b.loc == C.EdgeCenter || b.loc == C.IFaceCenter || b.loc == C.JFaceCenter):
 		if len(b.pts) != 4 {
 			return nil, fmt.Errorf("%s: a PointRange needs 2 points, got %d values", b.path, len(b.pts))
 		}
 		i0, j0, i1, j1 := min(b.pts[0], b.pts[2]), min(b.pts[1], b.pts[3]), max(b.pts[0], b.pts[2]), max(b.pts[1], b.pts[3])
-		switch b.loc {
-		case C.Vertex:
+		// A face range (EdgeCenter in 2D, or IFaceCenter/JFaceCenter) has one
+		// constant index, the face's, and a cell range along the other; a
+		// single EdgeCenter face is an i-face if it lies on an i = const
+		// side of the zone.
+		iface := b.loc == C.IFaceCenter || b.loc == C.EdgeCenter && i0 == i1 && (j0 != j1 || i0 == 1 || int(i0) == s.ni)
+		switch {
+		case b.loc == C.Vertex:
 			if !s.inside(i0, j0) || !s.inside(i1, j1) {
 				return nil, fmt.Errorf("%s: PointRange %v lies outside the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
 			}
@@ -353,16 +358,16 @@ func (s *szone) bcEdges(b bcInfo) ([][2]int32, error) {
 			default:
 				return nil, fmt.Errorf("%s: Vertex PointRange %v is not a line of nodes along one index", b.path, b.pts)
 			}
-		case C.IFaceCenter:
+		case iface:
 			if i0 != i1 || !s.inside(i0, j0) || !s.inside(i1, j1+1) {
-				return nil, fmt.Errorf("%s: IFaceCenter PointRange %v is not a line of i-faces of the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
+				return nil, fmt.Errorf("%s: face PointRange %v is not a line of i-faces of the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
 			}
 			for j := j0; j <= j1; j++ {
 				edges = append(edges, [2]int32{s.id(i0, j), s.id(i0, j+1)})
 			}
 		default:
 			if j0 != j1 || !s.inside(i0, j0) || !s.inside(i1+1, j1) {
-				return nil, fmt.Errorf("%s: JFaceCenter PointRange %v is not a line of j-faces of the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
+				return nil, fmt.Errorf("%s: face PointRange %v is not a line of j-faces of the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
 			}
 			for i := i0; i <= i1; i++ {
 				edges = append(edges, [2]int32{s.id(i, j0), s.id(i+1, j0)})
@@ -391,7 +396,7 @@ func (s *szone) bcEdges(b bcInfo) ([][2]int32, error) {
 			add(ni, j, ni, j+1)
 		}
 	default:
-		return nil, fmt.Errorf("%s: %s at %s; cvdeck reads structured BCs as Vertex point ranges or lists, or IFaceCenter/JFaceCenter ranges",
+		return nil, fmt.Errorf("%s: %s at %s; cvdeck reads structured BCs as Vertex point ranges or lists, or face ranges (EdgeCenter, IFaceCenter, JFaceCenter)",
 			b.path, C.GoString(C.cg_PointSetTypeName(b.set)), C.GoString(C.cg_GridLocationName(b.loc)))
 	}
 	return edges, nil

@@ -19,10 +19,14 @@ func TestReadBack(t *testing.T) {
 			if _, err := Write(path, c.deck); err != nil {
 				t.Fatal(err)
 			}
-			got, err := Read(path)
+			rd, err := ReadDeck(path)
 			if err != nil {
 				t.Fatal(err)
 			}
+			if rd.Name != c.deck.Name || !slices.Equal(rd.BCs, c.deck.BCs) {
+				t.Errorf("read base %q with BCs %v, wrote %q with %v", rd.Name, rd.BCs, c.deck.Name, c.deck.BCs)
+			}
+			got := rd.Mesh
 			want := c.deck.Mesh
 			sameCounts(t, got, want)
 			if len(want.Blocks) == 0 {

@@ -66,9 +66,15 @@ func outward(s mesh.Side) int {
 
 func edgeKey(a, b int32) [2]int32 { return [2]int32{min(a, b), max(a, b)} }
 
-// validateBlocks checks the structured view against the mesh.
+// validateBlocks checks the structured view against the mesh: node maps
+// in range, and every mesh cell in exactly one block, cell FirstCell +
+// j*(NI-1) + i of a block having the corners of block cell (i, j) as its
+// nodes, so zone coordinates and cell fields describe the same cells.
 func validateBlocks(m *mesh.Mesh) error {
-	cells := 0
+	owner := make([]int32, m.NumCells())
+	for c := range owner {
+		owner[c] = -1
+	}
 	for b := range m.Blocks {
 		blk := &m.Blocks[b]
 		if blk.NI < 2 || blk.NJ < 2 {
@@ -86,10 +92,34 @@ func validateBlocks(m *mesh.Mesh) error {
 		if blk.FirstCell < 0 || int(blk.FirstCell)+nc > m.NumCells() {
 			return fmt.Errorf("block %d (%s) cells %d..%d lie outside the mesh's %d cells", b, blk.Name, blk.FirstCell, int(blk.FirstCell)+nc-1, m.NumCells())
 		}
-		cells += nc
+		for j := 0; j+1 < blk.NJ; j++ {
+			for i := 0; i+1 < blk.NI; i++ {
+				c := int(blk.FirstCell) + j*(blk.NI-1) + i
+				if owner[c] >= 0 {
+					return fmt.Errorf("mesh cell %d is in block %d (%s) and in block %d (%s)", c, owner[c], m.Blocks[owner[c]].Name, b, blk.Name)
+				}
+				owner[c] = int32(b)
+				corners := [4]int32{blk.Node[j*blk.NI+i], blk.Node[j*blk.NI+i+1], blk.Node[(j+1)*blk.NI+i+1], blk.Node[(j+1)*blk.NI+i]}
+				cell := m.Cell(c)
+				for _, v := range corners {
+					found := false
+					for _, u := range cell {
+						found = found || u == v
+					}
+					if !found {
+						return fmt.Errorf("block %d (%s) cell (%d, %d) is mesh cell %d, which does not have the block's corner node %d", b, blk.Name, i, j, c, v)
+					}
+				}
+				if len(cell) > 4 {
+					return fmt.Errorf("block %d (%s) cell (%d, %d) is mesh cell %d, which has %d nodes; a block cell has at most 4", b, blk.Name, i, j, c, len(cell))
+				}
+			}
+		}
 	}
-	if cells != m.NumCells() {
-		return fmt.Errorf("the blocks hold %d cells but the mesh has %d; a structured export needs every cell in a block", cells, m.NumCells())
+	for c, b := range owner {
+		if b < 0 {
+			return fmt.Errorf("mesh cell %d is in no block; a structured export needs every cell in a block", c)
+		}
 	}
 	return nil
 }
