@@ -1,12 +1,12 @@
 package deck
 
 import (
-	"fmt"
-	"time"
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
+	"time"
 
 	"cvdeck/samples"
 )
