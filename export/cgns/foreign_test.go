@@ -52,6 +52,7 @@ func TestReadForeignUnstructured(t *testing.T) {
 	cases := []struct {
 		file string
 		want mesh.Input
+		bcs  []BC
 	}{
 		// Cells in element-number order: the QUAD_4 section (elements
 		// 9..11) before the TRI_3 one (12..13), though written after it.
@@ -62,21 +63,26 @@ func TestReadForeignUnstructured(t *testing.T) {
 			Tags:      []string{"outflow", "bottom", "top"},
 			Edges: []mesh.TaggedEdge{{A: 2, B: 5, Tag: 0}, {A: 5, B: 8, Tag: 0},
 				{A: 0, B: 1, Tag: 1}, {A: 1, B: 2, Tag: 1}, {A: 6, B: 7, Tag: 2}, {A: 7, B: 8, Tag: 2}},
-		}},
+		}, []BC{{"outflow", "BCOutflow"}, {"bottom", "BCWall"}, {"top", "BCSymmetryPlane"}}},
 		// MIXED elements 1..7: quad, bar, tri, quad, tri, bar, quad.
 		{"mixedbars.cgns", mesh.Input{
 			CellStart: []int32{0, 4, 7, 11, 14, 18},
 			CellNodes: []int32{0, 1, 4, 3, 4, 5, 8, 1, 2, 5, 4, 4, 8, 7, 3, 4, 7, 6},
 			Tags:      []string{"base1", "base2"},
 			Edges:     []mesh.TaggedEdge{{A: 0, B: 1, Tag: 0}, {A: 1, B: 2, Tag: 1}},
-		}},
+		}, []BC{{"base1", "BCWall"}, {"base2", "BCWall"}}},
 	}
 	for _, c := range cases {
 		t.Run(c.file, func(t *testing.T) {
-			got, err := Read(filepath.Join(dir, c.file))
+			rd, err := ReadDeck(filepath.Join(dir, c.file))
 			if err != nil {
 				t.Fatal(err)
 			}
+			// FamilySpecified takes the family's FamilyBC (SIDS 12.8).
+			if !slices.Equal(rd.BCs, c.bcs) {
+				t.Errorf("BCs %v, want %v", rd.BCs, c.bcs)
+			}
+			got := rd.Mesh
 			c.want.Nodes = grid3()
 			want, err := mesh.Build(c.want)
 			if err != nil {
@@ -168,6 +174,10 @@ func TestReadRejects(t *testing.T) {
 	_, err := Read(filepath.Join(dir, "highorder.cgns"))
 	if err == nil || !strings.Contains(err.Error(), "/Imported/curved/p2") || !strings.Contains(err.Error(), "TRI_6") {
 		t.Errorf("high-order section: got %v, want an error naming /Imported/curved/p2 and TRI_6", err)
+	}
+	_, err = Read(filepath.Join(dir, "pointjoin.cgns"))
+	if err == nil || !strings.Contains(err.Error(), "/Imported/left/ZoneGridConnectivity/toright is a GridConnectivity_t (Abutting1to1)") {
+		t.Errorf("point-list join: got %v, want an error naming /Imported/left/ZoneGridConnectivity/toright", err)
 	}
 	junk := filepath.Join(dir, "junk.cgns")
 	os.WriteFile(junk, []byte("not a CGNS file\n"), 0o644)

@@ -43,7 +43,9 @@ func gridEdges(nx, ny int) []mesh.TaggedEdge {
 	return e
 }
 
-var gridTags = []string{"wall", "outlet", "farfield"}
+// gridTags are the tags of the test meshes, a new slice each time as the
+// mesh keeps it.
+func gridTags() []string { return []string{"wall", "outlet", "farfield"} }
 
 // kind selects the cells of square (i, j): 'q' quad, 't' two triangles.
 func gridMesh(tb testing.TB, nx, ny int, kind func(i, j int) byte) *mesh.Mesh {
@@ -66,7 +68,7 @@ func gridMesh(tb testing.TB, nx, ny int, kind func(i, j int) byte) *mesh.Mesh {
 			}
 		}
 	}
-	m, err := mesh.Build(mesh.Input{Nodes: gridNodes(nx, ny), CellStart: start, CellNodes: cn, Tags: gridTags, Edges: gridEdges(nx, ny)})
+	m, err := mesh.Build(mesh.Input{Nodes: gridNodes(nx, ny), CellStart: start, CellNodes: cn, Tags: gridTags(), Edges: gridEdges(nx, ny)})
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -115,7 +117,7 @@ func polyMesh(tb testing.TB, nx, ny int) *mesh.Mesh {
 			add(id(i, j), id(i+1, j), id(i+1, j+1), id(i, j+1))
 		}
 	}
-	m, err := mesh.Build(mesh.Input{Nodes: gridNodes(nx, ny), CellStart: start, CellNodes: cn, Tags: gridTags, Edges: gridEdges(nx, ny)})
+	m, err := mesh.Build(mesh.Input{Nodes: gridNodes(nx, ny), CellStart: start, CellNodes: cn, Tags: gridTags(), Edges: gridEdges(nx, ny)})
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -160,7 +162,7 @@ func twoBlockMesh(tb testing.TB, nx, ny int, reverse bool) *mesh.Mesh {
 		}
 		blocks = append(blocks, blk)
 	}
-	m, err := mesh.Build(mesh.Input{Nodes: nodes, CellStart: start, CellNodes: cn, Tags: gridTags, Edges: gridEdges(nx, ny), Blocks: blocks})
+	m, err := mesh.Build(mesh.Input{Nodes: nodes, CellStart: start, CellNodes: cn, Tags: gridTags(), Edges: gridEdges(nx, ny), Blocks: blocks})
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -225,7 +227,7 @@ func structuredMesh(tb testing.TB, name string, ni, nj, nn int, node func(i, j i
 			start = append(start, int32(len(cn)))
 		}
 	}
-	m, err := mesh.Build(mesh.Input{Nodes: nodes, CellStart: start, CellNodes: cn, Tags: gridTags, Edges: edges, Blocks: []mesh.Block{blk}})
+	m, err := mesh.Build(mesh.Input{Nodes: nodes, CellStart: start, CellNodes: cn, Tags: gridTags(), Edges: edges, Blocks: []mesh.Block{blk}})
 	if err != nil {
 		tb.Fatal(err)
 	}

@@ -10,6 +10,7 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"slices"
 	"unsafe"
 
 	"github.com/paulmach/orb"
@@ -45,8 +46,46 @@ import (
 // BC, in file order, then the other BC tags in the order BCs first use
 // them. Errors name the node path that could not be read.
 func Read(path string) (*mesh.Mesh, error) {
+	_, m, err := open(path)
+	return m, err
+}
+
+// ReadDeck reads a CGNS file like Read and also returns the base name and
+// the boundary condition of every tag: the BCType of its BCs, or for
+// FamilySpecified (and for a boundary family no BC uses) the FamilyBC of
+// its family. Tags whose BCs disagree are an error naming them.
+func ReadDeck(path string) (*Deck, error) {
+	r, m, err := open(path)
+	if err != nil {
+		return nil, err
+	}
+	d := &Deck{Mesh: m, Name: r.base}
+	for _, tag := range m.Tags {
+		ts, ok := r.bcTypes[tag]
+		if !ok {
+			ft, fam := r.famBC[tag]
+			if !fam {
+				continue
+			}
+			ts = []C.BCType_t{ft}
+		}
+		if len(ts) > 1 {
+			names := make([]string, len(ts))
+			for i, t := range ts {
+				names[i] = bcTypeName(t)
+			}
+			return nil, fmt.Errorf("cgns: read %s: tag %q has BCs of types %v; one tag takes one boundary condition", path, tag, names)
+		}
+		d.BCs = append(d.BCs, BC{Tag: tag, BCType: bcTypeName(ts[0])})
+	}
+	return d, nil
+}
+
+// open reads the mesh of the file at path, keeping the reader for the
+// boundary conditions it found.
+func open(path string) (*reader, *mesh.Mesh, error) {
 	if _, err := os.Stat(path); err != nil {
-		return nil, fmt.Errorf("cgns: %w", err)
+		return nil, nil, fmt.Errorf("cgns: %w", err)
 	}
 	libMu.Lock()
 	defer libMu.Unlock()
@@ -54,15 +93,15 @@ func Read(path string) (*mesh.Mesh, error) {
 	defer free(p)
 	var fn C.int
 	if err := libError(C.cg_open(p, C.CG_MODE_READ, &fn), "open "+path); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	defer C.cg_close(fn)
-	r := &reader{fn: fn, b: 1}
+	r := &reader{fn: fn, b: 1, bcTypes: map[string][]C.BCType_t{}, famBC: map[string]C.BCType_t{}}
 	m, err := r.read()
 	if err != nil {
-		return nil, fmt.Errorf("cgns: read %s: %w", path, err)
+		return nil, nil, fmt.Errorf("cgns: read %s: %w", path, err)
 	}
-	return m, nil
+	return r, m, nil
 }
 
 type reader struct {
@@ -75,6 +114,10 @@ type reader struct {
 	// tags even when no face uses them.
 	families []string
 	bcFamily map[string]bool
+	// famBC is the FamilyBC type of each boundary family; bcTypes the
+	// distinct BC types found for each tag, in the order found.
+	famBC   map[string]C.BCType_t
+	bcTypes map[string][]C.BCType_t
 	// tags collects tag names in the order of families, then of use.
 	tags  []string
 	tagIx map[string]int16
@@ -114,6 +157,12 @@ func (r *reader) read() (*mesh.Mesh, error) {
 				r.bcFamily = map[string]bool{}
 			}
 			r.bcFamily[C.GoString(&name[0])] = true
+			var bt C.BCType_t
+			var fb [maxNameLen + 1]C.char
+			if err := libError(C.cg_fambc_read(r.fn, r.b, f, 1, &fb[0], &bt), fmt.Sprintf("read FamilyBC of %s/%s", bp, C.GoString(&name[0]))); err != nil {
+				return nil, err
+			}
+			r.famBC[C.GoString(&name[0])] = bt
 		}
 	}
 	var nz C.int
@@ -265,6 +314,14 @@ func (r *reader) bocos(z C.int, zp string, idim int) ([]bcInfo, error) {
 			tag = b.name
 		}
 		b.tag = tag
+		if typ == C.FamilySpecified {
+			if ft, ok := r.famBC[tag]; ok {
+				typ = ft
+			}
+		}
+		if !slices.Contains(r.bcTypes[tag], typ) {
+			r.bcTypes[tag] = append(r.bcTypes[tag], typ)
+		}
 		b.pts = raw
 		out = append(out, b)
 	}
