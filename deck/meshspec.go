@@ -132,15 +132,50 @@ func decodeBlock(c *Case, v value, index int) (blockSpec, error) {
 	return bs, o.done()
 }
 
-// estimateCells gives the cell count before any mesh is made, from the
-// node counts of the block sides.
-func (ms *meshSpec) estimateCells(sides [][4]geometry.Chain) int {
+// estimateCells gives the cell count before any node is placed, from the
+// spacing laws of the block sides (the larger of two opposite sides, so
+// that no side is discretised if the count is too large).
+func (ms *meshSpec) estimateCells() (int, error) {
 	total := 0
-	for _, s := range sides {
-		ni, nj := len(s[mesh.South].Points), len(s[mesh.West].Points)
-		total += max(ni-1, 0) * max(nj-1, 0)
+	for _, bs := range ms.blocks {
+		var n [4]int
+		for s := range bs.sides {
+			k, err := sideEdges(bs.sides[s])
+			if err != nil {
+				return 0, err
+			}
+			n[s] = k
+		}
+		total += max(n[mesh.South], n[mesh.North]) * max(n[mesh.East], n[mesh.West])
+		if total > ms.maxCells {
+			break
+		}
 	}
-	return total
+	return total, nil
+}
+
+// sideEdges counts the edges the spacing laws put on a block side.
+func sideEdges(side []sideCurve) (int, error) {
+	n := 0
+	for _, sc := range side {
+		for _, seg := range sc.curve.segments {
+			sp := seg.Attr().Spacing
+			if sp.KeepsVertices() {
+				pts, err := geometry.DiscretiseSegment(seg)
+				if err != nil {
+					return 0, sc.at.wrap(err)
+				}
+				n += len(pts) - 1
+				continue
+			}
+			k, err := sp.NodeCount(seg.Length())
+			if err != nil {
+				return 0, sc.at.wrap(err)
+			}
+			n += k - 1
+		}
+	}
+	return n, nil
 }
 
 // sideChain discretises a block side: its curves joined end to start, each
@@ -187,6 +222,13 @@ func dist(a, b orb.Point) float64 { return math.Hypot(a[0]-b[0], a[1]-b[1]) }
 // buildStructured meshes the blocks by transfinite interpolation and joins
 // them into one face-based mesh.
 func (ms *meshSpec) buildStructured() (*mesh.Mesh, error) {
+	n, err := ms.estimateCells()
+	if err != nil {
+		return nil, err
+	}
+	if n > ms.maxCells {
+		return nil, ms.at.errf("the blocks would make %d cells, more than the limit of %d (raise mesh.max_cells or --max-cells)", n, ms.maxCells)
+	}
 	sides := make([][4]geometry.Chain, len(ms.blocks))
 	for b, bs := range ms.blocks {
 		for s := range bs.sides {
@@ -196,9 +238,6 @@ func (ms *meshSpec) buildStructured() (*mesh.Mesh, error) {
 			}
 			sides[b][s] = ch
 		}
-	}
-	if n := ms.estimateCells(sides); n > ms.maxCells {
-		return nil, ms.at.errf("the blocks would make %d cells, more than the limit of %d (raise mesh.max_cells or --max-cells)", n, ms.maxCells)
 	}
 	blocks := make([]*structured.Block, len(ms.blocks))
 	for b, bs := range ms.blocks {

@@ -96,16 +96,25 @@ func TestSweepCommandErrors(t *testing.T) {
 	if exitCode(err) != 2 || !strings.Contains(err.Error(), "bad.yaml:2:1: unknown key \"paramters\"") {
 		t.Errorf("bad key: %v (exit %d)", err, exitCode(err))
 	}
+	base, _ := filepath.Abs(filepath.Join("..", "..", "samples", "sweeps", "nozzle.yaml"))
+	typo := filepath.Join(dir, "typo.yaml")
+	os.WriteFile(typo, []byte("base: "+base+"\nparameters:\n  throat_h: [20]\n  exit_ration: [1.2, 1.4]\n"), 0o644)
+	err, _, _ = sweepCLI(t, typo, "-o", filepath.Join(dir, "typo"))
+	if exitCode(err) != 2 || !strings.Contains(err.Error(), `typo.yaml:4:3: the base case nozzle.yaml defines no parameter "exit_ration"`) {
+		t.Errorf("misspelt parameter: %v (exit %d)", err, exitCode(err))
+	}
+	if _, serr := os.Stat(filepath.Join(dir, "typo")); serr == nil {
+		t.Error("a sweep with a misspelt parameter created its output folder")
+	}
 	file := filepath.Join("..", "..", "samples", "sweeps", "nozzle-refine.yaml")
 	for _, args := range [][]string{{file}, {file, "-o", dir, "--shard", "5/4"}, {file, "-o", dir, "-j", "0"}} {
 		if err, _, _ := sweepCLI(t, args...); exitCode(err) != 2 {
 			t.Errorf("%v: %v (exit %d), want exit 2", args, err, exitCode(err))
 		}
 	}
-	// A variant the pipeline refuses: a throat wider than the inlet makes
-	// the case fail for that variant only.
+	// A variant the pipeline refuses (a negative cell count): that variant
+	// fails, the others are built.
 	sw := filepath.Join(dir, "some-fail.yaml")
-	base, _ := filepath.Abs(filepath.Join("..", "..", "samples", "sweeps", "nozzle.yaml"))
 	os.WriteFile(sw, []byte("base: "+base+"\nparameters:\n  cells_x: [20, -5, 30]\n"), 0o644)
 	err, _, stderr := sweepCLI(t, sw, "-o", filepath.Join(dir, "out"))
 	var fe *sweep.FailedError

@@ -9,6 +9,7 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"gopkg.in/yaml.v3"
 
@@ -29,6 +30,30 @@ type Pipeline struct {
 // NewPipeline returns the pipeline runner of a sweep file.
 func NewPipeline(f *File) *Pipeline {
 	return &Pipeline{Base: f.Base}
+}
+
+// Check loads the base case as written and verifies that it defines every
+// swept parameter.
+func (p *Pipeline) Check(f *File) error {
+	c, err := deck.Load(p.Base, deck.LoadOptions{})
+	if err != nil {
+		return &Error{File: f.Path, Msg: "the base case as written does not load", Err: err}
+	}
+	defined := map[string]bool{}
+	for _, n := range c.ParamOrder {
+		defined[n] = true
+	}
+	for _, pr := range f.Params {
+		if !defined[pr.Name] {
+			names := strings.Join(c.ParamOrder, ", ")
+			if names == "" {
+				names = "none"
+			}
+			return &Error{File: f.Path, Line: pr.Pos.Line, Col: pr.Pos.Col,
+				Msg: fmt.Sprintf("the base case %s defines no parameter %q (its parameters: %s)", filepath.Base(p.Base), pr.Name, names)}
+		}
+	}
+	return nil
 }
 
 type pipelineJob struct {

@@ -170,14 +170,19 @@ func TestSlurmJobArrayEqualsLocalRun(t *testing.T) {
 	run(bin, "sweep", "merge", array, "--quiet")
 	sameDecks(t, local, array)
 
-	// The comparison can fail: two different variants' CGNS files differ
-	// by content.
-	s, err := ReadSummary(filepath.Join(local, "summary.json"))
+	cgnsDiffSeesVariants(t, local)
+}
+
+// cgnsDiffSeesVariants checks that the CGNS comparison can fail: the CGNS
+// files of the first two variants of a sweep differ by content.
+func cgnsDiffSeesVariants(t *testing.T, dir string) {
+	t.Helper()
+	s, err := ReadSummary(filepath.Join(dir, "summary.json"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	cg, _ := filepath.Glob(filepath.Join(local, s.Rows[0].Name, "*.cgns"))
-	cg2, _ := filepath.Glob(filepath.Join(local, s.Rows[1].Name, "*.cgns"))
+	cg, _ := filepath.Glob(filepath.Join(dir, s.Rows[0].Name, "*.cgns"))
+	cg2, _ := filepath.Glob(filepath.Join(dir, s.Rows[1].Name, "*.cgns"))
 	if len(cg) == 0 || len(cg2) == 0 || cgnsDiff(t, cg[0], cg2[0]) == "" {
 		t.Error("cgnsdiff -d finds no difference between two different variants")
 	}

@@ -101,6 +101,27 @@ func sameBlocks(t *testing.T, got, want *mesh.Mesh) {
 	}
 }
 
+// TestWriteAsUnstructured: a structured mesh written as one unstructured
+// zone passes cgnscheck and reads back identical, without the blocks.
+func TestWriteAsUnstructured(t *testing.T) {
+	d := testDeck(cgridMesh(t, 6, 3, 2))
+	d.Unstructured = true
+	path := filepath.Join(t.TempDir(), "u.cgns")
+	if _, err := Write(path, d); err != nil {
+		t.Fatal(err)
+	}
+	cgnscheck(t, path)
+	got, err := Read(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(got.Blocks) != 0 {
+		t.Errorf("read %d blocks from an unstructured zone", len(got.Blocks))
+	}
+	sameCounts(t, got, d.Mesh)
+	sameUnstructured(t, got, d.Mesh)
+}
+
 // TestReadInterfaces: the joins of whole sides come back as the
 // structured view's block interfaces.
 func TestReadInterfaces(t *testing.T) {
