@@ -29,6 +29,7 @@ import (
 
 	"gopkg.in/yaml.v3"
 
+	"cvdeck/deck"
 	"cvdeck/deck/expr"
 )
 
@@ -110,7 +111,14 @@ func (e *Error) Error() string {
 	return b.String()
 }
 
-func (e *Error) Unwrap() error { return e.Err }
+// Unwrap lets errors.Is find deck.ErrInput (bad input: exit code 2) and
+// the cause.
+func (e *Error) Unwrap() []error {
+	if e.Err != nil {
+		return []error{deck.ErrInput, e.Err}
+	}
+	return []error{deck.ErrInput}
+}
 
 // ExitCode is 2: bad input or usage, as in cvdeck's exit-code convention.
 func (e *Error) ExitCode() int { return 2 }

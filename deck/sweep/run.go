@@ -40,6 +40,13 @@ type Runner interface {
 	Existing(dir string) (out Outcome, ok bool, err error)
 }
 
+// Checker is a Runner that can check a sweep file against the base case
+// before any variant runs, so that a misspelt parameter is one located
+// error instead of a failure of every variant.
+type Checker interface {
+	Check(f *File) error
+}
+
 // Job is a prepared variant.
 type Job interface {
 	// InputHash is the hash of the deck's inputs, known before building.
@@ -103,6 +110,11 @@ func Run(ctx context.Context, f *File, outDir string, r Runner, opt Options) (*S
 	all, err := f.Variants()
 	if err != nil {
 		return nil, err
+	}
+	if c, ok := r.(Checker); ok {
+		if err := c.Check(f); err != nil {
+			return nil, err
+		}
 	}
 	if err := os.MkdirAll(outDir, 0o755); err != nil {
 		return nil, fmt.Errorf("creating the output folder: %w", err)

@@ -18,9 +18,13 @@ import (
 // struct of its own so this package does not depend on the packages that
 // produce those values; the deck package fills it.
 type Deck struct {
-	// Mesh is the mesh to write. If Mesh.Blocks is empty it is written as
-	// one unstructured zone, otherwise as one structured zone per block.
+	// Mesh is the mesh to write. If Mesh.Blocks is empty, or Unstructured
+	// is set, it is written as one unstructured zone, otherwise as one
+	// structured zone per block.
 	Mesh *mesh.Mesh
+	// Unstructured writes a structured mesh as one unstructured zone of
+	// QUAD_4 cells, for solvers that read only unstructured zones.
+	Unstructured bool
 	// Name is the CGNS base name (at most 32 characters, no '/');
 	// "Base" if empty.
 	Name string
@@ -133,6 +137,15 @@ func (d *Deck) validate() ([]C.BCType_t, error) {
 	if err := checkName("base name", d.baseName()); err != nil {
 		return nil, fmt.Errorf("cgns: %w", err)
 	}
+	nn, nc, nf := int64(len(m.Nodes)), int64(m.NumCells()), int64(m.NumFaces())
+	if nn > maxIndex || nc+nf > maxIndex || int64(len(m.CellNodes))+nc > maxIndex || 4*nf > maxIndex {
+		return nil, fmt.Errorf("cgns: mesh has %d nodes, %d cells and %d faces; this CGNS build (cgsize_t of 32 bits) numbers elements, nodes and array entries up to %d", nn, nc, nf, maxIndex)
+	}
+	if d.structured() {
+		if err := validateBlocks(m); err != nil {
+			return nil, fmt.Errorf("cgns: %w", err)
+		}
+	}
 	byTag := make(map[string]string, len(d.BCs))
 	for i, bc := range d.BCs {
 		if _, ok := byTag[bc.Tag]; ok {
@@ -181,6 +194,9 @@ func (d *Deck) validate() ([]C.BCType_t, error) {
 	}
 	return types, nil
 }
+
+// structured reports whether the deck is written as structured zones.
+func (d *Deck) structured() bool { return len(d.Mesh.Blocks) > 0 && !d.Unstructured }
 
 func (d *Deck) baseName() string {
 	if d.Name == "" {

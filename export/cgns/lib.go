@@ -55,16 +55,21 @@ func gopath(fn C.int, path string) error {
 }
 
 // bcTypeByName returns the BCType_t value whose standard name is name, using
-// the library's own name table so every SIDS BCType is accepted.
+// the library's own name table so every SIDS BCType is accepted. The
+// user-defined type is stored as "UserDefined"; its C enumerator name
+// "BCTypeUserDefined" is accepted too.
 func bcTypeByName(name string) (C.BCType_t, error) {
+	if name == "BCTypeUserDefined" {
+		return C.BCTypeUserDefined, nil
+	}
 	names := unsafe.Slice(&C.BCTypeName[0], C.NofValidBCTypes)
 	for i, p := range names {
-		if C.GoString(p) == name && i >= 2 {
+		if i >= 1 && C.GoString(p) == name {
 			return C.BCType_t(i), nil
 		}
 	}
 	valid := make([]string, 0, len(names))
-	for _, p := range names[2:] {
+	for _, p := range names[1:] {
 		valid = append(valid, C.GoString(p))
 	}
 	return 0, fmt.Errorf("BCType %q is not a CGNS BCType; valid names: %v", name, valid)

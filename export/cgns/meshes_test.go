@@ -43,7 +43,9 @@ func gridEdges(nx, ny int) []mesh.TaggedEdge {
 	return e
 }
 
-var gridTags = []string{"wall", "outlet", "farfield"}
+// gridTags are the tags of the test meshes, a new slice each time as the
+// mesh keeps it.
+func gridTags() []string { return []string{"wall", "outlet", "farfield"} }
 
 // kind selects the cells of square (i, j): 'q' quad, 't' two triangles.
 func gridMesh(tb testing.TB, nx, ny int, kind func(i, j int) byte) *mesh.Mesh {
@@ -66,7 +68,7 @@ func gridMesh(tb testing.TB, nx, ny int, kind func(i, j int) byte) *mesh.Mesh {
 			}
 		}
 	}
-	m, err := mesh.Build(mesh.Input{Nodes: gridNodes(nx, ny), CellStart: start, CellNodes: cn, Tags: gridTags, Edges: gridEdges(nx, ny)})
+	m, err := mesh.Build(mesh.Input{Nodes: gridNodes(nx, ny), CellStart: start, CellNodes: cn, Tags: gridTags(), Edges: gridEdges(nx, ny)})
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -115,7 +117,7 @@ func polyMesh(tb testing.TB, nx, ny int) *mesh.Mesh {
 			add(id(i, j), id(i+1, j), id(i+1, j+1), id(i, j+1))
 		}
 	}
-	m, err := mesh.Build(mesh.Input{Nodes: gridNodes(nx, ny), CellStart: start, CellNodes: cn, Tags: gridTags, Edges: gridEdges(nx, ny)})
+	m, err := mesh.Build(mesh.Input{Nodes: gridNodes(nx, ny), CellStart: start, CellNodes: cn, Tags: gridTags(), Edges: gridEdges(nx, ny)})
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -160,7 +162,7 @@ func twoBlockMesh(tb testing.TB, nx, ny int, reverse bool) *mesh.Mesh {
 		}
 		blocks = append(blocks, blk)
 	}
-	m, err := mesh.Build(mesh.Input{Nodes: nodes, CellStart: start, CellNodes: cn, Tags: gridTags, Edges: gridEdges(nx, ny), Blocks: blocks})
+	m, err := mesh.Build(mesh.Input{Nodes: nodes, CellStart: start, CellNodes: cn, Tags: gridTags(), Edges: gridEdges(nx, ny), Blocks: blocks})
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -200,4 +202,92 @@ func testDeck(m *mesh.Mesh) *Deck {
 		},
 		CellFields: []Field{{Name: "CellArea", Values: area, Exponents: [5]float64{0, 2, 0, 0, 0}}, {Name: "NodeCount", Values: nodes}},
 	}
+}
+
+// structuredMesh builds a one-block mesh from node positions pos(i, j) on
+// an ni × nj grid, where node(i, j) gives the mesh node of grid node
+// (i, j) (several grid nodes may share one mesh node, which makes
+// self-joins) and tag(i, j, side) the tag index of the boundary edge from
+// grid node (i, j) along side, or -1.
+func structuredMesh(tb testing.TB, name string, ni, nj, nn int, node func(i, j int) int32, pos func(i, j int) orb.Point, edges []mesh.TaggedEdge) *mesh.Mesh {
+	tb.Helper()
+	nodes := make([]orb.Point, nn)
+	blk := mesh.Block{Name: name, NI: ni, NJ: nj, Node: make([]int32, ni*nj)}
+	for j := 0; j < nj; j++ {
+		for i := 0; i < ni; i++ {
+			blk.Node[j*ni+i] = node(i, j)
+			nodes[node(i, j)] = pos(i, j)
+		}
+	}
+	start := []int32{0}
+	var cn []int32
+	for j := 0; j+1 < nj; j++ {
+		for i := 0; i+1 < ni; i++ {
+			cn = append(cn, node(i, j), node(i+1, j), node(i+1, j+1), node(i, j+1))
+			start = append(start, int32(len(cn)))
+		}
+	}
+	m, err := mesh.Build(mesh.Input{Nodes: nodes, CellStart: start, CellNodes: cn, Tags: gridTags(), Edges: edges, Blocks: []mesh.Block{blk}})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return m
+}
+
+// ringMesh is an O-type block around the annulus 1 ≤ r ≤ 2: i runs
+// clockwise once around and its last line of nodes is its first, so the
+// block's west side joins its own east side. Tags: wall (r = 1),
+// farfield (r = 2); outlet has no faces.
+func ringMesh(tb testing.TB, na, nr int) *mesh.Mesh {
+	node := func(i, j int) int32 { return int32(j*na + i%na) }
+	pos := func(i, j int) orb.Point {
+		th, r := -2*math.Pi*float64(i)/float64(na), 1+float64(j)/float64(nr)
+		return orb.Point{r * math.Cos(th), r * math.Sin(th)}
+	}
+	var e []mesh.TaggedEdge
+	for i := 0; i < na; i++ {
+		e = append(e, mesh.TaggedEdge{A: node(i, 0), B: node(i+1, 0), Tag: 0}, mesh.TaggedEdge{A: node(i, nr), B: node(i+1, nr), Tag: 2})
+	}
+	return structuredMesh(tb, "ring", na+1, nr+1, na*(nr+1), node, pos, e)
+}
+
+// cgridMesh is a C-type block around a flat plate with a wake cut, made by
+// the conformal map z = w² of the rectangle w = u + iv, −1 ≤ u ≤ 1,
+// 0 ≤ v ≤ 1, which folds the line v = 0 onto the positive real axis: the
+// first nw edges of the south side (the wake's lower side) share their
+// nodes, reversed, with the last nw (its upper side), and the edges
+// between are the plate, tagged wall, with its two sides distinct. West
+// and east (the parabola x = 1 − y²/4) are outlet, north farfield.
+func cgridMesh(tb testing.TB, m2, nr, nw int) *mesh.Mesh {
+	ni, nj := 2*m2+1, nr+1
+	// Mesh node ids: grid nodes in order, skipping the upper wake nodes,
+	// which reuse their lower twins.
+	ids := make([]int32, ni*nj)
+	n := int32(0)
+	for j := 0; j < nj; j++ {
+		for i := 0; i < ni; i++ {
+			if j == 0 && i >= ni-1-nw {
+				ids[i] = ids[ni-1-i]
+				continue
+			}
+			ids[j*ni+i] = n
+			n++
+		}
+	}
+	node := func(i, j int) int32 { return ids[j*ni+i] }
+	pos := func(i, j int) orb.Point {
+		u, v := -1+2*float64(i)/float64(ni-1), float64(j)/float64(nj-1)
+		return orb.Point{u*u - v*v, 2 * u * v}
+	}
+	var e []mesh.TaggedEdge
+	for i := nw; i < ni-1-nw; i++ {
+		e = append(e, mesh.TaggedEdge{A: node(i, 0), B: node(i+1, 0), Tag: 0})
+	}
+	for i := 0; i+1 < ni; i++ {
+		e = append(e, mesh.TaggedEdge{A: node(i, nj-1), B: node(i+1, nj-1), Tag: 2})
+	}
+	for j := 0; j+1 < nj; j++ {
+		e = append(e, mesh.TaggedEdge{A: node(0, j), B: node(0, j+1), Tag: 1}, mesh.TaggedEdge{A: node(ni-1, j), B: node(ni-1, j+1), Tag: 1})
+	}
+	return structuredMesh(tb, "cgrid", ni, nj, int(n), node, pos, e)
 }

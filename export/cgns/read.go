@@ -10,6 +10,7 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"slices"
 	"unsafe"
 
 	"github.com/paulmach/orb"
@@ -38,13 +39,53 @@ import (
 //     keeps the structured view (one mesh.Block per zone, and a
 //     mesh.BlockInterface for every join of two whole sides). A
 //     left-handed zone's cells are turned counter-clockwise. BCs are
-//     Vertex point ranges or lists, or IFaceCenter/JFaceCenter ranges.
+//     Vertex point ranges or lists, or face ranges (EdgeCenter, the 2D
+//     face location, or IFaceCenter/JFaceCenter).
 //
-// Tags are ordered as the base's Family_t nodes, then in the order BCs
-// first use them. Errors name the node path that could not be read.
+// Tags are the base's Family_t nodes that have a FamilyBC or are used by a
+// BC, in file order, then the other BC tags in the order BCs first use
+// them. Errors name the node path that could not be read.
 func Read(path string) (*mesh.Mesh, error) {
+	_, m, err := open(path)
+	return m, err
+}
+
+// ReadDeck reads a CGNS file like Read and also returns the base name and
+// the boundary condition of every tag: the BCType of its BCs, or for
+// FamilySpecified (and for a boundary family no BC uses) the FamilyBC of
+// its family. Tags whose BCs disagree are an error naming them.
+func ReadDeck(path string) (*Deck, error) {
+	r, m, err := open(path)
+	if err != nil {
+		return nil, err
+	}
+	d := &Deck{Mesh: m, Name: r.base}
+	for _, tag := range m.Tags {
+		ts, ok := r.bcTypes[tag]
+		if !ok {
+			ft, fam := r.famBC[tag]
+			if !fam {
+				continue
+			}
+			ts = []C.BCType_t{ft}
+		}
+		if len(ts) > 1 {
+			names := make([]string, len(ts))
+			for i, t := range ts {
+				names[i] = bcTypeName(t)
+			}
+			return nil, fmt.Errorf("cgns: read %s: tag %q has BCs of types %v; one tag takes one boundary condition", path, tag, names)
+		}
+		d.BCs = append(d.BCs, BC{Tag: tag, BCType: bcTypeName(ts[0])})
+	}
+	return d, nil
+}
+
+// open reads the mesh of the file at path, keeping the reader for the
+// boundary conditions it found.
+func open(path string) (*reader, *mesh.Mesh, error) {
 	if _, err := os.Stat(path); err != nil {
-		return nil, fmt.Errorf("cgns: %w", err)
+		return nil, nil, fmt.Errorf("cgns: %w", err)
 	}
 	libMu.Lock()
 	defer libMu.Unlock()
@@ -52,15 +93,15 @@ func Read(path string) (*mesh.Mesh, error) {
 	defer free(p)
 	var fn C.int
 	if err := libError(C.cg_open(p, C.CG_MODE_READ, &fn), "open "+path); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	defer C.cg_close(fn)
-	r := &reader{fn: fn, b: 1}
+	r := &reader{fn: fn, b: 1, bcTypes: map[string][]C.BCType_t{}, famBC: map[string]C.BCType_t{}}
 	m, err := r.read()
 	if err != nil {
-		return nil, fmt.Errorf("cgns: read %s: %w", path, err)
+		return nil, nil, fmt.Errorf("cgns: read %s: %w", path, err)
 	}
-	return m, nil
+	return r, m, nil
 }
 
 type reader struct {
@@ -68,8 +109,15 @@ type reader struct {
 	b    C.int
 	base string
 	pdim int
-	// families are the Family_t names of the base, in file order.
+	// families are the Family_t names of the base, in file order, and
+	// bcFamily marks those with a FamilyBC: boundary families, kept as
+	// tags even when no face uses them.
 	families []string
+	bcFamily map[string]bool
+	// famBC is the FamilyBC type of each boundary family; bcTypes the
+	// distinct BC types found for each tag, in the order found.
+	famBC   map[string]C.BCType_t
+	bcTypes map[string][]C.BCType_t
 	// tags collects tag names in the order of families, then of use.
 	tags  []string
 	tagIx map[string]int16
@@ -104,6 +152,18 @@ func (r *reader) read() (*mesh.Mesh, error) {
 			return nil, err
 		}
 		r.families = append(r.families, C.GoString(&name[0]))
+		if nboco > 0 {
+			if r.bcFamily == nil {
+				r.bcFamily = map[string]bool{}
+			}
+			r.bcFamily[C.GoString(&name[0])] = true
+			var bt C.BCType_t
+			var fb [maxNameLen + 1]C.char
+			if err := libError(C.cg_fambc_read(r.fn, r.b, f, 1, &fb[0], &bt), fmt.Sprintf("read FamilyBC of %s/%s", bp, C.GoString(&name[0]))); err != nil {
+				return nil, err
+			}
+			r.famBC[C.GoString(&name[0])] = bt
+		}
 	}
 	var nz C.int
 	if err := libError(C.cg_nzones(r.fn, r.b, &nz), "count zones of "+bp); err != nil {
@@ -254,6 +314,14 @@ func (r *reader) bocos(z C.int, zp string, idim int) ([]bcInfo, error) {
 			tag = b.name
 		}
 		b.tag = tag
+		if typ == C.FamilySpecified {
+			if ft, ok := r.famBC[tag]; ok {
+				typ = ft
+			}
+		}
+		if !slices.Contains(r.bcTypes[tag], typ) {
+			r.bcTypes[tag] = append(r.bcTypes[tag], typ)
+		}
 		b.pts = raw
 		out = append(out, b)
 	}
@@ -290,15 +358,15 @@ func (r *reader) tag(name string) int16 {
 	return t
 }
 
-// orderTags registers the used tags: families first, in file order, then
-// the others in the order given.
+// orderTags registers the tags: families that are used or have a
+// FamilyBC first, in file order, then the others in the order given.
 func (r *reader) orderTags(used []string) {
 	isUsed := map[string]bool{}
 	for _, u := range used {
 		isUsed[u] = true
 	}
 	for _, f := range r.families {
-		if isUsed[f] {
+		if isUsed[f] || r.bcFamily[f] {
 			r.tag(f)
 		}
 	}

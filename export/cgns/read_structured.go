@@ -243,6 +243,9 @@ func (r *reader) joins(z C.int, s *szone, zones []szone, byName map[string]int) 
 		return nil, err
 	}
 	var name, donor [maxNameLen + 1]C.char
+	if err := r.noGeneralConns(z, s.path); err != nil {
+		return nil, err
+	}
 	out := make([]join, 0, n)
 	for k := C.int(1); k <= n; k++ {
 		var jn join
@@ -270,6 +273,33 @@ func (r *reader) joins(z C.int, s *szone, zones []szone, byName map[string]int) 
 		out = append(out, jn)
 	}
 	return out, nil
+}
+
+// noGeneralConns fails on GridConnectivity_t nodes (point-list joins),
+// which the reader does not merge: reading on would leave the zones
+// unjoined, with false boundary faces along the join.
+func (r *reader) noGeneralConns(z C.int, zp string) error {
+	var n C.int
+	if err := libError(C.cg_nconns(r.fn, r.b, z, &n), "count GridConnectivity_t nodes of "+zp); err != nil {
+		return err
+	}
+	if n == 0 {
+		return nil
+	}
+	var (
+		name, donor [maxNameLen + 1]C.char
+		loc         C.GridLocation_t
+		typ         C.GridConnectivityType_t
+		set, dset   C.PointSetType_t
+		npnts, nd   C.int
+		dzt         C.ZoneType_t
+		ddt         C.DataType_t
+	)
+	if err := libError(C.cg_conn_info(r.fn, r.b, z, 1, &name[0], &loc, &typ, &set, &npnts, &donor[0], &dzt, &dset, &ddt, &nd), "read GridConnectivity_t 1 of "+zp); err != nil {
+		return err
+	}
+	return fmt.Errorf("%s/ZoneGridConnectivity/%s is a GridConnectivity_t (%s); cvdeck merges structured zones joined by GridConnectivity1to1_t only",
+		zp, C.GoString(&name[0]), C.GoString(C.cg_GridConnectivityTypeName(typ)))
 }
 
 func abs(v int32) int32 {
@@ -331,13 +361,18 @@ func interfaces(joins []join, zones []szone) []mesh.BlockInterface {
 func (s *szone) bcEdges(b bcInfo) ([][2]int32, error) {
 	var edges [][2]int32
 	switch {
-	case b.set == C.PointRange && (b.loc == C.Vertex || b.loc == C.IFaceCenter || b.loc == C.JFaceCenter):
+	case b.set == C.PointRange && (b.loc == C.Vertex || b.loc == C.EdgeCenter || b.loc == C.IFaceCenter || b.loc == C.JFaceCenter):
 		if len(b.pts) != 4 {
 			return nil, fmt.Errorf("%s: a PointRange needs 2 points, got %d values", b.path, len(b.pts))
 		}
 		i0, j0, i1, j1 := min(b.pts[0], b.pts[2]), min(b.pts[1], b.pts[3]), max(b.pts[0], b.pts[2]), max(b.pts[1], b.pts[3])
-		switch b.loc {
-		case C.Vertex:
+		// A face range (EdgeCenter in 2D, or IFaceCenter/JFaceCenter) has one
+		// constant index, the face's, and a cell range along the other; a
+		// single EdgeCenter face is an i-face if it lies on an i = const
+		// side of the zone.
+		iface := b.loc == C.IFaceCenter || b.loc == C.EdgeCenter && i0 == i1 && (j0 != j1 || i0 == 1 || int(i0) == s.ni)
+		switch {
+		case b.loc == C.Vertex:
 			if !s.inside(i0, j0) || !s.inside(i1, j1) {
 				return nil, fmt.Errorf("%s: PointRange %v lies outside the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
 			}
@@ -353,16 +388,16 @@ func (s *szone) bcEdges(b bcInfo) ([][2]int32, error) {
 			default:
 				return nil, fmt.Errorf("%s: Vertex PointRange %v is not a line of nodes along one index", b.path, b.pts)
 			}
-		case C.IFaceCenter:
+		case iface:
 			if i0 != i1 || !s.inside(i0, j0) || !s.inside(i1, j1+1) {
-				return nil, fmt.Errorf("%s: IFaceCenter PointRange %v is not a line of i-faces of the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
+				return nil, fmt.Errorf("%s: face PointRange %v is not a line of i-faces of the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
 			}
 			for j := j0; j <= j1; j++ {
 				edges = append(edges, [2]int32{s.id(i0, j), s.id(i0, j+1)})
 			}
 		default:
 			if j0 != j1 || !s.inside(i0, j0) || !s.inside(i1+1, j1) {
-				return nil, fmt.Errorf("%s: JFaceCenter PointRange %v is not a line of j-faces of the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
+				return nil, fmt.Errorf("%s: face PointRange %v is not a line of j-faces of the zone (%d×%d)", b.path, b.pts, s.ni, s.nj)
 			}
 			for i := i0; i <= i1; i++ {
 				edges = append(edges, [2]int32{s.id(i, j0), s.id(i+1, j0)})
@@ -391,7 +426,7 @@ func (s *szone) bcEdges(b bcInfo) ([][2]int32, error) {
 			add(ni, j, ni, j+1)
 		}
 	default:
-		return nil, fmt.Errorf("%s: %s at %s; cvdeck reads structured BCs as Vertex point ranges or lists, or IFaceCenter/JFaceCenter ranges",
+		return nil, fmt.Errorf("%s: %s at %s; cvdeck reads structured BCs as Vertex point ranges or lists, or face ranges (EdgeCenter, IFaceCenter, JFaceCenter)",
 			b.path, C.GoString(C.cg_PointSetTypeName(b.set)), C.GoString(C.cg_GridLocationName(b.loc)))
 	}
 	return edges, nil

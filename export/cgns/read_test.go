@@ -19,10 +19,14 @@ func TestReadBack(t *testing.T) {
 			if _, err := Write(path, c.deck); err != nil {
 				t.Fatal(err)
 			}
-			got, err := Read(path)
+			rd, err := ReadDeck(path)
 			if err != nil {
 				t.Fatal(err)
 			}
+			if rd.Name != c.deck.Name || !slices.Equal(rd.BCs, c.deck.BCs) {
+				t.Errorf("read base %q with BCs %v, wrote %q with %v", rd.Name, rd.BCs, c.deck.Name, c.deck.BCs)
+			}
+			got := rd.Mesh
 			want := c.deck.Mesh
 			sameCounts(t, got, want)
 			if len(want.Blocks) == 0 {
@@ -95,6 +99,27 @@ func sameBlocks(t *testing.T, got, want *mesh.Mesh) {
 			t.Fatalf("face %d: read owner %d neighbour %d tag %d, wrote %d %d %d", f, got.Owner[f], got.Neighbour[f], got.FaceTag[f], want.Owner[f], want.Neighbour[f], want.FaceTag[f])
 		}
 	}
+}
+
+// TestWriteAsUnstructured: a structured mesh written as one unstructured
+// zone passes cgnscheck and reads back identical, without the blocks.
+func TestWriteAsUnstructured(t *testing.T) {
+	d := testDeck(cgridMesh(t, 6, 3, 2))
+	d.Unstructured = true
+	path := filepath.Join(t.TempDir(), "u.cgns")
+	if _, err := Write(path, d); err != nil {
+		t.Fatal(err)
+	}
+	cgnscheck(t, path)
+	got, err := Read(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(got.Blocks) != 0 {
+		t.Errorf("read %d blocks from an unstructured zone", len(got.Blocks))
+	}
+	sameCounts(t, got, d.Mesh)
+	sameUnstructured(t, got, d.Mesh)
 }
 
 // TestReadInterfaces: the joins of whole sides come back as the

@@ -20,9 +20,6 @@ type elemSection struct {
 	conn       []int32
 	off        []int32 // ElementStartOffset of MIXED and NGON_n sections
 	npe        int     // nodes per element of fixed-size sections
-	// bar[e] is the index into the reader's bar list of element start+e,
-	// or -1 if that element is not a BAR_2.
-	bar []int32
 }
 
 // element returns the type and 1-based nodes of element e (0-based in the
@@ -67,13 +64,11 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 		}
 	}
 
-	in := mesh.Input{Nodes: nodes, CellStart: []int32{0}}
-	var bars [][2]int32
+	// Two passes: check and count, then fill the cell arrays at their size.
+	ncell, ncn := 0, 0
 	for si := range secs {
 		s := &secs[si]
-		s.bar = make([]int32, s.end-s.start+1)
-		for e := range s.bar {
-			s.bar[e] = -1
+		for e := 0; e <= int(s.end-s.start); e++ {
 			typ, vs := s.element(e)
 			for _, v := range vs {
 				if v < 1 || int(v) > nn {
@@ -82,28 +77,40 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 			}
 			switch typ {
 			case C.TRI_3, C.QUAD_4, C.NGON_n:
-				for _, v := range vs {
-					in.CellNodes = append(in.CellNodes, v-1)
-				}
-				in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
-			case C.BAR_2:
-				s.bar[e] = int32(len(bars))
-				bars = append(bars, [2]int32{vs[0] - 1, vs[1] - 1})
-			case C.NODE:
+				ncell++
+				ncn += len(vs)
+			case C.BAR_2, C.NODE:
 			default:
 				return nil, fmt.Errorf("%s: element %d is %s; cvdeck reads TRI_3, QUAD_4, MIXED of those, NGON_n polygons and BAR_2 faces", s.path, int(s.start)+e, elementTypeName(typ))
 			}
 		}
 	}
-	if len(in.CellStart) == 1 {
+	if ncell == 0 {
 		return nil, fmt.Errorf("%s has no 2D elements (TRI_3, QUAD_4, MIXED, NGON_n)", zp)
 	}
-	barOf := func(id int32) int32 {
+	in := mesh.Input{Nodes: nodes, CellStart: make([]int32, 1, ncell+1), CellNodes: make([]int32, 0, ncn)}
+	for si := range secs {
+		s := &secs[si]
+		for e := 0; e <= int(s.end-s.start); e++ {
+			if typ, vs := s.element(e); typ == C.TRI_3 || typ == C.QUAD_4 || typ == C.NGON_n {
+				for _, v := range vs {
+					in.CellNodes = append(in.CellNodes, v-1)
+				}
+				in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+			}
+		}
+	}
+	// barOf returns the 0-based nodes of BAR_2 element id.
+	barOf := func(id int32) ([2]int32, bool) {
 		k := sort.Search(len(secs), func(i int) bool { return secs[i].end >= id })
 		if k == len(secs) || id < secs[k].start {
-			return -1
+			return [2]int32{}, false
 		}
-		return secs[k].bar[id-secs[k].start]
+		typ, vs := secs[k].element(int(id - secs[k].start))
+		if typ != C.BAR_2 {
+			return [2]int32{}, false
+		}
+		return [2]int32{vs[0] - 1, vs[1] - 1}, true
 	}
 
 	bcs, err := r.bocos(z, zp, 1)
@@ -138,12 +145,13 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 				b.path, C.GoString(C.cg_GridLocationName(b.loc)))
 		}
 		t := tagged{tag: b.tag}
+		t.edges = make([][2]int32, 0, len(ids))
 		for i, id := range ids {
-			k := barOf(id)
-			if k < 0 {
+			e, ok := barOf(id)
+			if !ok {
 				return nil, fmt.Errorf("%s: point %d is element %d, which is not a BAR_2 element of the zone", b.path, i+1, id)
 			}
-			t.edges = append(t.edges, bars[k])
+			t.edges = append(t.edges, e)
 		}
 		found = append(found, t)
 	}

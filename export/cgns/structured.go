@@ -66,9 +66,16 @@ func outward(s mesh.Side) int {
 
 func edgeKey(a, b int32) [2]int32 { return [2]int32{min(a, b), max(a, b)} }
 
-// validateBlocks checks the structured view against the mesh.
+// validateBlocks checks the structured view against the mesh (before a
+// structured write): node maps
+// in range, and every mesh cell in exactly one block, cell FirstCell +
+// j*(NI-1) + i of a block having the corners of block cell (i, j) as its
+// nodes, so zone coordinates and cell fields describe the same cells.
 func validateBlocks(m *mesh.Mesh) error {
-	cells := 0
+	owner := make([]int32, m.NumCells())
+	for c := range owner {
+		owner[c] = -1
+	}
 	for b := range m.Blocks {
 		blk := &m.Blocks[b]
 		if blk.NI < 2 || blk.NJ < 2 {
@@ -86,10 +93,34 @@ func validateBlocks(m *mesh.Mesh) error {
 		if blk.FirstCell < 0 || int(blk.FirstCell)+nc > m.NumCells() {
 			return fmt.Errorf("block %d (%s) cells %d..%d lie outside the mesh's %d cells", b, blk.Name, blk.FirstCell, int(blk.FirstCell)+nc-1, m.NumCells())
 		}
-		cells += nc
+		for j := 0; j+1 < blk.NJ; j++ {
+			for i := 0; i+1 < blk.NI; i++ {
+				c := int(blk.FirstCell) + j*(blk.NI-1) + i
+				if owner[c] >= 0 {
+					return fmt.Errorf("mesh cell %d is in block %d (%s) and in block %d (%s)", c, owner[c], m.Blocks[owner[c]].Name, b, blk.Name)
+				}
+				owner[c] = int32(b)
+				corners := [4]int32{blk.Node[j*blk.NI+i], blk.Node[j*blk.NI+i+1], blk.Node[(j+1)*blk.NI+i+1], blk.Node[(j+1)*blk.NI+i]}
+				cell := m.Cell(c)
+				for _, v := range corners {
+					found := false
+					for _, u := range cell {
+						found = found || u == v
+					}
+					if !found {
+						return fmt.Errorf("block %d (%s) cell (%d, %d) is mesh cell %d, which does not have the block's corner node %d", b, blk.Name, i, j, c, v)
+					}
+				}
+				if len(cell) > 4 {
+					return fmt.Errorf("block %d (%s) cell (%d, %d) is mesh cell %d, which has %d nodes; a block cell has at most 4", b, blk.Name, i, j, c, len(cell))
+				}
+			}
+		}
 	}
-	if cells != m.NumCells() {
-		return fmt.Errorf("the blocks hold %d cells but the mesh has %d; a structured export needs every cell in a block", cells, m.NumCells())
+	for c, b := range owner {
+		if b < 0 {
+			return fmt.Errorf("mesh cell %d is in no block; a structured export needs every cell in a block", c)
+		}
 	}
 	return nil
 }
@@ -97,7 +128,7 @@ func validateBlocks(m *mesh.Mesh) error {
 // zoneNames are the zone names: "Mesh" for an unstructured mesh, and for
 // a structured one the block name if it is a valid CGNS name used by no
 // other zone, family (tag) or standard base child, otherwise "Block_<n>".
-func zoneNames(m *mesh.Mesh) []string {
+func zoneNames(m *mesh.Mesh, structured bool) []string {
 	used := map[string]bool{}
 	for _, t := range m.Tags {
 		used[t] = true
@@ -109,7 +140,7 @@ func zoneNames(m *mesh.Mesh) []string {
 		used[n] = true
 		return n
 	}
-	if len(m.Blocks) == 0 {
+	if !structured {
 		return []string{free(unstructuredZone)}
 	}
 	names := make([]string, len(m.Blocks))
@@ -133,10 +164,7 @@ func zoneNames(m *mesh.Mesh) []string {
 // side becomes a BC with a Vertex PointRange and FamilyName the tag.
 func (w *writer) structured(d *Deck, bcTypes []C.BCType_t) error {
 	m := d.Mesh
-	if err := validateBlocks(m); err != nil {
-		return err
-	}
-	names := zoneNames(m)
+	names := zoneNames(m, true)
 	bface := make(map[[2]int32]int32, m.NumBoundary())
 	for f := m.NumInterior; f < m.NumFaces(); f++ {
 		bface[edgeKey(m.FaceNodes[f][0], m.FaceNodes[f][1])] = int32(f)
@@ -280,7 +308,7 @@ func (w *writer) join(z C.int, zone, name, donor string, rng, drng []int32, tr [
 func (w *writer) blockBCs(m *mesh.Mesh, b int, z C.int, zone string, bface map[[2]int32]int32, bcTypes []C.BCType_t) error {
 	blk := &m.Blocks[b]
 	zp := "/" + w.base + "/" + zone
-	used := map[string]int{}
+	used := map[string]bool{}
 	tagAt := func(s mesh.Side, k int) int16 {
 		f, ok := bface[edgeKey(sideNode(blk, s, k), sideNode(blk, s, k+1))]
 		if !ok {
@@ -302,13 +330,14 @@ func (w *writer) blockBCs(m *mesh.Mesh, b int, z C.int, zone string, bface map[[
 			}
 			ai, aj := sideIJ(blk, s, k)
 			bi, bj := sideIJ(blk, s, k1)
+			// BC names are unique in the zone: the tag, then tag_2, tag_3...
 			tag := m.Tags[t]
-			used[tag]++
 			name := tag
-			if used[tag] > 1 {
-				suffix := fmt.Sprintf("_%d", used[tag])
+			for n := 2; used[name]; n++ {
+				suffix := fmt.Sprintf("_%d", n)
 				name = tag[:min(len(tag), maxNameLen-len(suffix))] + suffix
 			}
+			used[name] = true
 			rng := []int32{int32(ai + 1), int32(aj + 1), int32(bi + 1), int32(bj + 1)}
 			if err := w.boco(z, zp, name, tag, bcTypes[t], C.PointRange, rng, C.Vertex); err != nil {
 				return err

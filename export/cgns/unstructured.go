@@ -40,11 +40,8 @@ const unstructuredZone = "Mesh"
 // EdgeCenter (the face location of a 2D zone) and FamilyName the tag.
 func (w *writer) unstructured(d *Deck, bcTypes []C.BCType_t) error {
 	m := d.Mesh
-	nn, nc, nf := len(m.Nodes), m.NumCells(), m.NumFaces()
-	if int64(nn) > maxIndex || int64(nc)+int64(nf) > maxIndex || int64(len(m.CellNodes))+int64(nc) > maxIndex {
-		return fmt.Errorf("mesh has %d nodes, %d cells and %d faces; this CGNS build numbers with 32-bit integers (at most %d)", nn, nc, nf, maxIndex)
-	}
-	zn := zoneNames(m)[0]
+	nn, nc := len(m.Nodes), m.NumCells()
+	zn := zoneNames(m, false)[0]
 	zp := "/" + w.base + "/" + zn
 	z, err := w.zone(zn, C.Unstructured, []int32{int32(nn), int32(nc), 0})
 	if err != nil {

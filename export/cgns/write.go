@@ -124,10 +124,10 @@ func (w *writer) deck(d *Deck, bcTypes []C.BCType_t) error {
 			return err
 		}
 	}
-	if len(d.Mesh.Blocks) == 0 {
-		return w.unstructured(d, bcTypes)
+	if d.structured() {
+		return w.structured(d, bcTypes)
 	}
-	return w.structured(d, bcTypes)
+	return w.unstructured(d, bcTypes)
 }
 
 // units writes DataClass Dimensional and SI DimensionalUnits at the base;

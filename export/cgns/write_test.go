@@ -6,11 +6,15 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"cvdeck/mesh"
 )
 
 // deckCases are the test decks of our own: unstructured triangles, quads,
-// triangles and quads mixed, quads with hexagons (NGON_n), and two
-// structured blocks whose join needs a reversing transform.
+// triangles and quads mixed, quads with hexagons (NGON_n), two structured
+// blocks joined with and without a reversing transform, an O-type block
+// joined to itself side to side and a C-type block with a wake cut (part
+// of one side joined to another part of it).
 func deckCases(t *testing.T) []struct {
 	name string
 	deck *Deck
@@ -25,7 +29,27 @@ func deckCases(t *testing.T) []struct {
 		{"poly", testDeck(polyMesh(t, 8, 4))},
 		{"twoblock", testDeck(twoBlockMesh(t, 8, 4, true))},
 		{"twoblock-aligned", testDeck(twoBlockMesh(t, 8, 4, false))},
+		{"ring", testDeck(ringMesh(t, 12, 3))},
+		{"cgrid", testDeck(cgridMesh(t, 6, 3, 2))},
+		{"cgrid-names", renamed(testDeck(cgridMesh(t, 6, 3, 2)), "farfield", "outlet_2")},
 	}
+}
+
+// renamed renames a tag of the deck (mesh and BC), here to make the
+// structured writer's BC names collide: the C-grid's outlet has two runs,
+// "outlet" and the next free name, which must skip a tag named "outlet_2".
+func renamed(d *Deck, from, to string) *Deck {
+	for i, tag := range d.Mesh.Tags {
+		if tag == from {
+			d.Mesh.Tags[i] = to
+		}
+	}
+	for i := range d.BCs {
+		if d.BCs[i].Tag == from {
+			d.BCs[i].Tag = to
+		}
+	}
+	return d
 }
 
 // TestWriteChecked: every file passes the CGNS library's own checker with
@@ -128,6 +152,8 @@ func TestWriteRejects(t *testing.T) {
 		{"long name", func(d *Deck) { d.Name = strings.Repeat("x", 33) }, "at most 32"},
 		{"gamma", func(d *Deck) { d.Flow.Gamma = 1 }, "Gamma is 1"},
 		{"no mesh", func(d *Deck) { d.Mesh = nil }, "deck has no mesh"},
+		{"null BCType", func(d *Deck) { d.BCs[1].BCType = "Null" }, `"Null" is not a CGNS BCType`},
+		{"tag named like a node", func(d *Deck) { d.Mesh.Tags[0] = "ZoneBC"; d.BCs[0].Tag = "ZoneBC" }, `boundary tag "ZoneBC" is also the name of a standard CGNS node`},
 	}
 	for _, c := range cases {
 		d := testDeck(quadMesh(t, 8, 4))
@@ -138,7 +164,50 @@ func TestWriteRejects(t *testing.T) {
 			t.Errorf("%s: got error %v, want one containing %q", c.name, err, c.want)
 		}
 	}
+	blockCases := []struct {
+		name string
+		edit func(m *mesh.Mesh)
+		want string
+	}{
+		{"cell in no block", func(m *mesh.Mesh) { m.Blocks[1].FirstCell = 0 }, "mesh cell 0 is in block 0 (block1) and in block 1 (block2)"},
+		{"wrong corners", func(m *mesh.Mesh) {
+			m.Blocks[0].Node[0], m.Blocks[0].Node[1] = m.Blocks[0].Node[1], m.Blocks[0].Node[0]
+		}, "does not have the block's corner node"},
+		{"short node map", func(m *mesh.Mesh) { m.Blocks[1].Node = m.Blocks[1].Node[1:] }, "block 1 (block2) maps 14 nodes; 3×5 needs 15"},
+	}
+	for _, c := range blockCases {
+		d := testDeck(twoBlockMesh(t, 4, 4, false))
+		c.edit(d.Mesh)
+		_, err := Write(filepath.Join(dir, "bad.cgns"), d)
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: got error %v, want one containing %q", c.name, err, c.want)
+		}
+	}
 	if left, _ := os.ReadDir(dir); len(left) != 0 {
 		t.Errorf("rejected writes left files: %v", left)
+	}
+}
+
+// TestBCTypeNames: every BCType_t name of the library's table is accepted
+// (SIDS 9.7 lists them), the user-defined one under both of its names.
+func TestBCTypeNames(t *testing.T) {
+	for _, name := range []string{"BCWall", "BCFarfield", "BCSymmetryPlane", "BCInflowSupersonic", "BCOutflowSubsonic", "BCWallViscousIsothermal", "BCExtrapolate", "UserDefined", "BCTypeUserDefined"} {
+		if _, err := bcTypeByName(name); err != nil {
+			t.Errorf("%s: %v", name, err)
+		}
+	}
+	d := testDeck(quadMesh(t, 4, 2))
+	d.BCs[0].BCType = "BCTypeUserDefined"
+	path := filepath.Join(t.TempDir(), "ud.cgns")
+	if _, err := Write(path, d); err != nil {
+		t.Fatal(err)
+	}
+	cgnscheck(t, path)
+	rd, err := ReadDeck(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rd.BCs[0] != (BC{Tag: "wall", BCType: "UserDefined"}) {
+		t.Errorf("read %v, want wall UserDefined", rd.BCs[0])
 	}
 }

@@ -1,0 +1,78 @@
+package main
+
+import (
+	"encoding/json"
+	"errors"
+	"fmt"
+
+	"github.com/spf13/cobra"
+
+	"cvdeck/deck"
+	"cvdeck/quality"
+)
+
+func newCheckCommand(g *globals) *cobra.Command {
+	var limits, profile string
+	cmd := &cobra.Command{
+		Use:   "check FILE",
+		Short: "Check an existing mesh (.vtu, .vtk or .cgns), made by cvdeck or not",
+		Long: `check reads a mesh file — a VTK XML (.vtu) or legacy (.vtk) unstructured grid
+with triangles, quads or polygons (line cells are boundary faces, tagged by a
+"boundary_tag" or "tag" cell array), or a CGNS file — and runs every quality
+metric, the connectivity checks and the conservation audit on it.
+
+Boundary faces with no tag are checked as one tag "boundary", with a warning.
+Exit codes: 0 the mesh passes; 1 a cell fails a limit; 2 the file cannot be read.`,
+		Args: func(cmd *cobra.Command, args []string) error {
+			if len(args) != 1 {
+				return fmt.Errorf("%w: check takes one mesh file, got %d arguments", deck.ErrInput, len(args))
+			}
+			return nil
+		},
+		RunE: func(cmd *cobra.Command, args []string) error {
+			var patches []quality.Patch
+			if profile != "" {
+				patches = append(patches, quality.Patch{Profile: profile})
+			}
+			if limits != "" {
+				p, err := quality.LoadPatch(limits)
+				if err != nil {
+					return fmt.Errorf("%w: %w", deck.ErrInput, err)
+				}
+				patches = append(patches, p)
+			}
+			res, err := deck.Check(args[0], patches...)
+			var failed *deck.CheckFailure
+			if err != nil && !errors.As(err, &failed) {
+				return err
+			}
+			w := cmd.OutOrStdout()
+			if g.json {
+				out := struct {
+					File     string          `json:"file"`
+					Verdict  string          `json:"verdict"`
+					Warnings []string        `json:"warnings"`
+					Quality  *quality.Report `json:"quality"`
+				}{res.File, res.Report.Verdict.String(), append([]string{}, res.Warnings...), res.Report}
+				enc := json.NewEncoder(w)
+				enc.SetIndent("", "  ")
+				if e := enc.Encode(out); e != nil {
+					return e
+				}
+				return err
+			}
+			for _, warn := range res.Warnings {
+				fmt.Fprintf(cmd.ErrOrStderr(), "cvdeck: warning: %s\n", warn)
+			}
+			if !g.quiet {
+				if e := quality.WriteText(w, res.Report); e != nil {
+					return e
+				}
+			}
+			return err
+		},
+	}
+	cmd.Flags().StringVar(&limits, "limits", "", "a limits file overriding the profile's limits")
+	cmd.Flags().StringVar(&profile, "profile", "", "the limit profile to start from: "+fmt.Sprint(quality.ProfileNames()))
+	return cmd
+}

@@ -1,0 +1,170 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+
+	"cvdeck/samples"
+)
+
+// cvdeck runs the command line in-process and returns exit code, stdout and
+// stderr.
+func cvdeck(t *testing.T, args ...string) (int, string, string) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	code := run(args, &out, &errb)
+	return code, out.String(), errb.String()
+}
+
+// TestSamplesMeshAndPass meshes every sample case as a user would (init,
+// then mesh) and expects a complete deck and exit code 0.
+func TestSamplesMeshAndPass(t *testing.T) {
+	for _, s := range samples.List() {
+		t.Run(s.Name, func(t *testing.T) {
+			dir := t.TempDir()
+			code, out, errs := cvdeck(t, "init", s.Name, dir)
+			if code != 0 {
+				t.Fatalf("init: exit %d: %s", code, errs)
+			}
+			casePath := strings.TrimSpace(out)
+			deckDir := filepath.Join(dir, "deck")
+			code, out, errs = cvdeck(t, "mesh", casePath, "-o", deckDir)
+			if code != 0 {
+				t.Fatalf("mesh: exit %d\nstdout:\n%s\nstderr:\n%s", code, out, errs)
+			}
+			for _, f := range []string{"mesh.vtu", "boundary.vtp", "mesh.cgns", "deck.yaml", "quality.json"} {
+				if _, err := os.Stat(filepath.Join(deckDir, f)); err != nil {
+					t.Errorf("deck lacks %s: %v", f, err)
+				}
+			}
+		})
+	}
+}
+
+// located matches the one-line located error the command prints for bad
+// input: "cvdeck: FILE:LINE:COL: ...".
+var located = regexp.MustCompile(`^cvdeck: [^\n]*\.yaml:\d+:\d+: [^\n]+\n$`)
+
+// TestBadInputIsLocatedAndWritesNothing edits the bump-channel sample into
+// each of the bad inputs a user makes, and expects exit code 2, one
+// located line on stderr naming the trouble, and no deck folder.
+func TestBadInputIsLocatedAndWritesNothing(t *testing.T) {
+	base, err := samples.Case("bump-channel")
+	if err != nil {
+		t.Fatal(err)
+	}
+	cases := []struct {
+		name, from, to, want string
+	}{
+		{"loop does not close", "- {name: inlet, line: [0, 0]", "- {name: inlet, line: [0, 100]", "not closed"},
+		{"self-crossing loop", "- {name: ceiling, line: [0, height]", "- {name: ceiling, line: [length / 2, -200]}\n        - {line: [0, height], tag: ceiling, spacing: {count: 5}", "cross"},
+		{"inner loop outside", "mesh:", "    - {name: stray, circle: {centre: [5000, 500], radius: 100}, tag: stray, spacing: {count: 17}}\nmesh:", "inside"},
+		{"mismatched side counts", "tag: ceiling, spacing: {count: cells_x + 1}", "tag: ceiling, spacing: {count: cells_x + 4}", "by 3"},
+		{"unknown key", "tag: outlet,", "tga: outlet,", `unknown key "tga"`},
+		{"undefined parameter", "count: cells_y + 1}", "count: cells_z + 1}", `"cells_z" is not a defined parameter`},
+		{"negative size", "tag: ceiling, spacing: {count: cells_x + 1}", "tag: ceiling, spacing: {size: -5}", "greater than zero"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			text := string(base)
+			if !strings.Contains(text, c.from) {
+				t.Fatalf("the sample no longer contains %q", c.from)
+			}
+			text = strings.Replace(text, c.from, c.to, 1)
+			dir := t.TempDir()
+			casePath := filepath.Join(dir, "case.yaml")
+			if err := os.WriteFile(casePath, []byte(text), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			deckDir := filepath.Join(dir, "deck")
+			code, _, errs := cvdeck(t, "mesh", casePath, "-o", deckDir)
+			if code != 2 {
+				t.Fatalf("exit %d, want 2; stderr: %s", code, errs)
+			}
+			if !located.MatchString(errs) || !strings.Contains(errs, c.want) {
+				t.Fatalf("stderr %q: want one located line mentioning %q", errs, c.want)
+			}
+			if _, err := os.Stat(deckDir); !os.IsNotExist(err) {
+				t.Fatalf("the deck folder exists after bad input (%v)", err)
+			}
+		})
+	}
+}
+
+func TestSamplesListAndVersion(t *testing.T) {
+	code, out, _ := cvdeck(t, "samples")
+	if code != 0 {
+		t.Fatalf("exit %d", code)
+	}
+	lines := strings.Split(strings.TrimSpace(out), "\n")
+	if len(lines) != len(samples.List()) || len(lines) < 2 {
+		t.Fatalf("samples printed %d lines for %d samples", len(lines), len(samples.List()))
+	}
+	for i, s := range samples.List() {
+		if !strings.HasPrefix(lines[i], s.Name+" ") || !strings.Contains(lines[i], s.Description) || s.Description == "" {
+			t.Errorf("line %q: want the name %s first, then its description", lines[i], s.Name)
+		}
+	}
+	if code, out, _ := cvdeck(t, "version"); code != 0 || !strings.HasPrefix(out, "cvdeck ") {
+		t.Fatalf("version: exit %d, %q", code, out)
+	}
+	if code, _, errs := cvdeck(t, "mesh"); code != 2 || errs == "" {
+		t.Fatalf("mesh without a file: exit %d, %q", code, errs)
+	}
+}
+
+// TestSketchStraightToMesh meshes a bare GeoJSON sketch with no case file,
+// writes a case around it with init --from and meshes that too, and
+// refuses a self-crossing sketch with its ring and vertex named.
+func TestSketchStraightToMesh(t *testing.T) {
+	dir := t.TempDir()
+	sketch := filepath.Join(dir, "plate.geojson")
+	// A 2 × 1 plate with a square hole; the exterior's edges are tagged
+	// by edge_tags (our own GeoJSON property), the hole by "tag".
+	doc := `{"type": "Feature", "properties": {"tag": "hole", "edge_tags": [{"ring": 0, "from": 0, "to": 3, "tag": "rim"}]},
+	 "geometry": {"type": "Polygon", "coordinates": [[[0, 0], [2, 0], [2, 1], [0, 1], [0, 0]], [[0.8, 0.4], [0.8, 0.6], [1.0, 0.6], [1.0, 0.4], [0.8, 0.4]]]}}`
+	if err := os.WriteFile(sketch, []byte(doc), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	deckDir := filepath.Join(dir, "deck")
+	code, out, errs := cvdeck(t, "mesh", sketch, "--size", "0.05", "--min-angle", "28", "-o", deckDir, "--format", "vtu,manifest")
+	if code != 0 {
+		t.Fatalf("exit %d\n%s\n%s", code, out, errs)
+	}
+	data, err := os.ReadFile(filepath.Join(deckDir, "deck.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"tag: rim", "tag: hole", "kind: unstructured", "triangle:"} {
+		if !strings.Contains(string(data), want) {
+			t.Errorf("deck.yaml lacks %q", want)
+		}
+	}
+	// init --from writes an editable case that meshes the same way.
+	caseDir := filepath.Join(dir, "case")
+	code, out, errs = cvdeck(t, "init", "--from", sketch, "--size", "0.05", caseDir)
+	if code != 0 {
+		t.Fatalf("init --from: exit %d: %s", code, errs)
+	}
+	casePath := strings.TrimSpace(out)
+	if code, out, errs = cvdeck(t, "mesh", casePath, "-o", filepath.Join(dir, "deck2"), "--format", "vtu"); code != 0 {
+		t.Fatalf("mesh of the written case: exit %d\n%s\n%s", code, out, errs)
+	}
+	// A bow-tie ring: exit 2, located at the ring and vertex, nothing written.
+	bad := filepath.Join(dir, "bowtie.geojson")
+	if err := os.WriteFile(bad, []byte(`{"type": "Polygon", "coordinates": [[[0, 0], [1, 1], [1, 0], [0, 1], [0, 0]]]}`), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	badDeck := filepath.Join(dir, "bad")
+	code, _, errs = cvdeck(t, "mesh", bad, "--size", "0.1", "-o", badDeck)
+	if code != 2 || !strings.Contains(errs, "ring") || !strings.Contains(errs, "segment 0") || strings.Count(errs, "\n") != 1 {
+		t.Fatalf("bow-tie: exit %d, stderr %q", code, errs)
+	}
+	if _, err := os.Stat(badDeck); !os.IsNotExist(err) {
+		t.Fatalf("a deck was written for a bad sketch")
+	}
+}

@@ -1,0 +1,159 @@
+package main
+
+import (
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+
+	"github.com/spf13/cobra"
+
+	"cvdeck/deck"
+	"cvdeck/quality"
+)
+
+// meshFlags are the flags of `cvdeck mesh`.
+type meshFlags struct {
+	out      string
+	set      []string
+	formats  []string
+	maxCells int
+	limits   string
+	refine   float64
+	sketch   deck.SketchOptions
+}
+
+func newMeshCommand(g *globals) *cobra.Command {
+	f := &meshFlags{}
+	cmd := &cobra.Command{
+		Use:   "mesh CASE.yaml|SKETCH -o DIR",
+		Short: "Mesh a case (or a bare sketch file), check it and write the deck folder",
+		Long: `mesh reads a case file, meshes its geometry, assigns its boundary conditions,
+checks the mesh and writes the deck folder DIR as a whole: an interrupted run
+leaves the previous deck or none.
+
+Instead of a case file it also takes a bare sketch (GeoJSON .geojson/.json,
+WKT .wkt, SVG path data .svg, x-y points .xy/.txt/.dat/.csv) and meshes it with
+the unstructured mesher: --size sets the target cell size in the sketch's
+units after --scale, --min-angle and --growth tune the mesher, and boundary
+tags come from the GeoJSON property "tag" or are one per loop.
+
+Exit codes: 0 deck written and checks pass; 1 deck written but a check
+failed (the report names the cells); 2 bad input, nothing written.`,
+		Args: func(cmd *cobra.Command, args []string) error {
+			if len(args) != 1 {
+				return fmt.Errorf("%w: mesh takes one case or sketch file, got %d arguments", deck.ErrInput, len(args))
+			}
+			return nil
+		},
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runMesh(cmd, g, f, args[0])
+		},
+	}
+	fl := cmd.Flags()
+	fl.StringVarP(&f.out, "output", "o", "", "the deck folder to write (required)")
+	fl.StringArrayVar(&f.set, "set", nil, "override a case parameter: --set name=value (repeatable)")
+	fl.StringSliceVar(&f.formats, "format", nil, "outputs, comma-separated: "+joinFormats())
+	fl.IntVar(&f.maxCells, "max-cells", deck.DefaultMaxCells, "refuse a mesh estimated to have more cells")
+	fl.StringVar(&f.limits, "limits", "", "a limits file overriding the case's quality limits")
+	fl.Float64Var(&f.refine, "refine", 1, "scale every spacing: 2 halves every cell size")
+	fl.Float64Var(&f.sketch.Size, "size", 0, "sketch only: target cell size in metres (the sketch's units after --scale)")
+	fl.Float64Var(&f.sketch.MinAngle, "min-angle", 0, "sketch only: smallest triangle angle in degrees (default the mesher's)")
+	fl.Float64Var(&f.sketch.Growth, "growth", 0, "sketch only: size growth ratio away from the boundary (default the mesher's)")
+	fl.Float64Var(&f.sketch.Scale, "scale", 1, "sketch only: multiply sketch coordinates by this to get metres")
+	fl.BoolVar(&f.sketch.FlipY, "flip-y", false, "sketch only: flip the y axis (SVG drawings grow y downwards)")
+	_ = cmd.MarkFlagRequired("output")
+	return cmd
+}
+
+func joinFormats() string {
+	s := ""
+	for i, f := range deck.Formats {
+		if i > 0 {
+			s += ", "
+		}
+		s += f
+	}
+	return s + " (default " + fmt.Sprint(deck.DefaultFormats) + ")"
+}
+
+func runMesh(cmd *cobra.Command, g *globals, f *meshFlags, path string) error {
+	overrides, err := deck.ParseAssignments(f.set)
+	if err != nil {
+		return err
+	}
+	var formats []string
+	if len(f.formats) > 0 {
+		if formats, err = deck.ParseFormats(f.formats); err != nil {
+			return err
+		}
+	}
+	opts := deck.RunOptions{Formats: formats, MaxCells: f.maxCells}
+	if f.limits != "" {
+		p, err := quality.LoadPatch(f.limits)
+		if err != nil {
+			return fmt.Errorf("%w: %w", deck.ErrInput, err)
+		}
+		opts.Limits = &p
+	}
+	stderr := cmd.ErrOrStderr()
+	if !g.quiet && !g.json && stderrIsTerminal(stderr) {
+		opts.Stage = func(name string) { fmt.Fprintf(stderr, "\r\x1b[K%s …", name) }
+		defer fmt.Fprint(stderr, "\r\x1b[K")
+	}
+	var c *deck.Case
+	if deck.IsSketch(path) {
+		c, err = deck.SketchCase(path, f.sketch, deck.LoadOptions{Params: overrides, Refine: f.refine})
+	} else {
+		if f.sketch != (deck.SketchOptions{Scale: 1}) {
+			return fmt.Errorf("%w: --size, --min-angle, --growth, --scale and --flip-y apply to sketch files; set a case file's mesh in the file", deck.ErrInput)
+		}
+		c, err = deck.Load(path, deck.LoadOptions{Params: overrides, Refine: f.refine})
+	}
+	if err != nil {
+		return err
+	}
+	res, err := deck.Run(c, f.out, opts)
+	var failed *deck.CheckFailure
+	if err != nil && !errors.As(err, &failed) {
+		return err
+	}
+	return report(cmd.OutOrStdout(), g, res, err)
+}
+
+// report prints the outcome of a run: the quality table on a terminal or
+// pipe (unless --quiet), or one JSON object with --json.
+func report(w io.Writer, g *globals, res *deck.Result, runErr error) error {
+	if g.json {
+		out := struct {
+			Deck      string          `json:"deck"`
+			Case      string          `json:"case"`
+			Verdict   string          `json:"verdict"`
+			InputHash string          `json:"input_hash"`
+			Nodes     int             `json:"nodes"`
+			Cells     int             `json:"cells"`
+			Faces     int             `json:"faces"`
+			Quality   *quality.Report `json:"quality"`
+		}{res.Dir, res.Case, res.Report.Verdict.String(), res.InputHash, len(res.Mesh.Nodes), res.Mesh.NumCells(), res.Mesh.NumFaces(), res.Report}
+		enc := json.NewEncoder(w)
+		enc.SetIndent("", "  ")
+		if err := enc.Encode(out); err != nil {
+			return err
+		}
+		return runErr
+	}
+	if !g.quiet {
+		if err := quality.WriteText(w, res.Report); err != nil {
+			return err
+		}
+		fmt.Fprintf(w, "\ndeck: %s (%d cells, %d faces, %d nodes)\n", res.Dir, res.Mesh.NumCells(), res.Mesh.NumFaces(), len(res.Mesh.Nodes))
+	}
+	return runErr
+}
+
+// stderrIsTerminal reports whether w is the process's terminal stderr.
+func stderrIsTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	return ok && isTerminal(f)
+}

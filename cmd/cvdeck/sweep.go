@@ -1,0 +1,187 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"runtime"
+	"syscall"
+
+	"github.com/spf13/cobra"
+
+	"cvdeck/deck"
+	"cvdeck/deck/sweep"
+)
+
+// sweepFlags are the flags of `cvdeck sweep`.
+type sweepFlags struct {
+	out, shard string
+	jobs       int
+	force      bool
+}
+
+// newSweepCommand returns `cvdeck sweep` and its `merge` sub-command. They
+// read the root's --quiet and --json. Errors about the sweep file or the
+// flags wrap deck.ErrInput (exit code 2); a sweep in which a variant
+// failed or failed its checks returns a *sweep.FailedError after writing
+// the summary, and a merge with missing or conflicting variants a
+// *sweep.MergeError: both have ExitCode() 1.
+func newSweepCommand() *cobra.Command {
+	return sweepCommand(func(f *sweep.File) sweep.Runner { return sweep.NewPipeline(f) })
+}
+
+// sweepCommand builds the command around a runner factory, so that tests
+// can run it with a fake pipeline.
+func sweepCommand(newRunner func(*sweep.File) sweep.Runner) *cobra.Command {
+	var fl sweepFlags
+	cmd := &cobra.Command{
+		Use:   "sweep SWEEP.yaml -o DIR",
+		Short: "Build the decks of a parameter sweep or a refinement family",
+		Long: `sweep builds one deck per variant of a sweep file into DIR/<variant folder>,
+on -j workers, and writes DIR/summary.csv and DIR/summary.json (with --shard
+K/N: DIR/summary-shard-K-of-N.csv and .json). A variant whose folder already
+holds a deck built from the same inputs is kept (--force rebuilds it), so an
+interrupted sweep continues where it stopped. A failing variant does not stop
+the others; the exit code is then 1.
+
+--shard K/N runs only the K-th of N balanced slices (K from 1, as a job
+array's task id), so a scheduler can spread the sweep; 'cvdeck sweep merge'
+joins the shard summaries.`,
+		Example: `  cvdeck sweep samples/sweeps/wedge-sweep.yaml -o out/wedge -j 2
+  cvdeck sweep wedge-sweep.yaml -o out --shard $SLURM_ARRAY_TASK_ID/$SLURM_ARRAY_TASK_COUNT
+  cvdeck sweep merge out`,
+		Args: cobra.ExactArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runSweep(cmd, args[0], fl, newRunner)
+		},
+	}
+	f := cmd.Flags()
+	f.StringVarP(&fl.out, "out", "o", "", "output folder (required)")
+	f.IntVarP(&fl.jobs, "jobs", "j", runtime.NumCPU(), "variants built at once")
+	f.StringVar(&fl.shard, "shard", "", "run only slice K of N (K/N, K from 1)")
+	f.BoolVar(&fl.force, "force", false, "rebuild decks whose inputs have not changed")
+	cmd.AddCommand(newSweepMergeCommand())
+	return cmd
+}
+
+// globalFlag reads one of the root's persistent boolean flags (--quiet,
+// --json); false when the command runs without that root.
+func globalFlag(cmd *cobra.Command, name string) bool {
+	v, err := cmd.Flags().GetBool(name)
+	return err == nil && v
+}
+
+func runSweep(cmd *cobra.Command, path string, fl sweepFlags, newRunner func(*sweep.File) sweep.Runner) error {
+	quiet, jsonOut := globalFlag(cmd, "quiet"), globalFlag(cmd, "json")
+	if fl.out == "" {
+		return fmt.Errorf("%w: sweep: give the output folder with -o DIR", deck.ErrInput)
+	}
+	if fl.jobs < 1 {
+		return fmt.Errorf("%w: sweep: -j %d: the number of workers must be at least 1", deck.ErrInput, fl.jobs)
+	}
+	var shard sweep.Shard
+	if fl.shard != "" {
+		s, err := sweep.ParseShard(fl.shard)
+		if err != nil {
+			return fmt.Errorf("%w: sweep: --shard: %w", deck.ErrInput, err)
+		}
+		shard = s
+	}
+	f, err := sweep.ReadFile(path)
+	if err != nil {
+		return err
+	}
+	ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	opt := sweep.Options{Workers: fl.jobs, Shard: shard, Force: fl.force}
+	stderr := cmd.ErrOrStderr()
+	var bar *sweep.Bar
+	if file, ok := stderr.(*os.File); ok && !quiet && sweep.IsTerminal(file) {
+		bar = sweep.NewBar(stderr)
+		opt.Progress = bar.Update
+	}
+	s, err := sweep.Run(ctx, f, fl.out, newRunner(f), opt)
+	if bar != nil {
+		bar.Finish()
+	}
+	if s == nil {
+		return err
+	}
+	if jsonOut {
+		js, jerr := s.JSON()
+		if jerr != nil {
+			return jerr
+		}
+		if _, werr := cmd.OutOrStdout().Write(js); werr != nil {
+			return werr
+		}
+	}
+	if !quiet {
+		reportSweep(stderr, s, fl.out, shard)
+	}
+	return err
+}
+
+// reportSweep prints the failures, the warnings and a closing line.
+func reportSweep(w io.Writer, s *sweep.Summary, out string, shard sweep.Shard) {
+	for _, r := range s.Rows {
+		if r.Status == sweep.StatusFailed {
+			fmt.Fprintf(w, "%s failed: %s\n", r.Name, r.Error)
+		}
+	}
+	for _, m := range s.Warnings {
+		fmt.Fprintf(w, "warning: %s\n", m)
+	}
+	_, csv := sweep.SummaryFiles(shard)
+	fmt.Fprintf(w, "%s; summary in %s\n", s.Tally(), out+string(os.PathSeparator)+csv)
+}
+
+// newSweepMergeCommand returns `cvdeck sweep merge`.
+func newSweepMergeCommand() *cobra.Command {
+	var out string
+	cmd := &cobra.Command{
+		Use:   "merge DIR...",
+		Short: "Merge the shard summaries of a sweep into one",
+		Long: `merge reads the shard summaries (summary-shard-K-of-N.json) of each DIR, or
+its summary.json when it has none, checks that they come from one sweep, and
+writes summary.json and summary.csv of the whole sweep into -o (default: the
+first DIR). It reports variants that no shard has (exit code 1) and variants
+found twice. The decks stay where the shards wrote them.`,
+		Example: `  cvdeck sweep merge out
+  cvdeck sweep merge host1/out host2/out -o out`,
+		Args: cobra.MinimumNArgs(1),
+		RunE: func(cmd *cobra.Command, dirs []string) error {
+			dest := out
+			if dest == "" {
+				dest = dirs[0]
+			}
+			s, rep, err := sweep.MergeDirs(dirs, dest)
+			if s == nil {
+				return err
+			}
+			if globalFlag(cmd, "json") {
+				js, jerr := s.JSON()
+				if jerr != nil {
+					return jerr
+				}
+				if _, werr := cmd.OutOrStdout().Write(js); werr != nil {
+					return werr
+				}
+			}
+			if !globalFlag(cmd, "quiet") {
+				w := cmd.ErrOrStderr()
+				if len(rep.Duplicates) > 0 {
+					fmt.Fprintf(w, "%d variants were found in more than one summary with the same content; one of each is kept\n", len(rep.Duplicates))
+				}
+				for _, m := range s.Warnings {
+					fmt.Fprintf(w, "warning: %s\n", m)
+				}
+				fmt.Fprintf(w, "merged %d of %d variants into %s\n", len(s.Rows), s.Total, dest+string(os.PathSeparator)+"summary.csv")
+			}
+			return err
+		},
+	}
+	cmd.Flags().StringVarP(&out, "out", "o", "", "folder for the merged summary (default: the first DIR)")
+	return cmd
+}

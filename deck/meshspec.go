@@ -1,0 +1,267 @@
+package deck
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/geometry"
+	"cvdeck/mesh"
+	"cvdeck/mesh/structured"
+)
+
+// DefaultMaxCells is the largest mesh a run makes unless told otherwise.
+const DefaultMaxCells = 50_000_000
+
+// meshSpec is the decoded mesh section.
+type meshSpec struct {
+	at       value
+	maxCells int
+	// structured: blocks over named curves.
+	blocks []blockSpec
+	// unstructured: the outline meshed by the unstructured mesher.
+	unstructured *unstructuredSpec
+}
+
+// blockSpec is one four-sided structured block: each side a run of named
+// curves.
+type blockSpec struct {
+	name  string
+	sides [4][]sideCurve // south, east, north, west
+	at    value
+}
+
+// sideCurve is one named curve on a block side.
+type sideCurve struct {
+	curve *curveSpec
+	at    value
+}
+
+// decodeMesh reads the mesh section:
+//
+//	mesh:
+//	  max_cells: 2e6          # refuse larger meshes (default 50 million)
+//	  structured:
+//	    blocks:
+//	      - name: section
+//	        south: [floor_in, bump, floor_out]   # named curves, in order
+//	        east: outlet
+//	        north: ceiling
+//	        west: inlet
+//
+// A side's curves may be listed in either direction along the side; each
+// curve is turned to join the one before it.
+func decodeMesh(c *Case, v value) (*meshSpec, error) {
+	o, err := v.object()
+	if err != nil {
+		return nil, err
+	}
+	ms := &meshSpec{at: v, maxCells: DefaultMaxCells}
+	if mv, ok := o.get("max_cells"); ok {
+		if ms.maxCells, err = mv.count(1); err != nil {
+			return nil, err
+		}
+	}
+	sv, hasS := o.get("structured")
+	uv, hasU := o.get("unstructured")
+	switch {
+	case hasS && hasU:
+		return nil, uv.errf("a mesh is structured or unstructured, not both")
+	case hasU:
+		if ms.unstructured, err = decodeUnstructured(uv); err != nil {
+			return nil, err
+		}
+		return ms, o.done()
+	case !hasS:
+		return nil, v.errf("the mesh section needs structured: {blocks: [...]} or unstructured: {...}")
+	}
+	so, err := sv.object()
+	if err != nil {
+		return nil, err
+	}
+	bv, err := so.need("blocks")
+	if err != nil {
+		return nil, err
+	}
+	items, err := bv.list()
+	if err != nil {
+		return nil, err
+	}
+	if len(items) == 0 {
+		return nil, bv.errf("needs at least one block")
+	}
+	names := map[string]bool{}
+	for i, it := range items {
+		bs, err := decodeBlock(c, it, i)
+		if err != nil {
+			return nil, err
+		}
+		if names[bs.name] {
+			return nil, it.errf("two blocks are named %q", bs.name)
+		}
+		names[bs.name] = true
+		ms.blocks = append(ms.blocks, bs)
+	}
+	if err := so.done(); err != nil {
+		return nil, err
+	}
+	if err := o.done(); err != nil {
+		return nil, err
+	}
+	return ms, nil
+}
+
+func decodeBlock(c *Case, v value, index int) (blockSpec, error) {
+	o, err := v.object()
+	if err != nil {
+		return blockSpec{}, err
+	}
+	bs := blockSpec{name: fmt.Sprintf("block%d", index+1), at: v}
+	if nv, ok := o.get("name"); ok {
+		if bs.name, err = nv.str(); err != nil {
+			return bs, err
+		}
+	}
+	for s := mesh.South; s <= mesh.West; s++ {
+		sv, err := o.need(s.String())
+		if err != nil {
+			return bs, err
+		}
+		names, err := sv.strings()
+		if err != nil {
+			return bs, err
+		}
+		for _, n := range names {
+			cs, err := c.Geometry.curve(sv, n)
+			if err != nil {
+				return bs, err
+			}
+			bs.sides[s] = append(bs.sides[s], sideCurve{curve: cs, at: sv})
+		}
+	}
+	return bs, o.done()
+}
+
+// estimateCells gives the cell count before any node is placed, from the
+// spacing laws of the block sides (the larger of two opposite sides, so
+// that no side is discretised if the count is too large).
+func (ms *meshSpec) estimateCells() (int, error) {
+	total := 0
+	for _, bs := range ms.blocks {
+		var n [4]int
+		for s := range bs.sides {
+			k, err := sideEdges(bs.sides[s])
+			if err != nil {
+				return 0, err
+			}
+			n[s] = k
+		}
+		total += max(n[mesh.South], n[mesh.North]) * max(n[mesh.East], n[mesh.West])
+		if total > ms.maxCells {
+			break
+		}
+	}
+	return total, nil
+}
+
+// sideEdges counts the edges the spacing laws put on a block side.
+func sideEdges(side []sideCurve) (int, error) {
+	n := 0
+	for _, sc := range side {
+		for _, seg := range sc.curve.segments {
+			sp := seg.Attr().Spacing
+			if sp.KeepsVertices() {
+				pts, err := geometry.DiscretiseSegment(seg)
+				if err != nil {
+					return 0, sc.at.wrap(err)
+				}
+				n += len(pts) - 1
+				continue
+			}
+			k, err := sp.NodeCount(seg.Length())
+			if err != nil {
+				return 0, sc.at.wrap(err)
+			}
+			n += k - 1
+		}
+	}
+	return n, nil
+}
+
+// sideChain discretises a block side: its curves joined end to start, each
+// turned as needed so that it begins where the previous one ended.
+func sideChain(side []sideCurve) (geometry.Chain, error) {
+	var segs []geometry.Segment
+	var end orb.Point
+	for k, sc := range side {
+		cs := sc.curve.segments
+		if k > 0 {
+			first, last := cs[0].At(0), cs[len(cs)-1].At(1)
+			if dist(last, end) < dist(first, end) {
+				cs = reversed(cs)
+			}
+		} else if len(side) > 1 {
+			// Turn the first curve so that its end meets the second curve.
+			next := side[1].curve.segments
+			a, b := next[0].At(0), next[len(next)-1].At(1)
+			first, last := cs[0].At(0), cs[len(cs)-1].At(1)
+			if math.Min(dist(first, a), dist(first, b)) < math.Min(dist(last, a), dist(last, b)) {
+				cs = reversed(cs)
+			}
+		}
+		segs = append(segs, cs...)
+		end = cs[len(cs)-1].At(1)
+	}
+	ch, err := geometry.DiscretiseChain(segs)
+	if err != nil {
+		return ch, side[0].at.wrap(err)
+	}
+	return ch, nil
+}
+
+func reversed(segs []geometry.Segment) []geometry.Segment {
+	out := make([]geometry.Segment, len(segs))
+	for i, s := range segs {
+		out[len(segs)-1-i] = s.Reversed()
+	}
+	return out
+}
+
+func dist(a, b orb.Point) float64 { return math.Hypot(a[0]-b[0], a[1]-b[1]) }
+
+// buildStructured meshes the blocks by transfinite interpolation and joins
+// them into one face-based mesh.
+func (ms *meshSpec) buildStructured() (*mesh.Mesh, error) {
+	n, err := ms.estimateCells()
+	if err != nil {
+		return nil, err
+	}
+	if n > ms.maxCells {
+		return nil, ms.at.errf("the blocks would make %d cells, more than the limit of %d (raise mesh.max_cells or --max-cells)", n, ms.maxCells)
+	}
+	sides := make([][4]geometry.Chain, len(ms.blocks))
+	for b, bs := range ms.blocks {
+		for s := range bs.sides {
+			ch, err := sideChain(bs.sides[s])
+			if err != nil {
+				return nil, err
+			}
+			sides[b][s] = ch
+		}
+	}
+	blocks := make([]*structured.Block, len(ms.blocks))
+	for b, bs := range ms.blocks {
+		s := sides[b]
+		blk, err := structured.TFI(structured.BlockSides{Name: bs.name, South: s[mesh.South], East: s[mesh.East], North: s[mesh.North], West: s[mesh.West]})
+		if err != nil {
+			return nil, bs.at.errf("block %q: %v", bs.name, err)
+		}
+		blocks[b] = blk
+	}
+	m, err := structured.Assemble(blocks, structured.AssembleOptions{})
+	if err != nil {
+		return nil, ms.at.wrap(err)
+	}
+	return m, nil
+}

@@ -1,0 +1,98 @@
+package deck
+
+import (
+	"fmt"
+
+	"cvdeck/bc"
+	"cvdeck/export/manifest"
+	"cvdeck/mesh"
+	"cvdeck/quality"
+)
+
+// manifest assembles deck.yaml's content (the file list is added by
+// writeDeck as the files are written).
+func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *quality.Report) *manifest.Manifest {
+	man := &manifest.Manifest{
+		Schema:    manifest.Schema,
+		Caution:   manifest.Caution,
+		Cvdeck:    Version,
+		Case:      manifest.Case{Name: c.Name, File: c.Inputs[0].Path, Units: c.Units, Refine: c.Refine},
+		InputHash: c.InputHash,
+	}
+	for _, f := range c.Inputs {
+		man.Inputs = append(man.Inputs, manifest.File{Path: f.Path, SHA256: f.SHA256})
+	}
+	for _, k := range c.ParamOrder {
+		man.Parameters = append(man.Parameters, manifest.Parameter{Name: k, Value: c.Params[k]})
+	}
+	man.Mesh = meshSummary(m, kind)
+	for t, tag := range m.Tags {
+		man.Tags = append(man.Tags, manifest.Tag{Tag: tag, FirstFace: int(m.TagStart[t]), Faces: int(m.TagStart[t+1] - m.TagStart[t])})
+	}
+	if assign != nil {
+		rec := assign.Record()
+		man.Conditions = &rec
+	} else {
+		man.Mesh.Notes = append(man.Mesh.Notes, "no boundary conditions are assigned: the deck carries boundary tags only")
+	}
+	man.Advice = c.advice(m)
+	man.Checks = checkSummary(rep)
+	return man
+}
+
+// meshSummary counts the mesh for the manifest.
+func meshSummary(m *mesh.Mesh, kind string) manifest.Mesh {
+	s := manifest.Mesh{
+		Kind: kind, Nodes: len(m.Nodes), Cells: m.NumCells(), Faces: m.NumFaces(),
+		InteriorFaces: m.NumInterior, BoundaryFaces: m.NumBoundary(),
+		CellShapes: map[string]int{},
+	}
+	area := 0.0
+	for c := 0; c < m.NumCells(); c++ {
+		area += m.Geo.CellArea[c]
+		switch n := m.CellStart[c+1] - m.CellStart[c]; n {
+		case 3:
+			s.CellShapes["triangle"]++
+		case 4:
+			s.CellShapes["quadrilateral"]++
+		default:
+			s.CellShapes[fmt.Sprintf("polygon%d", n)]++
+		}
+	}
+	s.Area = manifest.Quantity{Value: area, Unit: "m^2"}
+	for _, b := range m.Blocks {
+		s.Blocks = append(s.Blocks, manifest.Block{Name: b.Name, NI: b.NI, NJ: b.NJ})
+	}
+	return s
+}
+
+// advice derives the first-cell height for the target y+ and the explicit
+// time-step estimate from the reference state.
+func (c *Case) advice(m *mesh.Mesh) bc.Entries {
+	r := c.Reference
+	if r == nil {
+		return nil
+	}
+	var out bc.Entries
+	if r.length > 0 {
+		out = append(out, bc.Entry{Key: "reynolds", Value: r.state.Reynolds(r.length), Unit: "1"},
+			bc.Entry{Key: "reference_length", Value: r.length, Unit: "m"})
+	}
+	if r.yplus > 0 {
+		if ws, err := bc.FirstCellHeight(r.state, r.length, r.yplus); err == nil {
+			out = append(out, bc.Entry{Key: "target_yplus", Value: r.yplus, Unit: "1"},
+				bc.Entry{Key: "first_cell_height", Value: ws.Height, Unit: "m"})
+		}
+	}
+	if r.state.Velocity > 0 {
+		u := r.direction()
+		u[0] *= r.state.Velocity
+		u[1] *= r.state.Velocity
+		if ts, err := bc.MaxTimeStep(m, u, r.state.SpeedOfSound, r.cfl); err == nil {
+			out = append(out, bc.Entry{Key: "cfl", Value: r.cfl, Unit: "1"},
+				bc.Entry{Key: "max_explicit_time_step", Value: ts.Dt, Unit: "s"},
+				bc.Entry{Key: "time_step_limiting_cell", Value: float64(ts.Cell), Unit: "1"})
+		}
+	}
+	return out
+}

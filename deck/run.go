@@ -1,0 +1,342 @@
+package deck
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"sort"
+	"time"
+
+	"cvdeck/bc"
+	"cvdeck/export/atomic"
+	"cvdeck/export/cgns"
+	"cvdeck/export/manifest"
+	"cvdeck/export/preview"
+	"cvdeck/export/vtk"
+	"cvdeck/mesh"
+	"cvdeck/quality"
+)
+
+// RunOptions change how a case is run.
+type RunOptions struct {
+	// Formats replaces the case's output formats when not nil.
+	Formats []string
+	// MaxCells replaces the case's cell limit when positive.
+	MaxCells int
+	// Limits are extra limit overrides (from --limits FILE), applied after
+	// the case's own.
+	Limits *quality.Patch
+	// Stage, if set, is told the name of each pipeline stage as it starts
+	// (for progress display).
+	Stage func(name string)
+}
+
+// Result is what a run made.
+type Result struct {
+	Case      string
+	Dir       string
+	InputHash string
+	Mesh      *mesh.Mesh
+	Report    *quality.Report
+	Manifest  *manifest.Manifest
+	// Elapsed is the wall time of the run; it goes nowhere into the deck.
+	Elapsed time.Duration
+}
+
+// CheckFailure is returned, together with a Result, when the deck was
+// written but a quality check failed: the command line exits 1.
+type CheckFailure struct {
+	Dir    string
+	Failed int
+}
+
+func (e *CheckFailure) Error() string {
+	if e.Dir == "" {
+		return fmt.Sprintf("the mesh fails its checks: %d cells fail their limits (see the report above)", e.Failed)
+	}
+	return fmt.Sprintf("the deck is written to %s, but %d cells fail their limits: see quality.json or the report above", e.Dir, e.Failed)
+}
+
+// Run meshes a loaded case, assigns its boundary conditions, checks the
+// mesh and writes the deck folder outDir as a whole. Bad input returns an
+// error wrapping ErrInput and writes nothing; a failed check writes the
+// deck and returns it with a *CheckFailure.
+func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
+	start := time.Now()
+	stage := opts.Stage
+	if stage == nil {
+		stage = func(string) {}
+	}
+	formats := c.Outputs.formats
+	if opts.Formats != nil {
+		formats = opts.Formats
+	}
+	if opts.MaxCells > 0 {
+		c.Mesh.maxCells = opts.MaxCells
+	}
+
+	stage("mesh")
+	m, kind, err := c.buildMesh()
+	if err != nil {
+		return nil, err
+	}
+
+	stage("conditions")
+	var assign *bc.Assignment
+	if c.Boundaries != nil {
+		setup := bc.Setup{Conditions: c.Boundaries.conditions}
+		if c.Reference != nil {
+			setup.Gas = c.Reference.gas
+			setup.Reference = &c.Reference.state
+			setup.ReferenceWhere = c.Reference.at.where()
+		}
+		if assign, err = bc.Assign(m, setup); err != nil {
+			return nil, &InputError{File: c.File, Msg: "boundary conditions: " + err.Error(), Err: err}
+		}
+	}
+
+	stage("checks")
+	lim, err := c.limits(opts.Limits)
+	if err != nil {
+		return nil, err
+	}
+	rep, err := quality.Evaluate(m, lim)
+	if err != nil {
+		return nil, fmt.Errorf("quality checks: %w", err)
+	}
+
+	stage("export")
+	man := c.manifest(m, kind, assign, rep)
+	if err := atomic.ReplaceDir(outDir, func(tmp string) error {
+		return writeDeck(tmp, c, m, assign, rep, man, formats)
+	}); err != nil {
+		return nil, fmt.Errorf("writing the deck: %w", err)
+	}
+	res := &Result{Case: c.Name, Dir: outDir, InputHash: c.InputHash, Mesh: m, Report: rep, Manifest: man, Elapsed: time.Since(start)}
+	if rep.Verdict == quality.Fail {
+		return res, &CheckFailure{Dir: outDir, Failed: rep.FailedCells}
+	}
+	return res, nil
+}
+
+// buildMesh runs the case's mesher.
+func (c *Case) buildMesh() (*mesh.Mesh, string, error) {
+	if c.Mesh.unstructured != nil {
+		m, err := c.buildUnstructured()
+		return m, "unstructured", err
+	}
+	m, err := c.Mesh.buildStructured()
+	return m, "structured", err
+}
+
+// limits resolves the case's limit profile and overrides, then extra.
+func (c *Case) limits(extra *quality.Patch) (quality.Limits, error) {
+	var patches []quality.Patch
+	if c.Checks != nil {
+		patches = append(patches, c.Checks.patch)
+	}
+	if extra != nil {
+		patches = append(patches, *extra)
+	}
+	lim, err := quality.Resolve(patches...)
+	if err != nil {
+		return lim, fmt.Errorf("%w: limits: %w", ErrInput, err)
+	}
+	return lim, nil
+}
+
+// writeDeck writes every output into the (temporary) deck folder dir, then
+// the manifest with the hashes of all of them.
+func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *quality.Report, man *manifest.Manifest, formats []string) error {
+	fields := cellFields(m, rep)
+	conds := conditionNames(m, assign)
+	type output struct {
+		name, format string
+		write        func(w io.Writer) error
+	}
+	var outs []output
+	if hasFormat(formats, "vtu") {
+		outs = append(outs,
+			output{"mesh.vtu", "vtk-xml-unstructured", func(w io.Writer) error { return vtk.WriteVTU(w, m, fields) }},
+			output{"boundary.vtp", "vtk-xml-polydata", func(w io.Writer) error { return vtk.WriteBoundaryVTP(w, m, conds) }})
+	}
+	if hasFormat(formats, "vtk") {
+		outs = append(outs, output{"mesh.vtk", "vtk-legacy-ascii", func(w io.Writer) error { return vtk.WriteLegacy(w, m, fields, false) }})
+	}
+	if hasFormat(formats, "vtk-binary") {
+		outs = append(outs, output{"mesh-binary.vtk", "vtk-legacy-binary", func(w io.Writer) error { return vtk.WriteLegacy(w, m, fields, true) }})
+	}
+	if hasFormat(formats, "preview") || hasFormat(formats, "png") {
+		pin := previewInput(c, m, conds, rep)
+		if hasFormat(formats, "preview") {
+			outs = append(outs, output{"preview.svg", "svg", func(w io.Writer) error { return preview.SVG(w, pin) }})
+		}
+		if hasFormat(formats, "png") {
+			outs = append(outs, output{"preview.png", "png", func(w io.Writer) error { return preview.PNG(w, pin) }})
+		}
+	}
+	outs = append(outs, output{"quality.json", "json", func(w io.Writer) error { return quality.WriteJSON(w, rep) }})
+	for _, o := range outs {
+		if err := atomic.WriteFile(filepath.Join(dir, o.name), o.write); err != nil {
+			return err
+		}
+		f, err := fileRecord(dir, o.name, o.format)
+		if err != nil {
+			return err
+		}
+		man.Files = append(man.Files, f)
+	}
+	if hasFormat(formats, "vts") && len(m.Blocks) > 0 {
+		names, err := vtk.WriteStructured(dir, "blocks", m, fields)
+		if err != nil {
+			return err
+		}
+		for _, n := range names {
+			format := "vtk-xml-structured"
+			if filepath.Ext(n) == ".vtm" {
+				format = "vtk-xml-multiblock"
+			}
+			f, err := fileRecord(dir, n, format)
+			if err != nil {
+				return err
+			}
+			man.Files = append(man.Files, f)
+		}
+	}
+	if hasFormat(formats, "cgns") {
+		sum, err := cgns.Write(filepath.Join(dir, "mesh.cgns"), cgnsDeck(c, m, assign, fields))
+		if err != nil {
+			return err
+		}
+		st, err := os.Stat(filepath.Join(dir, "mesh.cgns"))
+		if err != nil {
+			return err
+		}
+		man.Files = append(man.Files, manifest.File{Path: "mesh.cgns", Format: "cgns-hdf5", Bytes: st.Size(), ContentSHA256: sum})
+	}
+	sort.Slice(man.Files, func(i, j int) bool { return man.Files[i].Path < man.Files[j].Path })
+	if hasFormat(formats, "manifest") {
+		return atomic.WriteFile(filepath.Join(dir, manifest.FileName), func(w io.Writer) error { return manifest.Encode(w, man) })
+	}
+	return nil
+}
+
+// previewInput gathers what the preview pictures show: the mesh, the
+// boundary coloured by condition, cells by their worst status, and a
+// histogram of each cell metric with its limits.
+func previewInput(c *Case, m *mesh.Mesh, conds []string, rep *quality.Report) preview.Input {
+	in := preview.Input{
+		Title:      fmt.Sprintf("%s: %d cells, checks %s", c.Name, m.NumCells(), rep.Verdict),
+		Mesh:       m,
+		Conditions: conds,
+		Status:     make([]preview.Status, len(rep.CellStatus)),
+	}
+	for i, s := range rep.CellStatus {
+		in.Status[i] = preview.Status(s)
+	}
+	for _, ms := range rep.Metrics {
+		vals, ok := rep.Field(ms.Name)
+		if !ok || ms.Per != "cell" || len(vals) != m.NumCells() {
+			continue
+		}
+		in.Metrics = append(in.Metrics, preview.Metric{Name: ms.Name, Values: vals, Limits: []preview.Limit{
+			{Value: ms.Limit.Warn, Status: preview.Warn}, {Value: ms.Limit.Fail, Status: preview.Fail}}})
+	}
+	return in
+}
+
+// fileRecord hashes a written file for the manifest.
+func fileRecord(dir, name, format string) (manifest.File, error) {
+	data, err := os.ReadFile(filepath.Join(dir, name))
+	if err != nil {
+		return manifest.File{}, err
+	}
+	return manifest.File{Path: name, Format: format, Bytes: int64(len(data)), SHA256: hashBytes(data)}, nil
+}
+
+// cellFields are the per-cell arrays written with the mesh: the quality
+// metrics (the area comes with every VTK file anyway).
+func cellFields(m *mesh.Mesh, rep *quality.Report) []vtk.Field {
+	var out []vtk.Field
+	for _, f := range rep.CellFields {
+		if f.Name == vtk.AreaName {
+			continue
+		}
+		out = append(out, vtk.Field{Name: f.Name, Values: f.Values})
+	}
+	return out
+}
+
+// conditionNames gives each tag's boundary kind, or nil without conditions.
+func conditionNames(m *mesh.Mesh, assign *bc.Assignment) []string {
+	if assign == nil {
+		return nil
+	}
+	out := make([]string, len(m.Tags))
+	for t, r := range assign.Conditions {
+		out[t] = r.Kind.String()
+	}
+	return out
+}
+
+// cgnsDeck fills the CGNS writer's input.
+func cgnsDeck(c *Case, m *mesh.Mesh, assign *bc.Assignment, fields []vtk.Field) *cgns.Deck {
+	d := &cgns.Deck{Mesh: m, Name: cgnsName(c.Name)}
+	for t, tag := range m.Tags {
+		typ := "BCTypeUserDefined"
+		if assign != nil && assign.Conditions[t].Kind.CGNSType() != "" {
+			typ = assign.Conditions[t].Kind.CGNSType()
+		}
+		d.BCs = append(d.BCs, cgns.BC{Tag: tag, BCType: typ})
+	}
+	if c.Reference != nil {
+		s := c.Reference.state
+		dir := c.Reference.direction()
+		fs := &cgns.FlowState{
+			Gamma: s.Gas.Gamma, GasConstant: s.Gas.R, Mach: s.Mach, Pressure: s.Pressure,
+			Temperature: s.Temperature, Density: s.Density, SpeedOfSound: s.SpeedOfSound,
+			Velocity:  [2]float64{s.Velocity * dir[0], s.Velocity * dir[1]},
+			Viscosity: s.Viscosity, ReynoldsLength: c.Reference.length,
+			Reynolds: s.Reynolds(c.Reference.length),
+			Viscous:  viscous(assign),
+		}
+		if fs.Viscous {
+			fs.Sutherland = &cgns.Sutherland{ViscosityRef: bc.SutherlandMuRef, TemperatureRef: bc.SutherlandTRef, Constant: bc.SutherlandS}
+		}
+		d.Flow = fs
+	}
+	for _, f := range fields {
+		d.CellFields = append(d.CellFields, cgns.Field{Name: f.Name, Values: f.Values})
+	}
+	return d
+}
+
+// cgnsName makes a CGNS base name: at most 32 characters, no '/'.
+func cgnsName(s string) string {
+	out := []rune{}
+	for _, r := range s {
+		if r == '/' {
+			r = '_'
+		}
+		out = append(out, r)
+		if len(out) == 32 {
+			break
+		}
+	}
+	return string(out)
+}
+
+// viscous reports whether any condition is a no-slip wall, which makes the
+// deck a viscous (Navier–Stokes) case.
+func viscous(assign *bc.Assignment) bool {
+	if assign == nil {
+		return false
+	}
+	for _, r := range assign.Conditions {
+		if r.Kind == bc.WallAdiabatic || r.Kind == bc.WallIsothermal {
+			return true
+		}
+	}
+	return false
+}

@@ -1,0 +1,209 @@
+package deck
+
+import (
+	"math"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/geometry"
+)
+
+// segmentKinds are the shape keys of a chained segment; exactly one of them
+// appears in each segment mapping.
+var segmentKinds = []string{"line", "arc", "polyline", "spline"}
+
+// namedSegment is a decoded segment with its optional name.
+type namedSegment struct {
+	name string
+	seg  geometry.Segment
+	at   value
+}
+
+// decodeChain reads a run of segments that start at start and each begin
+// where the previous one ended:
+//
+//   - {line: [x, y], tag: t, spacing: {...}}           straight to (x, y)
+//   - {arc: {through: [x, y], to: [x, y]}, ...}         circular arc through a point
+//   - {arc: {centre: [x, y], to: [x, y], turn: ccw}, ...} arc about a centre
+//   - {polyline: [[x, y], ...], ...}                    straight pieces through the points
+//   - {spline: [[x, y], ...], ...}                      cubic spline through the points
+//
+// Every segment may carry a name (to refer to it from the mesh section), a
+// tag (default: the enclosing tag) and a spacing (default: the enclosing
+// spacing).
+func decodeChain(c *Case, start orb.Point, list value, defTag string, defSpacing *geometry.Spacing) ([]namedSegment, error) {
+	items, err := list.list()
+	if err != nil {
+		return nil, err
+	}
+	if len(items) == 0 {
+		return nil, list.errf("needs at least one segment")
+	}
+	var out []namedSegment
+	cur := start
+	for _, it := range items {
+		o, err := it.object()
+		if err != nil {
+			return nil, err
+		}
+		var kind string
+		var shape value
+		for _, k := range segmentKinds {
+			if v, ok := o.get(k); ok {
+				if kind != "" {
+					return nil, v.errf("a segment has one shape, but both %q and %q are given", kind, k)
+				}
+				kind, shape = k, v
+			}
+		}
+		if kind == "" {
+			return nil, it.errf("a segment needs one of the keys line, arc, polyline or spline")
+		}
+		o.known("name", "tag", "spacing")
+		if err := o.done(); err != nil {
+			return nil, err
+		}
+		attr, name, err := decodeAttr(c, o, defTag, defSpacing)
+		if err != nil {
+			return nil, err
+		}
+		var seg geometry.Segment
+		switch kind {
+		case "line":
+			to, err := shape.point()
+			if err != nil {
+				return nil, err
+			}
+			seg, err = geometry.NewLine(cur[0], cur[1], to[0], to[1], attr)
+			if err != nil {
+				return nil, shape.wrap(err)
+			}
+		case "arc":
+			seg, err = decodeArc(cur, shape, attr)
+			if err != nil {
+				return nil, err
+			}
+		case "polyline", "spline":
+			pts, err := shape.points(1)
+			if err != nil {
+				return nil, err
+			}
+			pts = append([]orb.Point{cur}, pts...)
+			if kind == "polyline" {
+				seg, err = geometry.NewPolyline(pts, attr)
+			} else {
+				seg, err = geometry.NewSpline(pts, attr)
+			}
+			if err != nil {
+				return nil, shape.wrap(err)
+			}
+		}
+		cur = seg.At(1)
+		out = append(out, namedSegment{name: name, seg: seg, at: it})
+	}
+	return out, nil
+}
+
+// decodeArc reads an arc that starts at cur: {through, to} or {centre, to,
+// turn}; with a centre, the end point's distance from it must equal the
+// start's (the radius) and turn says which way round (ccw or cw).
+func decodeArc(cur orb.Point, shape value, attr geometry.Attr) (geometry.Segment, error) {
+	o, err := shape.object()
+	if err != nil {
+		return nil, err
+	}
+	tv, err := o.need("to")
+	if err != nil {
+		return nil, err
+	}
+	to, err := tv.point()
+	if err != nil {
+		return nil, err
+	}
+	if v, ok := o.get("through"); ok {
+		if o.has("centre") {
+			return nil, v.errf("an arc is given by a point it passes through or by its centre, not both")
+		}
+		if err := o.done(); err != nil {
+			return nil, err
+		}
+		m, err := v.point()
+		if err != nil {
+			return nil, err
+		}
+		a, err := geometry.NewArcThrough(cur[0], cur[1], m[0], m[1], to[0], to[1], attr)
+		if err != nil {
+			return nil, shape.wrap(err)
+		}
+		return a, nil
+	}
+	cv, err := o.need("centre")
+	if err != nil {
+		return nil, shape.errf("an arc needs through: [x, y] or centre: [x, y]")
+	}
+	centre, err := cv.point()
+	if err != nil {
+		return nil, err
+	}
+	turn := "ccw"
+	if v, ok := o.get("turn"); ok {
+		if turn, err = v.oneOf("ccw", "cw"); err != nil {
+			return nil, err
+		}
+	}
+	if err := o.done(); err != nil {
+		return nil, err
+	}
+	r0 := math.Hypot(cur[0]-centre[0], cur[1]-centre[1])
+	r1 := math.Hypot(to[0]-centre[0], to[1]-centre[1])
+	if !(r0 > 0) || math.Abs(r1-r0) > 1e-9*r0 {
+		return nil, shape.errf("the arc's start (%g, %g) and end (%g, %g) must lie at the same non-zero distance from its centre (%g, %g); they are %g and %g away",
+			cur[0], cur[1], to[0], to[1], centre[0], centre[1], r0, r1)
+	}
+	a0 := math.Atan2(cur[1]-centre[1], cur[0]-centre[0]) * 180 / math.Pi
+	a1 := math.Atan2(to[1]-centre[1], to[0]-centre[0]) * 180 / math.Pi
+	// Sweep the short or long way as turn says; equal ends make a circle.
+	if turn == "ccw" {
+		for a1 <= a0 {
+			a1 += 360
+		}
+	} else {
+		for a1 >= a0 {
+			a1 -= 360
+		}
+	}
+	a, err := geometry.NewArc(centre[0], centre[1], r0, a0, a1, attr)
+	if err != nil {
+		return nil, shape.wrap(err)
+	}
+	return a, nil
+}
+
+// decodeAttr reads a segment's name, tag and spacing.
+func decodeAttr(c *Case, o *object, defTag string, defSpacing *geometry.Spacing) (geometry.Attr, string, error) {
+	var a geometry.Attr
+	name := ""
+	var err error
+	if v, ok := o.get("name"); ok {
+		if name, err = v.str(); err != nil {
+			return a, "", err
+		}
+	}
+	a.Tag = defTag
+	if v, ok := o.get("tag"); ok {
+		if a.Tag, err = v.str(); err != nil {
+			return a, "", err
+		}
+	}
+	if a.Tag == "" {
+		return a, "", o.errf("the segment needs a boundary tag (tag: name), here or on its loop")
+	}
+	if v, ok := o.get("spacing"); ok {
+		if a.Spacing, err = decodeSpacing(v, c.Refine); err != nil {
+			return a, "", err
+		}
+	} else if defSpacing != nil {
+		a.Spacing = *defSpacing
+	}
+	return a, name, nil
+}

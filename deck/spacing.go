@@ -1,0 +1,130 @@
+package deck
+
+import (
+	"math"
+
+	"cvdeck/geometry"
+)
+
+// spacingKeys are the keys of a spacing mapping.
+var spacingKeys = []string{"count", "size", "cosine", "first", "last", "growth", "law"}
+
+// decodeSpacing reads a spacing law and applies the case's refinement
+// factor r consistently to every law:
+//
+//   - count: N nodes → round((N−1)·r) + 1 nodes (edges scale by r);
+//   - size: h → h/r;
+//   - first/last spacing → spacing/r, and a growth ratio g → g^(1/r), so
+//     that r refined cells span what one cell spanned (the geometric mean
+//     of r ratios g^(1/r) is g);
+//   - cosine: N nodes → as count.
+//
+// The forms are: {count}, {size}, {cosine}, {first, growth}, {last,
+// growth}, {first, count}, {last, count} (geometric growth with the ratio
+// solved; with law: vinokur, Vinokur's one-sided stretching instead), and
+// {first, last, count} (Vinokur's two-sided stretching).
+func decodeSpacing(v value, refine float64) (geometry.Spacing, error) {
+	o, err := v.object()
+	if err != nil {
+		return geometry.Spacing{}, err
+	}
+	o.known(spacingKeys...)
+	if err := o.done(); err != nil {
+		return geometry.Spacing{}, err
+	}
+	num := func(key string) (float64, bool, error) {
+		x, ok := o.get(key)
+		if !ok {
+			return 0, false, nil
+		}
+		f, err := x.positive()
+		return f, true, err
+	}
+	length := func(key string) (float64, bool, error) {
+		f, ok, err := num(key)
+		return f * v.d.scale / refine, ok, err
+	}
+	nodes := func(key string) (int, bool, error) {
+		x, ok := o.get(key)
+		if !ok {
+			return 0, false, nil
+		}
+		n, err := x.count(2)
+		if err != nil {
+			return 0, true, err
+		}
+		return int(math.Round(float64(n-1)*refine)) + 1, true, nil
+	}
+	count, hasCount, err := nodes("count")
+	if err != nil {
+		return geometry.Spacing{}, err
+	}
+	cosine, hasCosine, err := nodes("cosine")
+	if err != nil {
+		return geometry.Spacing{}, err
+	}
+	size, hasSize, err := length("size")
+	if err != nil {
+		return geometry.Spacing{}, err
+	}
+	first, hasFirst, err := length("first")
+	if err != nil {
+		return geometry.Spacing{}, err
+	}
+	last, hasLast, err := length("last")
+	if err != nil {
+		return geometry.Spacing{}, err
+	}
+	growth, hasGrowth, err := num("growth")
+	if err != nil {
+		return geometry.Spacing{}, err
+	}
+	if hasGrowth {
+		if !(growth >= 1) {
+			x, _ := o.get("growth")
+			return geometry.Spacing{}, x.errf("a growth ratio is at least 1 (each cell no smaller than the one before), got %g", growth)
+		}
+		growth = math.Pow(growth, 1/refine)
+	}
+	vinokur := false
+	if x, ok := o.get("law"); ok {
+		law, err := x.oneOf("geometric", "vinokur")
+		if err != nil {
+			return geometry.Spacing{}, err
+		}
+		vinokur = law == "vinokur"
+	}
+	var sp geometry.Spacing
+	switch {
+	case hasCount && !hasSize && !hasCosine && !hasFirst && !hasLast && !hasGrowth:
+		sp, err = geometry.Count(count)
+	case hasSize && !hasCount && !hasCosine && !hasFirst && !hasLast && !hasGrowth:
+		sp, err = geometry.Size(size)
+	case hasCosine && !hasCount && !hasSize && !hasFirst && !hasLast && !hasGrowth:
+		sp, err = geometry.Cosine(cosine)
+	case hasFirst && hasGrowth && !hasLast && !hasCount && !hasSize && !hasCosine:
+		sp, err = geometry.Growth(first, growth, false)
+	case hasLast && hasGrowth && !hasFirst && !hasCount && !hasSize && !hasCosine:
+		sp, err = geometry.Growth(last, growth, true)
+	case hasFirst && hasCount && !hasLast && !hasGrowth && !hasSize && !hasCosine:
+		if vinokur {
+			sp, err = geometry.OneSided(first, count, false)
+		} else {
+			sp, err = geometry.GrowthCount(first, count, false)
+		}
+	case hasLast && hasCount && !hasFirst && !hasGrowth && !hasSize && !hasCosine:
+		if vinokur {
+			sp, err = geometry.OneSided(last, count, true)
+		} else {
+			sp, err = geometry.GrowthCount(last, count, true)
+		}
+	case hasFirst && hasLast && hasCount && !hasGrowth && !hasSize && !hasCosine:
+		sp, err = geometry.Clustered(first, last, count)
+	default:
+		return geometry.Spacing{}, v.errf("a spacing is one of {count: N}, {size: h}, {cosine: N}, {first: h, growth: g}, {last: h, growth: g}, {first: h, count: N}, {last: h, count: N} or {first: h, last: h, count: N}")
+	}
+	if err != nil {
+		return geometry.Spacing{}, v.wrap(err)
+	}
+	return sp, nil
+}

@@ -1,0 +1,178 @@
+package sweep
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"gopkg.in/yaml.v3"
+
+	"cvdeck/deck"
+	"cvdeck/export/manifest"
+)
+
+// Pipeline is the Runner of the real cvdeck pipeline: deck.Load of the
+// base case with the variant's parameters and refinement factor, then
+// deck.Run into the variant's folder.
+type Pipeline struct {
+	// Base is the base case file.
+	Base string
+	// Options are passed to every deck.Run.
+	Options deck.RunOptions
+}
+
+// NewPipeline returns the pipeline runner of a sweep file.
+func NewPipeline(f *File) *Pipeline {
+	return &Pipeline{Base: f.Base}
+}
+
+// Check loads the base case as written and verifies that it defines every
+// swept parameter.
+func (p *Pipeline) Check(f *File) error {
+	c, err := deck.Load(p.Base, deck.LoadOptions{})
+	if err != nil {
+		return &Error{File: f.Path, Msg: "the base case as written does not load", Err: err}
+	}
+	defined := map[string]bool{}
+	for _, n := range c.ParamOrder {
+		defined[n] = true
+	}
+	for _, pr := range f.Params {
+		if !defined[pr.Name] {
+			names := strings.Join(c.ParamOrder, ", ")
+			if names == "" {
+				names = "none"
+			}
+			return &Error{File: f.Path, Line: pr.Pos.Line, Col: pr.Pos.Col,
+				Msg: fmt.Sprintf("the base case %s defines no parameter %q (its parameters: %s)", filepath.Base(p.Base), pr.Name, names)}
+		}
+	}
+	return nil
+}
+
+type pipelineJob struct {
+	p *Pipeline
+	c *deck.Case
+}
+
+// Prepare loads the base case with v's parameters and refinement.
+func (p *Pipeline) Prepare(ctx context.Context, v Variant) (Job, error) {
+	c, err := deck.Load(p.Base, deck.LoadOptions{Params: v.ParamMap(), Refine: v.Refine})
+	if err != nil {
+		return nil, err
+	}
+	return &pipelineJob{p: p, c: c}, nil
+}
+
+func (j *pipelineJob) InputHash() string { return j.c.InputHash }
+
+// Build runs the pipeline. A deck that was written but failed its checks
+// is an outcome with Passed false, not an error. The outcome is read back
+// from the deck's files, exactly as Existing reads it, so that a built and
+// a reused deck give the same summary row.
+func (j *pipelineJob) Build(ctx context.Context, dir string) (Outcome, error) {
+	if err := ctx.Err(); err != nil {
+		return Outcome{}, err
+	}
+	_, err := deck.Run(j.c, dir, j.p.Options)
+	var checks *deck.CheckFailure
+	if err != nil && !errors.As(err, &checks) {
+		return Outcome{}, err
+	}
+	out, ok, err := readDeck(dir)
+	if err != nil {
+		return Outcome{}, err
+	}
+	if !ok {
+		return Outcome{}, fmt.Errorf("the pipeline wrote no %s into %s", manifest.FileName, filepath.Base(dir))
+	}
+	return out, nil
+}
+
+// Existing reads the manifest and quality report of the deck in dir.
+func (p *Pipeline) Existing(dir string) (Outcome, bool, error) {
+	return readDeck(dir)
+}
+
+// manifestFile is the part of a deck's deck.yaml that the summary uses
+// (the keys of export/manifest.Manifest).
+type manifestFile struct {
+	InputHash string `yaml:"input_hash"`
+	Mesh      struct {
+		Nodes int `yaml:"nodes"`
+		Cells int `yaml:"cells"`
+		Faces int `yaml:"faces"`
+		Area  struct {
+			Value float64 `yaml:"value"`
+		} `yaml:"area"`
+	} `yaml:"mesh"`
+	Checks struct {
+		Verdict string `yaml:"verdict"`
+	} `yaml:"checks"`
+}
+
+// qualityFile is the part of a deck's quality.json that the summary uses.
+type qualityFile struct {
+	Metrics []struct {
+		Name  string   `json:"name"`
+		Worse string   `json:"worse"`
+		Min   *float64 `json:"min"`
+		Max   *float64 `json:"max"`
+	} `json:"metrics"`
+}
+
+// readDeck reads a deck's outcome: counts, area and verdict from deck.yaml,
+// and each metric's worst value (its maximum, or its minimum for a metric
+// that gets worse as it falls) from quality.json. ok is false when dir has
+// no deck.yaml.
+func readDeck(dir string) (Outcome, bool, error) {
+	path := filepath.Join(dir, manifest.FileName)
+	mdata, err := os.ReadFile(path)
+	if errors.Is(err, fs.ErrNotExist) {
+		return Outcome{}, false, nil
+	}
+	if err != nil {
+		return Outcome{}, false, err
+	}
+	var m manifestFile
+	if err := yaml.Unmarshal(mdata, &m); err != nil {
+		return Outcome{}, false, fmt.Errorf("%s: %w", path, err)
+	}
+	out := Outcome{
+		InputHash: m.InputHash,
+		Cells:     m.Mesh.Cells,
+		Faces:     m.Mesh.Faces,
+		Nodes:     m.Mesh.Nodes,
+		Area:      m.Mesh.Area.Value,
+		Verdict:   m.Checks.Verdict,
+		Passed:    m.Checks.Verdict != "fail", // pass, warn or fail
+	}
+	data, err := os.ReadFile(filepath.Join(dir, "quality.json"))
+	if err != nil {
+		return Outcome{}, false, fmt.Errorf("reading the deck's quality report: %w", err)
+	}
+	var q qualityFile
+	if err := json.NewDecoder(bytes.NewReader(data)).Decode(&q); err != nil {
+		return Outcome{}, false, fmt.Errorf("%s: %w", filepath.Join(dir, "quality.json"), err)
+	}
+	for _, mt := range q.Metrics {
+		v := mt.Max
+		if mt.Worse == "lower" {
+			v = mt.Min
+		}
+		if v == nil {
+			continue // no finite value: the metric did not apply
+		}
+		if out.Worst == nil {
+			out.Worst = map[string]float64{}
+		}
+		out.Worst[mt.Name] = *v
+	}
+	return out, true, nil
+}

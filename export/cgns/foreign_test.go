@@ -1,0 +1,190 @@
+package cgns
+
+import (
+	"errors"
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/mesh"
+)
+
+// foreignFiles compiles testdata/foreign.c against the CGNS library with
+// the C compiler cgo uses and runs it, returning the folder of the files it
+// wrote through the library's raw calls (conventions listed in foreign.c).
+func foreignFiles(t *testing.T) string {
+	t.Helper()
+	cc := "cc"
+	if out, err := exec.Command("go", "env", "CC").Output(); err == nil && strings.TrimSpace(string(out)) != "" {
+		cc = strings.Fields(string(out))[0]
+	}
+	cc = tool(t, cc)
+	dir := t.TempDir()
+	bin := filepath.Join(dir, "foreign")
+	if out, err := exec.Command(cc, "-o", bin, filepath.Join("testdata", "foreign.c"), "-lcgns").CombinedOutput(); err != nil {
+		t.Fatalf("compile testdata/foreign.c: %v\n%s", err, out)
+	}
+	if out, err := exec.Command(bin, dir).CombinedOutput(); err != nil {
+		t.Fatalf("run foreign: %v\n%s", err, out)
+	}
+	return dir
+}
+
+// grid3 is the 3 × 3 node grid of foreign.c, 0-based node i + 3j.
+func grid3() []orb.Point {
+	var p []orb.Point
+	for j := 0; j < 3; j++ {
+		for i := 0; i < 3; i++ {
+			p = append(p, orb.Point{float64(i), float64(j)})
+		}
+	}
+	return p
+}
+
+func TestReadForeignUnstructured(t *testing.T) {
+	dir := foreignFiles(t)
+	cases := []struct {
+		file string
+		want mesh.Input
+		bcs  []BC
+	}{
+		// Cells in element-number order: the QUAD_4 section (elements
+		// 9..11) before the TRI_3 one (12..13), though written after it.
+		// Tags: the family "outflow" first, then the BCs' own names.
+		{"unordered.cgns", mesh.Input{
+			CellStart: []int32{0, 4, 8, 12, 15, 18},
+			CellNodes: []int32{0, 1, 4, 3, 1, 2, 5, 4, 3, 4, 7, 6, 4, 5, 8, 4, 8, 7},
+			Tags:      []string{"outflow", "bottom", "top"},
+			Edges: []mesh.TaggedEdge{{A: 2, B: 5, Tag: 0}, {A: 5, B: 8, Tag: 0},
+				{A: 0, B: 1, Tag: 1}, {A: 1, B: 2, Tag: 1}, {A: 6, B: 7, Tag: 2}, {A: 7, B: 8, Tag: 2}},
+		}, []BC{{"outflow", "BCOutflow"}, {"bottom", "BCWall"}, {"top", "BCSymmetryPlane"}}},
+		// MIXED elements 1..7: quad, bar, tri, quad, tri, bar, quad.
+		{"mixedbars.cgns", mesh.Input{
+			CellStart: []int32{0, 4, 7, 11, 14, 18},
+			CellNodes: []int32{0, 1, 4, 3, 4, 5, 8, 1, 2, 5, 4, 4, 8, 7, 3, 4, 7, 6},
+			Tags:      []string{"base1", "base2"},
+			Edges:     []mesh.TaggedEdge{{A: 0, B: 1, Tag: 0}, {A: 1, B: 2, Tag: 1}},
+		}, []BC{{"base1", "BCWall"}, {"base2", "BCWall"}}},
+	}
+	for _, c := range cases {
+		t.Run(c.file, func(t *testing.T) {
+			rd, err := ReadDeck(filepath.Join(dir, c.file))
+			if err != nil {
+				t.Fatal(err)
+			}
+			// FamilySpecified takes the family's FamilyBC (SIDS 12.8).
+			if !slices.Equal(rd.BCs, c.bcs) {
+				t.Errorf("BCs %v, want %v", rd.BCs, c.bcs)
+			}
+			got := rd.Mesh
+			c.want.Nodes = grid3()
+			want, err := mesh.Build(c.want)
+			if err != nil {
+				t.Fatal(err)
+			}
+			sameCounts(t, got, want)
+			sameUnstructured(t, got, want)
+		})
+	}
+}
+
+func TestReadForeignStructured(t *testing.T) {
+	m, err := Read(filepath.Join(foreignFiles(t), "twozone.cgns"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Two 2 × 2-cell zones on [0, 1] × [0, 1] and [1, 2] × [0, 1] sharing
+	// 3 nodes: 15 nodes, 8 cells, 10 interior and 12 boundary faces.
+	if len(m.Nodes) != 15 || m.NumCells() != 8 || m.NumInterior != 10 || m.NumBoundary() != 12 {
+		t.Fatalf("read %d nodes, %d cells, %d interior and %d boundary faces; want 15, 8, 10, 12", len(m.Nodes), m.NumCells(), m.NumInterior, m.NumBoundary())
+	}
+	area := 0.0
+	for c, a := range m.Geo.CellArea {
+		if a <= 0 {
+			t.Errorf("cell %d has area %g; the left-handed zone was not turned counter-clockwise", c, a)
+		}
+		area += a
+	}
+	if math.Abs(area-2) > 1e-14 {
+		t.Errorf("total area %g, want 2", area)
+	}
+	if !slices.Equal(m.Tags, []string{"inlet", "walls", "outlet"}) {
+		t.Fatalf("tags %v, want [inlet walls outlet]", m.Tags)
+	}
+	// Each tag's faces lie on its side: inlet x = 0, walls y = 0, outlet
+	// x = 2; the 4 faces on y = 1 carry no BC.
+	check := func(tag string, n int, on func(p orb.Point) bool) {
+		lo, hi, _ := m.TagRange(tag)
+		if hi-lo != n {
+			t.Errorf("tag %s has %d faces, want %d", tag, hi-lo, n)
+		}
+		for f := lo; f < hi; f++ {
+			if !on(m.Geo.FaceMid[f]) {
+				t.Errorf("tag %s face %d at %v is off its side", tag, f, m.Geo.FaceMid[f])
+			}
+		}
+	}
+	check("inlet", 2, func(p orb.Point) bool { return p[0] == 0 })
+	check("walls", 4, func(p orb.Point) bool { return p[1] == 0 })
+	check("outlet", 2, func(p orb.Point) bool { return p[0] == 2 })
+	if lo, hi := m.UntaggedRange(); hi-lo != 4 {
+		t.Errorf("%d untagged faces, want 4", hi-lo)
+	}
+	want := []mesh.BlockInterface{{A: 0, B: 1, SideA: mesh.East, SideB: mesh.South}}
+	if !slices.Equal(m.Interfaces, want) {
+		t.Errorf("interfaces %+v, want %+v", m.Interfaces, want)
+	}
+	if len(m.Blocks) != 2 || m.Blocks[1].FirstCell != 4 || m.Blocks[1].Name != "right" {
+		t.Errorf("blocks %+v", m.Blocks)
+	}
+}
+
+// TestReadConverted: a file converted to ADF storage by the CGNS tools'
+// cgnsconvert reads back as the same mesh.
+func TestReadConverted(t *testing.T) {
+	dir := t.TempDir()
+	d := testDeck(mixedMesh(t, 6, 4))
+	src, adf := filepath.Join(dir, "deck.cgns"), filepath.Join(dir, "deck.adf")
+	if _, err := Write(src, d); err != nil {
+		t.Fatal(err)
+	}
+	if out, err := exec.Command(tool(t, "cgnsconvert"), "-a", src, adf).CombinedOutput(); err != nil {
+		t.Fatalf("cgnsconvert -a: %v\n%s", err, out)
+	}
+	if b, err := os.ReadFile(adf); err != nil || len(b) < 8 || string(b[:4]) == "\x89HDF" {
+		t.Fatalf("cgnsconvert -a did not write an ADF file: %v", err)
+	}
+	got, err := Read(adf)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sameCounts(t, got, d.Mesh)
+	sameUnstructured(t, got, d.Mesh)
+}
+
+// TestReadRejects: files cvdeck cannot read get an error naming the node.
+func TestReadRejects(t *testing.T) {
+	dir := foreignFiles(t)
+	_, err := Read(filepath.Join(dir, "highorder.cgns"))
+	if err == nil || !strings.Contains(err.Error(), "/Imported/curved/p2") || !strings.Contains(err.Error(), "TRI_6") {
+		t.Errorf("high-order section: got %v, want an error naming /Imported/curved/p2 and TRI_6", err)
+	}
+	_, err = Read(filepath.Join(dir, "pointjoin.cgns"))
+	if err == nil || !strings.Contains(err.Error(), "/Imported/left/ZoneGridConnectivity/toright is a GridConnectivity_t (Abutting1to1)") {
+		t.Errorf("point-list join: got %v, want an error naming /Imported/left/ZoneGridConnectivity/toright", err)
+	}
+	junk := filepath.Join(dir, "junk.cgns")
+	os.WriteFile(junk, []byte("not a CGNS file\n"), 0o644)
+	if _, err := Read(junk); err == nil || !strings.Contains(err.Error(), junk) {
+		t.Errorf("junk file: got %v, want an error naming the file", err)
+	}
+	if _, err := Read(filepath.Join(dir, "missing.cgns")); err == nil || !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("missing file: got %v, want a not-exist error", err)
+	}
+}

@@ -1,0 +1,171 @@
+/* foreign.c writes CGNS files through the CGNS mid-level library with
+ * conventions cvdeck's writer does not use, so the reader is tested on
+ * files written by other means:
+ *
+ *   unordered.cgns  - physical dimension 3 (constant z), boundary BAR_2
+ *                     section numbered first, TRI_3 section written before
+ *                     the QUAD_4 section that precedes it in numbering, BCs
+ *                     as ElementRange, ElementList (with a FamilyName) and
+ *                     a Vertex PointList; no ParentElements.
+ *   mixedbars.cgns  - one MIXED section holding QUAD_4, TRI_3 and BAR_2
+ *                     elements, BC as PointRange at EdgeCenter.
+ *   twozone.cgns    - two structured zones, the second left-handed (i along
+ *                     y), joined 1-to-1 with Transform [2, 1]; BCs as
+ *                     IFaceCenter, JFaceCenter and Vertex ranges.
+ *   highorder.cgns  - a TRI_6 section, which cvdeck does not read.
+ *   pointjoin.cgns  - twozone.cgns's zones joined by a GridConnectivity_t
+ *                     (point lists) instead, which cvdeck does not merge.
+ *
+ * Usage: foreign OUTDIR. Exits non-zero with the library's message on any
+ * failure. */
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <cgnslib.h>
+
+static void ck(int rc, const char *what) {
+    if (rc) {
+        fprintf(stderr, "%s: %s\n", what, cg_get_error());
+        exit(1);
+    }
+}
+
+static char path[4096];
+static const char *dir;
+
+static int open_file(const char *name) {
+    int fn;
+    snprintf(path, sizeof path, "%s/%s", dir, name);
+    ck(cg_open(path, CG_MODE_WRITE, &fn), path);
+    return fn;
+}
+
+/* A 3 x 3 node grid on [0, 2] x [0, 2], node (i, j) = 1 + i + 3 j. */
+static double gx[9] = {0, 1, 2, 0, 1, 2, 0, 1, 2};
+static double gy[9] = {0, 0, 0, 1, 1, 1, 2, 2, 2};
+static double gz[9] = {0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0.5};
+
+static void unordered(void) {
+    int fn = open_file("unordered.cgns"), B, Z, S, C, BC, F;
+    cgsize_t size[3] = {9, 5, 0};
+    ck(cg_base_write(fn, "Imported", 2, 3, &B), "base");
+    ck(cg_family_write(fn, B, "outflow", &F), "family");
+    ck(cg_fambc_write(fn, B, F, "FamBC", BCOutflow, &BC), "fambc");
+    ck(cg_zone_write(fn, B, "dom", size, Unstructured, &Z), "zone");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateX", gx, &C), "x");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateY", gy, &C), "y");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateZ", gz, &C), "z");
+    /* Boundary edges 1..8: bottom (1, 2), right (3, 4), top (5, 6), left (7, 8). */
+    cgsize_t bars[16] = {1, 2, 2, 3, 3, 6, 6, 9, 9, 8, 8, 7, 7, 4, 4, 1};
+    ck(cg_section_write(fn, B, Z, "edges", BAR_2, 1, 8, 0, bars, &S), "bars");
+    /* Square (1, 1) as two triangles, elements 12..13, written first. */
+    cgsize_t tris[6] = {5, 6, 9, 5, 9, 8};
+    ck(cg_section_write(fn, B, Z, "tris", TRI_3, 12, 13, 0, tris, &S), "tris");
+    cgsize_t quads[12] = {1, 2, 5, 4, 2, 3, 6, 5, 4, 5, 8, 7};
+    ck(cg_section_write(fn, B, Z, "quads", QUAD_4, 9, 11, 0, quads, &S), "quads");
+    cgsize_t bottom[2] = {1, 2};
+    ck(cg_boco_write(fn, B, Z, "bottom", BCWall, ElementRange, 2, bottom, &BC), "bottom");
+    cgsize_t right[2] = {4, 3};
+    ck(cg_boco_write(fn, B, Z, "right", FamilySpecified, ElementList, 2, right, &BC), "right");
+    ck(cg_goto(fn, B, "Zone_t", Z, "ZoneBC_t", 1, "BC_t", BC, "end"), "goto right");
+    ck(cg_famname_write("outflow"), "right family");
+    cgsize_t top[3] = {9, 8, 7};
+    ck(cg_boco_write(fn, B, Z, "top", BCSymmetryPlane, PointList, 3, top, &BC), "top");
+    ck(cg_close(fn), "close");
+}
+
+static void mixedbars(void) {
+    int fn = open_file("mixedbars.cgns"), B, Z, S, C, BC;
+    cgsize_t size[3] = {9, 5, 0};
+    ck(cg_base_write(fn, "Imported", 2, 2, &B), "base");
+    ck(cg_zone_write(fn, B, "dom", size, Unstructured, &Z), "zone");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateX", gx, &C), "x");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateY", gy, &C), "y");
+    /* Elements 1..7: quad, bar, tri, quad, tri, bar, quad. */
+    cgsize_t conn[] = {QUAD_4, 1, 2, 5, 4, BAR_2, 1, 2, TRI_3, 5, 6, 9, QUAD_4, 2, 3, 6, 5,
+                       TRI_3, 5, 9, 8, BAR_2, 2, 3, QUAD_4, 4, 5, 8, 7};
+    cgsize_t off[] = {0, 5, 8, 12, 17, 21, 24, 29};
+    ck(cg_poly_section_write(fn, B, Z, "all", MIXED, 1, 7, 0, conn, off, &S), "mixed");
+    cgsize_t rng[2] = {2, 2};
+    ck(cg_boco_write(fn, B, Z, "base1", BCWall, PointRange, 2, rng, &BC), "bc1");
+    ck(cg_boco_gridlocation_write(fn, B, Z, BC, EdgeCenter), "bc1 location");
+    cgsize_t lst[1] = {6};
+    ck(cg_boco_write(fn, B, Z, "base2", BCWall, PointList, 1, lst, &BC), "bc2");
+    ck(cg_boco_gridlocation_write(fn, B, Z, BC, EdgeCenter), "bc2 location");
+    ck(cg_close(fn), "close");
+}
+
+static void twozone(int pointjoin) {
+    int fn = open_file(pointjoin ? "pointjoin.cgns" : "twozone.cgns"), B, Z1, Z2, C, BC, I;
+    cgsize_t size[6] = {3, 3, 2, 2, 0, 0};
+    double x[9], y[9];
+    ck(cg_base_write(fn, "Imported", 2, 2, &B), "base");
+    /* left: x = (i-1)/2, y = (j-1)/2, right-handed. */
+    for (int j = 0; j < 3; j++)
+        for (int i = 0; i < 3; i++) {
+            x[3 * j + i] = 0.5 * i;
+            y[3 * j + i] = 0.5 * j;
+        }
+    ck(cg_zone_write(fn, B, "left", size, Structured, &Z1), "zone left");
+    ck(cg_coord_write(fn, B, Z1, RealDouble, "CoordinateX", x, &C), "x");
+    ck(cg_coord_write(fn, B, Z1, RealDouble, "CoordinateY", y, &C), "y");
+    /* right: x = 1 + (j-1)/2, y = (i-1)/2, left-handed. */
+    for (int j = 0; j < 3; j++)
+        for (int i = 0; i < 3; i++) {
+            x[3 * j + i] = 1 + 0.5 * j;
+            y[3 * j + i] = 0.5 * i;
+        }
+    ck(cg_zone_write(fn, B, "right", size, Structured, &Z2), "zone right");
+    ck(cg_coord_write(fn, B, Z2, RealDouble, "CoordinateX", x, &C), "x");
+    ck(cg_coord_write(fn, B, Z2, RealDouble, "CoordinateY", y, &C), "y");
+    cgsize_t r1[4] = {3, 1, 3, 3}, d1[4] = {1, 1, 3, 1};
+    int t[2] = {2, 1};
+    if (pointjoin) {
+        cgsize_t p1[6] = {3, 1, 3, 2, 3, 3}, q1[6] = {1, 1, 2, 1, 3, 1};
+        ck(cg_conn_write(fn, B, Z1, "toright", Vertex, Abutting1to1, PointList, 3, p1, "right",
+                         Structured, PointListDonor, Integer, 3, q1, &I), "point join left");
+        ck(cg_conn_write(fn, B, Z2, "toleft", Vertex, Abutting1to1, PointList, 3, q1, "left",
+                         Structured, PointListDonor, Integer, 3, p1, &I), "point join right");
+    } else {
+        ck(cg_1to1_write(fn, B, Z1, "toright", "right", r1, d1, t, &I), "join left");
+        ck(cg_1to1_write(fn, B, Z2, "toleft", "left", d1, r1, t, &I), "join right");
+    }
+    cgsize_t inlet[4] = {1, 1, 1, 2};
+    ck(cg_boco_write(fn, B, Z1, "inlet", BCInflow, PointRange, 2, inlet, &BC), "inlet");
+    ck(cg_boco_gridlocation_write(fn, B, Z1, BC, EdgeCenter), "inlet location");
+    cgsize_t wl[4] = {1, 1, 3, 1};
+    ck(cg_boco_write(fn, B, Z1, "walls", BCWall, PointRange, 2, wl, &BC), "walls left");
+    cgsize_t outlet[4] = {1, 3, 2, 3};
+    ck(cg_boco_write(fn, B, Z2, "outlet", BCOutflow, PointRange, 2, outlet, &BC), "outlet");
+    ck(cg_boco_gridlocation_write(fn, B, Z2, BC, EdgeCenter), "outlet location");
+    cgsize_t wr[4] = {1, 1, 1, 3};
+    ck(cg_boco_write(fn, B, Z2, "walls", BCWall, PointRange, 2, wr, &BC), "walls right");
+    ck(cg_close(fn), "close");
+}
+
+static void highorder(void) {
+    int fn = open_file("highorder.cgns"), B, Z, S, C;
+    cgsize_t size[3] = {6, 1, 0};
+    double x[6] = {0, 1, 0, 0.5, 0.5, 0}, y[6] = {0, 0, 1, 0, 0.5, 0.5};
+    ck(cg_base_write(fn, "Imported", 2, 2, &B), "base");
+    ck(cg_zone_write(fn, B, "curved", size, Unstructured, &Z), "zone");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateX", x, &C), "x");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateY", y, &C), "y");
+    cgsize_t conn[6] = {1, 2, 3, 4, 5, 6};
+    ck(cg_section_write(fn, B, Z, "p2", TRI_6, 1, 1, 0, conn, &S), "tri6");
+    ck(cg_close(fn), "close");
+}
+
+int main(int argc, char **argv) {
+    if (argc != 2) {
+        fprintf(stderr, "usage: foreign OUTDIR\n");
+        return 2;
+    }
+    dir = argv[1];
+    unordered();
+    mixedbars();
+    twozone(0);
+    twozone(1);
+    highorder();
+    return 0;
+}

@@ -1,0 +1,237 @@
+package vtk
+
+import (
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/mesh"
+)
+
+// Tag arrays the readers look for among the cell data, in this order. An
+// integer array gives each line's tag number: negative means untagged, and
+// a number k names the tag TagNamesArray[k] when the file's FieldData has
+// that String array (as WriteBoundaryVTP writes it), else the decimal
+// number. A String array gives the tag name itself ("" is untagged).
+var tagArrayNames = []string{"boundary_tag", TagArray}
+
+// ReadFile reads an unstructured grid from a .vtu (XML) or .vtk (legacy)
+// file, chosen by the extension, and builds a mesh from it: triangles,
+// quads, pixels and polygons become cells; lines and polylines become
+// boundary faces tagged from the cell-data array named as tagArrayNames
+// says. Boundary faces without a tag (no tag array, no lines, or lines
+// that leave part of the boundary out) stay untagged: see
+// mesh.Mesh.UntaggedRange. Node z coordinates must all be equal (a plane
+// mesh); they are dropped.
+func ReadFile(path string) (*mesh.Mesh, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, err
+	}
+	switch strings.ToLower(filepath.Ext(path)) {
+	case ".vtu":
+		return ReadVTU(data, path)
+	case ".vtk":
+		return ReadLegacy(data, path)
+	}
+	return nil, fmt.Errorf("%s: unknown extension %q; cvdeck reads VTK unstructured grids as .vtu or .vtk", path, filepath.Ext(path))
+}
+
+// array is one data array as read from a file, before interpretation.
+type array struct {
+	name  string
+	comps int
+	// Exactly one of these is set, by the array's type.
+	ints   []int64
+	floats []float64
+	strs   []string
+}
+
+// length is the number of values (tuples × components, or strings).
+func (a *array) length() int {
+	switch {
+	case a.strs != nil:
+		return len(a.strs)
+	case a.floats != nil:
+		return len(a.floats)
+	}
+	return len(a.ints)
+}
+
+// asFloats returns the values as float64s.
+func (a *array) asFloats() []float64 {
+	if a.floats != nil {
+		return a.floats
+	}
+	f := make([]float64, len(a.ints))
+	for i, v := range a.ints {
+		f[i] = float64(v)
+	}
+	return f
+}
+
+// grid is an unstructured grid as read from a file.
+type grid struct {
+	file      string
+	points    []float64 // x, y, z per point
+	offsets   []int64   // end of each cell's nodes in conn
+	conn      []int64
+	types     []int64
+	cellData  []*array
+	fieldData []*array
+}
+
+// find returns the array called name, or nil.
+func find(arrays []*array, name string) *array {
+	for _, a := range arrays {
+		if a.name == name {
+			return a
+		}
+	}
+	return nil
+}
+
+// cellTypeName names the VTK cell types (vtkCellType.h) for error messages.
+var cellTypeName = map[int64]string{
+	1: "vertex", 2: "poly-vertex", 3: "line", 4: "poly-line", 5: "triangle", 6: "triangle strip",
+	7: "polygon", 8: "pixel", 9: "quad", 10: "tetra", 11: "voxel", 12: "hexahedron", 13: "wedge", 14: "pyramid",
+}
+
+// toMesh turns the grid into a mesh.
+func (g *grid) toMesh() (*mesh.Mesh, error) {
+	np := len(g.points) / 3
+	nc := len(g.types)
+	if len(g.offsets) != nc {
+		return nil, fmt.Errorf("%s: %d cell offsets for %d cell types; they must match", g.file, len(g.offsets), nc)
+	}
+	in := mesh.Input{Nodes: make([]orb.Point, np), CellStart: []int32{0}}
+	if np > math.MaxInt32 {
+		return nil, fmt.Errorf("%s: %d points; cvdeck meshes hold at most %d", g.file, np, math.MaxInt32)
+	}
+	for i := range in.Nodes {
+		x, y, z := g.points[3*i], g.points[3*i+1], g.points[3*i+2]
+		if z != g.points[2] {
+			return nil, fmt.Errorf("%s: point %d has z = %g but point 0 has z = %g; cvdeck reads plane 2D meshes (all z equal)", g.file, i, z, g.points[2])
+		}
+		in.Nodes[i] = orb.Point{x, y}
+	}
+	tagOf, err := g.lineTags()
+	if err != nil {
+		return nil, err
+	}
+	tagIndex := map[string]int16{}
+	addEdge := func(c int, a, b int64) error {
+		name := tagOf(c)
+		if name == "" {
+			return nil
+		}
+		t, ok := tagIndex[name]
+		if !ok {
+			if len(in.Tags) == math.MaxInt16 {
+				return fmt.Errorf("%s: cell %d: more than %d boundary tags", g.file, c, math.MaxInt16)
+			}
+			t = int16(len(in.Tags))
+			tagIndex[name] = t
+			in.Tags = append(in.Tags, name)
+		}
+		in.Edges = append(in.Edges, mesh.TaggedEdge{A: int32(a), B: int32(b), Tag: t})
+		return nil
+	}
+	start := int64(0)
+	for c := 0; c < nc; c++ {
+		end := g.offsets[c]
+		if end < start || end > int64(len(g.conn)) {
+			return nil, fmt.Errorf("%s: cell %d: offset %d is out of order or past the %d connectivity entries", g.file, c, end, len(g.conn))
+		}
+		nodes := g.conn[start:end]
+		start = end
+		for _, v := range nodes {
+			if v < 0 || v >= int64(np) {
+				return nil, fmt.Errorf("%s: cell %d refers to point %d; points run from 0 to %d", g.file, c, v, np-1)
+			}
+		}
+		t := g.types[c]
+		want := map[int64]int{cellTriangle: 3, cellQuad: 4, cellPixel: 4, cellLine: 2}[t]
+		if want > 0 && len(nodes) != want || (t == cellPolygon && len(nodes) < 3) || (t == cellPolyLine && len(nodes) < 2) {
+			return nil, fmt.Errorf("%s: cell %d is a %s with %d points", g.file, c, cellTypeName[t], len(nodes))
+		}
+		switch t {
+		case cellTriangle, cellQuad, cellPolygon:
+			for _, v := range nodes {
+				in.CellNodes = append(in.CellNodes, int32(v))
+			}
+		case cellPixel:
+			// A pixel's points run in (i, j) order; as a polygon its
+			// third and fourth swap (VTK file-format document, figure
+			// of linear cell types).
+			in.CellNodes = append(in.CellNodes, int32(nodes[0]), int32(nodes[1]), int32(nodes[3]), int32(nodes[2]))
+		case cellLine, cellPolyLine:
+			for k := 1; k < len(nodes); k++ {
+				if err := addEdge(c, nodes[k-1], nodes[k]); err != nil {
+					return nil, err
+				}
+			}
+			continue
+		default:
+			name := cellTypeName[t]
+			if name == "" {
+				name = "unknown"
+			}
+			return nil, fmt.Errorf("%s: cell %d has VTK type %d (%s); cvdeck reads triangles (5), quads (9), pixels (8), polygons (7) and boundary lines (3, 4)", g.file, c, t, name)
+		}
+		if len(in.CellNodes) > math.MaxInt32 {
+			return nil, fmt.Errorf("%s: more than %d cell nodes", g.file, math.MaxInt32)
+		}
+		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+	}
+	if len(in.CellStart) == 1 {
+		return nil, fmt.Errorf("%s: no triangle, quad, pixel or polygon cells; nothing to check", g.file)
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", g.file, err)
+	}
+	return m, nil
+}
+
+// lineTags returns the function that gives the tag name of file cell c, ""
+// for untagged, from the first tag array present.
+func (g *grid) lineTags() (func(c int) string, error) {
+	var a *array
+	for _, name := range tagArrayNames {
+		if a = find(g.cellData, name); a != nil {
+			break
+		}
+	}
+	if a == nil {
+		return func(int) string { return "" }, nil
+	}
+	if a.comps > 1 || a.length() != len(g.types) {
+		return nil, fmt.Errorf("%s: tag array %q has %d values in %d components for %d cells; it needs one value per cell", g.file, a.name, a.length(), max(a.comps, 1), len(g.types))
+	}
+	switch {
+	case a.strs != nil:
+		return func(c int) string { return a.strs[c] }, nil
+	case a.floats != nil:
+		return nil, fmt.Errorf("%s: tag array %q holds floating-point values; it must be an integer or a string array", g.file, a.name)
+	}
+	var names []string
+	if n := find(g.fieldData, TagNamesArray); n != nil && n.strs != nil {
+		names = n.strs
+	}
+	return func(c int) string {
+		v := a.ints[c]
+		switch {
+		case v < 0:
+			return ""
+		case v < int64(len(names)) && names[v] != "":
+			return names[v]
+		}
+		return strconv.FormatInt(v, 10)
+	}, nil
+}

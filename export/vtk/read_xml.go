@@ -1,0 +1,582 @@
+package vtk
+
+import (
+	"bytes"
+	"compress/zlib"
+	"encoding/base64"
+	"encoding/binary"
+	"encoding/xml"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+
+	"cvdeck/mesh"
+)
+
+// ReadVTU builds a mesh from the bytes of an XML UnstructuredGrid file
+// (name is used in errors); see ReadFile. It reads every encoding the VTK
+// library writes: format ascii, binary (base64) and appended (raw or
+// base64), uncompressed or zlib-compressed (vtkZLibDataCompressor),
+// header_type UInt32 or UInt64, either byte order, one piece.
+func ReadVTU(data []byte, name string) (*mesh.Mesh, error) {
+	x, err := parseXML(data, name)
+	if err != nil {
+		return nil, err
+	}
+	if t := x.root.attr["type"]; t != "UnstructuredGrid" {
+		return nil, fmt.Errorf("%s: VTKFile type is %q; cvdeck reads UnstructuredGrid files here", name, t)
+	}
+	ug := x.root.child("UnstructuredGrid")
+	if ug == nil {
+		return nil, fmt.Errorf("%s: no UnstructuredGrid element", name)
+	}
+	var pieces []*element
+	for _, c := range ug.children {
+		if c.name == "Piece" {
+			pieces = append(pieces, c)
+		}
+	}
+	if len(pieces) != 1 {
+		return nil, fmt.Errorf("%s: %d pieces; cvdeck reads single-piece files", name, len(pieces))
+	}
+	p := pieces[0]
+	np, err := x.count(p, "NumberOfPoints")
+	if err != nil {
+		return nil, err
+	}
+	nc, err := x.count(p, "NumberOfCells")
+	if err != nil {
+		return nil, err
+	}
+	g := &grid{file: name}
+	pts := p.child("Points")
+	if pts == nil || len(pts.arrays()) != 1 {
+		return nil, fmt.Errorf("%s: Piece needs a Points element with one DataArray", name)
+	}
+	pa, err := x.read(pts.arrays()[0], "Points")
+	if err != nil {
+		return nil, err
+	}
+	if pa.comps != 3 || pa.length() != 3*np {
+		return nil, fmt.Errorf("%s: Points has %d values in %d components; want 3 components for %d points", name, pa.length(), pa.comps, np)
+	}
+	g.points = pa.asFloats()
+	cells := p.child("Cells")
+	if cells == nil {
+		return nil, fmt.Errorf("%s: Piece has no Cells element", name)
+	}
+	for _, want := range []string{"connectivity", "offsets", "types"} {
+		var el *element
+		for _, a := range cells.arrays() {
+			if a.attr["Name"] == want {
+				el = a
+			}
+		}
+		if el == nil {
+			return nil, fmt.Errorf("%s: Cells has no %q DataArray", name, want)
+		}
+		a, err := x.read(el, "Cells/"+want)
+		if err != nil {
+			return nil, err
+		}
+		if a.ints == nil {
+			return nil, fmt.Errorf("%s: Cells/%s is of type %s; it must be an integer array", name, want, el.attr["type"])
+		}
+		switch want {
+		case "connectivity":
+			g.conn = a.ints
+		case "offsets":
+			g.offsets = a.ints
+		case "types":
+			g.types = a.ints
+		}
+	}
+	if len(g.types) != nc {
+		return nil, fmt.Errorf("%s: Cells/types has %d values for NumberOfCells=%d", name, len(g.types), nc)
+	}
+	if cd := p.child("CellData"); cd != nil {
+		for _, el := range cd.arrays() {
+			a, err := x.read(el, "CellData/"+el.attr["Name"])
+			if err != nil {
+				return nil, err
+			}
+			g.cellData = append(g.cellData, a)
+		}
+	}
+	if fd := ug.child("FieldData"); fd != nil {
+		for _, el := range fd.arrays() {
+			a, err := x.read(el, "FieldData/"+el.attr["Name"])
+			if err != nil {
+				return nil, err
+			}
+			g.fieldData = append(g.fieldData, a)
+		}
+	}
+	return g.toMesh()
+}
+
+// element is an XML element of a VTK file's head.
+type element struct {
+	name     string
+	attr     map[string]string
+	children []*element
+	text     []byte
+}
+
+func (e *element) child(name string) *element {
+	for _, c := range e.children {
+		if c.name == name {
+			return c
+		}
+	}
+	return nil
+}
+
+// arrays returns the DataArray and Array children.
+func (e *element) arrays() []*element {
+	var a []*element
+	for _, c := range e.children {
+		if c.name == "DataArray" || c.name == "Array" {
+			a = append(a, c)
+		}
+	}
+	return a
+}
+
+// xmlFile is a parsed XML VTK file.
+type xmlFile struct {
+	name       string
+	root       *element
+	order      binary.ByteOrder
+	headerSize int  // 4 (UInt32) or 8 (UInt64)
+	compressed bool // vtkZLibDataCompressor
+	appended   []byte
+	appended64 bool // the appended block is base64 text
+}
+
+// parseXML parses the XML head of a VTK file. A raw appended block is not
+// XML, so the head is everything before <AppendedData>, closed by
+// </VTKFile>; the block itself starts after the '_' that follows the
+// AppendedData start tag.
+func parseXML(data []byte, name string) (*xmlFile, error) {
+	x := &xmlFile{name: name, order: binary.LittleEndian, headerSize: 4}
+	head := data
+	if i := bytes.Index(data, []byte("<AppendedData")); i >= 0 {
+		gt := bytes.IndexByte(data[i:], '>')
+		if gt < 0 {
+			return nil, fmt.Errorf("%s: unterminated AppendedData tag", name)
+		}
+		tag, err := parseElements(append(append([]byte{}, data[i:i+gt]...), "/>"...), name)
+		if err != nil {
+			return nil, err
+		}
+		switch enc := tag.attr["encoding"]; enc {
+		case "raw":
+		case "base64":
+			x.appended64 = true
+		default:
+			return nil, fmt.Errorf("%s: AppendedData encoding %q; want raw or base64", name, enc)
+		}
+		u := bytes.IndexByte(data[i+gt:], '_')
+		if u < 0 {
+			return nil, fmt.Errorf("%s: AppendedData has no '_' marking the start of its data", name)
+		}
+		x.appended = data[i+gt+u+1:]
+		if x.appended64 {
+			// The base64 text ends where the closing tag begins.
+			if e := bytes.Index(x.appended, []byte("</AppendedData")); e >= 0 {
+				x.appended = bytes.TrimRight(x.appended[:e], " \t\r\n")
+			}
+		}
+		head = append(append([]byte{}, data[:i]...), "</VTKFile>"...)
+	}
+	root, err := parseElements(head, name)
+	if err != nil {
+		return nil, err
+	}
+	if root.name != "VTKFile" {
+		return nil, fmt.Errorf("%s: root element is %q; want VTKFile", name, root.name)
+	}
+	x.root = root
+	switch bo := root.attr["byte_order"]; bo {
+	case "", "LittleEndian":
+	case "BigEndian":
+		x.order = binary.BigEndian
+	default:
+		return nil, fmt.Errorf("%s: byte_order %q; want LittleEndian or BigEndian", name, bo)
+	}
+	switch ht := root.attr["header_type"]; ht {
+	case "", "UInt32":
+	case "UInt64":
+		x.headerSize = 8
+	default:
+		return nil, fmt.Errorf("%s: header_type %q; want UInt32 or UInt64", name, ht)
+	}
+	switch c := root.attr["compressor"]; c {
+	case "":
+	case "vtkZLibDataCompressor":
+		x.compressed = true
+	default:
+		return nil, fmt.Errorf("%s: compressor %q is not supported; cvdeck reads uncompressed and vtkZLibDataCompressor data", name, c)
+	}
+	return x, nil
+}
+
+// parseElements parses XML into an element tree and returns the root.
+func parseElements(data []byte, name string) (*element, error) {
+	d := xml.NewDecoder(bytes.NewReader(data))
+	var stack []*element
+	var root *element
+	for {
+		tok, err := d.Token()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, fmt.Errorf("%s: XML: %w", name, err)
+		}
+		switch t := tok.(type) {
+		case xml.StartElement:
+			e := &element{name: t.Name.Local, attr: map[string]string{}}
+			for _, a := range t.Attr {
+				e.attr[a.Name.Local] = a.Value
+			}
+			if len(stack) > 0 {
+				p := stack[len(stack)-1]
+				p.children = append(p.children, e)
+			} else if root == nil {
+				root = e
+			}
+			stack = append(stack, e)
+		case xml.EndElement:
+			stack = stack[:len(stack)-1]
+		case xml.CharData:
+			if len(stack) > 0 {
+				e := stack[len(stack)-1]
+				e.text = append(e.text, t...)
+			}
+		}
+	}
+	if root == nil {
+		return nil, fmt.Errorf("%s: no XML elements", name)
+	}
+	return root, nil
+}
+
+// count reads a non-negative integer attribute.
+func (x *xmlFile) count(e *element, attr string) (int, error) {
+	v, err := strconv.Atoi(strings.TrimSpace(e.attr[attr]))
+	if err != nil || v < 0 {
+		return 0, fmt.Errorf("%s: %s %s=%q is not a non-negative integer", x.name, e.name, attr, e.attr[attr])
+	}
+	return v, nil
+}
+
+// typeSize gives the byte size of each numeric VTK XML type.
+var typeSize = map[string]int{
+	"Int8": 1, "UInt8": 1, "Int16": 2, "UInt16": 2, "Int32": 4, "UInt32": 4,
+	"Int64": 8, "UInt64": 8, "Float32": 4, "Float64": 8,
+}
+
+// read decodes the data of a DataArray or Array element; where names it
+// in errors.
+func (x *xmlFile) read(e *element, where string) (*array, error) {
+	a := &array{name: e.attr["Name"], comps: 1}
+	if s := e.attr["NumberOfComponents"]; s != "" {
+		n, err := strconv.Atoi(s)
+		if err != nil || n < 1 {
+			return nil, fmt.Errorf("%s: array %s: NumberOfComponents=%q is not a positive integer", x.name, where, s)
+		}
+		a.comps = n
+	}
+	typ := e.attr["type"]
+	size, numeric := typeSize[typ]
+	if !numeric && typ != "String" {
+		return nil, fmt.Errorf("%s: array %s: type %q is not supported; want one of Int8..UInt64, Float32, Float64, String", x.name, where, typ)
+	}
+	fail := func(err error) (*array, error) {
+		return nil, fmt.Errorf("%s: array %s (%s, format %s): %w", x.name, where, typ, e.attr["format"], err)
+	}
+	var raw []byte
+	switch f := e.attr["format"]; f {
+	case "ascii":
+		if typ == "String" {
+			s, err := asciiStrings(e.text)
+			if err != nil {
+				return fail(err)
+			}
+			a.strs = s
+			return a, nil
+		}
+		if err := a.parseASCII(e.text, typ); err != nil {
+			return fail(err)
+		}
+		return a, nil
+	case "binary":
+		text := bytes.Map(func(r rune) rune {
+			if r == ' ' || r == '\n' || r == '\r' || r == '\t' {
+				return -1
+			}
+			return r
+		}, e.text)
+		b, err := x.blob(&base64Source{text: text})
+		if err != nil {
+			return fail(err)
+		}
+		raw = b
+	case "appended":
+		if x.appended == nil {
+			return fail(fmt.Errorf("the file has no AppendedData block"))
+		}
+		off, err := strconv.ParseInt(strings.TrimSpace(e.attr["offset"]), 10, 64)
+		if err != nil || off < 0 || off > int64(len(x.appended)) {
+			return fail(fmt.Errorf("offset %q is not within the %d-byte appended block", e.attr["offset"], len(x.appended)))
+		}
+		var src byteSource = &rawSource{data: x.appended[off:]}
+		if x.appended64 {
+			src = &base64Source{text: x.appended[off:]}
+		}
+		b, err := x.blob(src)
+		if err != nil {
+			return fail(err)
+		}
+		raw = b
+	default:
+		return fail(fmt.Errorf("unknown format; want ascii, binary or appended"))
+	}
+	if typ == "String" {
+		a.strs = nulStrings(raw)
+		if s := e.attr["NumberOfTuples"]; s != "" && s != strconv.Itoa(len(a.strs)) {
+			return fail(fmt.Errorf("%d strings, but NumberOfTuples=%s", len(a.strs), s))
+		}
+		return a, nil
+	}
+	if len(raw)%size != 0 {
+		return fail(fmt.Errorf("%d bytes is not a whole number of %d-byte values", len(raw), size))
+	}
+	if err := a.decodeBinary(raw, typ, x.order); err != nil {
+		return fail(err)
+	}
+	return a, nil
+}
+
+// byteSource hands out the bytes of one array's data in order.
+type byteSource interface {
+	next(n uint64) ([]byte, error)
+}
+
+// rawSource reads raw binary bytes.
+type rawSource struct{ data []byte }
+
+func (s *rawSource) next(n uint64) ([]byte, error) {
+	if n > uint64(len(s.data)) {
+		return nil, fmt.Errorf("needs %d more bytes, the data has %d", n, len(s.data))
+	}
+	b := s.data[:n]
+	s.data = s.data[n:]
+	return b, nil
+}
+
+// base64Source decodes base64 text on demand. The VTK library encodes an
+// array's header and its data as separate base64 streams when it
+// compresses (each padded with '=' to a multiple of four characters), so
+// the text is decoded one stream at a time: up to and including each quad
+// that carries padding.
+type base64Source struct {
+	text    []byte
+	pending []byte // decoded bytes not yet handed out
+}
+
+func (s *base64Source) next(n uint64) ([]byte, error) {
+	for uint64(len(s.pending)) < n {
+		if len(s.text) == 0 {
+			return nil, fmt.Errorf("base64 data ends %d bytes short", n-uint64(len(s.pending)))
+		}
+		need := n - uint64(len(s.pending))
+		q := min((need+2)/3*4, uint64(len(s.text))/4*4)
+		if q == 0 {
+			return nil, fmt.Errorf("base64 data ends with %d stray characters", len(s.text))
+		}
+		if p := bytes.IndexByte(s.text[:q], '='); p >= 0 {
+			q = uint64(p/4+1) * 4
+		}
+		buf := make([]byte, base64.StdEncoding.DecodedLen(int(q)))
+		k, err := base64.StdEncoding.Decode(buf, s.text[:q])
+		if err != nil {
+			return nil, fmt.Errorf("base64: %w", err)
+		}
+		s.pending = append(s.pending, buf[:k]...)
+		s.text = s.text[q:]
+	}
+	b := s.pending[:n:n]
+	s.pending = s.pending[n:]
+	return b, nil
+}
+
+// uint reads one header integer of the file's header type.
+func (x *xmlFile) uint(b []byte) uint64 {
+	if x.headerSize == 8 {
+		return x.order.Uint64(b)
+	}
+	return uint64(x.order.Uint32(b))
+}
+
+// maxArrayBytes bounds a declared array size before anything is allocated
+// for it.
+const maxArrayBytes = 1 << 36
+
+// blob reads one array's binary data: uncompressed, a header holding the
+// byte count then the bytes; compressed, a header [number of blocks,
+// block size, size of the last block, compressed size of each block] then
+// the zlib-compressed blocks (VTK file-format document, "Binary data" and
+// vtkXMLDataElement/vtkXMLWriter's layout).
+func (x *xmlFile) blob(src byteSource) ([]byte, error) {
+	hs := uint64(x.headerSize)
+	h, err := src.next(hs)
+	if err != nil {
+		return nil, fmt.Errorf("header: %w", err)
+	}
+	if !x.compressed {
+		n := x.uint(h)
+		if n > maxArrayBytes {
+			return nil, fmt.Errorf("header declares %d bytes", n)
+		}
+		return src.next(n)
+	}
+	nb := x.uint(h)
+	if nb > maxArrayBytes/32768 {
+		return nil, fmt.Errorf("header declares %d compressed blocks", nb)
+	}
+	h, err = src.next((2 + nb) * hs)
+	if err != nil {
+		return nil, fmt.Errorf("compression header: %w", err)
+	}
+	bs, last := x.uint(h), x.uint(h[hs:])
+	if last == 0 {
+		last = bs
+	}
+	if nb > 0 && (nb-1)*bs+last > maxArrayBytes {
+		return nil, fmt.Errorf("compression header declares %d blocks of %d bytes", nb, bs)
+	}
+	var out []byte
+	for k := uint64(0); k < nb; k++ {
+		cs := x.uint(h[(2+k)*hs:])
+		if cs > maxArrayBytes {
+			return nil, fmt.Errorf("block %d: compressed size %d", k, cs)
+		}
+		c, err := src.next(cs)
+		if err != nil {
+			return nil, fmt.Errorf("block %d: %w", k, err)
+		}
+		want := bs
+		if k == nb-1 {
+			want = last
+		}
+		zr, err := zlib.NewReader(bytes.NewReader(c))
+		if err != nil {
+			return nil, fmt.Errorf("block %d: zlib: %w", k, err)
+		}
+		start := len(out)
+		out = append(out, make([]byte, want)...)
+		if _, err := io.ReadFull(zr, out[start:]); err != nil {
+			return nil, fmt.Errorf("block %d: zlib: %w (want %d bytes)", k, err, want)
+		}
+	}
+	return out, nil
+}
+
+// decodeBinary converts raw values of the VTK type typ.
+func (a *array) decodeBinary(b []byte, typ string, o binary.ByteOrder) error {
+	n := len(b) / typeSize[typ]
+	switch typ {
+	case "Float32", "Float64":
+		a.floats = make([]float64, n)
+		for i := range a.floats {
+			if typ == "Float32" {
+				a.floats[i] = float64(math.Float32frombits(o.Uint32(b[4*i:])))
+			} else {
+				a.floats[i] = math.Float64frombits(o.Uint64(b[8*i:]))
+			}
+		}
+		return nil
+	}
+	a.ints = make([]int64, n)
+	for i := range a.ints {
+		switch typ {
+		case "Int8":
+			a.ints[i] = int64(int8(b[i]))
+		case "UInt8":
+			a.ints[i] = int64(b[i])
+		case "Int16":
+			a.ints[i] = int64(int16(o.Uint16(b[2*i:])))
+		case "UInt16":
+			a.ints[i] = int64(o.Uint16(b[2*i:]))
+		case "Int32":
+			a.ints[i] = int64(int32(o.Uint32(b[4*i:])))
+		case "UInt32":
+			a.ints[i] = int64(o.Uint32(b[4*i:]))
+		case "Int64":
+			a.ints[i] = int64(o.Uint64(b[8*i:]))
+		case "UInt64":
+			v := o.Uint64(b[8*i:])
+			if v > math.MaxInt64 {
+				return fmt.Errorf("value %d (%d) is too large", i, v)
+			}
+			a.ints[i] = int64(v)
+		}
+	}
+	return nil
+}
+
+// parseASCII parses whitespace-separated numbers of the VTK type typ.
+func (a *array) parseASCII(text []byte, typ string) error {
+	words := strings.Fields(string(text))
+	float := typ == "Float32" || typ == "Float64"
+	if float {
+		a.floats = make([]float64, len(words))
+	} else {
+		a.ints = make([]int64, len(words))
+	}
+	for i, w := range words {
+		var err error
+		if float {
+			a.floats[i], err = strconv.ParseFloat(w, 64)
+		} else {
+			a.ints[i], err = strconv.ParseInt(w, 10, 64)
+		}
+		if err != nil {
+			return fmt.Errorf("value %d %q: %w", i, w, err)
+		}
+	}
+	return nil
+}
+
+// asciiStrings parses a String array in ascii format: the character codes
+// of each string followed by 0, as the VTK XML writer writes them.
+func asciiStrings(text []byte) ([]string, error) {
+	var b []byte
+	for i, w := range strings.Fields(string(text)) {
+		c, err := strconv.ParseUint(w, 10, 8)
+		if err != nil {
+			return nil, fmt.Errorf("character %d %q: %w", i, w, err)
+		}
+		b = append(b, byte(c))
+	}
+	return nulStrings(b), nil
+}
+
+// nulStrings splits NUL-terminated strings.
+func nulStrings(b []byte) []string {
+	s := []string{}
+	for len(b) > 0 {
+		i := bytes.IndexByte(b, 0)
+		if i < 0 {
+			i = len(b)
+		}
+		s = append(s, string(b[:i]))
+		b = b[min(i+1, len(b)):]
+	}
+	return s
+}

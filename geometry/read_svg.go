@@ -1,0 +1,631 @@
+package geometry
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+
+	"github.com/paulmach/orb"
+)
+
+// SVGOptions say how SVG path data becomes an outline.
+type SVGOptions struct {
+	// Scale multiplies every coordinate (after FlipY), turning drawing
+	// units into metres; 0 means 1.
+	Scale float64
+	// FlipY negates y, since SVG's y axis points down.
+	FlipY bool
+	// Tolerance is the largest distance, in drawing units, between a curve
+	// (C S Q T A) and the chords that replace it; 0 means 1e-4 × the
+	// diagonal of the bounding box of the path's points.
+	Tolerance float64
+	// Tags gives the tag of each closed subpath, in path order; a missing
+	// or empty entry takes the default ("outer" for the outer loop,
+	// "inner1", "inner2", ... for the others in path order).
+	Tags []string
+}
+
+// MaxSVGPoints bounds the points a path's curves may be flattened into;
+// a tolerance that would need more is refused (raise it).
+const MaxSVGPoints = 200_000
+
+// svgSeg is one drawing command in absolute coordinates.
+type svgSeg struct {
+	op           byte        // 'L', 'C', 'Q' or 'A'
+	pts          []orb.Point // L: end; C: c1, c2, end; Q: c, end; A: end
+	rx, ry, phi  float64     // A: radii and x-axis rotation (degrees)
+	large, sweep bool        // A: flags
+	cmd          int         // index of the command in the path data
+}
+
+// svgSubpath is a subpath: its start and its drawing commands.
+type svgSubpath struct {
+	start  orb.Point
+	segs   []svgSeg
+	closed bool
+	cmd    int // index of its moveto
+}
+
+// ReadSVGPath reads SVG path data (the d attribute of a path element,
+// SVG 1.1 §8.3: commands M L H V C S Q T A Z, absolute and relative,
+// repeated parameters meaning repeated commands, a moveto's extra pairs
+// meaning linetos) into an outline. Each closed subpath (closed by Z, or
+// ending where it starts within ClosureTolerance) becomes a loop; the
+// one enclosing the largest area is the outer loop, the others inner
+// loops. Each drawing command becomes one segment: lines stay lines,
+// curves become polylines whose chords stay within the tolerance (cubic
+// and quadratic Béziers by recursive halving until the control points lie
+// within it of the chord; arcs by the endpoint-to-centre conversion of
+// SVG 1.1 Appendix F.6.5, with out-of-range radii scaled up as F.6.6
+// says). Commands that draw nothing (zero length) are dropped. The outline
+// is validated and oriented. Errors name the command by its index and its
+// byte offset.
+func ReadSVGPath(d string, opt SVGOptions) (Outline, error) {
+	subs, err := parseSVGPath(d)
+	if err != nil {
+		return Outline{}, err
+	}
+	scale := opt.Scale
+	if scale == 0 {
+		scale = 1
+	}
+	if !(scale > 0) || math.IsInf(scale, 0) {
+		return Outline{}, fmt.Errorf("SVG path: scale %g must be positive and finite: %w", opt.Scale, ErrFormat)
+	}
+	extent := svgExtent(subs)
+	if !(extent > 0) {
+		return Outline{}, fmt.Errorf("SVG path: no closed subpath that draws anything: %w", ErrFormat)
+	}
+	if !(extent <= MaxCoordinate) {
+		return Outline{}, fmt.Errorf("SVG path: points span %g, beyond the coordinate limit %g: %w", extent, MaxCoordinate, ErrFormat)
+	}
+	tol := opt.Tolerance
+	if tol == 0 {
+		tol = 1e-4 * extent
+	}
+	if !(tol > 0) || math.IsInf(tol, 0) {
+		return Outline{}, fmt.Errorf("SVG path: tolerance %g must be positive and finite (the path must span a non-zero extent): %w", opt.Tolerance, ErrFormat)
+	}
+	transform := func(p orb.Point) orb.Point {
+		if opt.FlipY {
+			p[1] = -p[1]
+		}
+		return orb.Point{p[0] * scale, p[1] * scale}
+	}
+	var loops []Loop
+	var areas []float64
+	budget := MaxSVGPoints
+	for _, sp := range subs {
+		if len(sp.segs) == 0 {
+			continue
+		}
+		if end := svgEnd(sp.segs[len(sp.segs)-1]); !sp.closed && math.Hypot(end[0]-sp.start[0], end[1]-sp.start[1]) > ClosureTolerance*extent {
+			return Outline{}, fmt.Errorf("SVG path: subpath from command %d is open: it starts at (%g, %g) and ends at (%g, %g); close it with Z: %w",
+				sp.cmd, sp.start[0], sp.start[1], end[0], end[1], ErrFormat)
+		}
+		var l Loop
+		var ring []orb.Point
+		cur := sp.start
+		for _, s := range sp.segs {
+			pts, err := flattenSVG(cur, s, tol, &budget)
+			if err != nil {
+				return Outline{}, err
+			}
+			cur = svgEnd(s)
+			if len(pts) < 2 {
+				continue
+			}
+			for i := range pts {
+				pts[i] = transform(pts[i])
+			}
+			ring = append(ring, pts[:len(pts)-1]...)
+			if s.op == 'L' {
+				l.Segments = append(l.Segments, &Line{A: pts[0], B: pts[1]})
+				continue
+			}
+			pl, err := NewPolyline(pts, Attr{})
+			if err != nil {
+				return Outline{}, fmt.Errorf("SVG path: command %d: %w", s.cmd, err)
+			}
+			l.Segments = append(l.Segments, pl)
+		}
+		if len(l.Segments) == 0 {
+			continue
+		}
+		loops = append(loops, l)
+		areas = append(areas, math.Abs(signedArea(ring)))
+	}
+	if len(loops) == 0 {
+		return Outline{}, fmt.Errorf("SVG path: no closed subpath that draws anything: %w", ErrFormat)
+	}
+	outer := 0
+	for i, a := range areas {
+		if a > areas[outer] {
+			outer = i
+		}
+	}
+	var o Outline
+	inner := 0
+	for i, l := range loops {
+		tag := ""
+		if i < len(opt.Tags) {
+			tag = opt.Tags[i]
+		}
+		if i != outer {
+			inner++
+		}
+		if tag == "" {
+			tag = "outer"
+			if i != outer {
+				tag = fmt.Sprintf("inner%d", inner)
+			}
+		}
+		for k, s := range l.Segments {
+			l.Segments[k] = s.WithAttr(Attr{Tag: tag})
+		}
+		if i == outer {
+			o.Outer = l
+		} else {
+			o.Inner = append(o.Inner, l)
+		}
+	}
+	n, err := o.Normalise()
+	if err != nil {
+		return Outline{}, fmt.Errorf("SVG path (subpath k is loop k in path order, outer first; its drawing commands are its segments): %w", err)
+	}
+	return n, nil
+}
+
+// signedArea is the shoelace area of an open ring, shifted to its first
+// point for round-off (as orb's planar package does).
+func signedArea(r []orb.Point) float64 {
+	a := 0.0
+	for i := 1; i+1 < len(r); i++ {
+		a += (r[i][0]-r[0][0])*(r[i+1][1]-r[0][1]) - (r[i+1][0]-r[0][0])*(r[i][1]-r[0][1])
+	}
+	return a / 2
+}
+
+func svgEnd(s svgSeg) orb.Point { return s.pts[len(s.pts)-1] }
+
+func svgExtent(subs []svgSubpath) float64 {
+	b := orb.Bound{Min: orb.Point{math.Inf(1), math.Inf(1)}, Max: orb.Point{math.Inf(-1), math.Inf(-1)}}
+	for _, sp := range subs {
+		b = b.Extend(sp.start)
+		for _, s := range sp.segs {
+			for _, p := range s.pts {
+				b = b.Extend(p)
+			}
+		}
+	}
+	return math.Hypot(b.Max[0]-b.Min[0], b.Max[1]-b.Min[1])
+}
+
+// flattenSVG returns the points of one command from cur, both ends
+// included; budget bounds the total point count.
+func flattenSVG(cur orb.Point, s svgSeg, tol float64, budget *int) ([]orb.Point, error) {
+	pts := []orb.Point{cur}
+	switch s.op {
+	case 'L':
+		if s.pts[0] != cur {
+			pts = append(pts, s.pts[0])
+		}
+	case 'C':
+		flattenCubic(cur, s.pts[0], s.pts[1], s.pts[2], tol, 0, &pts, *budget)
+	case 'Q':
+		// Degree elevation: c₁ = p₀ + ⅔(q − p₀), c₂ = p₃ + ⅔(q − p₃).
+		q, e := s.pts[0], s.pts[1]
+		c1 := orb.Point{cur[0] + 2.0/3*(q[0]-cur[0]), cur[1] + 2.0/3*(q[1]-cur[1])}
+		c2 := orb.Point{e[0] + 2.0/3*(q[0]-e[0]), e[1] + 2.0/3*(q[1]-e[1])}
+		flattenCubic(cur, c1, c2, e, tol, 0, &pts, *budget)
+	case 'A':
+		end := s.pts[0]
+		a, ok := svgArcCentre(cur, end, s.rx, s.ry, s.phi, s.large, s.sweep)
+		if !ok { // zero radius: a straight line (F.6.2)
+			if end != cur {
+				pts = append(pts, end)
+			}
+			break
+		}
+		r := math.Max(a.rx, a.ry)
+		step := math.Pi / 2
+		if tol < r {
+			step = math.Min(step, 2*math.Acos(1-tol/r)) // sagitta r(1 − cos(δ/2)) ≤ tol
+		}
+		n := int(math.Ceil(math.Abs(a.dtheta) / step))
+		if n > *budget {
+			return nil, fmt.Errorf("SVG path: command %d: an arc of radius %g at tolerance %g needs more than %d points; raise the tolerance: %w", s.cmd, r, tol, MaxSVGPoints, ErrFormat)
+		}
+		for i := 1; i < n; i++ {
+			pts = append(pts, a.point(a.theta1+a.dtheta*float64(i)/float64(n)))
+		}
+		pts = append(pts, end)
+	}
+	// Drop repeated points (commands or pieces that draw nothing).
+	out := pts[:1]
+	for _, p := range pts[1:] {
+		if p != out[len(out)-1] {
+			out = append(out, p)
+		}
+	}
+	*budget -= len(out)
+	if *budget < 0 {
+		return nil, fmt.Errorf("SVG path: command %d: flattening at tolerance %g needs more than %d points in all; raise the tolerance: %w", s.cmd, tol, MaxSVGPoints, ErrFormat)
+	}
+	return out, nil
+}
+
+// flattenCubic appends to out the points after p0 of a polyline within tol
+// of the cubic Bézier p0 p1 p2 p3: the curve lies in the convex hull of
+// its control points, so once p1 and p2 are within tol of the chord p0p3
+// so is the curve; otherwise it is halved by de Casteljau's construction.
+// It stops halving at depth 20 or once out holds more than limit points
+// (the caller then refuses the result).
+func flattenCubic(p0, p1, p2, p3 orb.Point, tol float64, depth int, out *[]orb.Point, limit int) {
+	if depth >= 20 || len(*out) > limit || (distToSegment(p1, p0, p3) <= tol && distToSegment(p2, p0, p3) <= tol) {
+		*out = append(*out, p3)
+		return
+	}
+	mid := func(a, b orb.Point) orb.Point { return orb.Point{(a[0] + b[0]) / 2, (a[1] + b[1]) / 2} }
+	a, b, c := mid(p0, p1), mid(p1, p2), mid(p2, p3)
+	d, e := mid(a, b), mid(b, c)
+	m := mid(d, e)
+	flattenCubic(p0, a, d, m, tol, depth+1, out, limit)
+	flattenCubic(m, e, c, p3, tol, depth+1, out, limit)
+}
+
+// distToSegment returns the distance from p to the segment ab.
+func distToSegment(p, a, b orb.Point) float64 {
+	dx, dy := b[0]-a[0], b[1]-a[1]
+	l2 := dx*dx + dy*dy
+	t := 0.0
+	if l2 > 0 {
+		t = math.Max(0, math.Min(1, ((p[0]-a[0])*dx+(p[1]-a[1])*dy)/l2))
+	}
+	return math.Hypot(p[0]-a[0]-t*dx, p[1]-a[1]-t*dy)
+}
+
+// svgArc is an elliptical arc in centre parametrisation (SVG 1.1 F.6.3).
+type svgArc struct {
+	cx, cy, rx, ry float64
+	cosPhi, sinPhi float64
+	theta1, dtheta float64 // radians
+}
+
+// point returns the arc point at angle θ (SVG 1.1 F.6.3.1):
+// x = cx + rx cos φ cos θ − ry sin φ sin θ, y = cy + rx sin φ cos θ + ry cos φ sin θ.
+func (a svgArc) point(theta float64) orb.Point {
+	c, s := math.Cos(theta), math.Sin(theta)
+	return orb.Point{a.cx + a.rx*a.cosPhi*c - a.ry*a.sinPhi*s, a.cy + a.rx*a.sinPhi*c + a.ry*a.cosPhi*s}
+}
+
+// svgArcCentre converts an arc from endpoint to centre parametrisation by
+// SVG 1.1 Appendix F.6.5, scaling radii that cannot reach the end point by
+// √Λ, Λ = x₁′²/rx² + y₁′²/ry² (F.6.6). ok is false for an arc with a zero
+// radius, which F.6.2 draws as a straight line; equal end points draw
+// nothing and give dtheta = 0.
+func svgArcCentre(p1, p2 orb.Point, rx, ry, phiDeg float64, large, sweep bool) (svgArc, bool) {
+	rx, ry = math.Abs(rx), math.Abs(ry)
+	if rx == 0 || ry == 0 {
+		return svgArc{}, false
+	}
+	phi := math.Mod(phiDeg, 360) * math.Pi / 180
+	a := svgArc{rx: rx, ry: ry, cosPhi: math.Cos(phi), sinPhi: math.Sin(phi)}
+	if p1 == p2 {
+		a.cx, a.cy = p1[0], p1[1]
+		return a, true
+	}
+	// Step 1: (x₁′, y₁′) = R(−φ) · (p₁ − p₂)/2.
+	hx, hy := (p1[0]-p2[0])/2, (p1[1]-p2[1])/2
+	x1 := a.cosPhi*hx + a.sinPhi*hy
+	y1 := -a.sinPhi*hx + a.cosPhi*hy
+	// F.6.6: scale up radii that are too small.
+	if lambda := x1*x1/(rx*rx) + y1*y1/(ry*ry); lambda > 1 {
+		s := math.Sqrt(lambda)
+		rx, ry = rx*s, ry*s
+		a.rx, a.ry = rx, ry
+	}
+	// Step 2: c′ = ±√((rx²ry² − rx²y₁′² − ry²x₁′²)/(rx²y₁′² + ry²x₁′²)) · (rx y₁′/ry, −ry x₁′/rx),
+	// + when the flags differ.
+	num := rx*rx*ry*ry - rx*rx*y1*y1 - ry*ry*x1*x1
+	den := rx*rx*y1*y1 + ry*ry*x1*x1
+	k := math.Sqrt(math.Max(0, num/den))
+	if large == sweep {
+		k = -k
+	}
+	cxp, cyp := k*rx*y1/ry, -k*ry*x1/rx
+	// Step 3: c = R(φ) · c′ + (p₁ + p₂)/2.
+	a.cx = a.cosPhi*cxp - a.sinPhi*cyp + (p1[0]+p2[0])/2
+	a.cy = a.sinPhi*cxp + a.cosPhi*cyp + (p1[1]+p2[1])/2
+	// Step 4: θ₁ = ∠((1, 0), u), Δθ = ∠(u, v) mod 360°, with
+	// u = ((x₁′ − cx′)/rx, (y₁′ − cy′)/ry), v = ((−x₁′ − cx′)/rx, (−y₁′ − cy′)/ry);
+	// Δθ < 0 when sweep is 0, > 0 when it is 1.
+	ux, uy := (x1-cxp)/rx, (y1-cyp)/ry
+	vx, vy := (-x1-cxp)/rx, (-y1-cyp)/ry
+	a.theta1 = math.Atan2(uy, ux)
+	a.dtheta = math.Atan2(ux*vy-uy*vx, ux*vx+uy*vy)
+	if !sweep && a.dtheta > 0 {
+		a.dtheta -= 2 * math.Pi
+	} else if sweep && a.dtheta < 0 {
+		a.dtheta += 2 * math.Pi
+	}
+	return a, true
+}
+
+// svgParser reads path data.
+type svgParser struct {
+	s   string
+	i   int
+	cmd int // index of the command being read
+}
+
+func (p *svgParser) errorf(format string, args ...any) error {
+	return fmt.Errorf("SVG path: command %d at byte %d: %s: %w", p.cmd, p.i, fmt.Sprintf(format, args...), ErrFormat)
+}
+
+func (p *svgParser) skipSpace() {
+	for p.i < len(p.s) {
+		switch p.s[p.i] {
+		case ' ', '\t', '\n', '\r', '\f':
+			p.i++
+		default:
+			return
+		}
+	}
+}
+
+// skipSep skips white space with at most one comma in it.
+func (p *svgParser) skipSep() {
+	p.skipSpace()
+	if p.i < len(p.s) && p.s[p.i] == ',' {
+		p.i++
+		p.skipSpace()
+	}
+}
+
+// atNumber reports whether a number starts at the current position.
+func (p *svgParser) atNumber() bool {
+	if p.i >= len(p.s) {
+		return false
+	}
+	c := p.s[p.i]
+	return c == '+' || c == '-' || c == '.' || (c >= '0' && c <= '9')
+}
+
+// number reads one number: sign? (digits ('.' digits?)? | '.' digits)
+// (('e'|'E') sign? digits)?, as SVG 1.1's path grammar has it, so "1.5.5"
+// is 1.5 then .5 and "1-2" is 1 then −2.
+func (p *svgParser) number() (float64, error) {
+	p.skipSep()
+	start := p.i
+	if p.i < len(p.s) && (p.s[p.i] == '+' || p.s[p.i] == '-') {
+		p.i++
+	}
+	digits := 0
+	for p.i < len(p.s) && p.s[p.i] >= '0' && p.s[p.i] <= '9' {
+		p.i++
+		digits++
+	}
+	if p.i < len(p.s) && p.s[p.i] == '.' {
+		p.i++
+		for p.i < len(p.s) && p.s[p.i] >= '0' && p.s[p.i] <= '9' {
+			p.i++
+			digits++
+		}
+	}
+	if digits == 0 {
+		p.i = start
+		if p.i >= len(p.s) {
+			return 0, p.errorf("expected a number, found the end of the data")
+		}
+		return 0, p.errorf("expected a number, found %q", p.s[p.i])
+	}
+	if p.i < len(p.s) && (p.s[p.i] == 'e' || p.s[p.i] == 'E') {
+		j := p.i + 1
+		if j < len(p.s) && (p.s[j] == '+' || p.s[j] == '-') {
+			j++
+		}
+		if j < len(p.s) && p.s[j] >= '0' && p.s[j] <= '9' {
+			for j < len(p.s) && p.s[j] >= '0' && p.s[j] <= '9' {
+				j++
+			}
+			p.i = j
+		}
+	}
+	v, err := strconv.ParseFloat(p.s[start:p.i], 64)
+	if err != nil || math.IsInf(v, 0) {
+		text := p.s[start:p.i]
+		p.i = start
+		return 0, p.errorf("number %q is out of range", text)
+	}
+	return v, nil
+}
+
+// flag reads an arc flag: a single '0' or '1'.
+func (p *svgParser) flag() (bool, error) {
+	p.skipSep()
+	if p.i < len(p.s) && (p.s[p.i] == '0' || p.s[p.i] == '1') {
+		p.i++
+		return p.s[p.i-1] == '1', nil
+	}
+	return false, p.errorf("expected an arc flag 0 or 1")
+}
+
+func (p *svgParser) numbers(n int) ([]float64, error) {
+	v := make([]float64, n)
+	for k := range v {
+		x, err := p.number()
+		if err != nil {
+			return nil, err
+		}
+		v[k] = x
+	}
+	return v, nil
+}
+
+// parseSVGPath parses path data into absolute subpaths.
+func parseSVGPath(d string) ([]svgSubpath, error) {
+	p := &svgParser{s: d, cmd: -1}
+	var subs []svgSubpath
+	var cur, start orb.Point
+	var lastCtrl orb.Point // last cubic (C/S) or quadratic (Q/T) control point
+	var last byte          // previous command, upper case
+	add := func(s svgSeg) {
+		if len(subs) == 0 || subs[len(subs)-1].closed {
+			// Drawing after Z starts a new subpath at the current point.
+			subs = append(subs, svgSubpath{start: cur, cmd: p.cmd})
+			start = cur
+		}
+		subs[len(subs)-1].segs = append(subs[len(subs)-1].segs, s)
+		cur = svgEnd(s)
+	}
+	for {
+		p.skipSpace()
+		if p.i >= len(p.s) {
+			break
+		}
+		c := p.s[p.i]
+		if !isSVGCommand(c) {
+			return nil, fmt.Errorf("SVG path: byte %d: expected a command letter (M L H V C S Q T A Z, or lower case), found %q: %w", p.i, c, ErrFormat)
+		}
+		p.i++
+		p.cmd++
+		if p.cmd == 0 && c != 'M' && c != 'm' {
+			return nil, p.errorf("path data must begin with a moveto (M or m), found %q", c)
+		}
+		rel := c >= 'a'
+		up := c &^ 0x20
+		offset := func(x, y float64) orb.Point {
+			if rel {
+				return orb.Point{cur[0] + x, cur[1] + y}
+			}
+			return orb.Point{x, y}
+		}
+		first := true
+		for {
+			if !first {
+				p.skipSep()
+				if !p.atNumber() {
+					break
+				}
+			}
+			switch up {
+			case 'Z':
+				if len(subs) > 0 && !subs[len(subs)-1].closed {
+					if cur != start {
+						add(svgSeg{op: 'L', pts: []orb.Point{start}, cmd: p.cmd})
+					}
+					subs[len(subs)-1].closed = true
+				}
+				cur = start
+			case 'M':
+				v, err := p.numbers(2)
+				if err != nil {
+					return nil, err
+				}
+				q := offset(v[0], v[1])
+				if first {
+					cur, start = q, q
+					subs = append(subs, svgSubpath{start: q, cmd: p.cmd})
+				} else { // extra pairs are implicit linetos
+					add(svgSeg{op: 'L', pts: []orb.Point{q}, cmd: p.cmd})
+				}
+			case 'L':
+				v, err := p.numbers(2)
+				if err != nil {
+					return nil, err
+				}
+				add(svgSeg{op: 'L', pts: []orb.Point{offset(v[0], v[1])}, cmd: p.cmd})
+			case 'H', 'V':
+				v, err := p.numbers(1)
+				if err != nil {
+					return nil, err
+				}
+				q := cur
+				k := 0
+				if up == 'V' {
+					k = 1
+				}
+				if rel {
+					q[k] += v[0]
+				} else {
+					q[k] = v[0]
+				}
+				add(svgSeg{op: 'L', pts: []orb.Point{q}, cmd: p.cmd})
+			case 'C', 'S':
+				n := 6
+				if up == 'S' {
+					n = 4
+				}
+				v, err := p.numbers(n)
+				if err != nil {
+					return nil, err
+				}
+				var c1 orb.Point
+				if up == 'C' {
+					c1 = offset(v[0], v[1])
+					v = v[2:]
+				} else if last == 'C' || last == 'S' {
+					c1 = orb.Point{2*cur[0] - lastCtrl[0], 2*cur[1] - lastCtrl[1]}
+				} else {
+					c1 = cur
+				}
+				c2, e := offset(v[0], v[1]), offset(v[2], v[3])
+				add(svgSeg{op: 'C', pts: []orb.Point{c1, c2, e}, cmd: p.cmd})
+				lastCtrl = c2
+			case 'Q', 'T':
+				n := 4
+				if up == 'T' {
+					n = 2
+				}
+				v, err := p.numbers(n)
+				if err != nil {
+					return nil, err
+				}
+				var q orb.Point
+				if up == 'Q' {
+					q = offset(v[0], v[1])
+					v = v[2:]
+				} else if last == 'Q' || last == 'T' {
+					q = orb.Point{2*cur[0] - lastCtrl[0], 2*cur[1] - lastCtrl[1]}
+				} else {
+					q = cur
+				}
+				add(svgSeg{op: 'Q', pts: []orb.Point{q, offset(v[0], v[1])}, cmd: p.cmd})
+				lastCtrl = q
+			case 'A':
+				v, err := p.numbers(3)
+				if err != nil {
+					return nil, err
+				}
+				large, err := p.flag()
+				if err != nil {
+					return nil, err
+				}
+				sweep, err := p.flag()
+				if err != nil {
+					return nil, err
+				}
+				e, err := p.numbers(2)
+				if err != nil {
+					return nil, err
+				}
+				add(svgSeg{op: 'A', pts: []orb.Point{offset(e[0], e[1])}, rx: v[0], ry: v[1], phi: v[2], large: large, sweep: sweep, cmd: p.cmd})
+			}
+			last = up
+			if up == 'Z' {
+				break
+			}
+			first = false
+		}
+	}
+	return subs, nil
+}
+
+func isSVGCommand(c byte) bool {
+	switch c &^ 0x20 {
+	case 'M', 'L', 'H', 'V', 'C', 'S', 'Q', 'T', 'A', 'Z':
+		return true
+	}
+	return false
+}

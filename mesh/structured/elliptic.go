@@ -1,0 +1,647 @@
+package structured
+
+import (
+	"fmt"
+	"math"
+
+	"cvdeck/mesh"
+)
+
+// SideMode says how the nodes of a block side may move while smoothing.
+type SideMode uint8
+
+const (
+	// Fixed keeps the side's nodes where they are.
+	Fixed SideMode = iota
+	// Slide lets the side's nodes (not its end nodes) move along the side's
+	// original polyline, each towards the foot of the perpendicular from
+	// its interior neighbour, so grid lines meet the side at right angles.
+	Slide
+)
+
+func (m SideMode) String() string {
+	if m == Slide {
+		return "slide"
+	}
+	return "fixed"
+}
+
+// SideControl is what the smoother does at one block side.
+type SideControl struct {
+	Mode SideMode
+	// FirstHeight, when positive, is the height of the first cell off this
+	// side, measured along the side's normal, that the control holds. The
+	// side must be Fixed.
+	FirstHeight float64
+	// Orthogonal asks for grid lines that leave the side at right angles.
+	// The side must be Fixed (a sliding side is made orthogonal by sliding).
+	Orthogonal bool
+}
+
+func (c SideControl) controlled() bool { return c.FirstHeight > 0 || c.Orthogonal }
+
+// SmoothOptions tune Smooth. The zero value smooths with every side fixed
+// and no wall control, to the default tolerance.
+type SmoothOptions struct {
+	// Sides holds the control of each side, indexed by mesh.Side.
+	Sides [4]SideControl
+	// MaxIterations bounds the sweeps; 0 means 5000.
+	MaxIterations int
+	// Tolerance is the residual at which iteration stops: the largest node
+	// move of one sweep divided by the local cell size. 0 means 1e-6. A
+	// negative tolerance runs exactly MaxIterations sweeps.
+	Tolerance float64
+	// Omega is the over-relaxation factor of the point SOR sweeps, in
+	// (0, 2); 0 means 1.5.
+	Omega float64
+	// Decay is the rate a at which wall control fades into the block, as
+	// e^(−a·k) at k cells from the wall; 0 means 0.25.
+	Decay float64
+	// Gain scales the feedback that drives the wall controls; 0 means 0.05.
+	Gain float64
+	// NoSpacingTerms drops the Thomas–Middlecoff terms that carry the
+	// boundary node distribution inwards, leaving pure Winslow smoothing
+	// (plus any wall control).
+	NoSpacingTerms bool
+}
+
+// SmoothResult reports how smoothing went.
+type SmoothResult struct {
+	// Iterations is the number of sweeps done.
+	Iterations int
+	// Residual is the last sweep's largest node move over the local cell
+	// size.
+	Residual float64
+	// Converged is true when Residual reached the tolerance.
+	Converged bool
+	// Damped counts node updates that would have inverted or folded a cell
+	// and were shortened (or dropped) instead.
+	Damped int
+	// FoldedAtStart counts the cells of the starting grid with
+	// non-positive area (all of them are untangled, or Smooth fails).
+	FoldedAtStart int
+	// HeightError is the largest |h/h_req − 1| of the first-cell heights
+	// over the height-controlled sides, and MeanHeightError its mean; both
+	// are 0 when no side has height control.
+	HeightError, MeanHeightError float64
+	// AngleError is the largest and MeanAngleError the mean departure from
+	// 90° (degrees) of the first grid line off the orthogonality-controlled
+	// sides, over their interior nodes.
+	AngleError, MeanAngleError float64
+}
+
+// Smooth improves the block in place by elliptic grid generation, starting
+// from its present nodes (normally the TFI grid). It solves the
+// Thompson–Thames–Mastin equations (J. Comput. Phys. 15, 1974) in Winslow's
+// form (J. Comput. Phys. 1, 1967), with the control functions written as in
+// Thomas and Middlecoff (AIAA J. 18, 1980):
+//
+//	α (x_ξξ + φ x_ξ) − 2β x_ξη + γ (x_ηη + ψ x_η) = 0   (and the same for y)
+//	α = x_η² + y_η²,  β = x_ξ x_η + y_ξ y_η,  γ = x_ξ² + y_ξ²
+//
+// by point successive over-relaxation with central differences.
+//
+// φ and ψ have two parts. The Thomas–Middlecoff part carries the node
+// distribution of the sides inwards: on the south and north sides
+// φ = −(r_ξ·r_ξξ)/|r_ξ|², on the west and east sides ψ = −(r_η·r_ηη)/|r_η|²,
+// interpolated linearly across the block. The wall part holds a prescribed
+// first-cell height and orthogonality at the controlled sides by feedback in
+// the manner of Steger and Sorenson (J. Comput. Phys. 33, 1979; Sorenson,
+// NASA TM-81198, 1980): after each sweep the height h and the tangential lean
+// t of each first grid line are measured, the side's amplitude for the
+// normal direction moves by −Gain·ln(h/h_req) and the one for the tangential
+// direction by −Gain·atan(t/h) (signs for the south side; they follow the
+// side's orientation), and both act in the block through the factor e^(−a·k)
+// at k cells from the wall.
+//
+// No update may fold the grid. On a grid of strictly convex cells a node's
+// new position must leave the eight triangles it forms with consecutive
+// neighbours positive; on one with non-convex cells, the four cells around
+// it must keep a positive area. A move that fails is halved up to four
+// times and otherwise dropped, and counted in Damped. A starting grid with
+// inverted cells (TFI folds on strongly curved sides) is first smoothed
+// without the test and without control terms, since Winslow's mapping
+// untangles it, until no cell is inverted; if some still are at the end,
+// Smooth returns an error naming the first.
+//
+// The residual is the largest proposed move of a sweep over the local cell
+// size, before any damping, so a node held back by the fold test keeps the
+// iteration from reporting convergence.
+func Smooth(b *Block, opt SmoothOptions) (SmoothResult, error) {
+	var res SmoothResult
+	if err := b.check(); err != nil {
+		return res, fmt.Errorf("structured: %w", err)
+	}
+	if b.NI < 3 || b.NJ < 3 {
+		return res, fmt.Errorf("structured: block %q is %d × %d nodes; smoothing needs interior nodes (at least 3 × 3)", b.Name, b.NI, b.NJ)
+	}
+	for s, c := range opt.Sides {
+		side := mesh.Side(s)
+		if c.Mode > Slide {
+			return res, fmt.Errorf("structured: block %q %s side: unknown side mode %d", b.Name, side, c.Mode)
+		}
+		if c.FirstHeight < 0 || math.IsNaN(c.FirstHeight) || math.IsInf(c.FirstHeight, 0) {
+			return res, fmt.Errorf("structured: block %q %s side: first-cell height %g must be positive (or 0 for none)", b.Name, side, c.FirstHeight)
+		}
+		if c.controlled() && c.Mode != Fixed {
+			return res, fmt.Errorf("structured: block %q %s side: first-height and orthogonality control need fixed nodes, the side is set to %s", b.Name, side, c.Mode)
+		}
+	}
+	if opt.MaxIterations == 0 {
+		opt.MaxIterations = 5000
+	}
+	if opt.MaxIterations < 0 {
+		return res, fmt.Errorf("structured: smoothing iteration limit %d is negative", opt.MaxIterations)
+	}
+	if opt.Tolerance == 0 {
+		opt.Tolerance = 1e-6
+	}
+	if opt.Omega == 0 {
+		opt.Omega = 1.5
+	}
+	if !(opt.Omega > 0 && opt.Omega < 2) {
+		return res, fmt.Errorf("structured: over-relaxation factor %g must lie in (0, 2)", opt.Omega)
+	}
+	if opt.Decay == 0 {
+		opt.Decay = 0.25
+	}
+	if opt.Gain == 0 {
+		opt.Gain = 0.05
+	}
+	if !(opt.Decay > 0) || !(opt.Gain > 0) {
+		return res, fmt.Errorf("structured: control decay %g and gain %g must be positive", opt.Decay, opt.Gain)
+	}
+
+	s := newSmoother(b, opt)
+	res.FoldedAtStart, _, _ = inverted(b)
+	for it := 0; it < opt.MaxIterations; it++ {
+		r2 := s.sweep()
+		for _, sl := range s.sliders {
+			r2 = math.Max(r2, s.slide(sl))
+		}
+		if s.mode != freeMode {
+			s.feedback()
+		}
+		if s.mode != starMode && it%10 == 9 {
+			s.updateMode()
+		}
+		res.Iterations = it + 1
+		res.Residual = math.Sqrt(r2)
+		if res.Residual <= opt.Tolerance {
+			res.Converged = true
+			break
+		}
+	}
+	res.Damped = s.damped
+	res.HeightError, res.MeanHeightError, res.AngleError, res.MeanAngleError = s.wallErrors()
+	if n, i, j := inverted(b); n > 0 {
+		return res, fmt.Errorf("structured: block %q: smoothing could not untangle the starting grid: %d cells are still inverted after %d iterations, the first is cell (%d, %d); refine the sides or give a better starting grid", b.Name, n, res.Iterations, i, j)
+	}
+	return res, nil
+}
+
+// foldMode is the test a node move must pass.
+type foldMode uint8
+
+const (
+	starMode foldMode = iota // keep the eight triangles around the node positive
+	areaMode                 // keep the four cells around the node of positive area
+	freeMode                 // the grid is tangled: move freely until it is not
+)
+
+// smoother holds the state of one Smooth call.
+type smoother struct {
+	b      *Block
+	ni, nj int
+	x, y   []float64
+	omega  float64
+	gain   float64
+	sides  [4]SideControl
+
+	// Thomas–Middlecoff terms: φ on the south and north rows (by i), ψ on
+	// the west and east columns (by j), and the linear weights across.
+	phiS, phiN, psiW, psiE []float64
+	eta, xi                []float64
+	// phiRow and psiRow hold φ and ψ along the row being swept.
+	phiRow, psiRow []float64
+	// Wall control amplitudes: p drives the tangential, q the normal
+	// direction; south and north by i, west and east by j. Decay factors
+	// e^(−a k) by distance k from each side.
+	p, q                           [4][]float64
+	decayS, decayN, decayW, decayE []float64
+
+	// mode is the fold test in force (see updateMode).
+	mode    foldMode
+	damped  int
+	sliders []*slider
+}
+
+func newSmoother(b *Block, opt SmoothOptions) *smoother {
+	ni, nj := b.NI, b.NJ
+	s := &smoother{b: b, ni: ni, nj: nj, x: b.X, y: b.Y, omega: opt.Omega, gain: opt.Gain, sides: opt.Sides}
+	s.phiS, s.phiN = make([]float64, ni), make([]float64, ni)
+	s.psiW, s.psiE = make([]float64, nj), make([]float64, nj)
+	s.eta, s.xi = make([]float64, nj), make([]float64, ni)
+	s.phiRow, s.psiRow = make([]float64, ni), make([]float64, ni)
+	for j := range s.eta {
+		s.eta[j] = float64(j) / float64(nj-1)
+	}
+	for i := range s.xi {
+		s.xi[i] = float64(i) / float64(ni-1)
+	}
+	if !opt.NoSpacingTerms {
+		for i := 1; i+1 < ni; i++ {
+			s.phiS[i] = spacingTerm(b.X, b.Y, i-1, i, i+1)
+			k := (nj - 1) * ni
+			s.phiN[i] = spacingTerm(b.X, b.Y, k+i-1, k+i, k+i+1)
+		}
+		for j := 1; j+1 < nj; j++ {
+			s.psiW[j] = spacingTerm(b.X, b.Y, (j-1)*ni, j*ni, (j+1)*ni)
+			e := ni - 1
+			s.psiE[j] = spacingTerm(b.X, b.Y, (j-1)*ni+e, j*ni+e, (j+1)*ni+e)
+		}
+	}
+	for side := range s.p {
+		n := b.SideLen(mesh.Side(side))
+		s.p[side], s.q[side] = make([]float64, n), make([]float64, n)
+	}
+	decay := func(n int, fromEnd bool) []float64 {
+		d := make([]float64, n)
+		for k := range d {
+			dist := k
+			if fromEnd {
+				dist = n - 1 - k
+			}
+			d[k] = math.Exp(-opt.Decay * float64(dist))
+		}
+		return d
+	}
+	s.decayS, s.decayN = decay(nj, false), decay(nj, true)
+	s.decayW, s.decayE = decay(ni, false), decay(ni, true)
+	for side, c := range opt.Sides {
+		if c.Mode == Slide {
+			s.sliders = append(s.sliders, newSlider(b, mesh.Side(side)))
+		}
+	}
+	s.updateMode()
+	return s
+}
+
+// spacingTerm is −(r'·r”)/|r'|² at node c between a and b, from central
+// differences: the Thomas–Middlecoff control value on a boundary line.
+func spacingTerm(x, y []float64, a, c, b int) float64 {
+	dx, dy := 0.5*(x[b]-x[a]), 0.5*(y[b]-y[a])
+	ddx, ddy := x[b]-2*x[c]+x[a], y[b]-2*y[c]+y[a]
+	g := dx*dx + dy*dy
+	if g == 0 {
+		return 0
+	}
+	return -(dx*ddx + dy*ddy) / g
+}
+
+// starCheck looks at interior node k moved to P = (px, py) and its
+// neighbours Q in counter-clockwise order E, NE, N, NW, W, SW, S, SE. It
+// returns the smallest doubled signed area of the eight triangles
+// (P, Q_m, Q_m+1), and the smallest doubled area of the four cells around
+// the node, each the sum of two consecutive triangles (the cell split along
+// its diagonal from P).
+func starCheck(x, y []float64, k, ni int, px, py float64) (tri, cell float64) {
+	ex, ey := x[k+1]-px, y[k+1]-py
+	nex, ney := x[k+1+ni]-px, y[k+1+ni]-py
+	nx, ny := x[k+ni]-px, y[k+ni]-py
+	nwx, nwy := x[k-1+ni]-px, y[k-1+ni]-py
+	wx, wy := x[k-1]-px, y[k-1]-py
+	swx, swy := x[k-1-ni]-px, y[k-1-ni]-py
+	sx, sy := x[k-ni]-px, y[k-ni]-py
+	sex, sey := x[k+1-ni]-px, y[k+1-ni]-py
+	c := [8]float64{
+		ex*ney - nex*ey, nex*ny - nx*ney, nx*nwy - nwx*ny, nwx*wy - wx*nwy,
+		wx*swy - swx*wy, swx*sy - sx*swy, sx*sey - sex*sy, sex*ey - ex*sey,
+	}
+	tri, cell = c[0], c[0]+c[1]
+	for m := 1; m < 8; m++ {
+		tri = math.Min(tri, c[m])
+	}
+	for m := 2; m < 8; m += 2 {
+		cell = math.Min(cell, c[m]+c[m+1])
+	}
+	return tri, cell
+}
+
+// controlRows fills s.phiRow and s.psiRow with φ and ψ along row j: the
+// Thomas–Middlecoff part plus whatever wall control reaches the row.
+func (s *smoother) controlRows(j int) {
+	const negligible = 1e-12
+	ni := s.ni
+	phi, psi := s.phiRow[:ni], s.psiRow[:ni]
+	eta := s.eta[j]
+	psiW, psiE := s.psiW[j], s.psiE[j]
+	phiS, phiN, xi := s.phiS[:ni], s.phiN[:ni], s.xi[:ni]
+	if s.mode == freeMode {
+		// Untangling: pure Winslow, whose mapping is folding-free; the
+		// spacing and wall terms come in once no cell is inverted.
+		clear(phi)
+		clear(psi)
+		return
+	}
+	for i := range phi {
+		phi[i] = phiS[i]*(1-eta) + phiN[i]*eta
+		psi[i] = psiW*(1-xi[i]) + psiE*xi[i]
+	}
+	// South and north controls act along the whole row, faded by distance.
+	for _, w := range [2]struct {
+		side mesh.Side
+		d    float64
+	}{{mesh.South, s.decayS[j]}, {mesh.North, s.decayN[j]}} {
+		if !s.sides[w.side].controlled() || w.d < negligible {
+			continue
+		}
+		p, q := s.p[w.side][:ni], s.q[w.side][:ni]
+		for i := range phi {
+			phi[i] += p[i] * w.d
+			psi[i] += q[i] * w.d
+		}
+	}
+	// West and east controls reach the first columns from their side.
+	if s.sides[mesh.West].controlled() {
+		p, q := s.p[mesh.West][j], s.q[mesh.West][j]
+		for i, d := range s.decayW[:ni] {
+			if d < negligible {
+				break
+			}
+			phi[i] += q * d
+			psi[i] += p * d
+		}
+	}
+	if s.sides[mesh.East].controlled() {
+		p, q := s.p[mesh.East][j], s.q[mesh.East][j]
+		for i := ni - 1; i >= 0; i-- {
+			d := s.decayE[i]
+			if d < negligible {
+				break
+			}
+			phi[i] += q * d
+			psi[i] += p * d
+		}
+	}
+}
+
+// sweep does one SOR sweep over the interior nodes and returns the largest
+// squared node move over the squared local cell size. The loop body uses
+// only local values and row views of plain slices (no allocation, few bounds
+// checks); the fold test reuses the eight neighbours already loaded.
+func (s *smoother) sweep() float64 {
+	ni, nj := s.ni, s.nj
+	x, y := s.x, s.y
+	om := s.omega
+	worst := 0.0
+	for j := 1; j+1 < nj; j++ {
+		s.controlRows(j)
+		row := j * ni
+		xc := x[row:][:ni]
+		yc := y[row:][:ni]
+		xs, ys := x[row-ni:][:len(xc)], y[row-ni:][:len(xc)]
+		xn, yn := x[row+ni:][:len(xc)], y[row+ni:][:len(xc)]
+		phiRow, psiRow := s.phiRow[:len(xc)], s.psiRow[:len(xc)]
+		// Odd nodes of the row first, then even ones: each node still uses
+		// the latest values (a Gauss–Seidel ordering), but consecutive
+		// updates no longer wait on each other's result.
+		for i0 := 1; i0 <= 2; i0++ {
+			for i := i0; i < len(xc)-1; i += 2 {
+				px, py := xc[i], yc[i]
+				// Neighbours relative to the node.
+				ex, ey := xc[i+1]-px, yc[i+1]-py
+				wx, wy := xc[i-1]-px, yc[i-1]-py
+				nx, ny := xn[i]-px, yn[i]-py
+				sx, sy := xs[i]-px, ys[i]-py
+				nex, ney := xn[i+1]-px, yn[i+1]-py
+				nwx, nwy := xn[i-1]-px, yn[i-1]-py
+				sex, sey := xs[i+1]-px, ys[i+1]-py
+				swx, swy := xs[i-1]-px, ys[i-1]-py
+
+				xxi, yxi := 0.5*(ex-wx), 0.5*(ey-wy)
+				xeta, yeta := 0.5*(nx-sx), 0.5*(ny-sy)
+				xxe := 0.25 * (nex - nwx - sex + swx)
+				yxe := 0.25 * (ney - nwy - sey + swy)
+				al := xeta*xeta + yeta*yeta
+				be := xxi*xeta + yxi*yeta
+				ga := xxi*xxi + yxi*yxi
+				phi, psi := phiRow[i], psiRow[i]
+				// Gauss–Seidel value minus the present one, relative form:
+				// [α(e+w+φ r_ξ) + γ(n+s+ψ r_η) − 2β r_ξη] / 2(α+γ) with
+				// every position taken relative to the node.
+				inv := om * 0.5 / (al + ga)
+				dx := (al*(ex+wx+phi*xxi) + ga*(nx+sx+psi*xeta) - 2*be*xxe) * inv
+				dy := (al*(ey+wy+phi*yxi) + ga*(ny+sy+psi*yeta) - 2*be*yxe) * inv
+
+				h := al
+				if ga < h {
+					h = ga
+				}
+				if d2 := dx*dx + dy*dy; d2 > worst*h && h > 0 {
+					worst = d2 / h
+				}
+
+				// Fold test: the eight triangles (P', Q_m, Q_m+1) around the
+				// moved node, with Q relative to P' = P + d.
+				e2x, e2y := ex-dx, ey-dy
+				ne2x, ne2y := nex-dx, ney-dy
+				n2x, n2y := nx-dx, ny-dy
+				nw2x, nw2y := nwx-dx, nwy-dy
+				w2x, w2y := wx-dx, wy-dy
+				sw2x, sw2y := swx-dx, swy-dy
+				s2x, s2y := sx-dx, sy-dy
+				se2x, se2y := sex-dx, sey-dy
+				if e2x*ne2y-ne2x*e2y <= 0 || ne2x*n2y-n2x*ne2y <= 0 ||
+					n2x*nw2y-nw2x*n2y <= 0 || nw2x*w2y-w2x*nw2y <= 0 ||
+					w2x*sw2y-sw2x*w2y <= 0 || sw2x*s2y-s2x*sw2y <= 0 ||
+					s2x*se2y-se2x*s2y <= 0 || se2x*e2y-e2x*se2y <= 0 {
+					var ok bool
+					dx, dy, ok = s.damp(row+i, px, py, dx, dy)
+					if !ok {
+						continue
+					}
+				}
+				xc[i], yc[i] = px+dx, py+dy
+			}
+		}
+	}
+	return worst
+}
+
+// damp handles a move (dx, dy) of interior node k from (px, py) that
+// failed the star test. In starMode it halves the move up to four times
+// until the eight triangles are positive, else drops it; in areaMode it
+// does the same with the four cell areas as the test; in freeMode it lets
+// the move through. It returns the move to make and whether to make it;
+// a shortened or dropped move counts as damped.
+func (s *smoother) damp(k int, px, py, dx, dy float64) (float64, float64, bool) {
+	x, y, ni := s.x, s.y, s.ni
+	ok := func(dx, dy float64) bool {
+		tri, cell := starCheck(x, y, k, ni, px+dx, py+dy)
+		if s.mode == starMode {
+			return tri > 0
+		}
+		return cell > 0
+	}
+	switch s.mode {
+	case freeMode:
+		return dx, dy, true
+	case areaMode:
+		if ok(dx, dy) {
+			return dx, dy, true
+		}
+	}
+	s.damped++
+	for h := 0; h < 4; h++ {
+		dx, dy = 0.5*dx, 0.5*dy
+		if ok(dx, dy) {
+			return dx, dy, true
+		}
+	}
+	return 0, 0, false
+}
+
+// updateMode picks the fold test the present grid allows: starMode when
+// every interior node's eight triangles are positive (every cell strictly
+// convex), areaMode when only every cell area is positive, freeMode while
+// some cell is inverted.
+func (s *smoother) updateMode() {
+	s.mode = starMode
+	ni := s.ni
+	for j := 1; j+1 < s.nj; j++ {
+		for i := 1; i+1 < ni; i++ {
+			k := j*ni + i
+			tri, cell := starCheck(s.x, s.y, k, ni, s.x[k], s.y[k])
+			if cell <= 0 {
+				s.mode = freeMode
+				return
+			}
+			if tri <= 0 {
+				s.mode = areaMode
+			}
+		}
+	}
+}
+
+// inverted counts the cells of non-positive area and returns the first.
+func inverted(b *Block) (n, fi, fj int) {
+	fi, fj = -1, -1
+	for j := 0; j+1 < b.NJ; j++ {
+		for i := 0; i+1 < b.NI; i++ {
+			if quadArea(b, i, j) <= 0 {
+				if n == 0 {
+					fi, fj = i, j
+				}
+				n++
+			}
+		}
+	}
+	return n, fi, fj
+}
+
+// quadArea is the signed area of cell (i, j), half the cross product of its
+// diagonals.
+func quadArea(b *Block, i, j int) float64 {
+	k := j*b.NI + i
+	k1, k2, k3 := k+1, k+1+b.NI, k+b.NI
+	return 0.5 * ((b.X[k2]-b.X[k])*(b.Y[k3]-b.Y[k1]) - (b.Y[k2]-b.Y[k])*(b.X[k3]-b.X[k1]))
+}
+
+// wallFrame returns, for node k of controlled side sd, the first-line
+// vector d from the wall node to its interior neighbour and the wall's unit
+// tangent (in increasing index) and inward unit normal.
+func (s *smoother) wallFrame(sd mesh.Side, k int) (dx, dy, tx, ty, nx, ny float64) {
+	b := s.b
+	w := b.SideNode(sd, k)
+	a, c := b.SideNode(sd, k-1), b.SideNode(sd, k+1)
+	var in int
+	switch sd {
+	case mesh.South:
+		in = w + s.ni
+	case mesh.North:
+		in = w - s.ni
+	case mesh.West:
+		in = w + 1
+	default:
+		in = w - 1
+	}
+	tx, ty = s.x[c]-s.x[a], s.y[c]-s.y[a]
+	l := math.Hypot(tx, ty)
+	tx, ty = tx/l, ty/l
+	// The block lies left of south and east (walked in increasing index),
+	// right of north and west.
+	if sd == mesh.South || sd == mesh.East {
+		nx, ny = -ty, tx
+	} else {
+		nx, ny = ty, -tx
+	}
+	return s.x[in] - s.x[w], s.y[in] - s.y[w], tx, ty, nx, ny
+}
+
+// feedback moves the wall control amplitudes towards the requested height
+// and orthogonality (Steger and Sorenson 1979).
+func (s *smoother) feedback() {
+	const limit = 4 // bound on the amplitudes, against runaway on hopeless requests
+	for side, c := range s.sides {
+		if !c.controlled() {
+			continue
+		}
+		sd := mesh.Side(side)
+		// sign is +1 where the control acts towards increasing index from the
+		// wall (south, west), −1 where it acts from the far end.
+		sign := 1.0
+		if sd == mesh.North || sd == mesh.East {
+			sign = -1
+		}
+		p, q := s.p[side], s.q[side]
+		for k := 1; k+1 < len(p); k++ {
+			dx, dy, tx, ty, nx, ny := s.wallFrame(sd, k)
+			h := dx*nx + dy*ny
+			t := dx*tx + dy*ty
+			if h <= 0 {
+				continue
+			}
+			if c.FirstHeight > 0 {
+				q[k] = clamp(q[k]-sign*s.gain*math.Log(h/c.FirstHeight), limit)
+			}
+			if c.Orthogonal {
+				p[k] = clamp(p[k]-s.gain*math.Atan(t/h), limit)
+			}
+		}
+	}
+}
+
+func clamp(v, lim float64) float64 { return math.Max(-lim, math.Min(lim, v)) }
+
+// wallErrors measures the first-cell heights and the angles at the
+// controlled sides.
+func (s *smoother) wallErrors() (hmax, hmean, amax, amean float64) {
+	var nh, na int
+	for side, c := range s.sides {
+		sd := mesh.Side(side)
+		n := s.b.SideLen(sd)
+		for k := 1; k+1 < n; k++ {
+			dx, dy, tx, ty, nx, ny := s.wallFrame(sd, k)
+			if c.FirstHeight > 0 {
+				e := math.Abs((dx*nx+dy*ny)/c.FirstHeight - 1)
+				hmax = math.Max(hmax, e)
+				hmean += e
+				nh++
+			}
+			if c.Orthogonal {
+				a := math.Abs(math.Atan2(dx*tx+dy*ty, dx*nx+dy*ny)) * 180 / math.Pi
+				amax = math.Max(amax, a)
+				amean += a
+				na++
+			}
+		}
+	}
+	if nh > 0 {
+		hmean /= float64(nh)
+	}
+	if na > 0 {
+		amean /= float64(na)
+	}
+	return
+}

@@ -1,0 +1,156 @@
+package unstructured
+
+import (
+	"math"
+
+	"github.com/paulmach/orb"
+)
+
+// sizeSource is one cone of the size field: the target size h at point p,
+// held out to radius r and growing linearly beyond it.
+type sizeSource struct {
+	p    orb.Point
+	h, r float64
+}
+
+// sizeField is the target edge length h(x) of the mesh:
+//
+//	h(x) = min( hmax,  min_i [ h_i + (G−1)·max(0, |x − p_i| − r_i) ],
+//	            min_regions [ h_R + (G−1)·dist(x, R) ] )
+//
+// a minimum of cones. Cells whose sizes grow by the ratio G from one cell
+// to the next away from a wall have h growing linearly at slope G−1 with
+// distance, which is the cone slope (common practice for size gradation).
+// The sources are the boundary points, with h_i the mean length of their
+// two edges (so the mesh meets the wall at the boundary spacing), and the
+// points of tags with a distance region. Boxes and circles are evaluated
+// exactly. The nearest-cone search over the sources uses a background
+// grid that stores, per node, the source whose cone is lowest there,
+// propagated by two raster sweeps as in Danielsson's vector distance
+// transform (Danielsson 1980); a query takes the lowest of the cones of
+// the four corners of its grid cell.
+type sizeField struct {
+	slope   float64
+	maxSize float64
+	src     []sizeSource
+	boxes   []Region
+	circles []Region
+
+	x0, y0, inv float64 // grid origin and 1/cell
+	cell        float64
+	nx, ny      int // nodes per row and column
+	best        []int32
+}
+
+func (s *sizeField) cone(i int32, p orb.Point) float64 {
+	q := s.src[i]
+	dx, dy := p[0]-q.p[0], p[1]-q.p[1]
+	d := math.Sqrt(dx*dx+dy*dy) - q.r
+	if d < 0 {
+		d = 0
+	}
+	return q.h + s.slope*d
+}
+
+// build sets up the background grid over bound: cells of half the
+// smallest source size, but at most 512 along the longer side.
+func (s *sizeField) build(bound orb.Bound) {
+	if len(s.src) == 0 {
+		return
+	}
+	w := math.Max(bound.Max[0]-bound.Min[0], bound.Max[1]-bound.Min[1])
+	if w <= 0 {
+		w = 1
+	}
+	hmin := math.Inf(1)
+	for _, q := range s.src {
+		hmin = math.Min(hmin, q.h)
+	}
+	s.cell = math.Max(w/512, 0.5*hmin)
+	s.inv = 1 / s.cell
+	s.x0, s.y0 = bound.Min[0]-s.cell, bound.Min[1]-s.cell
+	s.nx = int((bound.Max[0]-s.x0)*s.inv) + 3
+	s.ny = int((bound.Max[1]-s.y0)*s.inv) + 3
+	n := s.nx * s.ny
+	s.best = make([]int32, n)
+	val := make([]float64, n)
+	for i := range s.best {
+		s.best[i] = -1
+		val[i] = math.Inf(1)
+	}
+	node := func(i, j int) orb.Point { return orb.Point{s.x0 + float64(i)*s.cell, s.y0 + float64(j)*s.cell} }
+	for k := range s.src {
+		i := int(math.Round((s.src[k].p[0] - s.x0) * s.inv))
+		j := int(math.Round((s.src[k].p[1] - s.y0) * s.inv))
+		i = min(max(i, 0), s.nx-1)
+		j = min(max(j, 0), s.ny-1)
+		if v := s.cone(int32(k), node(i, j)); v < val[j*s.nx+i] {
+			val[j*s.nx+i] = v
+			s.best[j*s.nx+i] = int32(k)
+		}
+	}
+	relax := func(i, j, ni, nj int) {
+		if ni < 0 || nj < 0 || ni >= s.nx || nj >= s.ny {
+			return
+		}
+		b := s.best[nj*s.nx+ni]
+		if b < 0 {
+			return
+		}
+		if v := s.cone(b, node(i, j)); v < val[j*s.nx+i] {
+			val[j*s.nx+i] = v
+			s.best[j*s.nx+i] = b
+		}
+	}
+	for round := 0; round < 2; round++ {
+		for j := 0; j < s.ny; j++ {
+			for i := 0; i < s.nx; i++ {
+				relax(i, j, i-1, j)
+				relax(i, j, i-1, j-1)
+				relax(i, j, i, j-1)
+				relax(i, j, i+1, j-1)
+			}
+			for i := s.nx - 1; i >= 0; i-- {
+				relax(i, j, i+1, j)
+			}
+		}
+		for j := s.ny - 1; j >= 0; j-- {
+			for i := s.nx - 1; i >= 0; i-- {
+				relax(i, j, i+1, j)
+				relax(i, j, i+1, j+1)
+				relax(i, j, i, j+1)
+				relax(i, j, i-1, j+1)
+			}
+			for i := 0; i < s.nx; i++ {
+				relax(i, j, i-1, j)
+			}
+		}
+	}
+}
+
+// at returns the target size at p.
+func (s *sizeField) at(p orb.Point) float64 {
+	h := s.maxSize
+	if s.best != nil {
+		i := int((p[0] - s.x0) * s.inv)
+		j := int((p[1] - s.y0) * s.inv)
+		i = min(max(i, 0), s.nx-2)
+		j = min(max(j, 0), s.ny-2)
+		k := j*s.nx + i
+		for _, b := range [4]int32{s.best[k], s.best[k+1], s.best[k+s.nx], s.best[k+s.nx+1]} {
+			if b >= 0 {
+				h = math.Min(h, s.cone(b, p))
+			}
+		}
+	}
+	for _, r := range s.boxes {
+		dx := math.Max(0, math.Max(r.Min[0]-p[0], p[0]-r.Max[0]))
+		dy := math.Max(0, math.Max(r.Min[1]-p[1], p[1]-r.Max[1]))
+		h = math.Min(h, r.Size+s.slope*math.Hypot(dx, dy))
+	}
+	for _, r := range s.circles {
+		d := math.Max(0, math.Hypot(p[0]-r.Center[0], p[1]-r.Center[1])-r.Radius)
+		h = math.Min(h, r.Size+s.slope*d)
+	}
+	return h
+}
