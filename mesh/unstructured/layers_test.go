@@ -129,3 +129,63 @@ func channelLoop() geometry.DiscreteLoop {
 	add(seg(orb.Point{0, 0.5}, orb.Point{0, 0}, 10), "inflow")
 	return l
 }
+
+// TestQuadDominant: pairing keeps the mesh valid (positive areas, exact
+// area, tagged boundary) and every quadrilateral it makes is convex with
+// its angles between 36° and 144° (angle quality ≥ 0.4).
+func TestQuadDominant(t *testing.T) {
+	out := geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{
+		polyLoop([]orb.Point{{0, 0}, {4, 0}, {4, 2}, {0, 2}}, 0.1, "farfield"),
+		circleLoop(orb.Point{1.5, 1}, 0.4, 60, true, "cylinder"),
+	}}
+	for _, layers := range [][]Layers{nil, {{Tags: []string{"cylinder"}, FirstHeight: 0.002, Count: 8}}} {
+		plain, err := Mesh(out, Options{Layers: layers})
+		if err != nil {
+			t.Fatal(err)
+		}
+		m, err := Mesh(out, Options{Layers: layers, QuadDominant: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		basicChecks(t, m, out)
+		tri0, quad0 := countKinds(plain)
+		tri, quad := countKinds(m)
+		t.Logf("layers %v: %d tri + %d quad → %d tri + %d quad", layers != nil, tri0, quad0, tri, quad)
+		if quad-quad0 <= 0 || tri0-tri != 2*(quad-quad0) {
+			t.Errorf("pairing made %d quadrilaterals from %d triangles", quad-quad0, tri0-tri)
+		}
+		for c := range m.NumCells() {
+			cell := m.Cell(c)
+			if len(cell) != 4 {
+				continue
+			}
+			var p []orb.Point
+			for _, n := range cell {
+				p = append(p, m.Nodes[n])
+			}
+			if q := angleQuality(p...); q < minQuadQuality-1e-12 {
+				t.Fatalf("quadrilateral %d %v has angle quality %.3f", c, p, q)
+			}
+		}
+	}
+}
+
+// The angle quality of reference shapes: 1 for the equilateral triangle
+// and the square, 1 − 30/90 for a 60°/120° rhombus, 1 − 30/120 for the
+// right isosceles triangle.
+func TestAngleQuality(t *testing.T) {
+	s3 := math.Sqrt(3) / 2
+	for _, c := range []struct {
+		p    []orb.Point
+		want float64
+	}{
+		{[]orb.Point{{0, 0}, {1, 0}, {0.5, s3}}, 1},
+		{[]orb.Point{{0, 0}, {1, 0}, {1, 1}, {0, 1}}, 1},
+		{[]orb.Point{{0, 0}, {1, 0}, {1.5, s3}, {0.5, s3}}, 1 - 30.0/90},
+		{[]orb.Point{{0, 0}, {1, 0}, {0, 1}}, 1 - 30.0/120},
+	} {
+		if q := angleQuality(c.p...); math.Abs(q-c.want) > 1e-12 {
+			t.Errorf("angleQuality(%v) = %.15g, want %.15g", c.p, q, c.want)
+		}
+	}
+}

@@ -47,7 +47,7 @@ func Mesh(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, error) {
 	if err != nil {
 		return nil, err
 	}
-	in := meshInput(g, region, plan, tr)
+	in := meshInput(g, region, plan, tr, opt.QuadDominant)
 	tr = nil
 	m, err := mesh.Build(in)
 	if err != nil {
@@ -184,8 +184,10 @@ func (s *sizeField) estimateTriangles(g *pslg) float64 {
 // points, then layer nodes, then the points refinement inserted, in order;
 // cells are the layer cells, then the triangles in slot order. Every
 // segment half-edge of an inside triangle is a boundary face with its tag,
-// except the layers' front, which is interior.
-func meshInput(g, region *pslg, plan *layerPlan, tr *triangulation) mesh.Input {
+// except the layers' front, which is interior. With quads, triangles
+// paired by pairQuads become one quadrilateral cell, at the place of the
+// lower-numbered triangle.
+func meshInput(g, region *pslg, plan *layerPlan, tr *triangulation, quads bool) mesh.Input {
 	nr := int32(len(region.pts))
 	in := mesh.Input{Tags: g.tags}
 	var nodeOf func(v int32) int32
@@ -215,21 +217,30 @@ func meshInput(g, region *pslg, plan *layerPlan, tr *triangulation) mesh.Input {
 		in.Edges = plan.edges
 	}
 	nt := tr.numTri()
-	off := int32(len(in.CellNodes))
+	var partner []int32
+	if quads {
+		partner = tr.pairQuads()
+	}
 	for t := int32(0); t < nt; t++ {
 		if tr.flag[t]&flagInside == 0 {
 			continue
 		}
 		for k := int32(0); k < 3; k++ {
-			in.CellNodes = append(in.CellNodes, nodeOf(tr.v[3*t+k]))
-		}
-		off += 3
-		in.CellStart = append(in.CellStart, off)
-		for k := int32(0); k < 3; k++ {
 			if s := tr.seg[3*t+k]; s != noSeg && tagOf[s] >= 0 {
 				in.Edges = append(in.Edges, mesh.TaggedEdge{A: nodeOf(tr.v[3*t+k]), B: nodeOf(tr.v[next(3*t+k)]), Tag: tagOf[s]})
 			}
 		}
+		if partner != nil && partner[t] >= 0 {
+			e := partner[t]
+			if tr.adj[e]/3 < t {
+				continue // emitted with its partner
+			}
+			// Triangles a b c and b a d across e = a→b make a d b c.
+			in.CellNodes = append(in.CellNodes, nodeOf(tr.v[e]), nodeOf(tr.v[prev(tr.adj[e])]), nodeOf(tr.v[next(e)]), nodeOf(tr.v[prev(e)]))
+		} else {
+			in.CellNodes = append(in.CellNodes, nodeOf(tr.v[3*t]), nodeOf(tr.v[3*t+1]), nodeOf(tr.v[3*t+2]))
+		}
+		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
 	}
 	return in
 }
