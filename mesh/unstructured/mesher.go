@@ -141,7 +141,7 @@ func newSizeField(g, orig *pslg, opt Options) (*sizeField, error) {
 }
 
 // estimateTriangles estimates the triangle count of the refined mesh: the
-// integral over the domain of 1/(a·h²), with a = 0.30 h² the mean triangle
+// integral over the domain of 1/(a·h²), with a = 0.41 h² the mean triangle
 // area refinement gives for the size target h (measured on test domains;
 // an equilateral triangle of edge h has √3/4·h² ≈ 0.43 h²). The domain is
 // integrated on the size field's grid cells whose centres lie inside the
@@ -172,7 +172,7 @@ func (s *sizeField) estimateTriangles(g *pslg) float64 {
 			}
 			if c%2 == 1 {
 				h := s.at(orb.Point{x, y})
-				sum += dx * dy / (0.30 * h * h)
+				sum += dx * dy / (0.41 * h * h)
 			}
 		}
 	}

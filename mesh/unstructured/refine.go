@@ -16,7 +16,7 @@ const (
 )
 
 // sizeFactor: a triangle is too large when its circumradius exceeds
-// sizeFactor·h at its centroid. An equilateral triangle of edge h has
+// sizeFactor·h, with h the mean size at its vertices. An equilateral triangle of edge h has
 // circumradius h/√3 ≈ 0.577h; the factor leaves room above that so the
 // mean edge comes out near h.
 const sizeFactor = 0.75
@@ -51,6 +51,9 @@ type refiner struct {
 	sin2   float64 // sin² of the minimum-angle target
 	kind   []uint8 // per vertex
 	onEdge []int32 // per vertex: input edge of a segment vertex, else -1
+	// vh is the size field at each vertex, evaluated once on insertion
+	// (float32: sizes need no more digits, and it saves memory).
+	vh []float32
 	// sharp[i] is true at outline point i when its interior angle is below
 	// 60°.
 	sharp  []bool
@@ -77,9 +80,11 @@ func newRefiner(tr *triangulation, g *pslg, size *sizeField, minAngle float64, m
 	r.sin2 = s * s
 	r.kind = make([]uint8, n, cap(tr.pts))
 	r.onEdge = make([]int32, n, cap(tr.pts))
+	r.vh = make([]float32, n, cap(tr.pts))
 	for i := range r.kind {
 		r.kind[i] = vInput
 		r.onEdge[i] = -1
+		r.vh[i] = float32(size.at(tr.pts[i]))
 	}
 	r.sharp = make([]bool, n)
 	b := orb.MultiPoint(g.pts).Bound()
@@ -175,8 +180,8 @@ func (r *refiner) bad(t int32) bool {
 	lab, lbc, lca := abx*abx+aby*aby, bcx*bcx+bcy*bcy, cax*cax+cay*cay
 	d := abx*(-cay) - aby*(-cax)
 	d2 := d * d
-	// Size: R > sizeFactor·h.
-	h := r.size.at(orb.Point{(a[0] + b[0] + c[0]) / 3, (a[1] + b[1] + c[1]) / 3})
+	// Size: R > sizeFactor·h, h the mean of the vertices' sizes.
+	h := float64(r.vh[ia]+r.vh[ib]+r.vh[ic]) / 3
 	if lab*lbc*lca > 4*d2*sizeFactor*sizeFactor*h*h {
 		return true
 	}
@@ -229,6 +234,7 @@ func (r *refiner) addVertex(p orb.Point, kind uint8, edge int32) int32 {
 	tr.vedge = append(tr.vedge, -1)
 	r.kind = append(r.kind, kind)
 	r.onEdge = append(r.onEdge, edge)
+	r.vh = append(r.vh, float32(r.size.at(p)))
 	return int32(len(tr.pts) - 1)
 }
 
