@@ -30,3 +30,29 @@ func BenchmarkDiscretiseLongSpline(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkValidateLargePolygon validates and orients a 100 000-edge
+// polygon read from a file (a wavy ring with a hole), as a GeoJSON or
+// point-file outline would arrive.
+func BenchmarkValidateLargePolygon(b *testing.B) {
+	const n = 100_000
+	outer := make([]orb.Point, n+1)
+	for i := range n {
+		a := 2 * math.Pi * float64(i) / n
+		r := 10 + 0.5*math.Sin(40*a)
+		outer[i] = orb.Point{r * math.Cos(a), r * math.Sin(a)}
+	}
+	outer[n] = outer[0]
+	pl, err := NewPolyline(outer, Attr{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	hole, _ := NewCircle(0, 0, 2, Attr{})
+	o := Outline{Outer: Loop{Segments: []Segment{pl}}, Inner: []Loop{hole}}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := o.Normalise(); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -114,3 +114,41 @@ func DiscretiseChain(segs []Segment) (Chain, error) {
 	}
 	return c, nil
 }
+
+// NodeCount returns the number of nodes the loop's discretisation will
+// have (each joint once), from the spacing laws alone and without placing
+// any node: cheap enough to estimate a mesh size before allocating it.
+func (l Loop) NodeCount() (int, error) {
+	n := 0
+	for si, s := range l.Segments {
+		sp := s.Attr().Spacing
+		var k int
+		if sp.KeepsVertices() {
+			v, ok := s.(vertexed)
+			if !ok {
+				return 0, &Error{Loop: -1, LoopName: l.Name, Segment: si, Kind: s.Kind(), Vertex: -1,
+					Detail: "has no vertices of its own: give it a spacing law", Err: ErrSpacing}
+			}
+			k = len(v.Vertices())
+		} else {
+			var err error
+			if k, err = sp.NodeCount(s.Length()); err != nil {
+				return 0, &Error{Loop: -1, LoopName: l.Name, Segment: si, Kind: s.Kind(), Vertex: -1, Detail: "cannot count nodes", Err: err}
+			}
+		}
+		n += k - 1
+	}
+	return n, nil
+}
+
+// Area returns the area of the region a discretised outline bounds: the
+// signed shoelace areas of its loops summed (the inner loops, clockwise,
+// subtract), each shifted to its first node for round-off as orb's planar
+// package does.
+func (d DiscreteOutline) Area() float64 {
+	a := 0.0
+	for _, l := range d.Loops {
+		a += signedArea(l.Points)
+	}
+	return a
+}

@@ -87,6 +87,9 @@ func TestOutlineAreaClosedForm(t *testing.T) {
 		t.Errorf("outer area %.10g want %.10g", gotOuter, wantOuter)
 	}
 	// A polygon inscribed in a circle with n sides: (n/2) r² sin(2π/n).
+	if e := relErr(d.Area(), gotOuter+planar.Area(orb.Ring(d.Loops[1].Points))); e > 1e-14 {
+		t.Errorf("DiscreteOutline.Area %g disagrees with orb's planar.Area", d.Area())
+	}
 	gotBody := planar.Area(orb.Ring(d.Loops[1].Points))
 	nb := float64(len(d.Loops[1].Points))
 	if e := relErr(-gotBody, nb/2*0.15*0.15*math.Sin(2*math.Pi/nb)); e > 1e-12 {
@@ -113,6 +116,9 @@ func TestLoopDiscretiseJointsAndTags(t *testing.T) {
 		if dl.Points[s] != o.Outer.Segments[k].At(0) {
 			t.Errorf("segment %d start node %v is not its start point", k, dl.Points[s])
 		}
+	}
+	if n, err := o.Outer.NodeCount(); err != nil || n != len(dl.Points) {
+		t.Errorf("NodeCount %d (%v), discretisation has %d", n, err, len(dl.Points))
 	}
 	if dl.Tags[0] != "wall" || dl.Tags[30] != "outflow" || dl.Tags[59] != "inflow" {
 		t.Errorf("tags %v", dl.Tags)
@@ -235,4 +241,40 @@ func TestDiscreteValidateCatchesCoarseSpacing(t *testing.T) {
 		t.Errorf("coarse discretisation: got %v", err)
 	}
 	t.Log(err)
+}
+
+// A NACA 0012 body in a box: the section's area from the thickness
+// formula integrated in closed form,
+// A = 10t·c²·(⅔·0.2969 − 0.1260/2 − 0.3516/3 + 0.2843/4 − 0.1015/5)
+// (Abbott and von Doenhoff §6.4 thickness law), against the area of the
+// discretised loop with cosine clustering.
+func TestNACABodyInBox(t *testing.T) {
+	sec, err := NewNACA4("0012", 0.5, 0.25, 0.5, 0, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cos, _ := Cosine(801)
+	segs := sec.Segments(Attr{Tag: "aerofoil", Spacing: cos}, Attr{Tag: "aerofoil", Spacing: cos}, Attr{Tag: "base", Spacing: count(t, 3)})
+	sp := count(t, 21)
+	box, _ := NewRectangle(-1, -0.5, 2, 1.5, [4]Attr{{Tag: "farfield", Spacing: sp}, {Tag: "farfield", Spacing: sp}, {Tag: "farfield", Spacing: sp}, {Tag: "farfield", Spacing: sp}})
+	o, err := Outline{Outer: box, Inner: []Loop{{Name: "wing", Segments: segs}}}.Normalise()
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := o.Discretise()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := d.Validate(); err != nil {
+		t.Fatal(err)
+	}
+	c, tk := 0.5, 0.12
+	want := 10 * tk * c * c * (2.0/3*0.2969 - 0.1260/2 - 0.3516/3 + 0.2843/4 - 0.1015/5)
+	got := -planar.Area(orb.Ring(d.Loops[1].Points))
+	if e := relErr(got, want); e > 1e-5 {
+		t.Errorf("NACA 0012 area %.10g want %.10g (rel %g)", got, want, e)
+	}
+	if e := relErr(planar.Area(orb.Ring(d.Loops[0].Points)), 6); e > 1e-15 {
+		t.Errorf("box area %g want 6", planar.Area(orb.Ring(d.Loops[0].Points)))
+	}
 }

@@ -47,8 +47,12 @@ type vertexed interface {
 	Vertices() []orb.Point
 }
 
+func finite(p orb.Point) bool {
+	return !math.IsNaN(p[0]) && !math.IsNaN(p[1]) && !math.IsInf(p[0], 0) && !math.IsInf(p[1], 0)
+}
+
 func checkPoint(what string, p orb.Point) error {
-	if math.IsNaN(p[0]) || math.IsNaN(p[1]) || math.IsInf(p[0], 0) || math.IsInf(p[1], 0) {
+	if !finite(p) {
 		return fmt.Errorf("%s (%g, %g) is not a finite point: %w", what, p[0], p[1], ErrSegment)
 	}
 	return nil
@@ -227,8 +231,8 @@ func NewPolyline(pts []orb.Point, a Attr) (*Polyline, error) {
 	}
 	p := &Polyline{pts: append([]orb.Point(nil), pts...), cum: make([]float64, len(pts)), attr: a}
 	for i, q := range p.pts {
-		if err := checkPoint(fmt.Sprintf("polyline vertex %d", i), q); err != nil {
-			return nil, err
+		if !finite(q) {
+			return nil, checkPoint(fmt.Sprintf("polyline vertex %d", i), q)
 		}
 		if i > 0 {
 			d := math.Hypot(q[0]-pts[i-1][0], q[1]-pts[i-1][1])

@@ -23,6 +23,7 @@ func TestVinokurTwoSidedEndSpacings(t *testing.T) {
 		{21, 0.049, 0.051, "near uniform"},
 		{41, 1e-3, 0.1, "mixed"},
 		{4, 0.2, 0.3, "four nodes"},
+		{61, 1e-7, 2e-3, "very fine start"}, // positions near 0 carry the small spacing exactly
 	}
 	for _, c := range cases {
 		f, err := VinokurTwoSided(c.n, c.d0, c.d1)

@@ -34,8 +34,8 @@ func NewSpline(pts []orb.Point, a Attr) (*Spline, error) {
 	}
 	s := &Spline{pts: append([]orb.Point(nil), pts...), t: make([]float64, n), attr: a}
 	for i, p := range s.pts {
-		if err := checkPoint(fmt.Sprintf("spline point %d", i), p); err != nil {
-			return nil, err
+		if !finite(p) {
+			return nil, checkPoint(fmt.Sprintf("spline point %d", i), p)
 		}
 		if i > 0 {
 			h := math.Hypot(p[0]-pts[i-1][0], p[1]-pts[i-1][1])

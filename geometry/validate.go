@@ -112,18 +112,26 @@ func (o Outline) check() ([]float64, error) {
 		if len(l.Segments) == 0 {
 			return nil, &Error{Loop: li, LoopName: l.Name, Segment: -1, Vertex: -1, Detail: "give at least one segment", Err: ErrEmptyLoop}
 		}
+		samples := make([][]orb.Point, len(l.Segments))
+		own := make([]bool, len(l.Segments))
+		total := 0
 		for si, s := range l.Segments {
 			if s == nil {
 				return nil, &Error{Loop: li, LoopName: l.Name, Segment: si, Kind: "none", Vertex: -1, Detail: "segment is missing", Err: ErrEmptyLoop}
 			}
-			pts, own := sampleSegment(s)
+			samples[si], own[si] = sampleSegment(s)
+			total += len(samples[si]) - 1
+		}
+		rings[li].pts = make([]orb.Point, 0, total)
+		rings[li].edges = make([]edgeRef, 0, total)
+		for si, pts := range samples {
 			for k, p := range pts {
 				bound = bound.Extend(p)
 				if k == len(pts)-1 {
 					break
 				}
 				ref := edgeRef{li, si, -1}
-				if own {
+				if own[si] {
 					ref.vert = k
 				}
 				rings[li].pts = append(rings[li].pts, p)
@@ -260,7 +268,11 @@ type sweepEdge struct {
 // overlap the current one; the order is fixed by (x, ring, edge) so the
 // answer is deterministic.
 func findCrossing(rings []ring) (a, b [2]int, p orb.Point, ok bool) {
-	var edges []sweepEdge
+	total := 0
+	for _, rg := range rings {
+		total += len(rg.pts)
+	}
+	edges := make([]sweepEdge, 0, total)
 	for r, rg := range rings {
 		n := len(rg.pts)
 		for k := range n {
