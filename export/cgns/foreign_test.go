@@ -175,6 +175,10 @@ func TestReadRejects(t *testing.T) {
 	if err == nil || !strings.Contains(err.Error(), "/Imported/curved/p2") || !strings.Contains(err.Error(), "TRI_6") {
 		t.Errorf("high-order section: got %v, want an error naming /Imported/curved/p2 and TRI_6", err)
 	}
+	_, err = Read(filepath.Join(dir, "pointjoin.cgns"))
+	if err == nil || !strings.Contains(err.Error(), "/Imported/left/ZoneGridConnectivity/toright is a GridConnectivity_t (Abutting1to1)") {
+		t.Errorf("point-list join: got %v, want an error naming /Imported/left/ZoneGridConnectivity/toright", err)
+	}
 	junk := filepath.Join(dir, "junk.cgns")
 	os.WriteFile(junk, []byte("not a CGNS file\n"), 0o644)
 	if _, err := Read(junk); err == nil || !strings.Contains(err.Error(), junk) {

@@ -243,6 +243,9 @@ func (r *reader) joins(z C.int, s *szone, zones []szone, byName map[string]int) 
 		return nil, err
 	}
 	var name, donor [maxNameLen + 1]C.char
+	if err := r.noGeneralConns(z, s.path); err != nil {
+		return nil, err
+	}
 	out := make([]join, 0, n)
 	for k := C.int(1); k <= n; k++ {
 		var jn join
@@ -270,6 +273,33 @@ func (r *reader) joins(z C.int, s *szone, zones []szone, byName map[string]int) 
 		out = append(out, jn)
 	}
 	return out, nil
+}
+
+// noGeneralConns fails on GridConnectivity_t nodes (point-list joins),
+// which the reader does not merge: reading on would leave the zones
+// unjoined, with false boundary faces along the join.
+func (r *reader) noGeneralConns(z C.int, zp string) error {
+	var n C.int
+	if err := libError(C.cg_nconns(r.fn, r.b, z, &n), "count GridConnectivity_t nodes of "+zp); err != nil {
+		return err
+	}
+	if n == 0 {
+		return nil
+	}
+	var (
+		name, donor [maxNameLen + 1]C.char
+		loc         C.GridLocation_t
+		typ         C.GridConnectivityType_t
+		set, dset   C.PointSetType_t
+		npnts, nd   C.int
+		dzt         C.ZoneType_t
+		ddt         C.DataType_t
+	)
+	if err := libError(C.cg_conn_info(r.fn, r.b, z, 1, &name[0], &loc, &typ, &set, &npnts, &donor[0], &dzt, &dset, &ddt, &nd), "read GridConnectivity_t 1 of "+zp); err != nil {
+		return err
+	}
+	return fmt.Errorf("%s/ZoneGridConnectivity/%s is a GridConnectivity_t (%s); cvdeck merges structured zones joined by GridConnectivity1to1_t only",
+		zp, C.GoString(&name[0]), C.GoString(C.cg_GridConnectivityTypeName(typ)))
 }
 
 func abs(v int32) int32 {

@@ -308,7 +308,7 @@ func (w *writer) join(z C.int, zone, name, donor string, rng, drng []int32, tr [
 func (w *writer) blockBCs(m *mesh.Mesh, b int, z C.int, zone string, bface map[[2]int32]int32, bcTypes []C.BCType_t) error {
 	blk := &m.Blocks[b]
 	zp := "/" + w.base + "/" + zone
-	used := map[string]int{}
+	used := map[string]bool{}
 	tagAt := func(s mesh.Side, k int) int16 {
 		f, ok := bface[edgeKey(sideNode(blk, s, k), sideNode(blk, s, k+1))]
 		if !ok {
@@ -330,13 +330,14 @@ func (w *writer) blockBCs(m *mesh.Mesh, b int, z C.int, zone string, bface map[[
 			}
 			ai, aj := sideIJ(blk, s, k)
 			bi, bj := sideIJ(blk, s, k1)
+			// BC names are unique in the zone: the tag, then tag_2, tag_3...
 			tag := m.Tags[t]
-			used[tag]++
 			name := tag
-			if used[tag] > 1 {
-				suffix := fmt.Sprintf("_%d", used[tag])
+			for n := 2; used[name]; n++ {
+				suffix := fmt.Sprintf("_%d", n)
 				name = tag[:min(len(tag), maxNameLen-len(suffix))] + suffix
 			}
+			used[name] = true
 			rng := []int32{int32(ai + 1), int32(aj + 1), int32(bi + 1), int32(bj + 1)}
 			if err := w.boco(z, zp, name, tag, bcTypes[t], C.PointRange, rng, C.Vertex); err != nil {
 				return err

@@ -31,7 +31,25 @@ func deckCases(t *testing.T) []struct {
 		{"twoblock-aligned", testDeck(twoBlockMesh(t, 8, 4, false))},
 		{"ring", testDeck(ringMesh(t, 12, 3))},
 		{"cgrid", testDeck(cgridMesh(t, 6, 3, 2))},
+		{"cgrid-names", renamed(testDeck(cgridMesh(t, 6, 3, 2)), "farfield", "outlet_2")},
 	}
+}
+
+// renamed renames a tag of the deck (mesh and BC), here to make the
+// structured writer's BC names collide: the C-grid's outlet has two runs,
+// "outlet" and the next free name, which must skip a tag named "outlet_2".
+func renamed(d *Deck, from, to string) *Deck {
+	for i, tag := range d.Mesh.Tags {
+		if tag == from {
+			d.Mesh.Tags[i] = to
+		}
+	}
+	for i := range d.BCs {
+		if d.BCs[i].Tag == from {
+			d.BCs[i].Tag = to
+		}
+	}
+	return d
 }
 
 // TestWriteChecked: every file passes the CGNS library's own checker with
