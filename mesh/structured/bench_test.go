@@ -6,6 +6,8 @@ import (
 	"time"
 
 	"github.com/paulmach/orb"
+
+	"cvdeck/geometry"
 )
 
 // bumpSides is a 1000 × 1000 node channel of our own with a circular-arc
@@ -93,4 +95,17 @@ func cpuTime() time.Duration {
 		return 0
 	}
 	return time.Duration(ru.Utime.Nano())
+}
+
+// BenchmarkMarchOGrid400x200 grows a 400 × 200 node hyperbolic O-grid
+// around a NACA 0012 section out to 20 chords.
+func BenchmarkMarchOGrid400x200(b *testing.B) {
+	ch := nacaChain(200)
+	loop := geometry.DiscreteLoop{Points: ch.Points[:len(ch.Points)-1], Tags: ch.Tags}
+	opt := MarchOptions{Name: "naca", FirstHeight: 1e-5, Layers: 199, OuterDistance: 20, OuterTag: "farfield"}
+	for b.Loop() {
+		if _, _, err := MarchClosed(loop, opt); err != nil {
+			b.Fatal(err)
+		}
+	}
 }
