@@ -57,7 +57,14 @@ func decodeGeometry(c *Case, v value) (*geometrySpec, error) {
 		return nil, err
 	}
 	g := &geometrySpec{curves: map[string]*curveSpec{}}
-	{
+	if fv, ok := o.get("file"); ok {
+		if o.has("loops") {
+			return nil, fv.errf("geometry comes from a sketch file or from loops, not both")
+		}
+		if err := decodeSketchRef(c, g, o, fv); err != nil {
+			return nil, err
+		}
+	} else {
 		lv, err := o.need("loops")
 		if err != nil {
 			return nil, err

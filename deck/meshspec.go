@@ -20,6 +20,8 @@ type meshSpec struct {
 	maxCells int
 	// structured: blocks over named curves.
 	blocks []blockSpec
+	// unstructured: the outline meshed by the unstructured mesher.
+	unstructured *unstructuredSpec
 }
 
 // blockSpec is one four-sided structured block: each side a run of named
@@ -61,9 +63,18 @@ func decodeMesh(c *Case, v value) (*meshSpec, error) {
 			return nil, err
 		}
 	}
-	sv, err := o.need("structured")
-	if err != nil {
-		return nil, err
+	sv, hasS := o.get("structured")
+	uv, hasU := o.get("unstructured")
+	switch {
+	case hasS && hasU:
+		return nil, uv.errf("a mesh is structured or unstructured, not both")
+	case hasU:
+		if ms.unstructured, err = decodeUnstructured(uv); err != nil {
+			return nil, err
+		}
+		return ms, o.done()
+	case !hasS:
+		return nil, v.errf("the mesh section needs structured: {blocks: [...]} or unstructured: {...}")
 	}
 	so, err := sv.object()
 	if err != nil {

@@ -12,6 +12,7 @@ import (
 	"cvdeck/export/atomic"
 	"cvdeck/export/cgns"
 	"cvdeck/export/manifest"
+	"cvdeck/export/preview"
 	"cvdeck/export/vtk"
 	"cvdeck/mesh"
 	"cvdeck/quality"
@@ -121,6 +122,10 @@ func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
 
 // buildMesh runs the case's mesher.
 func (c *Case) buildMesh() (*mesh.Mesh, string, error) {
+	if c.Mesh.unstructured != nil {
+		m, err := c.buildUnstructured()
+		return m, "unstructured", err
+	}
 	m, err := c.Mesh.buildStructured()
 	return m, "structured", err
 }
@@ -156,6 +161,21 @@ func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *qu
 			output{"mesh.vtu", "vtk-xml-unstructured", func(w io.Writer) error { return vtk.WriteVTU(w, m, fields) }},
 			output{"boundary.vtp", "vtk-xml-polydata", func(w io.Writer) error { return vtk.WriteBoundaryVTP(w, m, conds) }})
 	}
+	if hasFormat(formats, "vtk") {
+		outs = append(outs, output{"mesh.vtk", "vtk-legacy-ascii", func(w io.Writer) error { return vtk.WriteLegacy(w, m, fields, false) }})
+	}
+	if hasFormat(formats, "vtk-binary") {
+		outs = append(outs, output{"mesh-binary.vtk", "vtk-legacy-binary", func(w io.Writer) error { return vtk.WriteLegacy(w, m, fields, true) }})
+	}
+	if hasFormat(formats, "preview") || hasFormat(formats, "png") {
+		pin := previewInput(c, m, conds, rep)
+		if hasFormat(formats, "preview") {
+			outs = append(outs, output{"preview.svg", "svg", func(w io.Writer) error { return preview.SVG(w, pin) }})
+		}
+		if hasFormat(formats, "png") {
+			outs = append(outs, output{"preview.png", "png", func(w io.Writer) error { return preview.PNG(w, pin) }})
+		}
+	}
 	outs = append(outs, output{"quality.json", "json", func(w io.Writer) error { return quality.WriteJSON(w, rep) }})
 	for _, o := range outs {
 		if err := atomic.WriteFile(filepath.Join(dir, o.name), o.write); err != nil {
@@ -166,6 +186,23 @@ func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *qu
 			return err
 		}
 		man.Files = append(man.Files, f)
+	}
+	if hasFormat(formats, "vts") && len(m.Blocks) > 0 {
+		names, err := vtk.WriteStructured(dir, "blocks", m, fields)
+		if err != nil {
+			return err
+		}
+		for _, n := range names {
+			format := "vtk-xml-structured"
+			if filepath.Ext(n) == ".vtm" {
+				format = "vtk-xml-multiblock"
+			}
+			f, err := fileRecord(dir, n, format)
+			if err != nil {
+				return err
+			}
+			man.Files = append(man.Files, f)
+		}
 	}
 	if hasFormat(formats, "cgns") {
 		sum, err := cgns.Write(filepath.Join(dir, "mesh.cgns"), cgnsDeck(c, m, assign, fields))
@@ -183,6 +220,30 @@ func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *qu
 		return atomic.WriteFile(filepath.Join(dir, manifest.FileName), func(w io.Writer) error { return manifest.Encode(w, man) })
 	}
 	return nil
+}
+
+// previewInput gathers what the preview pictures show: the mesh, the
+// boundary coloured by condition, cells by their worst status, and a
+// histogram of each cell metric with its limits.
+func previewInput(c *Case, m *mesh.Mesh, conds []string, rep *quality.Report) preview.Input {
+	in := preview.Input{
+		Title:      fmt.Sprintf("%s: %d cells, checks %s", c.Name, m.NumCells(), rep.Verdict),
+		Mesh:       m,
+		Conditions: conds,
+		Status:     make([]preview.Status, len(rep.CellStatus)),
+	}
+	for i, s := range rep.CellStatus {
+		in.Status[i] = preview.Status(s)
+	}
+	for _, ms := range rep.Metrics {
+		vals, ok := rep.Field(ms.Name)
+		if !ok || ms.Per != "cell" || len(vals) != m.NumCells() {
+			continue
+		}
+		in.Metrics = append(in.Metrics, preview.Metric{Name: ms.Name, Values: vals, Limits: []preview.Limit{
+			{Value: ms.Limit.Warn, Status: preview.Warn}, {Value: ms.Limit.Fail, Status: preview.Fail}}})
+	}
+	return in
 }
 
 // fileRecord hashes a written file for the manifest.

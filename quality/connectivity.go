@@ -44,41 +44,65 @@ type CheckResult struct {
 	Problems []Problem `json:"problems"`
 }
 
-// connectivity gathers problems by check.
+// connectivity gathers problems by check. Parallel loops fill one per
+// chunk and merge them in chunk order, so the lists are deterministic.
 type connectivity struct {
 	max     int
-	results map[string]*CheckResult
-	// cellBad counts connectivity defects per cell.
-	cellBad []int32
+	results []CheckResult // in checkNames order
+	// cells lists the cell of every problem that names one, in order.
+	cells []int32
 }
 
-func newConnectivity(nc, maxProblems int) *connectivity {
-	c := &connectivity{max: maxProblems, results: map[string]*CheckResult{}, cellBad: make([]int32, nc)}
-	for _, n := range checkNames {
-		c.results[n] = &CheckResult{Name: n, Problems: []Problem{}}
+func newConnectivity(maxProblems int) *connectivity {
+	c := &connectivity{max: maxProblems, results: make([]CheckResult, len(checkNames))}
+	for i, n := range checkNames {
+		c.results[i] = CheckResult{Name: n, Problems: []Problem{}}
 	}
 	return c
 }
 
 func (c *connectivity) add(p Problem) {
-	r := c.results[p.Check]
-	r.Count++
-	r.Status = Fail
-	if len(r.Problems) < c.max {
-		r.Problems = append(r.Problems, p)
+	for i := range c.results {
+		if r := &c.results[i]; r.Name == p.Check {
+			r.Count++
+			r.Status = Fail
+			if len(r.Problems) < c.max {
+				r.Problems = append(r.Problems, p)
+			}
+		}
 	}
 	if p.Cell >= 0 {
-		c.cellBad[p.Cell]++
+		c.cells = append(c.cells, int32(p.Cell))
 	}
 }
 
-// list returns the results in the fixed check order.
-func (c *connectivity) list() []CheckResult {
-	out := make([]CheckResult, len(checkNames))
-	for i, n := range checkNames {
-		out[i] = *c.results[n]
+// merge appends the findings of o after those of c.
+func (c *connectivity) merge(o *connectivity) {
+	for i := range c.results {
+		r, q := &c.results[i], &o.results[i]
+		r.Count += q.Count
+		r.Status = max(r.Status, q.Status)
+		for _, p := range q.Problems {
+			if len(r.Problems) < c.max {
+				r.Problems = append(r.Problems, p)
+			}
+		}
 	}
-	return out
+	c.cells = append(c.cells, o.cells...)
+}
+
+// inChunks runs check over [0, n) in parallel chunks, each filling its own
+// connectivity, and merges them into c in chunk order.
+func (c *connectivity) inChunks(n int, check func(lo, hi int, cn *connectivity)) {
+	parts := make([]*connectivity, (n+chunk-1)/chunk)
+	forChunks(n, func(lo, hi int) {
+		p := newConnectivity(c.max)
+		check(lo, hi, p)
+		parts[lo/chunk] = p
+	})
+	for _, p := range parts {
+		c.merge(p)
+	}
 }
 
 // validateArrays checks that the mesh arrays agree in length and that every
@@ -92,15 +116,18 @@ func validateArrays(m *mesh.Mesh) error {
 	if int(m.CellStart[nc]) != len(m.CellNodes) || m.CellStart[0] != 0 {
 		return fmt.Errorf("quality: CellStart runs %d..%d; it must run from 0 to len(CellNodes)=%d", m.CellStart[0], m.CellStart[nc], len(m.CellNodes))
 	}
-	for c := 0; c < nc; c++ {
-		if m.CellStart[c+1]-m.CellStart[c] < 3 {
+	if err := firstError(nc, func(c int) error {
+		if m.CellStart[c+1]-m.CellStart[c] < 3 || m.CellStart[c+1] > m.CellStart[nc] {
 			return fmt.Errorf("quality: cell %d has %d nodes; a cell needs at least 3", c, m.CellStart[c+1]-m.CellStart[c])
 		}
-	}
-	for i, v := range m.CellNodes {
-		if v < 0 || int(v) >= nn {
-			return fmt.Errorf("quality: CellNodes[%d] = %d; nodes run from 0 to %d", i, v, nn-1)
+		for i := m.CellStart[c]; i < m.CellStart[c+1]; i++ {
+			if v := m.CellNodes[i]; v < 0 || int(v) >= nn {
+				return fmt.Errorf("quality: cell %d refers to node %d; nodes run from 0 to %d", c, v, nn-1)
+			}
 		}
+		return nil
+	}); err != nil {
+		return err
 	}
 	if len(m.Owner) != nf || len(m.Neighbour) != nf || len(m.FaceTag) != nf {
 		return fmt.Errorf("quality: %d faces but %d owners, %d neighbours and %d face tags; all four must agree", nf, len(m.Owner), len(m.Neighbour), len(m.FaceTag))
@@ -108,7 +135,7 @@ func validateArrays(m *mesh.Mesh) error {
 	if m.NumInterior < 0 || m.NumInterior > nf {
 		return fmt.Errorf("quality: NumInterior = %d; it must lie in 0..%d", m.NumInterior, nf)
 	}
-	for f := 0; f < nf; f++ {
+	if err := firstError(nf, func(f int) error {
 		fn := m.FaceNodes[f]
 		if fn[0] < 0 || int(fn[0]) >= nn || fn[1] < 0 || int(fn[1]) >= nn {
 			return fmt.Errorf("quality: face %d joins nodes %d-%d; nodes run from 0 to %d", f, fn[0], fn[1], nn-1)
@@ -122,10 +149,33 @@ func validateArrays(m *mesh.Mesh) error {
 		if t := m.FaceTag[f]; t < -1 || int(t) >= len(m.Tags) {
 			return fmt.Errorf("quality: face %d has tag index %d; there are %d tags", f, t, len(m.Tags))
 		}
+		return nil
+	}); err != nil {
+		return err
 	}
 	g := &m.Geo
 	if len(g.FaceLength) != nf || len(g.FaceNormal) != nf || len(g.FaceMid) != nf || len(g.CellArea) != nc || len(g.CellCentroid) != nc {
 		return fmt.Errorf("quality: derived geometry does not match the mesh (%d faces, %d cells); recompute it with mesh.ComputeGeometry", nf, nc)
+	}
+	return nil
+}
+
+// firstError runs check on every index of [0, n) in parallel chunks and
+// returns the error of the lowest failing index, or nil.
+func firstError(n int, check func(i int) error) error {
+	errs := make([]error, (n+chunk-1)/chunk)
+	forChunks(n, func(lo, hi int) {
+		for i := lo; i < hi; i++ {
+			if err := check(i); err != nil {
+				errs[lo/chunk] = err
+				return
+			}
+		}
+	})
+	for _, err := range errs {
+		if err != nil {
+			return err
+		}
 	}
 	return nil
 }
@@ -145,8 +195,14 @@ func edgeAt(idx []int32, a, b int32) int {
 // checkFaces runs the per-face checks: face_cells, orientation,
 // boundary_tag, zero_length_face, and cell_faces through cf.
 func checkFaces(m *mesh.Mesh, cf cellFaces, cn *connectivity) {
+	cn.inChunks(m.NumFaces(), func(lo, hi int, cn *connectivity) { checkFaceRange(m, lo, hi, cn) })
+	cn.inChunks(m.NumCells(), func(lo, hi int, cn *connectivity) { checkCellRange(m, cf, lo, hi, cn) })
+}
+
+// checkFaceRange checks faces [lo, hi).
+func checkFaceRange(m *mesh.Mesh, lo, hi int, cn *connectivity) {
 	g := &m.Geo
-	for f := 0; f < m.NumFaces(); f++ {
+	for f := lo; f < hi; f++ {
 		fn := m.FaceNodes[f]
 		a, b := fn[0], fn[1]
 		o, nb := int(m.Owner[f]), int(m.Neighbour[f])
@@ -205,7 +261,12 @@ func checkFaces(m *mesh.Mesh, cf cellFaces, cn *connectivity) {
 			cn.add(p)
 		}
 	}
-	for c := 0; c < m.NumCells(); c++ {
+}
+
+// checkCellRange checks that each cell of [lo, hi) has one face per edge.
+func checkCellRange(m *mesh.Mesh, cf cellFaces, lo, hi int, cn *connectivity) {
+	g := &m.Geo
+	for c := lo; c < hi; c++ {
 		have, want := int(cf.start[c+1]-cf.start[c]), len(m.Cell(c))
 		if have == want {
 			continue

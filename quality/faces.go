@@ -12,11 +12,20 @@ type faceFields struct {
 	length []float64
 	// nonOrth is the non-orthogonality angle in degrees.
 	nonOrth []float64
-	// cross is the signed position t of the crossing point along the face,
-	// x_ip = m_f + t (b − a); skewness is |t|.
+	// cross is the signed position t of the point x_ip = m_f + t (b − a)
+	// where the centroid line crosses the face; the skewness is |t|.
 	cross []float64
-	// growth is the area ratio across the face, 1 on the boundary.
-	growth []float64
+	// shortestPart is the shortest non-zero face length of each chunk.
+	shortestPart []float64
+}
+
+// shortest returns the shortest non-zero face length, +Inf if none.
+func (ff *faceFields) shortest() float64 {
+	h := math.Inf(1)
+	for _, x := range ff.shortestPart {
+		h = min(h, x)
+	}
+	return h
 }
 
 // computeFaces fills the face metrics. For face f from node a to node b,
@@ -44,57 +53,65 @@ type faceFields struct {
 // perpendicular from c_P (common practice for ghost cells). Working with
 // vectors relative to m_f keeps the digits of cells far from the origin.
 //
-// Growth: max(|A_P|, |A_N|) / min(|A_P|, |A_N|), the ratio of the areas of
-// the two cells of an interior face, ≥ 1; +Inf when a cell has zero area;
-// 1 on boundary faces (common practice).
+// Growth, the area ratio of the two cells of a face, is taken per cell in
+// faceSummary.gather.
 func computeFaces(m *mesh.Mesh) faceFields {
 	nf := m.NumFaces()
 	g := &m.Geo
 	ff := faceFields{
-		length:  make([]float64, nf),
-		nonOrth: make([]float64, nf),
-		cross:   make([]float64, nf),
-		growth:  make([]float64, nf),
+		length:       make([]float64, nf),
+		nonOrth:      make([]float64, nf),
+		cross:        make([]float64, nf),
+		shortestPart: make([]float64, (nf+chunk-1)/chunk),
 	}
 	forChunks(nf, func(lo, hi int) {
+		short := math.Inf(1)
 		for f := lo; f < hi; f++ {
-			fn := m.FaceNodes[f]
-			a, b := m.Nodes[fn[0]], m.Nodes[fn[1]]
-			ex, ey := b[0]-a[0], b[1]-a[1]
+			// The face vector b − a = |S_f| (−n_y, n_x) from the stored
+			// normal, so the node positions need not be read.
+			l := g.FaceLength[f]
+			if l > 0 && l < short {
+				short = l
+			}
 			mid, n := g.FaceMid[f], g.FaceNormal[f]
+			ex, ey := -l*n[1], l*n[0]
 			cp := g.CellCentroid[m.Owner[f]]
 			px, py := cp[0]-mid[0], cp[1]-mid[1] // c_P − m_f
-			var dx, dy float64
-			var t float64
+			var dx, dy, t float64
 			if nb := m.Neighbour[f]; nb >= 0 {
 				cn := g.CellCentroid[nb]
 				dx, dy = (cn[0]-mid[0])-px, (cn[1]-mid[1])-py
 				t = (px*dy - py*dx) / (ex*dy - ey*dx)
-				ap, an := math.Abs(g.CellArea[m.Owner[f]]), math.Abs(g.CellArea[nb])
-				ff.growth[f] = max(ap, an) / min(ap, an)
 			} else {
 				dx, dy = -px, -py
 				t = (px*n[1] - py*n[0]) / (ex*n[1] - ey*n[0])
-				ff.growth[f] = 1
 			}
 			cr := n[0]*dy - n[1]*dx
 			dt := n[0]*dx + n[1]*dy
 			ff.nonOrth[f] = math.Atan2(math.Abs(cr), dt) * rad2deg
-			if math.IsNaN(t) {
+			if t != t {
 				t = math.Inf(1) // zero-length face with a degenerate centroid line
 			}
 			ff.cross[f] = t
-			if math.IsNaN(ff.growth[f]) {
-				ff.growth[f] = math.Inf(1) // both cells of zero area
-			}
-			l := g.FaceLength[f]
 			if dt < 0 {
 				l = -l
 			}
 			ff.length[f] = l
 		}
+		ff.shortestPart[lo/chunk] = short
 	})
 	return ff
+}
+
+// skewness returns |t| of every face.
+func (ff *faceFields) skewness() []float64 {
+	out := make([]float64, len(ff.cross))
+	forChunks(len(out), func(lo, hi int) {
+		for f := lo; f < hi; f++ {
+			out[f] = math.Abs(ff.cross[f])
+		}
+	})
+	return out
 }
 
 // cellFaces is the list of faces of each cell in CSR form, each list in
@@ -131,28 +148,4 @@ func buildCellFaces(m *mesh.Mesh) cellFaces {
 		}
 	}
 	return cf
-}
-
-// worstPerCell reduces a face metric to one value per cell: the maximum
-// (or, with lowest, the minimum) over the cell's faces, applying abs first
-// when asked. Face values are never NaN; a cell with no faces gets NaN.
-func worstPerCell(cf cellFaces, v []float64, lowest, abs bool) []float64 {
-	nc := len(cf.start) - 1
-	out := make([]float64, nc)
-	forChunks(nc, func(lo, hi int) {
-		for c := lo; c < hi; c++ {
-			w := math.NaN()
-			for _, f := range cf.faces[cf.start[c]:cf.start[c+1]] {
-				x := v[f]
-				if abs {
-					x = math.Abs(x)
-				}
-				if math.IsNaN(w) || (lowest && x < w) || (!lowest && x > w) {
-					w = x
-				}
-			}
-			out[c] = w
-		}
-	})
-	return out
 }

@@ -64,61 +64,127 @@ func (h *gridHash) bucket(k [2]int64) int32 {
 	return h.slotHead[h.slot(k)]
 }
 
-// findDuplicates reports every pair of nodes closer than tol, each pair once
-// from its lower node. Nodes are hashed in buckets of 16·tol; a node within
-// tol of a bucket side also looks in the bucket beyond it.
+// findDuplicates reports every node w that lies closer than tol to a node
+// of lower index, naming the lowest such node.
+//
+// Nodes are bucketed on a grid of square buckets of side 16·tol; the
+// bucket keys (i, j) are sorted by a radix sort, which puts every bucket's
+// nodes together and the buckets of one column in order of j. Two nodes
+// closer than tol lie in the same bucket or in adjacent ones, so one sweep
+// compares each node with the rest of its bucket and the next bucket up,
+// and a second pointer walking the next column in step covers the three
+// buckets to the right: linear time after the sort, with sequential memory
+// access, unlike a table look-up per node. The sweep stops with a finding
+// once it has made more than 64 comparisons per node, which only a pile
+// of near-coincident nodes can cause.
 func findDuplicates(m *mesh.Mesh, first []int32, tol float64, cn *connectivity) {
 	nn := len(m.Nodes)
-	if nn == 0 || !(tol > 0) {
+	if nn < 2 || !(tol > 0) {
 		return
 	}
 	lo, hi := bounds(m.Nodes)
-	h := newGridHash(lo, hi, 16*tol, nn)
-	h.next = make([]int32, nn)
-	keys := make([][2]int64, nn)
-	// Insert in decreasing order so every chain runs in increasing order.
-	for v := nn - 1; v >= 0; v-- {
-		k := h.key(m.Nodes[v])
-		keys[v] = k
-		s := h.slot(k)
-		h.slotKey[s] = k
-		h.next[v] = h.slotHead[s]
-		h.slotHead[s] = int32(v)
+	size := 16 * tol
+	if ext := max(hi[0]-lo[0], hi[1]-lo[1]); ext/size > 1<<31 {
+		size = ext / (1 << 31)
 	}
-	for v := 0; v < nn; v++ {
-		p, k := m.Nodes[v], keys[v]
-		fx := (p[0]-h.x0)/h.size - float64(k[0])
-		fy := (p[1]-h.y0)/h.size - float64(k[1])
-		r := tol / h.size
-		di0, di1, dj0, dj1 := int64(0), int64(0), int64(0), int64(0)
-		if fx < r {
-			di0 = -1
+	// Bucket (i, j) has key i<<shift | j, shift the bit length of the
+	// largest j, so that keys use few bits and the radix sort few passes.
+	ny := uint64((hi[1] - lo[1]) / size)
+	shift := uint(bits.Len64(ny))
+	keys := make([]uint64, nn)
+	forChunks(nn, func(a, b int) {
+		for v := a; v < b; v++ {
+			p := m.Nodes[v]
+			keys[v] = uint64((p[0]-lo[0])/size)<<shift | uint64((p[1]-lo[1])/size)
 		}
-		if fx > 1-r {
-			di1 = 1
-		}
-		if fy < r {
-			dj0 = -1
-		}
-		if fy > 1-r {
-			dj1 = 1
-		}
-		for di := di0; di <= di1; di++ {
-			for dj := dj0; dj <= dj1; dj++ {
-				for w := h.bucket([2]int64{k[0] + di, k[1] + dj}); w >= 0; w = h.next[w] {
-					if int(w) <= v {
-						continue
-					}
-					q := m.Nodes[w]
-					if d := math.Hypot(q[0]-p[0], q[1]-p[1]); d < tol {
-						cn.add(Problem{Check: CheckDuplicate, Cell: int(first[w]), Face: -1, Node: int(w), X: q[0], Y: q[1],
-							Message: fmt.Sprintf("node %d (cell %d) and node %d (cell %d) are %.3g apart at (%.9g, %.9g), closer than the tolerance %.3g: they should be one node",
-								v, first[v], w, first[w], d, p[0], p[1], tol)})
-					}
-				}
+	})
+	order := radixOrder(keys)
+	dupOf := make([]int32, nn)
+	for i := range dupOf {
+		dupOf[i] = -1
+	}
+	tol2 := tol * tol
+	budget := 64*nn + 1024
+	compare := func(v, w int32) {
+		budget--
+		p, q := m.Nodes[v], m.Nodes[w]
+		dx, dy := q[0]-p[0], q[1]-p[1]
+		if dx*dx+dy*dy < tol2 {
+			a, b := min(v, w), max(v, w)
+			if dupOf[b] < 0 || a < dupOf[b] {
+				dupOf[b] = a
 			}
 		}
 	}
+	key := func(s int) uint64 { return keys[order[s]] }
+	right := 0 // walks the column to the right of the current one
+	for s := 0; s < nn && budget > 0; s++ {
+		k := key(s)
+		col := k >> shift
+		// Same bucket and the next one up: they follow in the order.
+		for t := s + 1; t < nn && key(t) <= k+1 && key(t)>>shift == col; t++ {
+			compare(order[s], order[t])
+		}
+		// Buckets (i+1, j−1 .. j+1).
+		lowKey := (col+1)<<shift | (max(k&(1<<shift-1), 1) - 1)
+		for right < nn && key(right) < lowKey {
+			right++
+		}
+		for t := right; t < nn && key(t) <= lowKey+2 && key(t)>>shift == col+1; t++ {
+			compare(order[s], order[t])
+		}
+	}
+	if budget <= 0 {
+		cn.add(Problem{Check: CheckDuplicate, Cell: -1, Face: -1, Node: -1,
+			Message: fmt.Sprintf("more than %d node pairs lie within %.3g of each other; the duplicate search stopped there", 64*nn, 16*tol)})
+	}
+	for w, v := range dupOf {
+		if v < 0 {
+			continue
+		}
+		p, q := m.Nodes[v], m.Nodes[w]
+		cn.add(Problem{Check: CheckDuplicate, Cell: int(first[w]), Face: -1, Node: w, X: q[0], Y: q[1],
+			Message: fmt.Sprintf("node %d (cell %d) and node %d (cell %d) are %.3g apart at (%.9g, %.9g), closer than the tolerance %.3g: they should be one node",
+				v, first[v], w, first[w], math.Hypot(q[0]-p[0], q[1]-p[1]), p[0], p[1], tol)})
+	}
+}
+
+// radixOrder returns the permutation that sorts keys, stable (equal keys
+// keep increasing index), by a least-significant-digit radix sort on
+// 12-bit digits (a histogram that fits in the first-level cache) up to the
+// highest bit any key uses.
+func radixOrder(keys []uint64) []int32 {
+	n := len(keys)
+	order := make([]int32, n)
+	for i := range order {
+		order[i] = int32(i)
+	}
+	or := uint64(0)
+	for _, k := range keys {
+		or |= k
+	}
+	top := uint(bits.Len64(or))
+	tmp := make([]int32, n)
+	const digit = 12
+	var count [1 << digit]int
+	for shift := uint(0); shift < top; shift += digit {
+		clear(count[:])
+		for _, i := range order {
+			count[keys[i]>>shift&(1<<digit-1)]++
+		}
+		sum := 0
+		for d, c := range count {
+			count[d] = sum
+			sum += c
+		}
+		for _, i := range order {
+			d := keys[i] >> shift & (1<<digit - 1)
+			tmp[count[d]] = i
+			count[d]++
+		}
+		order, tmp = tmp, order
+	}
+	return order
 }
 
 // findHanging reports boundary nodes that lie inside another boundary face:

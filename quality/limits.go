@@ -61,6 +61,13 @@ type Limits struct {
 // allowed, caps, folds and broken conservation are not); "tight" suits
 // isotropic meshes for inviscid or scale-resolving runs; "tolerant" only
 // fails cells that a solver cannot use at all.
+//
+// The Green–Gauss error of a cell-centred scheme grows like skewness times
+// aspect ratio (an offset t·L of the crossing point on a face of length L
+// of a cell of height h gives an error of order t·L/h), so boundary-layer
+// triangles show large values that a solver copes with by using another
+// gradient there; "everyday" and "tolerant" therefore fail only extreme
+// values of it.
 var profiles = map[string]Limits{
 	"everyday": {
 		Area: Bound{0, 0}, FaceLength: Bound{0, 0},
@@ -70,7 +77,7 @@ var profiles = map[string]Limits{
 		NonOrthogonality: Bound{70, 85}, Skewness: Bound{0.5, 1},
 		Growth:  Bound{3, 20},
 		Closure: Bound{1e-12, 1e-9}, FreeStream: Bound{1e-12, 1e-9},
-		GradientError: Bound{0.5, 2}, DualClosure: Bound{1e-12, 1e-9},
+		GradientError: Bound{0.5, 100}, DualClosure: Bound{1e-12, 1e-9},
 		DuplicateTolerance: 1e-3, HangingTolerance: 1e-6, WorstCells: 5, MaxProblems: 20,
 	},
 	"tight": {
@@ -92,7 +99,7 @@ var profiles = map[string]Limits{
 		NonOrthogonality: Bound{80, 89}, Skewness: Bound{1, 5},
 		Growth:  Bound{10, 100},
 		Closure: Bound{1e-10, 1e-6}, FreeStream: Bound{1e-10, 1e-6},
-		GradientError: Bound{1, 5}, DualClosure: Bound{1e-10, 1e-6},
+		GradientError: Bound{5, 1e4}, DualClosure: Bound{1e-10, 1e-6},
 		DuplicateTolerance: 1e-4, HangingTolerance: 1e-6, WorstCells: 5, MaxProblems: 20,
 	},
 }

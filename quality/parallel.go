@@ -8,7 +8,7 @@ import (
 // chunk is the fixed size of the index ranges that loops are split into.
 // Partial results are combined in chunk order, so results do not depend on
 // how many goroutines ran.
-const chunk = 1 << 15
+const chunk = 1 << 13
 
 // forChunks calls fn(lo, hi) for each range [lo, hi) of at most chunk
 // indices covering [0, n), on up to GOMAXPROCS goroutines. fn must write

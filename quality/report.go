@@ -3,6 +3,7 @@ package quality
 import (
 	"fmt"
 	"math"
+	"sync"
 
 	"cvdeck/mesh"
 )
@@ -89,7 +90,7 @@ type Report struct {
 	// marks a metric that does not apply (scaled_jacobian off quads).
 	CellFields []Field `json:"-"`
 	// FaceFields are the per-face arrays: face_length (signed),
-	// non_orthogonality, skewness and growth.
+	// non_orthogonality and skewness.
 	FaceFields []Field `json:"-"`
 	// NodeFields are the per-node arrays: dual_closure.
 	NodeFields []Field `json:"-"`
@@ -130,82 +131,80 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 	if err := validateArrays(m); err != nil {
 		return nil, err
 	}
-	nc := m.NumCells()
-	shape := computeShape(m)
-	ff := computeFaces(m)
-	cf := buildCellFaces(m)
-	au := computeAudit(m, cf, ff)
-	skewAbs := make([]float64, len(ff.cross))
-	for f, t := range ff.cross {
-		skewAbs[f] = math.Abs(t)
-	}
-	cellVals := map[string][]float64{
-		"area":               m.Geo.CellArea,
-		"face_length":        worstPerCell(cf, ff.length, true, false),
-		"aspect_ratio":       shape.aspect,
-		"min_angle":          shape.minAngle,
-		"max_angle":          shape.maxAngle,
-		"equiangle_skewness": shape.equiangle,
-		"scaled_jacobian":    shape.jacobian,
-		"non_orthogonality":  worstPerCell(cf, ff.nonOrth, false, false),
-		"skewness":           worstPerCell(cf, skewAbs, false, false),
-		"growth":             worstPerCell(cf, ff.growth, false, false),
-		"closure":            au.closure,
-		"free_stream":        au.freeStream,
-		"gradient_error":     au.gradient,
-		"dual_closure":       computeDualClosure(m),
-	}
+	nc, nn := m.NumCells(), len(m.Nodes)
 
-	// Connectivity.
-	cn := newConnectivity(nc, lim.MaxProblems)
-	checkFaces(m, cf, cn)
-	first := nodeCells(m)
-	bclosure := boundaryClosure(m)
-	checkNodes(m, first, bclosure, lim.Closure.Fail, cn)
-	hmin := math.Inf(1)
-	for _, l := range m.Geo.FaceLength {
-		if l > 0 {
-			hmin = min(hmin, l)
-		}
-	}
-	dupDist := 0.0
-	if !math.IsInf(hmin, 0) {
-		dupDist = lim.DuplicateTolerance * hmin
-	}
-	findDuplicates(m, first, dupDist, cn)
-	findHanging(m, lim.HangingTolerance, cn)
+	// The face metrics, the cell-to-face lists and the node-to-cell map
+	// are independent; build them side by side.
+	var cf cellFaces
+	var first []int32
+	var wg sync.WaitGroup
+	wg.Add(1)
+	go func() {
+		defer wg.Done()
+		cf = buildCellFaces(m)
+		first = nodeCells(m)
+	}()
+	ff := computeFaces(m)
+	wg.Wait()
 
 	r := &Report{
-		Profile: lim.Profile, Cells: nc, Faces: m.NumFaces(), BoundaryFaces: m.NumBoundary(), Nodes: len(m.Nodes),
-		DuplicateDistance: dupDist, Connectivity: cn.list(),
+		Profile: lim.Profile, Cells: nc, Faces: m.NumFaces(), BoundaryFaces: m.NumBoundary(), Nodes: nn,
 		CellStatus: make([]Status, nc),
 	}
-	nodeStatus := make([]Status, len(m.Nodes))
-	nodePos := func(i int) (float64, float64) { return m.Nodes[i][0], m.Nodes[i][1] }
-	cellPos := func(i int) (float64, float64) { c := m.Geo.CellCentroid[i]; return c[0], c[1] }
-	for i := range metricDefs {
-		d := &metricDefs[i]
-		v := cellVals[d.name]
-		if d.perNode {
-			s := summarize(d, v, *d.bound(&lim), lim.WorstCells, nodeStatus, nodePos)
-			if s.Count > 0 {
-				r.Metrics = append(r.Metrics, s)
-			}
-			r.NodeFields = append(r.NodeFields, Field{d.name, v})
-			continue
+	// Three independent sweeps run side by side: the cell metrics, the node
+	// metric and the connectivity checks. Each writes only its own results.
+	var vals [numCellMetrics][]float64
+	var parts [numCellMetrics][]partial
+	var dual []float64
+	nodeStatus := make([]Status, nn)
+	dd := &metricDefs[numCellMetrics]
+	nodeParts := make([]partial, (nn+chunk-1)/chunk)
+	cn := newConnectivity(lim.MaxProblems)
+	var bclosure float64
+	wg.Add(3)
+	go func() {
+		defer wg.Done()
+		vals, parts = cellPass(m, cf, &ff, &lim, r.CellStatus)
+	}()
+	go func() {
+		defer wg.Done()
+		dual = computeDualClosure(m)
+		forChunks(nn, func(lo, hi int) {
+			nodeParts[lo/chunk].scan(dd, lim.DualClosure, lim.WorstCells, dual[lo:hi], lo, nodeStatus)
+		})
+	}()
+	go func() {
+		defer wg.Done()
+		checkFaces(m, cf, cn)
+		bclosure = boundaryClosure(m)
+		checkNodes(m, first, bclosure, lim.Closure.Fail, cn)
+		if hmin := ff.shortest(); !math.IsInf(hmin, 0) {
+			r.DuplicateDistance = lim.DuplicateTolerance * hmin
 		}
-		s := summarize(d, v, *d.bound(&lim), lim.WorstCells, r.CellStatus, cellPos)
-		if s.Count > 0 {
+		findDuplicates(m, first, r.DuplicateDistance, cn)
+		findHanging(m, lim.HangingTolerance, cn)
+	}()
+	wg.Wait()
+
+	cellPos := func(i int) (float64, float64) { c := m.Geo.CellCentroid[i]; return c[0], c[1] }
+	for k := 0; k < numCellMetrics; k++ {
+		d := &metricDefs[k]
+		if s := summary(d, *d.bound(&lim), lim.WorstCells, parts[k], cellPos); s.Count > 0 {
 			r.Metrics = append(r.Metrics, s)
 		}
-		r.CellFields = append(r.CellFields, Field{d.name, v})
+		r.CellFields = append(r.CellFields, Field{d.name, vals[k]})
 	}
+	nodePos := func(i int) (float64, float64) { return m.Nodes[i][0], m.Nodes[i][1] }
+	if s := summary(dd, lim.DualClosure, lim.WorstCells, nodeParts, nodePos); s.Count > 0 {
+		r.Metrics = append(r.Metrics, s)
+	}
+	r.NodeFields = []Field{{dd.name, dual}}
+	r.Connectivity = cn.results
+
 	defects := make([]float64, nc)
-	for c, k := range cn.cellBad {
-		defects[c] = float64(k)
-		if k > 0 {
-			r.CellStatus[c] = Fail
-		}
+	for _, c := range cn.cells {
+		defects[c]++
+		r.CellStatus[c] = Fail
 	}
 	status := make([]float64, nc)
 	for c, s := range r.CellStatus {
@@ -219,7 +218,7 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 		r.Verdict = max(r.Verdict, s)
 	}
 	r.CellFields = append(r.CellFields, Field{"status", status}, Field{"defects", defects})
-	r.FaceFields = []Field{{"face_length", ff.length}, {"non_orthogonality", ff.nonOrth}, {"skewness", skewAbs}, {"growth", ff.growth}}
+	r.FaceFields = []Field{{"face_length", ff.length}, {"non_orthogonality", ff.nonOrth}, {"skewness", ff.skewness()}}
 	for _, s := range nodeStatus {
 		if s == Fail {
 			r.FailedNodes++
@@ -238,98 +237,6 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 	r.Audit.GradientMax = get("gradient_error").Max
 	r.Audit.DualClosureMax = get("dual_closure").Max
 	return r, nil
-}
-
-// partial is the summary of one chunk of values.
-type partial struct {
-	count, warned, failed int
-	min, max, sum, sumsq  float64
-	worst                 []Located
-}
-
-// summarize computes the statistics of v for metric d, raises the entries
-// of status to the grade of each value, and keeps the k worst entries.
-// Chunks are summed in order, so the result does not depend on the number
-// of goroutines.
-func summarize(d *metricDef, v []float64, b Bound, k int, status []Status, pos func(int) (float64, float64)) MetricSummary {
-	n := len(v)
-	parts := make([]partial, (n+chunk-1)/chunk)
-	forChunks(n, func(lo, hi int) {
-		p := partial{min: math.Inf(1), max: math.Inf(-1)}
-		for i := lo; i < hi; i++ {
-			x := v[i]
-			if x != x {
-				continue
-			}
-			p.count++
-			p.min, p.max = min(p.min, x), max(p.max, x)
-			p.sum += x
-			p.sumsq += x * x
-			switch st := d.status(x, b); st {
-			case Fail:
-				p.failed++
-				status[i] = Fail
-			case Warn:
-				p.warned++
-				status[i] = max(status[i], Warn)
-			}
-			p.worst = keepWorst(d, p.worst, k, i, x)
-		}
-		parts[lo/chunk] = p
-	})
-	s := MetricSummary{Name: d.name, Unit: d.unit, Per: "cell", Worse: "higher", Limit: b, Worst: []Located{}}
-	if d.perNode {
-		s.Per = "node"
-	}
-	if d.lower {
-		s.Worse = "lower"
-	}
-	lo, hi, sum, sumsq := math.Inf(1), math.Inf(-1), 0.0, 0.0
-	var worst []Located
-	for _, p := range parts {
-		s.Count += p.count
-		s.Warned += p.warned
-		s.Failed += p.failed
-		lo, hi = min(lo, p.min), max(hi, p.max)
-		sum += p.sum
-		sumsq += p.sumsq
-		for _, w := range p.worst {
-			worst = keepWorst(d, worst, k, w.Index, float64(w.Value))
-		}
-	}
-	if s.Count == 0 {
-		return s
-	}
-	s.Min, s.Max = Number(lo), Number(hi)
-	s.Mean = Number(sum / float64(s.Count))
-	s.RMS = Number(math.Sqrt(sumsq / float64(s.Count)))
-	for _, w := range worst {
-		w.X, w.Y = pos(w.Index)
-		s.Worst = append(s.Worst, w)
-	}
-	return s
-}
-
-// keepWorst inserts (i, x) into the list of at most k worst entries, kept
-// worst first with ties in increasing index (entries arrive in increasing
-// index within a list, and lists are merged in chunk order).
-func keepWorst(d *metricDef, list []Located, k, i int, x float64) []Located {
-	if k == 0 {
-		return list
-	}
-	if len(list) == k && !d.worse(x, float64(list[k-1].Value)) {
-		return list
-	}
-	pos := len(list)
-	for pos > 0 && d.worse(x, float64(list[pos-1].Value)) {
-		pos--
-	}
-	if len(list) < k {
-		list = append(list, Located{})
-	}
-	copy(list[pos+1:], list[pos:len(list)-1])
-	list[pos] = Located{Index: i, Value: Number(x)}
-	return list
 }
 
 // String gives a one-line account of the verdict.

@@ -4,38 +4,9 @@ import (
 	"math"
 
 	"github.com/paulmach/orb"
-
-	"cvdeck/mesh"
 )
 
-// shapeFields holds the per-cell shape metrics.
-type shapeFields struct {
-	aspect, minAngle, maxAngle, equiangle, jacobian []float64
-}
-
 const rad2deg = 180 / math.Pi
-
-// computeShape fills the shape metrics of every cell; see cellShape.
-func computeShape(m *mesh.Mesh) shapeFields {
-	nc := m.NumCells()
-	s := shapeFields{
-		aspect:    make([]float64, nc),
-		minAngle:  make([]float64, nc),
-		maxAngle:  make([]float64, nc),
-		equiangle: make([]float64, nc),
-		jacobian:  make([]float64, nc),
-	}
-	forChunks(nc, func(lo, hi int) {
-		var buf []float64
-		for c := lo; c < hi; c++ {
-			var sh cellShape
-			buf = sh.compute(m.Nodes, m.Cell(c), m.Geo.CellArea[c], buf)
-			s.aspect[c], s.minAngle[c], s.maxAngle[c] = sh.aspect, sh.minAngle, sh.maxAngle
-			s.equiangle[c], s.jacobian[c] = sh.equiangle, sh.jacobian
-		}
-	})
-	return s
-}
 
 // cellShape is the shape of one cell.
 //
@@ -84,6 +55,10 @@ type cellShape struct {
 // scratch space, returned (perhaps grown) for reuse.
 func (s *cellShape) compute(nodes []orb.Point, idx []int32, area float64, buf []float64) []float64 {
 	n := len(idx)
+	if n == 3 {
+		s.triangle(nodes[idx[0]], nodes[idx[1]], nodes[idx[2]], area)
+		return buf
+	}
 	if cap(buf) < 3*n {
 		buf = make([]float64, 3*n)
 	}
@@ -110,13 +85,9 @@ func (s *cellShape) compute(nodes []orb.Point, idx []int32, area float64, buf []
 		cr := vx*uy - vy*ux
 		dt := vx*ux + vy*uy
 		ll := el[k] * el[p]
-		var key float64
+		key := angleKey(cr, dt, ll)
 		if ll == 0 {
-			cr, dt, key = 0, 1, 0
-		} else if cos := dt / ll; cr >= 0 {
-			key = 1 - cos
-		} else {
-			key = 3 + cos
+			cr, dt = 0, 1
 		}
 		if key < kmin {
 			kmin, cmin = key, [2]float64{cr, dt}
@@ -154,6 +125,71 @@ func (s *cellShape) compute(nodes []orb.Point, idx []int32, area float64, buf []
 		s.aspect = lmax / lmin
 	}
 	return buf
+}
+
+// triangle is compute for a triangle p0 p1 p2, unrolled. By the law of
+// sines the smallest angle lies opposite the shortest edge and the largest
+// opposite the longest, so only those two corners are evaluated (for an
+// inverted triangle, whose interior angles are reflex, the two swap, which
+// the final min/max takes care of).
+func (s *cellShape) triangle(p0, p1, p2 orb.Point, area float64) {
+	e0x, e0y := p1[0]-p0[0], p1[1]-p0[1]
+	e1x, e1y := p2[0]-p1[0], p2[1]-p1[1]
+	e2x, e2y := p0[0]-p2[0], p0[1]-p2[1]
+	q0, q1, q2 := e0x*e0x+e0y*e0y, e1x*e1x+e1y*e1y, e2x*e2x+e2y*e2y
+	// Edge k runs from p_k to p_{k+1}; the corner opposite it is p_{k+2}.
+	// Corner p_j lies between incoming edge e_{j−1} and outgoing edge e_j:
+	// with v = e_j and u = −e_{j−1}, v × u = e_{j−1} × e_j and
+	// v · u = −e_{j−1} · e_j.
+	corner := func(k int) [2]float64 {
+		switch k {
+		case 0: // opposite e0: corner p2, between e1 and e2
+			return [2]float64{e1x*e2y - e1y*e2x, -(e1x*e2x + e1y*e2y)}
+		case 1: // corner p0, between e2 and e0
+			return [2]float64{e2x*e0y - e2y*e0x, -(e2x*e0x + e2y*e0y)}
+		}
+		return [2]float64{e0x*e1y - e0y*e1x, -(e0x*e1x + e0y*e1y)} // corner p1
+	}
+	kmin, kmax := 0, 0
+	qmin, qmax := q0, q0
+	if q1 < qmin {
+		kmin, qmin = 1, q1
+	}
+	if q1 > qmax {
+		kmax, qmax = 1, q1
+	}
+	if q2 < qmin {
+		kmin, qmin = 2, q2
+	}
+	if q2 > qmax {
+		kmax, qmax = 2, q2
+	}
+	a, b := cornerAngle(corner(kmin)), cornerAngle(corner(kmax))
+	if qmin == 0 {
+		a = 0 // a zero-length edge: a 0° corner
+	}
+	s.minAngle, s.maxAngle = min(a, b), max(a, b)
+	s.equiangle = max((s.maxAngle-60)*(1.0/120), (60-s.minAngle)*(1.0/60))
+	s.jacobian = math.NaN()
+	if area <= 0 || qmin == 0 {
+		s.aspect = math.Inf(1)
+	} else {
+		l0, l1, l2 := math.Sqrt(q0), math.Sqrt(q1), math.Sqrt(q2)
+		s.aspect = math.Sqrt(qmax) * (l0 + l1 + l2) / (4 * math.Sqrt(3) * area)
+	}
+}
+
+// angleKey ranks a corner with cross product cr, dot product dt and edge
+// length product ll by its angle: 1 − cos θ on [0°, 180°], 3 + cos θ
+// beyond, 0 when an edge has zero length.
+func angleKey(cr, dt, ll float64) float64 {
+	switch {
+	case ll == 0:
+		return 0
+	case cr >= 0:
+		return 1 - dt/ll
+	}
+	return 3 + dt/ll
 }
 
 // cornerAngle returns the interior angle in degrees, in [0, 360), of a

@@ -116,3 +116,55 @@ func TestSamplesListAndVersion(t *testing.T) {
 		t.Fatalf("mesh without a file: exit %d, %q", code, errs)
 	}
 }
+
+// TestSketchStraightToMesh meshes a bare GeoJSON sketch with no case file,
+// writes a case around it with init --from and meshes that too, and
+// refuses a self-crossing sketch with its ring and vertex named.
+func TestSketchStraightToMesh(t *testing.T) {
+	dir := t.TempDir()
+	sketch := filepath.Join(dir, "plate.geojson")
+	// A 2 × 1 plate with a square hole; the exterior's edges are tagged
+	// by edge_tags (our own GeoJSON property), the hole by "tag".
+	doc := `{"type": "Feature", "properties": {"tag": "hole", "edge_tags": [{"ring": 0, "from": 0, "to": 3, "tag": "rim"}]},
+	 "geometry": {"type": "Polygon", "coordinates": [[[0, 0], [2, 0], [2, 1], [0, 1], [0, 0]], [[0.8, 0.4], [0.8, 0.6], [1.0, 0.6], [1.0, 0.4], [0.8, 0.4]]]}}`
+	if err := os.WriteFile(sketch, []byte(doc), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	deckDir := filepath.Join(dir, "deck")
+	code, out, errs := cvdeck(t, "mesh", sketch, "--size", "0.05", "--min-angle", "28", "-o", deckDir, "--format", "vtu,manifest")
+	if code != 0 {
+		t.Fatalf("exit %d\n%s\n%s", code, out, errs)
+	}
+	data, err := os.ReadFile(filepath.Join(deckDir, "deck.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"tag: rim", "tag: hole", "kind: unstructured", "triangle:"} {
+		if !strings.Contains(string(data), want) {
+			t.Errorf("deck.yaml lacks %q", want)
+		}
+	}
+	// init --from writes an editable case that meshes the same way.
+	caseDir := filepath.Join(dir, "case")
+	code, out, errs = cvdeck(t, "init", "--from", sketch, "--size", "0.05", caseDir)
+	if code != 0 {
+		t.Fatalf("init --from: exit %d: %s", code, errs)
+	}
+	casePath := strings.TrimSpace(out)
+	if code, out, errs = cvdeck(t, "mesh", casePath, "-o", filepath.Join(dir, "deck2"), "--format", "vtu"); code != 0 {
+		t.Fatalf("mesh of the written case: exit %d\n%s\n%s", code, out, errs)
+	}
+	// A bow-tie ring: exit 2, located at the ring and vertex, nothing written.
+	bad := filepath.Join(dir, "bowtie.geojson")
+	if err := os.WriteFile(bad, []byte(`{"type": "Polygon", "coordinates": [[[0, 0], [1, 1], [1, 0], [0, 1], [0, 0]]]}`), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	badDeck := filepath.Join(dir, "bad")
+	code, _, errs = cvdeck(t, "mesh", bad, "--size", "0.1", "-o", badDeck)
+	if code != 2 || !strings.Contains(errs, "ring") || !strings.Contains(errs, "segment 0") || strings.Count(errs, "\n") != 1 {
+		t.Fatalf("bow-tie: exit %d, stderr %q", code, errs)
+	}
+	if _, err := os.Stat(badDeck); !os.IsNotExist(err) {
+		t.Fatalf("a deck was written for a bad sketch")
+	}
+}

@@ -21,6 +21,7 @@ type meshFlags struct {
 	maxCells int
 	limits   string
 	refine   float64
+	sketch   deck.SketchOptions
 }
 
 func newMeshCommand(g *globals) *cobra.Command {
@@ -57,6 +58,11 @@ failed (the report names the cells); 2 bad input, nothing written.`,
 	fl.IntVar(&f.maxCells, "max-cells", deck.DefaultMaxCells, "refuse a mesh estimated to have more cells")
 	fl.StringVar(&f.limits, "limits", "", "a limits file overriding the case's quality limits")
 	fl.Float64Var(&f.refine, "refine", 1, "scale every spacing: 2 halves every cell size")
+	fl.Float64Var(&f.sketch.Size, "size", 0, "sketch only: target cell size in metres (the sketch's units after --scale)")
+	fl.Float64Var(&f.sketch.MinAngle, "min-angle", 0, "sketch only: smallest triangle angle in degrees (default the mesher's)")
+	fl.Float64Var(&f.sketch.Growth, "growth", 0, "sketch only: size growth ratio away from the boundary (default the mesher's)")
+	fl.Float64Var(&f.sketch.Scale, "scale", 1, "sketch only: multiply sketch coordinates by this to get metres")
+	fl.BoolVar(&f.sketch.FlipY, "flip-y", false, "sketch only: flip the y axis (SVG drawings grow y downwards)")
 	_ = cmd.MarkFlagRequired("output")
 	return cmd
 }
@@ -96,7 +102,15 @@ func runMesh(cmd *cobra.Command, g *globals, f *meshFlags, path string) error {
 		opts.Stage = func(name string) { fmt.Fprintf(stderr, "\r\x1b[K%s …", name) }
 		defer fmt.Fprint(stderr, "\r\x1b[K")
 	}
-	c, err := deck.Load(path, deck.LoadOptions{Params: overrides, Refine: f.refine})
+	var c *deck.Case
+	if deck.IsSketch(path) {
+		c, err = deck.SketchCase(path, f.sketch, deck.LoadOptions{Params: overrides, Refine: f.refine})
+	} else {
+		if f.sketch != (deck.SketchOptions{Scale: 1}) {
+			return fmt.Errorf("%w: --size, --min-angle, --growth, --scale and --flip-y apply to sketch files; set a case file's mesh in the file", deck.ErrInput)
+		}
+		c, err = deck.Load(path, deck.LoadOptions{Params: overrides, Refine: f.refine})
+	}
 	if err != nil {
 		return err
 	}

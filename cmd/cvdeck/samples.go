@@ -33,6 +33,7 @@ func newSamplesCommand() *cobra.Command {
 
 func newInitCommand() *cobra.Command {
 	var from string
+	var so deck.SketchOptions
 	cmd := &cobra.Command{
 		Use:   "init NAME DIR | init --from SKETCH DIR",
 		Short: "Write a sample's case file (and the files it refers to) as DIR/NAME.yaml, or a case around a sketch",
@@ -44,7 +45,12 @@ Existing files are never overwritten.`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var path string
 			var err error
-			{
+			if from != "" {
+				if len(args) != 1 {
+					return fmt.Errorf("%w: init --from SKETCH takes one folder, got %d arguments", deck.ErrInput, len(args))
+				}
+				path, err = deck.InitFromSketch(from, args[0], so)
+			} else {
 				if len(args) != 2 {
 					return fmt.Errorf("%w: init takes a sample name and a folder (see `cvdeck samples`), got %d arguments", deck.ErrInput, len(args))
 				}
@@ -61,6 +67,11 @@ Existing files are never overwritten.`,
 		},
 	}
 	cmd.Flags().StringVar(&from, "from", "", "write a case file around this sketch file")
+	cmd.Flags().Float64Var(&so.Size, "size", 0, "with --from: target cell size in metres (default a fiftieth of the sketch)")
+	cmd.Flags().Float64Var(&so.MinAngle, "min-angle", 0, "with --from: smallest triangle angle, degrees")
+	cmd.Flags().Float64Var(&so.Growth, "growth", 0, "with --from: size growth ratio away from the boundary")
+	cmd.Flags().Float64Var(&so.Scale, "scale", 1, "with --from: multiply sketch coordinates by this to get metres")
+	cmd.Flags().BoolVar(&so.FlipY, "flip-y", false, "with --from: flip the y axis (SVG drawings grow y downwards)")
 	return cmd
 }
 

@@ -1,0 +1,345 @@
+package deck
+
+import (
+	"bytes"
+	"encoding/xml"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"cvdeck/geometry"
+)
+
+// sketchKinds maps sketch file extensions to their reader.
+var sketchKinds = map[string]string{
+	".geojson": "geojson", ".json": "geojson",
+	".wkt": "wkt",
+	".svg": "svg",
+	".xy":  "points", ".txt": "points", ".dat": "points", ".csv": "points",
+}
+
+// IsSketch reports whether path names a bare geometry file (by extension)
+// rather than a case file.
+func IsSketch(path string) bool {
+	_, ok := sketchKinds[strings.ToLower(filepath.Ext(path))]
+	return ok
+}
+
+// sketchRead says how to read a sketch file.
+type sketchRead struct {
+	scale float64  // metres per file unit
+	flipY bool     // SVG drawings grow y downwards
+	tags  []string // SVG: tag of each closed subpath, in path order
+}
+
+// readSketch reads a sketch file into one validated, oriented outline in
+// metres. A GeoJSON or WKT file must hold exactly one polygon (with any
+// number of holes); an SVG file is either raw path data or an SVG document
+// whose path elements' d attributes are read in document order; a point
+// file is one closed polyline.
+func readSketch(path string, data []byte, r sketchRead) (geometry.Outline, error) {
+	kind := sketchKinds[strings.ToLower(filepath.Ext(path))]
+	var outs []geometry.Outline
+	var err error
+	switch kind {
+	case "geojson":
+		outs, err = geometry.ReadGeoJSON(data)
+	case "wkt":
+		outs, err = geometry.ReadWKT(string(data), geometry.PolygonTags{})
+	case "svg":
+		var d string
+		if d, err = svgPathData(data); err == nil {
+			var o geometry.Outline
+			o, err = geometry.ReadSVGPath(d, geometry.SVGOptions{Scale: 1, FlipY: r.flipY, Tags: r.tags})
+			outs = []geometry.Outline{o}
+		}
+	case "points":
+		var pl *geometry.Polyline
+		var closed bool
+		pl, closed, err = geometry.ReadPoints(bytes.NewReader(data), geometry.Attr{Tag: "outer"}, true)
+		if err == nil && closed {
+			var o geometry.Outline
+			o, err = geometry.Outline{Outer: geometry.Loop{Name: "outer", Segments: []geometry.Segment{pl}}}.Normalise()
+			outs = []geometry.Outline{o}
+		}
+	default:
+		return geometry.Outline{}, fmt.Errorf("%s: cvdeck reads sketches as %s", path, sketchExtensions())
+	}
+	if err != nil {
+		return geometry.Outline{}, fmt.Errorf("%s: %w", path, err)
+	}
+	if len(outs) != 1 {
+		return geometry.Outline{}, fmt.Errorf("%s holds %d polygons; a case meshes one outline (one outer loop with any number of holes)", path, len(outs))
+	}
+	o := outs[0]
+	if r.scale != 1 {
+		if o, err = o.Scaled(r.scale); err != nil {
+			return o, fmt.Errorf("%s: %w", path, err)
+		}
+	}
+	return o, nil
+}
+
+func sketchExtensions() string {
+	return ".geojson/.json (GeoJSON), .wkt (WKT), .svg (SVG path data) or .xy/.txt/.dat/.csv (x y points)"
+}
+
+// svgPathData returns raw path data as it is, or the d attributes of the
+// path elements of an SVG document joined in document order.
+func svgPathData(data []byte) (string, error) {
+	text := strings.TrimSpace(string(data))
+	if !strings.HasPrefix(text, "<") {
+		return text, nil
+	}
+	dec := xml.NewDecoder(bytes.NewReader(data))
+	var parts []string
+	for {
+		tok, err := dec.Token()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		if err != nil {
+			return "", fmt.Errorf("not a readable SVG document: %w", err)
+		}
+		if se, ok := tok.(xml.StartElement); ok && se.Name.Local == "path" {
+			for _, a := range se.Attr {
+				if a.Name.Local == "d" {
+					parts = append(parts, a.Value)
+				}
+			}
+		}
+	}
+	if len(parts) == 0 {
+		return "", fmt.Errorf("the SVG document has no path element with a d attribute")
+	}
+	return strings.Join(parts, " "), nil
+}
+
+// decodeSketchRef reads a geometry section that points at a sketch file:
+//
+//	geometry:
+//	  file: data/fins.geojson   # relative to the case file
+//	  scale: 1                  # extra factor on the file's coordinates (after units)
+//	  flip_y: false             # SVG: flip the y axis
+//	  tags: [duct, fin]         # SVG: the tag of each closed subpath
+//	  spacing: {size: 2}        # the spacing of every edge (case units)
+//
+// The file's coordinates are in the case's units.
+func decodeSketchRef(c *Case, g *geometrySpec, o *object, fv value) error {
+	rel, err := fv.str()
+	if err != nil {
+		return err
+	}
+	r := sketchRead{scale: fv.d.scale}
+	if v, ok := o.get("scale"); ok {
+		f, err := v.positive()
+		if err != nil {
+			return err
+		}
+		r.scale *= f
+	}
+	if v, ok := o.get("flip_y"); ok {
+		if r.flipY, err = v.boolean(); err != nil {
+			return err
+		}
+	}
+	if v, ok := o.get("tags"); ok {
+		if r.tags, err = v.strings(); err != nil {
+			return err
+		}
+	}
+	var spacing *geometry.Spacing
+	if v, ok := o.get("spacing"); ok {
+		sp, err := decodeSpacing(v, c.Refine)
+		if err != nil {
+			return err
+		}
+		spacing = &sp
+	}
+	data, full, err := c.readInput(fv, rel)
+	if err != nil {
+		return err
+	}
+	out, err := readSketch(full, data, r)
+	if err != nil {
+		return fv.wrap(err)
+	}
+	if spacing != nil {
+		out = respace(out, *spacing)
+	}
+	for i, l := range out.Loops() {
+		if l.Name == "" {
+			l.Name = "outer"
+			if i > 0 {
+				l.Name = fmt.Sprintf("inner%d", i)
+			}
+		}
+		ls := loopSpec{name: l.Name, segments: l.Segments, at: fv}
+		for range l.Segments {
+			ls.segAt = append(ls.segAt, fv)
+		}
+		g.loops = append(g.loops, ls)
+		if err := g.addCurve(&curveSpec{name: l.Name, segments: l.Segments, closed: true, at: fv}); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// respace gives every segment that has no spacing law of its own the
+// spacing sp.
+func respace(o geometry.Outline, sp geometry.Spacing) geometry.Outline {
+	fix := func(l geometry.Loop) geometry.Loop {
+		r := geometry.Loop{Name: l.Name, Flipped: l.Flipped, Segments: make([]geometry.Segment, len(l.Segments))}
+		for i, s := range l.Segments {
+			a := s.Attr()
+			if a.Spacing.KeepsVertices() {
+				a.Spacing = sp
+				s = s.WithAttr(a)
+			}
+			r.Segments[i] = s
+		}
+		return r
+	}
+	out := geometry.Outline{Outer: fix(o.Outer)}
+	for _, l := range o.Inner {
+		out.Inner = append(out.Inner, fix(l))
+	}
+	return out
+}
+
+// SketchOptions say how `cvdeck mesh SKETCH` meshes a bare geometry file.
+type SketchOptions struct {
+	// Size is the target cell size in the sketch's units after Scale.
+	Size float64
+	// MinAngle (degrees) and Growth tune the unstructured mesher; 0 keeps
+	// its defaults.
+	MinAngle, Growth float64
+	// Scale multiplies the sketch's coordinates to give metres.
+	Scale float64
+	// FlipY flips the y axis (SVG).
+	FlipY bool
+}
+
+// SketchCase builds the case that meshes a bare sketch file with the
+// unstructured mesher: edges of size Size, cells up to Size, the given
+// angle and growth, boundary tags from the file (GeoJSON "tag" and
+// "edge_tags" properties) or one per loop. It is the case that `cvdeck init
+// --from` writes out, run without writing it.
+func SketchCase(path string, so SketchOptions, lo LoadOptions) (*Case, error) {
+	text, err := sketchCaseText(path, filepath.Base(path), so)
+	if err != nil {
+		return nil, err
+	}
+	name := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)) + ".yaml"
+	return Parse(filepath.Join(filepath.Dir(path), name), []byte(text), lo)
+}
+
+// sketchCaseText writes the case file around a sketch referred to as rel.
+func sketchCaseText(path, rel string, so SketchOptions) (string, error) {
+	if so.Scale == 0 {
+		so.Scale = 1
+	}
+	if !(so.Scale > 0) {
+		return "", fmt.Errorf("%w: --scale must be positive, got %g", ErrInput, so.Scale)
+	}
+	if !(so.Size > 0) {
+		return "", fmt.Errorf("%w: meshing a sketch needs --size, the target cell size in the sketch's units after --scale", ErrInput)
+	}
+	if so.MinAngle < 0 || so.Growth < 0 {
+		return "", fmt.Errorf("%w: --min-angle and --growth must not be negative", ErrInput)
+	}
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return "", fmt.Errorf("%w: %w", ErrInput, err)
+	}
+	// Read it once here so that a bad sketch fails with the sketch's own
+	// error, located at its ring and vertex.
+	if _, err := readSketch(path, data, sketchRead{scale: so.Scale, flipY: so.FlipY}); err != nil {
+		return "", fmt.Errorf("%w: %w", ErrInput, err)
+	}
+	name := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
+	var b strings.Builder
+	fmt.Fprintf(&b, "# Mesh of the sketch %s, made by cvdeck init --from; edit freely.\n", filepath.Base(path))
+	fmt.Fprintf(&b, "name: %q\nunits: m\n", name)
+	fmt.Fprintf(&b, "parameters:\n  size: %g        # target cell size, m\n", so.Size)
+	fmt.Fprintf(&b, "geometry:\n  file: %q\n  scale: %g\n", rel, so.Scale)
+	if so.FlipY {
+		b.WriteString("  flip_y: true\n")
+	}
+	b.WriteString("  spacing: {size: size}\n")
+	b.WriteString("mesh:\n  unstructured:\n    max_size: size\n")
+	if so.MinAngle > 0 {
+		fmt.Fprintf(&b, "    min_angle: %g\n", so.MinAngle)
+	}
+	if so.Growth > 0 {
+		fmt.Fprintf(&b, "    growth: %g\n", so.Growth)
+	}
+	b.WriteString("# boundaries:           # give each boundary tag a condition, e.g.\n#   outer: {kind: wall-slip}\n")
+	return b.String(), nil
+}
+
+// InitFromSketch writes dir/<sketch name>.yaml, a case file around the
+// sketch (copied beside it), for further editing; so.Size (metres, after
+// so.Scale) defaults to a fiftieth of the sketch's size. Existing files are not overwritten.
+func InitFromSketch(sketch, dir string, so SketchOptions) (string, error) {
+	if !IsSketch(sketch) {
+		return "", fmt.Errorf("%w: %s is not a sketch file: cvdeck reads %s", ErrInput, sketch, sketchExtensions())
+	}
+	data, err := os.ReadFile(sketch)
+	if err != nil {
+		return "", fmt.Errorf("%w: %w", ErrInput, err)
+	}
+	if so.Scale == 0 {
+		so.Scale = 1
+	}
+	if so.Size == 0 {
+		o, err := readSketch(sketch, data, sketchRead{scale: so.Scale, flipY: so.FlipY})
+		if err != nil {
+			return "", fmt.Errorf("%w: %w", ErrInput, err)
+		}
+		so.Size = outlineSize(o) / 50
+	}
+	text, err := sketchCaseText(sketch, filepath.Base(sketch), so)
+	if err != nil {
+		return "", err
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return "", err
+	}
+	casePath := filepath.Join(dir, strings.TrimSuffix(filepath.Base(sketch), filepath.Ext(sketch))+".yaml")
+	copyPath := filepath.Join(dir, filepath.Base(sketch))
+	for _, p := range []string{casePath, copyPath} {
+		if _, err := os.Stat(p); err == nil {
+			return "", fmt.Errorf("%w: %s exists already; remove it or choose another folder", ErrInput, p)
+		}
+	}
+	if err := os.WriteFile(copyPath, data, 0o644); err != nil {
+		return "", err
+	}
+	if err := os.WriteFile(casePath, []byte(text), 0o644); err != nil {
+		return "", err
+	}
+	return casePath, nil
+}
+
+// outlineSize is the diagonal of the outer loop's bounding box, sampled at
+// its segments' ends and midpoints.
+func outlineSize(o geometry.Outline) float64 {
+	var lo, hi [2]float64
+	first := true
+	for _, s := range o.Outer.Segments {
+		for _, f := range []float64{0, 0.5, 1} {
+			p := s.At(f)
+			if first {
+				lo, hi, first = p, p, false
+			}
+			lo = [2]float64{min(lo[0], p[0]), min(lo[1], p[1])}
+			hi = [2]float64{max(hi[0], p[0]), max(hi[1], p[1])}
+		}
+	}
+	return dist(lo, hi)
+}

@@ -1,0 +1,260 @@
+package deck
+
+import (
+	"cvdeck/bc"
+	"cvdeck/mesh"
+	"cvdeck/mesh/unstructured"
+)
+
+// unstructuredSpec is the decoded unstructured mesh settings.
+type unstructuredSpec struct {
+	opt unstructured.Options
+	// layerYplus[i] > 0 asks for layer i's first height from a target y+
+	// and the reference state, resolved once the reference is known.
+	layerYplus []float64
+	layerAt    []value
+	at         value
+}
+
+// decodeUnstructured reads the unstructured mesher's settings:
+//
+//	unstructured:
+//	  min_angle: 28          # degrees (default 25, at most 33)
+//	  growth: 1.2            # size growth ratio away from the boundary
+//	  max_size: 20           # largest cell size (case units)
+//	  quad_dominant: false   # pair triangles into quadrilaterals
+//	  regions:               # finer cells where asked
+//	    - {box: {from: [x, y], to: [x, y]}, size: h}
+//	    - {circle: {centre: [x, y], radius: r}, size: h}
+//	    - {near: tag, distance: d, size: h}
+//	  layers:                # quadrilateral boundary layers on viscous walls
+//	    - {tags: [cylinder], first_height: 0.05, growth: 1.2, count: 12}
+//	    - {tags: [wing], yplus: 1, growth: 1.15, thickness: 5}
+//
+// Boundary cell sizes come from the outline's spacing laws.
+func decodeUnstructured(v value) (*unstructuredSpec, error) {
+	o, err := v.object()
+	if err != nil {
+		return nil, err
+	}
+	us := &unstructuredSpec{at: v}
+	if x, ok := o.get("min_angle"); ok {
+		if us.opt.MinAngle, err = x.positive(); err != nil {
+			return nil, err
+		}
+	}
+	if x, ok := o.get("growth"); ok {
+		if us.opt.Growth, err = x.positive(); err != nil {
+			return nil, err
+		}
+	}
+	if x, ok := o.get("max_size"); ok {
+		if us.opt.MaxSize, err = x.positiveLength(); err != nil {
+			return nil, err
+		}
+	}
+	if x, ok := o.get("quad_dominant"); ok {
+		if us.opt.QuadDominant, err = x.boolean(); err != nil {
+			return nil, err
+		}
+	}
+	if x, ok := o.get("regions"); ok {
+		items, err := x.list()
+		if err != nil {
+			return nil, err
+		}
+		for _, it := range items {
+			r, err := decodeRegion(it)
+			if err != nil {
+				return nil, err
+			}
+			us.opt.Regions = append(us.opt.Regions, r)
+		}
+	}
+	if x, ok := o.get("layers"); ok {
+		items, err := x.list()
+		if err != nil {
+			return nil, err
+		}
+		for _, it := range items {
+			l, yplus, err := decodeLayers(it)
+			if err != nil {
+				return nil, err
+			}
+			us.opt.Layers = append(us.opt.Layers, l)
+			us.layerYplus = append(us.layerYplus, yplus)
+			us.layerAt = append(us.layerAt, it)
+		}
+	}
+	return us, o.done()
+}
+
+func decodeRegion(v value) (unstructured.Region, error) {
+	var r unstructured.Region
+	o, err := v.object()
+	if err != nil {
+		return r, err
+	}
+	sv, err := o.need("size")
+	if err != nil {
+		return r, err
+	}
+	if r.Size, err = sv.positiveLength(); err != nil {
+		return r, err
+	}
+	shapes := 0
+	if bv, ok := o.get("box"); ok {
+		shapes++
+		bo, err := bv.object()
+		if err != nil {
+			return r, err
+		}
+		fv, err := bo.need("from")
+		if err != nil {
+			return r, err
+		}
+		tv, err := bo.need("to")
+		if err != nil {
+			return r, err
+		}
+		a, err := fv.point()
+		if err != nil {
+			return r, err
+		}
+		b, err := tv.point()
+		if err != nil {
+			return r, err
+		}
+		r.Shape = unstructured.Box
+		r.Min = [2]float64{min(a[0], b[0]), min(a[1], b[1])}
+		r.Max = [2]float64{max(a[0], b[0]), max(a[1], b[1])}
+		if err := bo.done(); err != nil {
+			return r, err
+		}
+	}
+	if cv, ok := o.get("circle"); ok {
+		shapes++
+		co, err := cv.object()
+		if err != nil {
+			return r, err
+		}
+		pv, err := co.need("centre")
+		if err != nil {
+			return r, err
+		}
+		if r.Center, err = pv.point(); err != nil {
+			return r, err
+		}
+		rv, err := co.need("radius")
+		if err != nil {
+			return r, err
+		}
+		if r.Radius, err = rv.positiveLength(); err != nil {
+			return r, err
+		}
+		r.Shape = unstructured.Circle
+		if err := co.done(); err != nil {
+			return r, err
+		}
+	}
+	if nv, ok := o.get("near"); ok {
+		shapes++
+		if r.Tag, err = nv.str(); err != nil {
+			return r, err
+		}
+		dv, err := o.need("distance")
+		if err != nil {
+			return r, err
+		}
+		if r.Distance, err = dv.positiveLength(); err != nil {
+			return r, err
+		}
+		r.Shape = unstructured.NearTag
+	} else {
+		o.known("distance")
+	}
+	if shapes != 1 {
+		return r, v.errf("a refinement region is one of box: {from, to}, circle: {centre, radius} or near: TAG with distance")
+	}
+	return r, o.done()
+}
+
+func decodeLayers(v value) (unstructured.Layers, float64, error) {
+	var l unstructured.Layers
+	o, err := v.object()
+	if err != nil {
+		return l, 0, err
+	}
+	tv, err := o.need("tags")
+	if err != nil {
+		return l, 0, err
+	}
+	if l.Tags, err = tv.strings(); err != nil {
+		return l, 0, err
+	}
+	yplus := 0.0
+	fv, hasFirst := o.get("first_height")
+	yv, hasY := o.get("yplus")
+	switch {
+	case hasFirst && !hasY:
+		if l.FirstHeight, err = fv.positiveLength(); err != nil {
+			return l, 0, err
+		}
+	case hasY && !hasFirst:
+		if yplus, err = yv.positive(); err != nil {
+			return l, 0, err
+		}
+	default:
+		return l, 0, v.errf("boundary layers need the first cell height: first_height (case units) or yplus (with a reference state), one of them")
+	}
+	if gv, ok := o.get("growth"); ok {
+		if l.Growth, err = gv.positive(); err != nil {
+			return l, 0, err
+		}
+	}
+	cv, hasCount := o.get("count")
+	kv, hasThick := o.get("thickness")
+	switch {
+	case hasCount && !hasThick:
+		if l.Count, err = cv.count(1); err != nil {
+			return l, 0, err
+		}
+	case hasThick && !hasCount:
+		if l.Thickness, err = kv.positiveLength(); err != nil {
+			return l, 0, err
+		}
+	default:
+		return l, 0, v.errf("boundary layers need count (the number of layers) or thickness (their total height), one of them")
+	}
+	return l, yplus, o.done()
+}
+
+// buildUnstructured meshes the case's outline with the unstructured mesher.
+func (c *Case) buildUnstructured() (*mesh.Mesh, error) {
+	us := c.Mesh.unstructured
+	opt := us.opt
+	opt.MaxCells = c.Mesh.maxCells
+	opt.Layers = append([]unstructured.Layers(nil), opt.Layers...)
+	for i, yplus := range us.layerYplus {
+		if yplus == 0 {
+			continue
+		}
+		if c.Reference == nil || c.Reference.length == 0 {
+			return nil, us.layerAt[i].errf("a first height from yplus needs a reference state with a reference length (reference: {..., length: L})")
+		}
+		ws, err := bc.FirstCellHeight(c.Reference.state, c.Reference.length, yplus)
+		if err != nil {
+			return nil, us.layerAt[i].wrap(err)
+		}
+		opt.Layers[i].FirstHeight = ws.Height
+	}
+	d, err := c.Geometry.shape.Discretise()
+	if err != nil {
+		return nil, c.Geometry.locate(err)
+	}
+	m, err := unstructured.Mesh(d, opt)
+	if err != nil {
+		return nil, &InputError{File: c.File, Line: us.at.n.Line, Col: us.at.n.Column, Path: us.at.path, Msg: err.Error(), Err: err}
+	}
+	return m, nil
+}

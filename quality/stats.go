@@ -1,0 +1,121 @@
+package quality
+
+import "math"
+
+// partial is the summary of one chunk of values of one metric.
+type partial struct {
+	count, warned, failed int
+	min, max, sum, sumsq  float64
+	worst                 []Located
+}
+
+// scan summarises the values v = values[lo:lo+len(v)] of metric d against
+// bound b: count, extremes, sums, graded counts and the k worst entries,
+// raising status[lo+i] to the grade of each value. NaN (not applicable)
+// is skipped.
+func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status []Status) {
+	*p = partial{min: math.Inf(1), max: math.Inf(-1)}
+	// Flip the sign of lower-is-worse metrics so that one loop serves both:
+	// larger y = sign·x is always worse.
+	sign := 1.0
+	if d.lower {
+		sign = -1
+	}
+	warn, fail := sign*b.Warn, sign*b.Fail
+	// cut is the value an entry must beat to join a full worst list.
+	cut := math.Inf(-1)
+	if k == 0 {
+		cut = math.Inf(1)
+	}
+	mn, mx, sum, sumsq := p.min, p.max, 0.0, 0.0
+	for i, x := range v {
+		if x != x {
+			continue
+		}
+		p.count++
+		if x < mn {
+			mn = x
+		}
+		if x > mx {
+			mx = x
+		}
+		sum += x
+		sumsq += x * x
+		y := sign * x
+		if y > warn || (d.positive && x <= 0) {
+			st := Warn
+			if y > fail || (d.positive && x <= 0) {
+				st = Fail
+				p.failed++
+			} else {
+				p.warned++
+			}
+			status[lo+i] = max(status[lo+i], st)
+		}
+		if y > cut || (len(p.worst) < k && y >= cut) {
+			p.worst = keepWorst(d, p.worst, k, lo+i, x)
+			if len(p.worst) == k {
+				cut = sign * float64(p.worst[k-1].Value)
+			}
+		}
+	}
+	p.min, p.max, p.sum, p.sumsq = mn, mx, sum, sumsq
+}
+
+// summary merges the chunk summaries of metric d, in chunk order, into
+// the metric's report entry; pos gives the position of an entry.
+func summary(d *metricDef, b Bound, k int, parts []partial, pos func(int) (float64, float64)) MetricSummary {
+	s := MetricSummary{Name: d.name, Unit: d.unit, Per: "cell", Worse: "higher", Limit: b, Worst: []Located{}}
+	if d.perNode {
+		s.Per = "node"
+	}
+	if d.lower {
+		s.Worse = "lower"
+	}
+	lo, hi, sum, sumsq := math.Inf(1), math.Inf(-1), 0.0, 0.0
+	var worst []Located
+	for _, p := range parts {
+		s.Count += p.count
+		s.Warned += p.warned
+		s.Failed += p.failed
+		lo, hi = min(lo, p.min), max(hi, p.max)
+		sum += p.sum
+		sumsq += p.sumsq
+		for _, w := range p.worst {
+			worst = keepWorst(d, worst, k, w.Index, float64(w.Value))
+		}
+	}
+	if s.Count == 0 {
+		return s
+	}
+	s.Min, s.Max = Number(lo), Number(hi)
+	s.Mean = Number(sum / float64(s.Count))
+	s.RMS = Number(math.Sqrt(sumsq / float64(s.Count)))
+	for _, w := range worst {
+		w.X, w.Y = pos(w.Index)
+		s.Worst = append(s.Worst, w)
+	}
+	return s
+}
+
+// keepWorst inserts (i, x) into the list of at most k worst entries, kept
+// worst first with ties in increasing index (entries arrive in increasing
+// index within a chunk, and chunks are merged in order).
+func keepWorst(d *metricDef, list []Located, k, i int, x float64) []Located {
+	if k == 0 {
+		return list
+	}
+	if len(list) == k && !d.worse(x, float64(list[k-1].Value)) {
+		return list
+	}
+	pos := len(list)
+	for pos > 0 && d.worse(x, float64(list[pos-1].Value)) {
+		pos--
+	}
+	if len(list) < k {
+		list = append(list, Located{})
+	}
+	copy(list[pos+1:], list[pos:len(list)-1])
+	list[pos] = Located{Index: i, Value: Number(x)}
+	return list
+}
