@@ -43,10 +43,15 @@ func run(args []string, stdout, stderr io.Writer) int {
 		return exitOK
 	}
 	var failed *deck.CheckFailure
-	if errors.As(err, &failed) {
+	var coded interface{ ExitCode() int }
+	switch {
+	case errors.As(err, &failed):
 		// The report was printed already; say where the deck is.
 		fmt.Fprintf(stderr, "cvdeck: %v\n", err)
 		return exitFailed
+	case errors.As(err, &coded):
+		fmt.Fprintf(stderr, "cvdeck: %v\n", err)
+		return coded.ExitCode()
 	}
 	fmt.Fprintf(stderr, "cvdeck: %v\n", err)
 	return exitInput
@@ -78,6 +83,7 @@ by a qualified engineer under the applicable codes come first.`,
 		newMeshCommand(g),
 		newCheckCommand(g),
 		newStateCommand(),
+		newSweepCommand(),
 		newSamplesCommand(),
 		newInitCommand(),
 		newVersionCommand(g),

@@ -137,7 +137,13 @@ func (v view) px(x, y float64) (float64, float64) {
 
 // meets reports whether the segment's bounding box meets the region.
 func (v view) meets(ax, ay, bx, by float64) bool {
-	return math.Max(ax, bx) >= v.x0 && math.Min(ax, bx) <= v.x1 && math.Max(ay, by) >= v.y0 && math.Min(ay, by) <= v.y1
+	if ax > bx {
+		ax, bx = bx, ax
+	}
+	if ay > by {
+		ay, by = by, ay
+	}
+	return bx >= v.x0 && ax <= v.x1 && by >= v.y0 && ay <= v.y1
 }
 
 func build(in Input) (*scene, error) {
@@ -191,10 +197,11 @@ func build(in Input) (*scene, error) {
 
 	bottom := overview.b.y + overview.b.h
 	zoomTop := bottom + 36
-	zooms := zoomCells(m, in)
+	zooms, regions := zoomCells(m, in)
 	for k, c := range zooms {
 		zb := box{float64(margin + k*(zoomSize+zoomGap)), zoomTop, zoomSize, zoomSize}
-		win := zoomView(m, c, zb)
+		r := regions[k]
+		win := newView(zb, r.x0, r.y0, r.x1, r.y1)
 		clip := s.addClip(zb)
 		s.rect(zb, &white, &zoomFrame, 1.5)
 		drawInterior(s, m, win, clip)
@@ -588,8 +595,9 @@ func ring(cx, cy, r float64, n int) []float64 {
 // outside the earlier windows: from in.Worst in its order; without it,
 // spread over the failing cells (or, if none fail, the warning ones) by
 // farthest-point sampling from the lowest-numbered one, so the windows
-// show different places.
-func zoomCells(m *mesh.Mesh, in Input) []int32 {
+// show different places. It returns the cells and the regions framing
+// them.
+func zoomCells(m *mesh.Mesh, in Input) ([]int32, []view) {
 	var out []int32
 	var wins []view
 	inside := func(c int32) bool {
@@ -611,7 +619,7 @@ func zoomCells(m *mesh.Mesh, in Input) []int32 {
 				pick(c)
 			}
 		}
-		return out
+		return out, wins
 	}
 	var cand []int32
 	for _, want := range []Status{Fail, Warn} {
@@ -625,7 +633,7 @@ func zoomCells(m *mesh.Mesh, in Input) []int32 {
 		}
 	}
 	if len(cand) == 0 {
-		return nil
+		return nil, nil
 	}
 	dist := make([]float64, len(cand))
 	for i := range dist {
@@ -648,7 +656,7 @@ func zoomCells(m *mesh.Mesh, in Input) []int32 {
 		}
 		next = best
 	}
-	return out
+	return out, wins
 }
 
 // zoomView frames cell c: a square six cell sizes wide, shrunk until it
@@ -665,10 +673,12 @@ func zoomView(m *mesh.Mesh, c int32, b box) view {
 	for {
 		v := newView(b, cx-half, cy-half, cx+half, cy+half)
 		n := 0
-		for f := range m.FaceNodes {
-			a, q := m.Nodes[m.FaceNodes[f][0]], m.Nodes[m.FaceNodes[f][1]]
+		for _, fn := range m.FaceNodes {
+			a, q := m.Nodes[fn[0]], m.Nodes[fn[1]]
 			if v.meets(a[0], a[1], q[0], q[1]) {
-				n++
+				if n++; n > MaxZoomFaces {
+					break
+				}
 			}
 		}
 		if n <= MaxZoomFaces || half < 1e-300 {

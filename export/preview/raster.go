@@ -64,7 +64,7 @@ func writePNG(w io.Writer, s *scene) error {
 			cv.text(sh)
 		}
 	}
-	enc := png.Encoder{CompressionLevel: png.BestCompression}
+	enc := png.Encoder{CompressionLevel: png.DefaultCompression}
 	return enc.Encode(w, cv.img)
 }
 

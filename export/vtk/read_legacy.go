@@ -103,6 +103,12 @@ func (r *legacyReader) values(n int, typ, what string) (*array, error) {
 	}
 	float := typ == "float" || typ == "double"
 	if !r.binary {
+		// Each ASCII value takes at least two bytes (a digit and a
+		// separator): refuse a count the file cannot hold before
+		// allocating for it.
+		if n > (len(r.data)-r.pos+1)/2 {
+			return nil, r.errorf("%s: %d values declared, but only %d bytes are left in the file", what, n, len(r.data)-r.pos)
+		}
 		if float {
 			a.floats = make([]float64, n)
 		} else {
@@ -178,6 +184,9 @@ func (r *legacyReader) values(n int, typ, what string) (*array, error) {
 // each after a length prefix whose top two bits give its size (11: one
 // byte, 10: two, 01: four, 00: eight), as vtkDataWriter writes them.
 func (r *legacyReader) strings(n int, what string) ([]string, error) {
+	if n > len(r.data)-r.pos {
+		return nil, r.errorf("%s: %d strings declared, but only %d bytes are left in the file", what, n, len(r.data)-r.pos)
+	}
 	s := make([]string, n)
 	if !r.binary {
 		r.line()
@@ -370,7 +379,7 @@ func (r *legacyReader) cells(g *grid) error {
 		return err
 	}
 	g.offsets = make([]int64, 0, n)
-	g.conn = make([]int64, 0, size-n)
+	g.conn = make([]int64, 0, max(size-n, 0))
 	for i, c := 0, 0; c < n; c++ {
 		if i >= len(a.ints) || a.ints[i] < 0 || int64(i)+1+a.ints[i] > int64(len(a.ints)) {
 			return r.errorf("CELLS: cell %d's node count at entry %d runs past the %d entries", c, i, size)

@@ -59,6 +59,9 @@ func ReadVTU(data []byte, name string) (*mesh.Mesh, error) {
 	if err != nil {
 		return nil, err
 	}
+	if pa.strs != nil {
+		return nil, fmt.Errorf("%s: Points is a String array; it must be numeric", name)
+	}
 	if pa.comps != 3 || pa.length() != 3*np {
 		return nil, fmt.Errorf("%s: Points has %d values in %d components; want 3 components for %d points", name, pa.length(), pa.comps, np)
 	}
@@ -473,6 +476,13 @@ func (x *xmlFile) blob(src byteSource) ([]byte, error) {
 		want := bs
 		if k == nb-1 {
 			want = last
+		}
+		// zlib cannot expand data more than about 1032 times (RFC
+		// 1950/1951: a 258-byte match per 2 bits at best), so a larger
+		// declared size is corrupt; checking first keeps a bad header
+		// from allocating.
+		if want > 1100*cs+64 {
+			return nil, fmt.Errorf("block %d: %d bytes declared from %d compressed; zlib cannot expand that much", k, want, cs)
 		}
 		zr, err := zlib.NewReader(bytes.NewReader(c))
 		if err != nil {

@@ -1,0 +1,58 @@
+package vtk
+
+import (
+	"bytes"
+	"testing"
+)
+
+// The readers take files from anywhere: whatever the bytes, they return a
+// mesh or an error, never a panic.
+
+func FuzzReadVTU(f *testing.F) {
+	var b bytes.Buffer
+	m := mixedMesh(f, 2, 3, 0)
+	if err := WriteVTU(&b, m, nil); err != nil {
+		f.Fatal(err)
+	}
+	f.Add(b.Bytes())
+	// As the VTK library writes by default (zlib, base64 appended), and
+	// in ascii, from its output for one triangle and one line.
+	f.Add([]byte(`<?xml version="1.0"?>
+<VTKFile type="UnstructuredGrid" version="0.1" byte_order="LittleEndian" header_type="UInt32" compressor="vtkZLibDataCompressor">
+  <UnstructuredGrid>
+    <Piece NumberOfPoints="3" NumberOfCells="1">
+      <Points>
+        <DataArray type="Float32" Name="Points" NumberOfComponents="3" format="appended" offset="0"/>
+      </Points>
+      <Cells>
+        <DataArray type="Int64" Name="connectivity" format="appended" offset="52"/>
+        <DataArray type="Int64" Name="offsets" format="appended" offset="104"/>
+        <DataArray type="UInt8" Name="types" format="appended" offset="148"/>
+      </Cells>
+    </Piece>
+  </UnstructuredGrid>
+  <AppendedData encoding="base64">
+   _AQAAAACAAAAwAAAAEwAAAA==eJxjYEAGDfaobHQ+AwMAOuQC/Q==AQAAAACAAAAoAAAAEwAAAA==eJxjYIAARijNxIAKYOIAAIAABQ==AQAAAACAAAAQAAAADgAAAA==eJxjZoAAVigNAABoAAk=
+  </AppendedData>
+</VTKFile>`))
+	f.Add([]byte(`<VTKFile type="UnstructuredGrid"><UnstructuredGrid><Piece NumberOfPoints="3" NumberOfCells="2"><Points><DataArray type="Float64" NumberOfComponents="3" format="ascii">0 0 0 1 0 0 1 1 0</DataArray></Points><Cells><DataArray type="Int32" Name="connectivity" format="ascii">0 1 2 0 1</DataArray><DataArray type="Int32" Name="offsets" format="ascii">3 5</DataArray><DataArray type="UInt8" Name="types" format="ascii">5 3</DataArray></Cells><CellData><Array type="String" Name="tag" format="ascii">0 119 97 108 108 0</Array></CellData></Piece></UnstructuredGrid></VTKFile>`))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		ReadVTU(data, "fuzz.vtu")
+	})
+}
+
+func FuzzReadLegacy(f *testing.F) {
+	m := mixedMesh(f, 2, 3, 0)
+	for _, binary := range []bool{false, true} {
+		var b bytes.Buffer
+		if err := WriteLegacy(&b, m, []Field{squareField(m.NumCells())}, binary); err != nil {
+			f.Fatal(err)
+		}
+		f.Add(b.Bytes())
+	}
+	// The VTK library's 5.1 layout, from its output.
+	f.Add([]byte("# vtk DataFile Version 5.1\nvtk output\nASCII\nDATASET UNSTRUCTURED_GRID\nFIELD FieldData 1\nnames 1 2 string\nx\nyz\n\nPOINTS 4 float\n0 0 0 1 0 0 1 1 0 \n0 1 0 \nMETADATA\nINFORMATION 1\nNAME L2_NORM_RANGE LOCATION vtkDataArray\nDATA 2 0 1.41421 \n\nCELLS 3 5\nOFFSETS vtktypeint64\n0 3 5 \nCONNECTIVITY vtktypeint64\n0 1 2 0 1 \nCELL_TYPES 2\n5\n3\n\nCELL_DATA 2\nFIELD FieldData 1\ntag 1 2 string\nab\nwall\n\n"))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		ReadLegacy(data, "fuzz.vtk")
+	})
+}
