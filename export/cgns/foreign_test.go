@@ -181,9 +181,10 @@ func TestReadRejects(t *testing.T) {
 	}
 	junk := filepath.Join(dir, "junk.cgns")
 	os.WriteFile(junk, []byte("not a CGNS file\n"), 0o644)
-	if _, err := Read(junk); err == nil || !strings.Contains(err.Error(), junk) {
-		t.Errorf("junk file: got %v, want an error naming the file", err)
+	if _, err := Read(junk); err == nil || !strings.Contains(err.Error(), junk+" is not a CGNS file") {
+		t.Errorf("junk file: got %v, want an error saying the file is not CGNS", err)
 	}
+
 	if _, err := Read(filepath.Join(dir, "missing.cgns")); err == nil || !errors.Is(err, os.ErrNotExist) {
 		t.Errorf("missing file: got %v, want a not-exist error", err)
 	}
