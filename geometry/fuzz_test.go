@@ -75,3 +75,22 @@ func FuzzValidate(f *testing.F) {
 		}
 	})
 }
+
+// FuzzReadGeoJSON: no GeoJSON text makes the reader panic, and every
+// outline it returns passes validation.
+func FuzzReadGeoJSON(f *testing.F) {
+	f.Add(`{"type": "Polygon", "coordinates": [[[100.0, 0.0], [101.0, 0.0], [101.0, 1.0], [100.0, 1.0], [100.0, 0.0]]]}`)
+	f.Add(`{"type": "Feature", "properties": {"tag": "wall", "edge_tags": [{"ring": 0, "from": 1, "to": 2, "tag": "inflow"}]}, "geometry": {"type": "MultiPolygon", "coordinates": [[[[0, 0], [1, 0], [1, 1], [0, 0]]]]}}`)
+	f.Add(`{"type": "FeatureCollection", "features": [{"type": "Feature", "geometry": null, "properties": null}]}`)
+	f.Fuzz(func(t *testing.T, doc string) {
+		outs, err := ReadGeoJSON([]byte(doc))
+		if err != nil {
+			return
+		}
+		for _, o := range outs {
+			if err := o.Validate(); err != nil {
+				t.Fatalf("returned outline fails validation: %v", err)
+			}
+		}
+	})
+}

@@ -20,8 +20,9 @@ type SVGOptions struct {
 	// diagonal of the bounding box of the path's points.
 	Tolerance float64
 	// Tags gives the tag of each closed subpath, in path order; a missing
-	// or empty entry takes the default ("outer" for the outer loop,
-	// "inner1", "inner2", ... for the others in path order).
+	// or empty entry takes the path element's id (ReadSVGDocument) or the
+	// default ("outer" for the outer loop, "inner1", "inner2", ... for the
+	// others in path order).
 	Tags []string
 }
 
@@ -43,7 +44,9 @@ type svgSubpath struct {
 	start  orb.Point
 	segs   []svgSeg
 	closed bool
-	cmd    int // index of its moveto
+	cmd    int    // index of its moveto
+	where  string // the path it belongs to, for messages
+	tag    string // default tag (a path element's id), or ""
 }
 
 // ReadSVGPath reads SVG path data (the d attribute of a path element,
@@ -61,10 +64,15 @@ type svgSubpath struct {
 // is validated and oriented. Errors name the command by its index and its
 // byte offset.
 func ReadSVGPath(d string, opt SVGOptions) (Outline, error) {
-	subs, err := parseSVGPath(d)
+	subs, err := parseSVGPath(d, "SVG path")
 	if err != nil {
 		return Outline{}, err
 	}
+	return buildSVG(subs, opt)
+}
+
+// buildSVG turns parsed subpaths into a validated, oriented outline.
+func buildSVG(subs []svgSubpath, opt SVGOptions) (Outline, error) {
 	scale := opt.Scale
 	if scale == 0 {
 		scale = 1
@@ -93,6 +101,7 @@ func ReadSVGPath(d string, opt SVGOptions) (Outline, error) {
 		return orb.Point{p[0] * scale, p[1] * scale}
 	}
 	var loops []Loop
+	var idTags []string
 	var areas []float64
 	budget := MaxSVGPoints
 	for _, sp := range subs {
@@ -100,14 +109,14 @@ func ReadSVGPath(d string, opt SVGOptions) (Outline, error) {
 			continue
 		}
 		if end := svgEnd(sp.segs[len(sp.segs)-1]); !sp.closed && math.Hypot(end[0]-sp.start[0], end[1]-sp.start[1]) > ClosureTolerance*extent {
-			return Outline{}, fmt.Errorf("SVG path: subpath from command %d is open: it starts at (%g, %g) and ends at (%g, %g); close it with Z: %w",
-				sp.cmd, sp.start[0], sp.start[1], end[0], end[1], ErrFormat)
+			return Outline{}, fmt.Errorf("%s: subpath from command %d is open: it starts at (%g, %g) and ends at (%g, %g); close it with Z: %w",
+				sp.where, sp.cmd, sp.start[0], sp.start[1], end[0], end[1], ErrFormat)
 		}
 		var l Loop
 		var ring []orb.Point
 		cur := sp.start
 		for _, s := range sp.segs {
-			pts, err := flattenSVG(cur, s, tol, &budget)
+			pts, err := flattenSVG(cur, s, tol, &budget, sp.where)
 			if err != nil {
 				return Outline{}, err
 			}
@@ -125,7 +134,7 @@ func ReadSVGPath(d string, opt SVGOptions) (Outline, error) {
 			}
 			pl, err := NewPolyline(pts, Attr{})
 			if err != nil {
-				return Outline{}, fmt.Errorf("SVG path: command %d: %w", s.cmd, err)
+				return Outline{}, fmt.Errorf("%s: command %d: %w", sp.where, s.cmd, err)
 			}
 			l.Segments = append(l.Segments, pl)
 		}
@@ -133,6 +142,7 @@ func ReadSVGPath(d string, opt SVGOptions) (Outline, error) {
 			continue
 		}
 		loops = append(loops, l)
+		idTags = append(idTags, sp.tag)
 		areas = append(areas, math.Abs(signedArea(ring)))
 	}
 	if len(loops) == 0 {
@@ -150,6 +160,9 @@ func ReadSVGPath(d string, opt SVGOptions) (Outline, error) {
 		tag := ""
 		if i < len(opt.Tags) {
 			tag = opt.Tags[i]
+		}
+		if tag == "" {
+			tag = idTags[i]
 		}
 		if i != outer {
 			inner++
@@ -203,7 +216,7 @@ func svgExtent(subs []svgSubpath) float64 {
 
 // flattenSVG returns the points of one command from cur, both ends
 // included; budget bounds the total point count.
-func flattenSVG(cur orb.Point, s svgSeg, tol float64, budget *int) ([]orb.Point, error) {
+func flattenSVG(cur orb.Point, s svgSeg, tol float64, budget *int, where string) ([]orb.Point, error) {
 	pts := []orb.Point{cur}
 	switch s.op {
 	case 'L':
@@ -234,7 +247,7 @@ func flattenSVG(cur orb.Point, s svgSeg, tol float64, budget *int) ([]orb.Point,
 		}
 		n := int(math.Ceil(math.Abs(a.dtheta) / step))
 		if n > *budget {
-			return nil, fmt.Errorf("SVG path: command %d: an arc of radius %g at tolerance %g needs more than %d points; raise the tolerance: %w", s.cmd, r, tol, MaxSVGPoints, ErrFormat)
+			return nil, fmt.Errorf("%s: command %d: an arc of radius %g at tolerance %g needs more than %d points; raise the tolerance: %w", where, s.cmd, r, tol, MaxSVGPoints, ErrFormat)
 		}
 		for i := 1; i < n; i++ {
 			pts = append(pts, a.point(a.theta1+a.dtheta*float64(i)/float64(n)))
@@ -250,7 +263,7 @@ func flattenSVG(cur orb.Point, s svgSeg, tol float64, budget *int) ([]orb.Point,
 	}
 	*budget -= len(out)
 	if *budget < 0 {
-		return nil, fmt.Errorf("SVG path: command %d: flattening at tolerance %g needs more than %d points in all; raise the tolerance: %w", s.cmd, tol, MaxSVGPoints, ErrFormat)
+		return nil, fmt.Errorf("%s: command %d: flattening at tolerance %g needs more than %d points in all; raise the tolerance: %w", where, s.cmd, tol, MaxSVGPoints, ErrFormat)
 	}
 	return out, nil
 }
@@ -354,13 +367,14 @@ func svgArcCentre(p1, p2 orb.Point, rx, ry, phiDeg float64, large, sweep bool) (
 
 // svgParser reads path data.
 type svgParser struct {
-	s   string
-	i   int
-	cmd int // index of the command being read
+	s     string
+	i     int
+	cmd   int    // index of the command being read
+	where string // names the path in messages
 }
 
 func (p *svgParser) errorf(format string, args ...any) error {
-	return fmt.Errorf("SVG path: command %d at byte %d: %s: %w", p.cmd, p.i, fmt.Sprintf(format, args...), ErrFormat)
+	return fmt.Errorf("%s: command %d at byte %d: %s: %w", p.where, p.cmd, p.i, fmt.Sprintf(format, args...), ErrFormat)
 }
 
 func (p *svgParser) skipSpace() {
@@ -463,9 +477,10 @@ func (p *svgParser) numbers(n int) ([]float64, error) {
 	return v, nil
 }
 
-// parseSVGPath parses path data into absolute subpaths.
-func parseSVGPath(d string) ([]svgSubpath, error) {
-	p := &svgParser{s: d, cmd: -1}
+// parseSVGPath parses path data into absolute subpaths; where names the
+// path in messages.
+func parseSVGPath(d, where string) ([]svgSubpath, error) {
+	p := &svgParser{s: d, cmd: -1, where: where}
 	var subs []svgSubpath
 	var cur, start orb.Point
 	var lastCtrl orb.Point // last cubic (C/S) or quadratic (Q/T) control point
@@ -473,7 +488,7 @@ func parseSVGPath(d string) ([]svgSubpath, error) {
 	add := func(s svgSeg) {
 		if len(subs) == 0 || subs[len(subs)-1].closed {
 			// Drawing after Z starts a new subpath at the current point.
-			subs = append(subs, svgSubpath{start: cur, cmd: p.cmd})
+			subs = append(subs, svgSubpath{start: cur, cmd: p.cmd, where: where})
 			start = cur
 		}
 		subs[len(subs)-1].segs = append(subs[len(subs)-1].segs, s)
@@ -486,7 +501,7 @@ func parseSVGPath(d string) ([]svgSubpath, error) {
 		}
 		c := p.s[p.i]
 		if !isSVGCommand(c) {
-			return nil, fmt.Errorf("SVG path: byte %d: expected a command letter (M L H V C S Q T A Z, or lower case), found %q: %w", p.i, c, ErrFormat)
+			return nil, fmt.Errorf("%s: byte %d: expected a command letter (M L H V C S Q T A Z, or lower case), found %q: %w", where, p.i, c, ErrFormat)
 		}
 		p.i++
 		p.cmd++
@@ -526,7 +541,7 @@ func parseSVGPath(d string) ([]svgSubpath, error) {
 				q := offset(v[0], v[1])
 				if first {
 					cur, start = q, q
-					subs = append(subs, svgSubpath{start: q, cmd: p.cmd})
+					subs = append(subs, svgSubpath{start: q, cmd: p.cmd, where: where})
 				} else { // extra pairs are implicit linetos
 					add(svgSeg{op: 'L', pts: []orb.Point{q}, cmd: p.cmd})
 				}

@@ -232,7 +232,7 @@ func TestReadSVGPathForms(t *testing.T) {
 		}
 	}
 	// Packed numbers: "1.5.5" is 1.5 then .5; "1-2" is 1 then −2.
-	subs, err := parseSVGPath("M0 0L1.5.5L1-2z")
+	subs, err := parseSVGPath("M0 0L1.5.5L1-2z", "SVG path")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -278,7 +278,7 @@ func TestReadSVGPathCurves(t *testing.T) {
 	}
 	// S reflects the previous control point: "C 0 10 5 10 5 5 S 10 0 10 5"
 	// has its second curve's first control at (5, 0).
-	subs, err := parseSVGPath("M0 0 C 0 10 5 10 5 5 S 10 0 10 5")
+	subs, err := parseSVGPath("M0 0 C 0 10 5 10 5 5 S 10 0 10 5", "SVG path")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -401,4 +401,47 @@ func FuzzSVGPath(f *testing.F) {
 			t.Fatalf("outline returned by ReadSVGPath fails validation: %v", err)
 		}
 	})
+}
+
+func TestReadSVGDocument(t *testing.T) {
+	doc := `<?xml version="1.0"?>
+<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 200 100">
+  <g id="layer">
+    <rect id="duct" x="0" y="0" width="200" height="100"/>
+    <circle id="rod" cx="50" cy="50" r="10"/>
+    <polygon id="vane" points="120,40 150,40 150,60"/>
+    <path id="strut" d="M 80 20 h 10 v 10 h -10 z"/>
+    <text x="5" y="5">not a shape</text>
+  </g>
+</svg>`
+	o, err := ReadSVGDocument(strings.NewReader(doc), SVGOptions{Scale: 1e-3, FlipY: true, Tolerance: 0.01})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(o.Inner) != 3 || o.Outer.Segments[0].Attr().Tag != "duct" {
+		t.Fatalf("outer %q, %d inner loops", o.Outer.Segments[0].Attr().Tag, len(o.Inner))
+	}
+	tags := []string{o.Inner[0].Segments[0].Attr().Tag, o.Inner[1].Segments[0].Attr().Tag, o.Inner[2].Segments[0].Attr().Tag}
+	if strings.Join(tags, " ") != "rod vane strut" {
+		t.Errorf("inner tags %v", tags)
+	}
+	// Area (m²): duct 0.02 minus the rod's inscribed polygon (≤ π·1e-4, within the
+	// tolerance), the vane triangle 3e-4 and the strut 1e-4.
+	a := outlineArea(t, o)
+	want := 0.02 - math.Pi*1e-4 - 3e-4 - 1e-4
+	if math.Abs(a-want) > 0.01*2*math.Pi*10*1e-6 {
+		t.Errorf("document area %g want %g", a, want)
+	}
+	for _, c := range []struct{ doc, says string }{
+		{`<svg><g transform="scale(2)"><rect width="1" height="1"/></g></svg>`, "SVG rect element 0 (line 1): has a transform"},
+		{`<svg><rect width="10mm" height="1"/></svg>`, `attribute width="10mm" must be a plain number`},
+		{`<svg><rect width="1" height="1" rx="0.1"/></svg>`, "rounded corners"},
+		{`<svg><text>nothing</text></svg>`, "no path, rect, circle, ellipse or polygon element"},
+		{`<svg><path id="p" d="M 0 0 L 1"/></svg>`, `SVG path element 0 (line 1, id "p"): command 1 at byte 9`},
+		{`<svg><rect`, "SVG document:"},
+	} {
+		if _, err := ReadSVGDocument(strings.NewReader(c.doc), SVGOptions{}); err == nil || !strings.Contains(err.Error(), c.says) {
+			t.Errorf("%s: got %v, want %q", c.doc, err, c.says)
+		}
+	}
 }

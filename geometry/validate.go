@@ -255,7 +255,8 @@ func checkExtent(b orb.Bound) error {
 	return nil
 }
 
-// sweepEdge is an edge in the crossing sweep: ring r, edge k, its x range.
+// sweepEdge is an edge in the crossing sweep: ring r, edge k, its range
+// along the sweep axis (x0, x1) and across it (y0, y1).
 type sweepEdge struct {
 	r, k           int
 	x0, x1, y0, y1 float64
@@ -264,20 +265,33 @@ type sweepEdge struct {
 // findCrossing returns two edges (as [ring, edge] pairs) that cross,
 // touch or overlap, with a point they share. Edges next to each other in
 // a ring share an end point by construction and count only if they fold
-// back over each other. A sweep in x keeps only the edges whose x ranges
-// overlap the current one; the order is fixed by (x, ring, edge) so the
-// answer is deterministic.
+// back over each other. A sweep along the bounding box's longer axis
+// keeps only the edges whose ranges on that axis overlap the current one;
+// the order is fixed by (position, ring, edge) so the answer is
+// deterministic.
 func findCrossing(rings []ring) (a, b [2]int, p orb.Point, ok bool) {
 	total := 0
 	for _, rg := range rings {
 		total += len(rg.pts)
+	}
+	// Sweep along the longer side of the bounding box, so a tall narrow
+	// outline does not put every edge in the active set at once.
+	box := orb.Bound{Min: rings[0].pts[0], Max: rings[0].pts[0]}
+	for _, rg := range rings {
+		for _, p := range rg.pts {
+			box = box.Extend(p)
+		}
+	}
+	u, v := 0, 1
+	if box.Max[1]-box.Min[1] > box.Max[0]-box.Min[0] {
+		u, v = 1, 0
 	}
 	edges := make([]sweepEdge, 0, total)
 	for r, rg := range rings {
 		n := len(rg.pts)
 		for k := range n {
 			p, q := rg.pts[k], rg.pts[(k+1)%n]
-			edges = append(edges, sweepEdge{r, k, math.Min(p[0], q[0]), math.Max(p[0], q[0]), math.Min(p[1], q[1]), math.Max(p[1], q[1])})
+			edges = append(edges, sweepEdge{r, k, math.Min(p[u], q[u]), math.Max(p[u], q[u]), math.Min(p[v], q[v]), math.Max(p[v], q[v])})
 		}
 	}
 	slices.SortFunc(edges, func(a, b sweepEdge) int {

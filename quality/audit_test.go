@@ -125,3 +125,59 @@ func TestGreenGaussSeesSkewness(t *testing.T) {
 		t.Errorf("perturbed mesh: gradient error max %g, skewness max %g; both should be clearly non-zero", s.Max, k.Max)
 	}
 }
+
+// A mixed mesh of quads, triangles and a hexagon (two quads merged, so two
+// of its corners are straight, 180°) keeps closure and free-stream at
+// rounding level, and the hexagon's equiangle skewness is
+// (180 − 120)/(180 − 120) = 1 with θe = 120° (hand computation).
+func TestMixedCells(t *testing.T) {
+	nodes := gridNodes(4, 2, orb.Point{5, 5}, orb.Point{0.5, 0}, orb.Point{0, 0.5}, 0)
+	id := func(i, j int) int32 { return int32(j*5 + i) }
+	cells := [][]int32{
+		{id(0, 0), id(1, 0), id(2, 0), id(2, 1), id(1, 1), id(0, 1)}, // hexagon
+		{id(2, 0), id(3, 0), id(3, 1), id(2, 1)},
+		{id(3, 0), id(4, 0), id(4, 1)}, {id(3, 0), id(4, 1), id(3, 1)},
+	}
+	for i := 0; i < 4; i++ {
+		cells = append(cells, []int32{id(i, 1), id(i+1, 1), id(i+1, 2), id(i, 2)})
+	}
+	m := build(t, nodes, cells, true)
+	r := evaluate(t, m)
+	if e := field(t, r, "equiangle_skewness")[0]; !near(e, 1, 1e-12) {
+		t.Errorf("hexagon equiangle skewness %g, want 1", e)
+	}
+	if a := field(t, r, "area")[0]; !near(a, 0.5, 1e-14) {
+		t.Errorf("hexagon area %g, want 0.5", a)
+	}
+	for c := range cells {
+		if v := field(t, r, "closure")[c]; !(v < 1e-14) {
+			t.Errorf("closure of cell %d = %g", c, v)
+		}
+		if v := field(t, r, "free_stream")[c]; !(v < 1e-13) {
+			t.Errorf("free-stream residual of cell %d = %g", c, v)
+		}
+	}
+	// The hexagon's top face is split by node (1,1) into two faces, both
+	// shared with quads above: every cell edge is a face, no hanging node.
+	for _, c := range r.Connectivity {
+		if c.Count != 0 {
+			t.Errorf("%s: %+v", c.Name, c.Problems)
+		}
+	}
+}
+
+// The metric constants of the cell sweep line up with metricDefs.
+func TestMetricOrder(t *testing.T) {
+	want := map[int]string{mArea: "area", mFaceLength: "face_length", mAspect: "aspect_ratio", mMinAngle: "min_angle",
+		mMaxAngle: "max_angle", mEquiangle: "equiangle_skewness", mJacobian: "scaled_jacobian", mNonOrth: "non_orthogonality",
+		mSkewness: "skewness", mGrowth: "growth", mClosure: "closure", mFreeStream: "free_stream", mGradient: "gradient_error",
+		numCellMetrics: "dual_closure"}
+	for k, name := range want {
+		if metricDefs[k].name != name {
+			t.Errorf("metricDefs[%d] = %s, want %s", k, metricDefs[k].name, name)
+		}
+	}
+	if len(metricDefs) != numCellMetrics+1 {
+		t.Errorf("%d metric definitions", len(metricDefs))
+	}
+}

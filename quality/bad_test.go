@@ -1,6 +1,7 @@
 package quality
 
 import (
+	"math"
 	"slices"
 	"strings"
 	"testing"
@@ -218,5 +219,10 @@ func TestInconsistentArrays(t *testing.T) {
 	}
 	if _, err := Evaluate(m, Limits{}); err == nil {
 		t.Error("empty limits accepted")
+	}
+	m = build(t, gridNodes(2, 1, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0), quadCells(2, 1, false), true)
+	m.Nodes[4][1] = math.NaN()
+	if _, err := Evaluate(m, everyday(t)); err == nil || !strings.Contains(err.Error(), "node 4 is at (1, NaN)") {
+		t.Errorf("NaN node: %v", err)
 	}
 }

@@ -116,6 +116,14 @@ func validateArrays(m *mesh.Mesh) error {
 	if int(m.CellStart[nc]) != len(m.CellNodes) || m.CellStart[0] != 0 {
 		return fmt.Errorf("quality: CellStart runs %d..%d; it must run from 0 to len(CellNodes)=%d", m.CellStart[0], m.CellStart[nc], len(m.CellNodes))
 	}
+	if err := firstError(nn, func(v int) error {
+		if p := m.Nodes[v]; math.IsNaN(p[0]) || math.IsNaN(p[1]) || math.IsInf(p[0], 0) || math.IsInf(p[1], 0) {
+			return fmt.Errorf("quality: node %d is at (%g, %g); coordinates must be finite", v, p[0], p[1])
+		}
+		return nil
+	}); err != nil {
+		return err
+	}
 	if err := firstError(nc, func(c int) error {
 		if m.CellStart[c+1]-m.CellStart[c] < 3 || m.CellStart[c+1] > m.CellStart[nc] {
 			return fmt.Errorf("quality: cell %d has %d nodes; a cell needs at least 3", c, m.CellStart[c+1]-m.CellStart[c])

@@ -1,9 +1,11 @@
 package quality
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
+	"strings"
 	"testing"
 
 	"github.com/paulmach/orb"
@@ -39,15 +41,16 @@ func TestDuplicatesMatchBruteForce(t *testing.T) {
 	first := make([]int32, len(pts))
 	cn := newConnectivity(1 << 20)
 	findDuplicates(m, first, tol, cn)
-	var got [][2]int
+	// Each finding names the node and, in its message, the lowest node it
+	// duplicates; compare both with the oracle.
+	var got, want []string
 	for _, p := range cn.results[slices.Index(checkNames, CheckDuplicate)].Problems {
-		got = append(got, [2]int{p.Node, 0})
+		got = append(got, fmt.Sprintf("%d<%s", p.Node, strings.Fields(p.Message)[1]))
 	}
-	var want [][2]int
 	for w := range pts {
 		for v := 0; v < w; v++ {
 			if math.Hypot(pts[w][0]-pts[v][0], pts[w][1]-pts[v][1]) < tol {
-				want = append(want, [2]int{w, 0})
+				want = append(want, fmt.Sprintf("%d<%d", w, v))
 				break
 			}
 		}

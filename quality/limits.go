@@ -1,6 +1,7 @@
 package quality
 
 import (
+	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
@@ -18,6 +19,15 @@ import (
 type Bound struct {
 	Warn float64 `json:"warn" yaml:"warn"`
 	Fail float64 `json:"fail" yaml:"fail"`
+}
+
+// MarshalJSON writes the bound with thresholds that are not finite as
+// null, like Number.
+func (b Bound) MarshalJSON() ([]byte, error) {
+	return json.Marshal(struct {
+		Warn Number `json:"warn"`
+		Fail Number `json:"fail"`
+	}{Number(b.Warn), Number(b.Fail)})
 }
 
 // Limits are the thresholds that turn metrics into pass / warn / fail. Get

@@ -16,9 +16,9 @@ import (
 
 // sweepFlags are the flags of `cvdeck sweep`.
 type sweepFlags struct {
-	out, shard string
-	jobs       int
-	force      bool
+	out, shard  string
+	jobs        int
+	force, list bool
 }
 
 // newSweepCommand returns `cvdeck sweep` and its `merge` sub-command. They
@@ -48,8 +48,9 @@ the others; the exit code is then 1.
 --shard K/N runs only the K-th of N balanced slices (K from 1, as a job
 array's task id), so a scheduler can spread the sweep; 'cvdeck sweep merge'
 joins the shard summaries.`,
-		Example: `  cvdeck sweep samples/sweeps/wedge-sweep.yaml -o out/wedge -j 2
-  cvdeck sweep wedge-sweep.yaml -o out --shard $SLURM_ARRAY_TASK_ID/$SLURM_ARRAY_TASK_COUNT
+		Example: `  cvdeck sweep samples/sweeps/nozzle-throat-exit.yaml -o out/nozzle -j 2
+  cvdeck sweep nozzle-throat-exit.yaml --list --shard 3/8
+  cvdeck sweep nozzle-throat-exit.yaml -o out --shard $SLURM_ARRAY_TASK_ID/$SLURM_ARRAY_TASK_COUNT
   cvdeck sweep merge out`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -61,6 +62,7 @@ joins the shard summaries.`,
 	f.IntVarP(&fl.jobs, "jobs", "j", runtime.NumCPU(), "variants built at once")
 	f.StringVar(&fl.shard, "shard", "", "run only slice K of N (K/N, K from 1)")
 	f.BoolVar(&fl.force, "force", false, "rebuild decks whose inputs have not changed")
+	f.BoolVar(&fl.list, "list", false, "list the variants (of the shard) and build nothing")
 	cmd.AddCommand(newSweepMergeCommand())
 	return cmd
 }
@@ -74,7 +76,7 @@ func globalFlag(cmd *cobra.Command, name string) bool {
 
 func runSweep(cmd *cobra.Command, path string, fl sweepFlags, newRunner func(*sweep.File) sweep.Runner) error {
 	quiet, jsonOut := globalFlag(cmd, "quiet"), globalFlag(cmd, "json")
-	if fl.out == "" {
+	if fl.out == "" && !fl.list {
 		return fmt.Errorf("%w: sweep: give the output folder with -o DIR", deck.ErrInput)
 	}
 	if fl.jobs < 1 {
@@ -92,8 +94,17 @@ func runSweep(cmd *cobra.Command, path string, fl sweepFlags, newRunner func(*sw
 	if err != nil {
 		return err
 	}
+	if fl.list {
+		return sweep.WriteList(cmd.OutOrStdout(), f, shard, jsonOut)
+	}
+	// The first Ctrl-C (or SIGTERM) lets the variants in hand finish and
+	// writes the summary; a second one ends the process at once.
 	ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
+	go func() {
+		<-ctx.Done()
+		stop()
+	}()
 	opt := sweep.Options{Workers: fl.jobs, Shard: shard, Force: fl.force}
 	stderr := cmd.ErrOrStderr()
 	var bar *sweep.Bar

@@ -146,3 +146,11 @@ func TestMergeCommand(t *testing.T) {
 }
 
 func jsonDecode(s string, v any) error { return json.Unmarshal([]byte(s), v) }
+
+func TestSweepList(t *testing.T) {
+	file := filepath.Join("..", "..", "samples", "sweeps", "nozzle-throat-exit.yaml")
+	err, stdout, _ := sweepCLI(t, file, "--list", "--shard", "1/5")
+	if err != nil || !strings.HasPrefix(stdout, "5 of 24 variants (shard 1/5)\n") || strings.Count(stdout, "\n") != 6 {
+		t.Errorf("--list: %v\n%s", err, stdout)
+	}
+}

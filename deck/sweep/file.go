@@ -10,6 +10,7 @@
 //	  thickness: [0.08, 0.10, 0.12]          # an explicit list
 //	  angle: {from: 0, to: 10, step: 2.5}    # a range with a step (ends included)
 //	  chord: {from: 1, to: 2, count: 5}      # a range with a count (ends included)
+//	  cells_x: 120                           # one value: fixed for the whole sweep
 //	constraints:                             # combinations for which any is false are dropped
 //	  - thickness * 100 + angle <= 20
 //	refine: {levels: 3, ratio: 2}            # a coarse-to-fine family for each combination

@@ -410,3 +410,22 @@ func TestWorkersDoNotChangeTheResult(t *testing.T) {
 		}
 	}
 }
+
+func TestWriteList(t *testing.T) {
+	f := mustParse(t, "base: a.yaml\nparameters:\n  a: [1, 2, 3, 4, 5]\n")
+	var b bytes.Buffer
+	if err := WriteList(&b, f, Shard{2, 2}, false); err != nil {
+		t.Fatal(err)
+	}
+	vs, _ := f.Variants()
+	want := "2 of 5 variants (shard 2/2)\n" +
+		"     1  " + vs[1].ID + "  a=2-" + vs[1].ID + "\n" +
+		"     3  " + vs[3].ID + "  a=4-" + vs[3].ID + "\n"
+	if b.String() != want {
+		t.Errorf("got\n%s\nwant\n%s", b.String(), want)
+	}
+	b.Reset()
+	if err := WriteList(&b, f, Shard{}, true); err != nil || !strings.Contains(b.String(), `"name": "a=5-`+vs[4].ID+`"`) {
+		t.Errorf("JSON list: %v\n%s", err, b.String())
+	}
+}

@@ -179,6 +179,9 @@ func (d *Deck) validate() ([]C.BCType_t, error) {
 		if err := checkName(fmt.Sprintf("cell field %d name", i), f.Name); err != nil {
 			return nil, fmt.Errorf("cgns: %w", err)
 		}
+		if f.Name == "GridLocation" || f.Name == "DataClass" || f.Name == "DimensionalUnits" {
+			return nil, fmt.Errorf("cgns: cell field %d: name %q is a standard child of the field's parent node; rename the field", i, f.Name)
+		}
 		if seen[f.Name] {
 			return nil, fmt.Errorf("cgns: cell field %d: name %q is used twice", i, f.Name)
 		}

@@ -95,10 +95,21 @@ func TestReadForeignUnstructured(t *testing.T) {
 }
 
 func TestReadForeignStructured(t *testing.T) {
-	m, err := Read(filepath.Join(foreignFiles(t), "twozone.cgns"))
-	if err != nil {
-		t.Fatal(err)
+	dir := foreignFiles(t)
+	for _, file := range []string{"twozone.cgns", "onesided.cgns"} {
+		t.Run(file, func(t *testing.T) {
+			m, err := Read(filepath.Join(dir, file))
+			if err != nil {
+				t.Fatal(err)
+			}
+			checkTwoZone(t, m)
+		})
 	}
+}
+
+// checkTwoZone checks the mesh of foreign.c's two structured zones.
+func checkTwoZone(t *testing.T, m *mesh.Mesh) {
+	t.Helper()
 	// Two 2 × 2-cell zones on [0, 1] × [0, 1] and [1, 2] × [0, 1] sharing
 	// 3 nodes: 15 nodes, 8 cells, 10 interior and 12 boundary faces.
 	if len(m.Nodes) != 15 || m.NumCells() != 8 || m.NumInterior != 10 || m.NumBoundary() != 12 {
@@ -181,9 +192,10 @@ func TestReadRejects(t *testing.T) {
 	}
 	junk := filepath.Join(dir, "junk.cgns")
 	os.WriteFile(junk, []byte("not a CGNS file\n"), 0o644)
-	if _, err := Read(junk); err == nil || !strings.Contains(err.Error(), junk) {
-		t.Errorf("junk file: got %v, want an error naming the file", err)
+	if _, err := Read(junk); err == nil || !strings.Contains(err.Error(), junk+" is not a CGNS file") {
+		t.Errorf("junk file: got %v, want an error saying the file is not CGNS", err)
 	}
+
 	if _, err := Read(filepath.Join(dir, "missing.cgns")); err == nil || !errors.Is(err, os.ErrNotExist) {
 		t.Errorf("missing file: got %v, want a not-exist error", err)
 	}

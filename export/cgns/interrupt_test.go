@@ -68,7 +68,7 @@ func TestInterruptedWrite(t *testing.T) {
 			deadline := time.Now().Add(2 * time.Minute)
 			killed := false
 			for !killed && time.Now().Before(deadline) {
-				tmps, _ := filepath.Glob(filepath.Join(dir, ".deck.cgns.*.tmp"))
+				tmps, _ := filepath.Glob(filepath.Join(dir, ".deck.cgns.partial-*"))
 				for _, p := range tmps {
 					if st, err := os.Stat(p); err == nil && st.Size() > 4<<20 {
 						cmd.Process.Kill()
@@ -87,7 +87,7 @@ func TestInterruptedWrite(t *testing.T) {
 			if !ok || !ws.Signaled() {
 				t.Fatalf("the writer finished before the kill reached it (%v); the test did not interrupt a write", err)
 			}
-			if tmps, _ := filepath.Glob(filepath.Join(dir, ".deck.cgns.*.tmp")); len(tmps) != 1 {
+			if tmps, _ := filepath.Glob(filepath.Join(dir, ".deck.cgns.partial-*")); len(tmps) != 1 {
 				t.Fatalf("want the killed writer's one temporary file left, found %v", tmps)
 			}
 			_, statErr := os.Stat(target)

@@ -91,6 +91,10 @@ func open(path string) (*reader, *mesh.Mesh, error) {
 	defer libMu.Unlock()
 	p := cstr(path)
 	defer free(p)
+	var ft C.int
+	if C.cg_is_cgns(p, &ft) != 0 {
+		return nil, nil, fmt.Errorf("cgns: %s is not a CGNS file (the CGNS library finds neither an HDF5 nor an ADF CGNS tree in it)", path)
+	}
 	var fn C.int
 	if err := libError(C.cg_open(p, C.CG_MODE_READ, &fn), "open "+path); err != nil {
 		return nil, nil, err

@@ -15,16 +15,17 @@ import (
 
 // Write writes the deck to a CGNS/HDF5 file at path and returns the content
 // hash (hex SHA-256 of the arrays and names written, in a fixed order; see
-// contentHash). The file is written to a temporary file in the same folder,
-// synced and renamed onto path, so an interrupted run leaves the previous
-// file or none, never half of one.
+// contentHash). The file is written to a temporary file in the same folder
+// (".NAME.partial-*", as package export/atomic names them), given mode
+// 0644, synced and renamed onto path, so an interrupted run leaves the
+// previous file or none, never half of one.
 //
 // Layout: one base (cell and physical dimension 2) named Deck.Name, with
 // DataClass Dimensional and DimensionalUnits SI (Kilogram, Meter, Second,
 // Kelvin, Radian), one Family_t with a FamilyBC per boundary tag, the
 // FlowEquationSet and ReferenceState from Deck.Flow, and either one
-// unstructured zone (see writeUnstructured) or one structured zone per
-// block (see writeStructured).
+// unstructured zone (see (*writer).unstructured) or one structured zone
+// per block (see (*writer).structured).
 func Write(path string, d *Deck) (string, error) {
 	libMu.Lock()
 	defer libMu.Unlock()
@@ -36,7 +37,7 @@ func Write(path string, d *Deck) (string, error) {
 	if dir == "" {
 		dir = "."
 	}
-	tmpf, err := os.CreateTemp(dir, "."+base+".*.tmp")
+	tmpf, err := os.CreateTemp(dir, "."+base+".partial-*")
 	if err != nil {
 		return "", fmt.Errorf("cgns: create temporary file beside %s: %w", path, err)
 	}
@@ -57,12 +58,17 @@ func Write(path string, d *Deck) (string, error) {
 	return sum, nil
 }
 
+// syncFile sets the finished file's mode and flushes it to disk.
 func syncFile(path string) error {
 	f, err := os.OpenFile(path, os.O_RDWR, 0)
 	if err != nil {
 		return err
 	}
-	if err := f.Sync(); err != nil {
+	err = f.Chmod(0o644)
+	if err == nil {
+		err = f.Sync()
+	}
+	if err != nil {
 		f.Close()
 		return err
 	}

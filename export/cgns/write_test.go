@@ -62,6 +62,9 @@ func TestWriteChecked(t *testing.T) {
 			if _, err := Write(path, c.deck); err != nil {
 				t.Fatal(err)
 			}
+			if fi, err := os.Stat(path); err != nil || fi.Mode().Perm() != 0o644 {
+				t.Errorf("written file: %v, mode %v; want mode 0644", err, fi.Mode())
+			}
 			cgnscheck(t, path)
 			out := h5dump(t, path)
 			// The CGNS/HDF5 mapping stores every node as an HDF5 group
@@ -152,6 +155,7 @@ func TestWriteRejects(t *testing.T) {
 		{"long name", func(d *Deck) { d.Name = strings.Repeat("x", 33) }, "at most 32"},
 		{"gamma", func(d *Deck) { d.Flow.Gamma = 1 }, "Gamma is 1"},
 		{"no mesh", func(d *Deck) { d.Mesh = nil }, "deck has no mesh"},
+		{"field named like a node", func(d *Deck) { d.CellFields[1].Name = "GridLocation" }, `name "GridLocation" is a standard child`},
 		{"null BCType", func(d *Deck) { d.BCs[1].BCType = "Null" }, `"Null" is not a CGNS BCType`},
 		{"tag named like a node", func(d *Deck) { d.Mesh.Tags[0] = "ZoneBC"; d.BCs[0].Tag = "ZoneBC" }, `boundary tag "ZoneBC" is also the name of a standard CGNS node`},
 	}

@@ -238,3 +238,21 @@ func TestReadErrors(t *testing.T) {
 		t.Error("reading a missing .stl gave no error")
 	}
 }
+
+// TestReadLinesWithoutTags: line cells but no tag array leave the whole
+// boundary untagged; a pixel (VTK type 8, points in (i, j) order) becomes a
+// counter-clockwise quad of area 1.
+func TestReadLinesWithoutTags(t *testing.T) {
+	file := `<VTKFile type="UnstructuredGrid"><UnstructuredGrid><Piece NumberOfPoints="4" NumberOfCells="2"><Points><DataArray type="Float64" NumberOfComponents="3" format="ascii">0 0 0 1 0 0 0 1 0 1 1 0</DataArray></Points>` +
+		`<Cells><DataArray type="Int32" Name="connectivity" format="ascii">0 1 2 3 0 1</DataArray><DataArray type="Int32" Name="offsets" format="ascii">4 6</DataArray><DataArray type="UInt8" Name="types" format="ascii">8 3</DataArray></Cells></Piece></UnstructuredGrid></VTKFile>`
+	m, err := ReadVTU([]byte(file), "pixel.vtu")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if m.NumCells() != 1 || m.Geo.CellArea[0] != 1 {
+		t.Fatalf("%d cells, area %v; want one cell of area 1", m.NumCells(), m.Geo.CellArea)
+	}
+	if lo, hi := m.UntaggedRange(); len(m.Tags) != 0 || hi-lo != 4 {
+		t.Fatalf("tags %v, %d untagged faces; want none and 4", m.Tags, hi-lo)
+	}
+}

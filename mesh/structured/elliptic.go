@@ -69,8 +69,10 @@ type SmoothOptions struct {
 type SmoothResult struct {
 	// Iterations is the number of sweeps done.
 	Iterations int
-	// Residual is the last sweep's largest node move over the local cell
-	// size.
+	// Residual is the larger of the last sweep's largest node move over
+	// the local cell size and the last change of the wall-control
+	// amplitudes (dimensionless), so convergence means both the grid and
+	// the controls have settled.
 	Residual float64
 	// Converged is true when Residual reached the tolerance.
 	Converged bool
@@ -179,14 +181,15 @@ func Smooth(b *Block, opt SmoothOptions) (SmoothResult, error) {
 		for _, sl := range s.sliders {
 			r2 = math.Max(r2, s.slide(sl))
 		}
+		control := 0.0
 		if s.mode != freeMode {
-			s.feedback()
+			control = s.feedback()
 		}
 		if s.mode != starMode && it%10 == 9 {
 			s.updateMode()
 		}
 		res.Iterations = it + 1
-		res.Residual = math.Sqrt(r2)
+		res.Residual = math.Max(math.Sqrt(r2), control)
 		if res.Residual <= opt.Tolerance {
 			res.Converged = true
 			break
@@ -580,8 +583,10 @@ func (s *smoother) wallFrame(sd mesh.Side, k int) (dx, dy, tx, ty, nx, ny float6
 }
 
 // feedback moves the wall control amplitudes towards the requested height
-// and orthogonality (Steger and Sorenson 1979).
-func (s *smoother) feedback() {
+// and orthogonality (Steger and Sorenson 1979) and returns the largest
+// change it made.
+func (s *smoother) feedback() float64 {
+	change := 0.0
 	const limit = 4 // bound on the amplitudes, against runaway on hopeless requests
 	for side, c := range s.sides {
 		if !c.controlled() {
@@ -603,13 +608,18 @@ func (s *smoother) feedback() {
 				continue
 			}
 			if c.FirstHeight > 0 {
-				q[k] = clamp(q[k]-sign*s.gain*math.Log(h/c.FirstHeight), limit)
+				v := clamp(q[k]-sign*s.gain*math.Log(h/c.FirstHeight), limit)
+				change = math.Max(change, math.Abs(v-q[k]))
+				q[k] = v
 			}
 			if c.Orthogonal {
-				p[k] = clamp(p[k]-s.gain*math.Atan(t/h), limit)
+				v := clamp(p[k]-s.gain*math.Atan(t/h), limit)
+				change = math.Max(change, math.Abs(v-p[k]))
+				p[k] = v
 			}
 		}
 	}
+	return change
 }
 
 func clamp(v, lim float64) float64 { return math.Max(-lim, math.Min(lim, v)) }

@@ -53,8 +53,21 @@ type MarchReport struct {
 	MaxDissipation float64
 }
 
+// Plan resolves the layer count, growth ratio and outer distance the options
+// give, without marching, so a caller can size the grid (and refuse one
+// that is too large) before any allocation.
+func (o MarchOptions) Plan() (MarchReport, error) {
+	_, rep, err := o.resolve(false)
+	return rep, err
+}
+
 // heights resolves the layer heights from the options.
 func (o MarchOptions) heights() ([]float64, MarchReport, error) {
+	return o.resolve(true)
+}
+
+// resolve works out layers and growth, and the heights when asked.
+func (o MarchOptions) resolve(withHeights bool) ([]float64, MarchReport, error) {
 	var rep MarchReport
 	h := o.FirstHeight
 	if !(h > 0) || math.IsInf(h, 0) {
@@ -97,14 +110,16 @@ func (o MarchOptions) heights() ([]float64, MarchReport, error) {
 	if n > 1<<20 {
 		return nil, rep, fmt.Errorf("%d layers is more than the %d a march allows", n, 1<<20)
 	}
-	d := GeometricHeights(h, r, n)
 	rep.Layers, rep.Growth = n, r
-	for _, v := range d {
-		rep.OuterDistance += v
-	}
-	if math.IsInf(rep.OuterDistance, 0) {
+	rep.OuterDistance = geometricSum(h, r, n)
+	if math.IsInf(rep.OuterDistance, 0) || math.IsNaN(rep.OuterDistance) {
 		return nil, rep, fmt.Errorf("%d layers growing by %g from %g reach no finite distance", n, r, h)
 	}
+	if !withHeights {
+		return nil, rep, nil
+	}
+	d := GeometricHeights(h, r, n)
+	rep.OuterDistance = sum(d)
 	return d, rep, nil
 }
 
@@ -388,9 +403,10 @@ func checkPoints(p []orb.Point, closed bool) error {
 // 1 + 8θ/π near a concave turn of θ radians (the largest turn within three
 // nodes), and with the backward normal part of δ_ξξ r⁰ dropped at convex
 // turns. One block-tridiagonal solve (periodic for a closed line)
-// gives Δr; each node's step is then rescaled to length Δs, which makes
-// the layer heights exact (and, on a circle, the layers exact concentric
-// circles). A layer whose cells would not all be strictly convex is tried
+// gives Δr; each node's step is then rescaled to length Δs (or kept
+// longer where the solve asks for more, at concave turns, which it rounds
+// off), which makes the layer heights exact on convex and straight walls
+// and, on a circle, the layers exact concentric circles. A layer whose cells would not all be strictly convex is tried
 // again with twice the dissipation, up to five times; then the march stops
 // with an error naming the layer and the position.
 func march(pts []orb.Point, periodic bool, heights []float64, opt MarchOptions, rep *MarchReport) (xs, ys []float64, err error) {

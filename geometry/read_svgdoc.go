@@ -1,0 +1,153 @@
+package geometry
+
+import (
+	"encoding/xml"
+	"errors"
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+)
+
+// ReadSVGDocument reads the shapes of an SVG document into one outline,
+// as ReadSVGPath does for one path's data: every path element's d
+// attribute, and the basic shapes rect (without rounded corners), circle,
+// ellipse and polygon, each turned into the equivalent path data (SVG 1.1
+// §9). Each closed subpath becomes a loop, its default tag the id of its
+// element. Transforms are not applied: an element with a transform
+// attribute (on itself or an enclosing group) is refused, so coordinates
+// are never silently misplaced. Errors name the element, its index among
+// the shapes read and its line in the document.
+func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
+	dec := xml.NewDecoder(r)
+	var subs []svgSubpath
+	var transformed []bool // per open element: has a transform attribute
+	shapes := 0
+	for {
+		tok, err := dec.Token()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		if err != nil {
+			return Outline{}, fmt.Errorf("SVG document: %v: %w", err, ErrFormat)
+		}
+		switch t := tok.(type) {
+		case xml.StartElement:
+			attrs := map[string]string{}
+			for _, a := range t.Attr {
+				if a.Name.Space == "" {
+					attrs[a.Name.Local] = a.Value
+				}
+			}
+			_, tr := attrs["transform"]
+			transformed = append(transformed, tr)
+			line, _ := dec.InputPos()
+			d, isShape, err := shapePathData(t.Name.Local, attrs)
+			where := fmt.Sprintf("SVG %s element %d (line %d", t.Name.Local, shapes, line)
+			if id := attrs["id"]; id != "" {
+				where += fmt.Sprintf(", id %q", id)
+			}
+			where += ")"
+			if err != nil {
+				return Outline{}, fmt.Errorf("%s: %w", where, err)
+			}
+			if !isShape {
+				continue
+			}
+			shapes++
+			for _, tr := range transformed {
+				if tr {
+					return Outline{}, fmt.Errorf("%s: has a transform (on itself or an enclosing group), which cvdeck does not apply; apply the transform to the coordinates in the drawing first: %w", where, ErrFormat)
+				}
+			}
+			ps, err := parseSVGPath(d, where)
+			if err != nil {
+				return Outline{}, err
+			}
+			for i := range ps {
+				ps[i].tag = attrs["id"]
+			}
+			subs = append(subs, ps...)
+		case xml.EndElement:
+			if len(transformed) > 0 {
+				transformed = transformed[:len(transformed)-1]
+			}
+		}
+	}
+	if shapes == 0 {
+		return Outline{}, fmt.Errorf("SVG document: no path, rect, circle, ellipse or polygon element found: %w", ErrFormat)
+	}
+	return buildSVG(subs, opt)
+}
+
+// shapePathData returns the path data equivalent to a shape element
+// (SVG 1.1 §9.2–9.4, §9.7), and false for elements that are not shapes.
+func shapePathData(name string, a map[string]string) (string, bool, error) {
+	num := func(key string, def *float64) (float64, error) {
+		s, ok := a[key]
+		if !ok {
+			if def != nil {
+				return *def, nil
+			}
+			return 0, fmt.Errorf("attribute %q is missing: %w", key, ErrFormat)
+		}
+		v, err := strconv.ParseFloat(strings.TrimSpace(s), 64)
+		if err != nil {
+			return 0, fmt.Errorf("attribute %s=%q must be a plain number (user units, no unit suffix): %w", key, s, ErrFormat)
+		}
+		return v, nil
+	}
+	zero := 0.0
+	nums := func(keys []string, defs []*float64) ([]float64, error) {
+		v := make([]float64, len(keys))
+		for i, k := range keys {
+			x, err := num(k, defs[i])
+			if err != nil {
+				return nil, err
+			}
+			v[i] = x
+		}
+		return v, nil
+	}
+	switch name {
+	case "path":
+		d, ok := a["d"]
+		if !ok {
+			return "", false, fmt.Errorf("path has no d attribute: %w", ErrFormat)
+		}
+		return d, true, nil
+	case "rect":
+		v, err := nums([]string{"x", "y", "width", "height", "rx", "ry"}, []*float64{&zero, &zero, nil, nil, &zero, &zero})
+		if err != nil {
+			return "", false, err
+		}
+		if v[4] != 0 || v[5] != 0 {
+			return "", false, fmt.Errorf("rounded corners (rx, ry) are not read; draw them as a path: %w", ErrFormat)
+		}
+		if !(v[2] > 0 && v[3] > 0) {
+			return "", false, fmt.Errorf("width %g and height %g must be positive: %w", v[2], v[3], ErrFormat)
+		}
+		return fmt.Sprintf("M %g %g h %g v %g h %g z", v[0], v[1], v[2], v[3], -v[2]), true, nil
+	case "circle", "ellipse":
+		keys := []string{"cx", "cy", "rx", "ry"}
+		if name == "circle" {
+			keys = []string{"cx", "cy", "r", "r"}
+		}
+		v, err := nums(keys, []*float64{&zero, &zero, nil, nil})
+		if err != nil {
+			return "", false, err
+		}
+		if !(v[2] > 0 && v[3] > 0) {
+			return "", false, fmt.Errorf("radii %g and %g must be positive: %w", v[2], v[3], ErrFormat)
+		}
+		cx, cy, rx, ry := v[0], v[1], v[2], v[3]
+		return fmt.Sprintf("M %g %g A %g %g 0 0 1 %g %g A %g %g 0 0 1 %g %g z", cx+rx, cy, rx, ry, cx-rx, cy, rx, ry, cx+rx, cy), true, nil
+	case "polygon":
+		pts, ok := a["points"]
+		if !ok {
+			return "", false, fmt.Errorf("polygon has no points attribute: %w", ErrFormat)
+		}
+		return "M " + pts + " z", true, nil
+	}
+	return "", false, nil
+}
