@@ -258,3 +258,83 @@ func TestMarchBadInput(t *testing.T) {
 	_, _, err = MarchCGrid(ch, WakeOptions{Length: 5}, MarchOptions{Name: "blunt", FirstHeight: 1e-3, Growth: 1.2, Layers: 10, OuterTag: "far", StartTag: "o", EndTag: "o"})
 	wantErr(t, err, "sharp trailing edge", "0.002 apart")
 }
+
+// naca4 returns a point of a NACA 4-digit section (camber m at p, thickness
+// t) at x/c, on the upper or lower surface, from the published formulas
+// (Abbott and von Doenhoff §6.4: thickness applied normal to the mean line),
+// with the closed trailing edge coefficient.
+func naca4(m, p, t, x float64, upper bool) orb.Point {
+	yt := naca00(t, x)
+	var yc, dy float64
+	if x < p {
+		yc, dy = m/(p*p)*(2*p*x-x*x), 2*m/(p*p)*(p-x)
+	} else {
+		yc, dy = m/((1-p)*(1-p))*((1-2*p)+2*p*x-x*x), 2*m/((1-p)*(1-p))*(p-x)
+	}
+	th := math.Atan(dy)
+	if upper {
+		return orb.Point{x - yt*math.Sin(th), yc + yt*math.Cos(th)}
+	}
+	return orb.Point{x + yt*math.Sin(th), yc - yt*math.Cos(th)}
+}
+
+// Other bodies and walls a case may hold: a cambered NACA 4412 (its lower
+// surface is concave aft), a square cylinder (four convex right-angle
+// corners), a thin ellipse, and a floor with a parabolic bump (concave
+// kinks at its feet). Every march must finish with positive cells, the
+// first-cell height exact (to 1%) where the wall is straight or convex.
+func TestMarchShapes(t *testing.T) {
+	var foil []orb.Point
+	const m = 128
+	for k := 0; k <= m; k++ {
+		foil = append(foil, naca4(0.04, 0.4, 0.12, 0.5*(1+math.Cos(math.Pi*float64(k)/m)), false))
+	}
+	for k := m - 1; k >= 1; k-- {
+		foil = append(foil, naca4(0.04, 0.4, 0.12, 0.5*(1+math.Cos(math.Pi*float64(k)/m)), true))
+	}
+	var square []orb.Point
+	corners := []orb.Point{{0, 0}, {0, 1}, {1, 1}, {1, 0}} // clockwise
+	for c := range corners {
+		for k := 0; k < 20; k++ {
+			square = append(square, lerp(corners[c], corners[(c+1)%4], float64(k)/20))
+		}
+	}
+	var ellipse []orb.Point
+	for k := 0; k < 200; k++ {
+		th := -2 * math.Pi * float64(k) / 200
+		ellipse = append(ellipse, orb.Point{math.Cos(th), 0.1 * math.Sin(th)})
+	}
+	for _, v := range []struct {
+		name  string
+		p     []orb.Point
+		h     float64
+		check [2]int // wall nodes whose first height is checked
+	}{{"naca4412", foil, 1e-5, [2]int{10, 120}}, {"square", square, 1e-3, [2]int{5, 15}}, {"ellipse", ellipse, 1e-4, [2]int{1, 199}}} {
+		loop := geometry.DiscreteLoop{Points: v.p, Tags: fillTag(make([]string, len(v.p)), "wall")}
+		b, rep, err := MarchClosed(loop, MarchOptions{Name: v.name, FirstHeight: v.h, Layers: 120, OuterDistance: 20, OuterTag: "farfield"})
+		if err != nil {
+			t.Errorf("%s: %v", v.name, err)
+			continue
+		}
+		assertPositive(t, b)
+		lo, hi := firstHeights(b, v.check[0], v.check[1])
+		t.Logf("%s: growth %.4f, %d layers retried; first height %.5g..%.5g (request %g)", v.name, rep.Growth, rep.Retried, lo, hi, v.h)
+		if lo < 0.99*v.h || hi > 1.01*v.h {
+			t.Errorf("%s: first height %g..%g, want %g ± 1%%", v.name, lo, hi, v.h)
+		}
+	}
+	var floor []orb.Point
+	for k := 0; k <= 120; k++ {
+		x := 3 * float64(k) / 120
+		y := 0.0
+		if x > 1 && x < 2 {
+			y = 0.1 * (1 - (2*x-3)*(2*x-3))
+		}
+		floor = append(floor, orb.Point{x, y})
+	}
+	b, _, err := MarchOpen(chainOf(floor, "wall"), MarchOptions{Name: "bump", FirstHeight: 1e-4, Layers: 60, OuterDistance: 1, OuterTag: "top", StartTag: "in", EndTag: "out"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	assertPositive(t, b)
+}
