@@ -129,6 +129,11 @@ func Parse(path string, data []byte, opts LoadOptions) (*Case, error) {
 	c.Params = d.params
 	c.Inputs = []InputFile{{Path: filepath.Base(path), SHA256: hashBytes(data)}}
 
+	if v, ok := top.get("reference"); ok {
+		if c.Reference, err = decodeReference(v); err != nil {
+			return nil, err
+		}
+	}
 	g, err := top.need("geometry")
 	if err != nil {
 		return nil, err
@@ -142,11 +147,6 @@ func Parse(path string, data []byte, opts LoadOptions) (*Case, error) {
 	}
 	if c.Mesh, err = decodeMesh(c, m); err != nil {
 		return nil, err
-	}
-	if v, ok := top.get("reference"); ok {
-		if c.Reference, err = decodeReference(v); err != nil {
-			return nil, err
-		}
 	}
 	if v, ok := top.get("boundaries"); ok {
 		if c.Boundaries, err = decodeBoundaries(v); err != nil {

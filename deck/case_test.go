@@ -43,7 +43,7 @@ func TestParseResolvesParametersAndUnits(t *testing.T) {
 	if c.Params["side"] != 10 || strings.Join(c.ParamOrder, ",") != "side,half,n" {
 		t.Fatalf("params %v order %v", c.Params, c.ParamOrder)
 	}
-	m, _, err := c.buildMesh()
+	m, _, _, err := c.buildMesh()
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -62,7 +62,7 @@ func TestOverridesAndRefinement(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	m, _, err := c.buildMesh()
+	m, _, _, err := c.buildMesh()
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -101,7 +101,7 @@ func TestSpacingRefinementIsConsistent(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		m, _, err := c.buildMesh()
+		m, _, _, err := c.buildMesh()
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -118,7 +118,7 @@ func TestMaxCellsRefusesBeforeMeshing(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	_, _, err = c.buildMesh()
+	_, _, _, err = c.buildMesh()
 	if err == nil || !strings.Contains(err.Error(), "16 cells, more than the limit of 10") {
 		t.Fatalf("got %v", err)
 	}
@@ -145,6 +145,6 @@ func FuzzLoad(f *testing.F) {
 		if c.Mesh.maxCells > 100000 {
 			c.Mesh.maxCells = 100000
 		}
-		_, _, _ = c.buildMesh()
+		_, _, _, _ = c.buildMesh()
 	})
 }

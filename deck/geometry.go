@@ -155,7 +155,7 @@ func decodeLoop(c *Case, g *geometrySpec, v value, index int) (loopSpec, error) 
 	}
 	var defSpacing *geometry.Spacing
 	if sv, ok := o.get("spacing"); ok {
-		sp, err := decodeSpacing(sv, c.Refine)
+		sp, err := decodeSpacing(sv, c)
 		if err != nil {
 			return l, err
 		}
@@ -243,7 +243,7 @@ func decodeCurve(c *Case, g *geometrySpec, v value) error {
 	}
 	var defSpacing *geometry.Spacing
 	if sv, ok := o.get("spacing"); ok {
-		sp, err := decodeSpacing(sv, c.Refine)
+		sp, err := decodeSpacing(sv, c)
 		if err != nil {
 			return err
 		}

@@ -8,7 +8,6 @@ import (
 
 	"cvdeck/geometry"
 	"cvdeck/mesh"
-	"cvdeck/mesh/structured"
 )
 
 // DefaultMaxCells is the largest mesh a run makes unless told otherwise.
@@ -20,6 +19,8 @@ type meshSpec struct {
 	maxCells int
 	// structured: blocks over named curves.
 	blocks []blockSpec
+	// grow: grids marched off bodies and walls, joined to the blocks.
+	grow []growSpec
 	// unstructured: the outline meshed by the unstructured mesher.
 	unstructured *unstructuredSpec
 }
@@ -27,9 +28,10 @@ type meshSpec struct {
 // blockSpec is one four-sided structured block: each side a run of named
 // curves.
 type blockSpec struct {
-	name  string
-	sides [4][]sideCurve // south, east, north, west
-	at    value
+	name   string
+	sides  [4][]sideCurve // south, east, north, west
+	smooth *smoothSpec
+	at     value
 }
 
 // sideCurve is one named curve on a block side.
@@ -80,16 +82,27 @@ func decodeMesh(c *Case, v value) (*meshSpec, error) {
 	if err != nil {
 		return nil, err
 	}
-	bv, err := so.need("blocks")
-	if err != nil {
-		return nil, err
+	var items []value
+	if bv, ok := so.get("blocks"); ok {
+		if items, err = bv.list(); err != nil {
+			return nil, err
+		}
 	}
-	items, err := bv.list()
-	if err != nil {
-		return nil, err
+	if gv, ok := so.get("grow"); ok {
+		list, err := gv.list()
+		if err != nil {
+			return nil, err
+		}
+		for i, it := range list {
+			gs, err := decodeGrow(c, it, i)
+			if err != nil {
+				return nil, err
+			}
+			ms.grow = append(ms.grow, gs)
+		}
 	}
-	if len(items) == 0 {
-		return nil, bv.errf("needs at least one block")
+	if len(items) == 0 && len(ms.grow) == 0 {
+		return nil, sv.errf("a structured mesh needs blocks: [...] or grow: [...], or both")
 	}
 	names := map[string]bool{}
 	for i, it := range items {
@@ -138,6 +151,11 @@ func decodeBlock(c *Case, v value, index int) (blockSpec, error) {
 				return bs, err
 			}
 			bs.sides[s] = append(bs.sides[s], sideCurve{curve: cs, at: sv})
+		}
+	}
+	if sv, ok := o.get("smooth"); ok {
+		if bs.smooth, err = decodeSmooth(c, sv); err != nil {
+			return bs, err
 		}
 	}
 	return bs, o.done()
@@ -229,39 +247,3 @@ func reversed(segs []geometry.Segment) []geometry.Segment {
 }
 
 func dist(a, b orb.Point) float64 { return math.Hypot(a[0]-b[0], a[1]-b[1]) }
-
-// buildStructured meshes the blocks by transfinite interpolation and joins
-// them into one face-based mesh.
-func (ms *meshSpec) buildStructured() (*mesh.Mesh, error) {
-	n, err := ms.estimateCells()
-	if err != nil {
-		return nil, err
-	}
-	if n > ms.maxCells {
-		return nil, ms.at.errf("the blocks would make %d cells, more than the limit of %d (raise mesh.max_cells or --max-cells)", n, ms.maxCells)
-	}
-	sides := make([][4]geometry.Chain, len(ms.blocks))
-	for b, bs := range ms.blocks {
-		for s := range bs.sides {
-			ch, err := sideChain(bs.sides[s])
-			if err != nil {
-				return nil, err
-			}
-			sides[b][s] = ch
-		}
-	}
-	blocks := make([]*structured.Block, len(ms.blocks))
-	for b, bs := range ms.blocks {
-		s := sides[b]
-		blk, err := structured.TFI(structured.BlockSides{Name: bs.name, South: s[mesh.South], East: s[mesh.East], North: s[mesh.North], West: s[mesh.West]})
-		if err != nil {
-			return nil, bs.at.errf("block %q: %v", bs.name, err)
-		}
-		blocks[b] = blk
-	}
-	m, err := structured.Assemble(blocks, structured.AssembleOptions{})
-	if err != nil {
-		return nil, ms.at.wrap(err)
-	}
-	return m, nil
-}

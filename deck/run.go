@@ -77,7 +77,7 @@ func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
 	}
 
 	stage("mesh")
-	m, kind, err := c.buildMesh()
+	m, kind, notes, err := c.buildMesh()
 	if err != nil {
 		return nil, err
 	}
@@ -108,6 +108,7 @@ func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
 
 	stage("export")
 	man := c.manifest(m, kind, assign, rep)
+	man.Mesh.Notes = append(notes, man.Mesh.Notes...)
 	if err := atomic.ReplaceDir(outDir, func(tmp string) error {
 		return writeDeck(tmp, c, m, assign, rep, man, formats)
 	}); err != nil {
@@ -121,13 +122,13 @@ func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
 }
 
 // buildMesh runs the case's mesher.
-func (c *Case) buildMesh() (*mesh.Mesh, string, error) {
+func (c *Case) buildMesh() (*mesh.Mesh, string, []string, error) {
 	if c.Mesh.unstructured != nil {
 		m, err := c.buildUnstructured()
-		return m, "unstructured", err
+		return m, "unstructured", nil, err
 	}
-	m, err := c.Mesh.buildStructured()
-	return m, "structured", err
+	m, notes, err := c.Mesh.buildStructured()
+	return m, "structured", notes, err
 }
 
 // limits resolves the case's limit profile and overrides, then extra.

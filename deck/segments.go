@@ -199,7 +199,7 @@ func decodeAttr(c *Case, o *object, defTag string, defSpacing *geometry.Spacing)
 		return a, "", o.errf("the segment needs a boundary tag (tag: name), here or on its loop")
 	}
 	if v, ok := o.get("spacing"); ok {
-		if a.Spacing, err = decodeSpacing(v, c.Refine); err != nil {
+		if a.Spacing, err = decodeSpacing(v, c); err != nil {
 			return a, "", err
 		}
 	} else if defSpacing != nil {

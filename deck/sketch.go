@@ -153,7 +153,7 @@ func decodeSketchRef(c *Case, g *geometrySpec, o *object, fv value) error {
 	}
 	var spacing *geometry.Spacing
 	if v, ok := o.get("spacing"); ok {
-		sp, err := decodeSpacing(v, c.Refine)
+		sp, err := decodeSpacing(v, c)
 		if err != nil {
 			return err
 		}

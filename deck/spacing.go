@@ -3,11 +3,12 @@ package deck
 import (
 	"math"
 
+	"cvdeck/bc"
 	"cvdeck/geometry"
 )
 
 // spacingKeys are the keys of a spacing mapping.
-var spacingKeys = []string{"count", "size", "cosine", "first", "last", "growth", "law"}
+var spacingKeys = []string{"count", "size", "cosine", "first", "last", "first_yplus", "last_yplus", "growth", "law"}
 
 // decodeSpacing reads a spacing law and applies the case's refinement
 // factor r consistently to every law:
@@ -22,8 +23,12 @@ var spacingKeys = []string{"count", "size", "cosine", "first", "last", "growth",
 // The forms are: {count}, {size}, {cosine}, {first, growth}, {last,
 // growth}, {first, count}, {last, count} (geometric growth with the ratio
 // solved; with law: vinokur, Vinokur's one-sided stretching instead), and
-// {first, last, count} (Vinokur's two-sided stretching).
-func decodeSpacing(v value, refine float64) (geometry.Spacing, error) {
+// {first, last, count} (Vinokur's two-sided stretching). In place of first
+// or last, first_yplus or last_yplus give the end spacing as the
+// first-cell height for that y+ in the case's reference state (see
+// bc.FirstCellHeight), so a wall spacing follows the flow.
+func decodeSpacing(v value, c *Case) (geometry.Spacing, error) {
+	refine := c.Refine
 	o, err := v.object()
 	if err != nil {
 		return geometry.Spacing{}, err
@@ -74,6 +79,24 @@ func decodeSpacing(v value, refine float64) (geometry.Spacing, error) {
 	last, hasLast, err := length("last")
 	if err != nil {
 		return geometry.Spacing{}, err
+	}
+	for _, end := range []struct {
+		key string
+		h   *float64
+		has *bool
+	}{{"first_yplus", &first, &hasFirst}, {"last_yplus", &last, &hasLast}} {
+		x, ok := o.get(end.key)
+		if !ok {
+			continue
+		}
+		if *end.has {
+			return geometry.Spacing{}, x.errf("give %s or %s, not both", end.key[:len(end.key)-6], end.key)
+		}
+		h, err := c.wallHeight(x)
+		if err != nil {
+			return geometry.Spacing{}, err
+		}
+		*end.h, *end.has = h/refine, true
 	}
 	growth, hasGrowth, err := num("growth")
 	if err != nil {
@@ -127,4 +150,21 @@ func decodeSpacing(v value, refine float64) (geometry.Spacing, error) {
 		return geometry.Spacing{}, v.wrap(err)
 	}
 	return sp, nil
+}
+
+// wallHeight reads a target y+ and returns the first-cell height that gives
+// it in the reference state, at the reference length (bc.FirstCellHeight).
+func (c *Case) wallHeight(x value) (float64, error) {
+	yplus, err := x.positive()
+	if err != nil {
+		return 0, err
+	}
+	if c.Reference == nil || c.Reference.length == 0 {
+		return 0, x.errf("a height from y+ needs a reference state with a reference length (reference: {..., length: L})")
+	}
+	ws, err := bc.FirstCellHeight(c.Reference.state, c.Reference.length, yplus)
+	if err != nil {
+		return 0, x.wrap(err)
+	}
+	return ws.Height, nil
 }

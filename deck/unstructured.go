@@ -1,7 +1,8 @@
 package deck
 
 import (
-	"cvdeck/bc"
+	"math"
+
 	"cvdeck/mesh"
 	"cvdeck/mesh/unstructured"
 )
@@ -9,9 +10,9 @@ import (
 // unstructuredSpec is the decoded unstructured mesh settings.
 type unstructuredSpec struct {
 	opt unstructured.Options
-	// layerYplus[i] > 0 asks for layer i's first height from a target y+
-	// and the reference state, resolved once the reference is known.
-	layerYplus []float64
+	// layerYplus[i], when set, gives layer i's first height as a target y+
+	// in the reference state.
+	layerYplus []*value
 	layerAt    []value
 	at         value
 }
@@ -179,37 +180,35 @@ func decodeRegion(v value) (unstructured.Region, error) {
 	return r, o.done()
 }
 
-func decodeLayers(v value) (unstructured.Layers, float64, error) {
+func decodeLayers(v value) (unstructured.Layers, *value, error) {
 	var l unstructured.Layers
 	o, err := v.object()
 	if err != nil {
-		return l, 0, err
+		return l, nil, err
 	}
 	tv, err := o.need("tags")
 	if err != nil {
-		return l, 0, err
+		return l, nil, err
 	}
 	if l.Tags, err = tv.strings(); err != nil {
-		return l, 0, err
+		return l, nil, err
 	}
-	yplus := 0.0
+	var yplus *value
 	fv, hasFirst := o.get("first_height")
 	yv, hasY := o.get("yplus")
 	switch {
 	case hasFirst && !hasY:
 		if l.FirstHeight, err = fv.positiveLength(); err != nil {
-			return l, 0, err
+			return l, nil, err
 		}
 	case hasY && !hasFirst:
-		if yplus, err = yv.positive(); err != nil {
-			return l, 0, err
-		}
+		yplus = &yv
 	default:
-		return l, 0, v.errf("boundary layers need the first cell height: first_height (case units) or yplus (with a reference state), one of them")
+		return l, nil, v.errf("boundary layers need the first cell height: first_height (case units) or yplus (with a reference state), one of them")
 	}
 	if gv, ok := o.get("growth"); ok {
 		if l.Growth, err = gv.positive(); err != nil {
-			return l, 0, err
+			return l, nil, err
 		}
 	}
 	cv, hasCount := o.get("count")
@@ -217,14 +216,14 @@ func decodeLayers(v value) (unstructured.Layers, float64, error) {
 	switch {
 	case hasCount && !hasThick:
 		if l.Count, err = cv.count(1); err != nil {
-			return l, 0, err
+			return l, nil, err
 		}
 	case hasThick && !hasCount:
 		if l.Thickness, err = kv.positiveLength(); err != nil {
-			return l, 0, err
+			return l, nil, err
 		}
 	default:
-		return l, 0, v.errf("boundary layers need count (the number of layers) or thickness (their total height), one of them")
+		return l, nil, v.errf("boundary layers need count (the number of layers) or thickness (their total height), one of them")
 	}
 	return l, yplus, o.done()
 }
@@ -235,18 +234,35 @@ func (c *Case) buildUnstructured() (*mesh.Mesh, error) {
 	opt := us.opt
 	opt.MaxCells = c.Mesh.maxCells
 	opt.Layers = append([]unstructured.Layers(nil), opt.Layers...)
-	for i, yplus := range us.layerYplus {
-		if yplus == 0 {
-			continue
+	// Refinement by r scales every size by 1/r, every count by r and every
+	// growth ratio g to g^(1/r), as decodeSpacing does for the outline.
+	r := c.Refine
+	for i := range opt.Layers {
+		l := &opt.Layers[i]
+		if yv := us.layerYplus[i]; yv != nil {
+			h, err := c.wallHeight(*yv)
+			if err != nil {
+				return nil, err
+			}
+			l.FirstHeight = h
 		}
-		if c.Reference == nil || c.Reference.length == 0 {
-			return nil, us.layerAt[i].errf("a first height from yplus needs a reference state with a reference length (reference: {..., length: L})")
+		l.FirstHeight /= r
+		if l.Count > 0 {
+			l.Count = max(1, int(math.Round(float64(l.Count)*r)))
 		}
-		ws, err := bc.FirstCellHeight(c.Reference.state, c.Reference.length, yplus)
-		if err != nil {
-			return nil, us.layerAt[i].wrap(err)
+		if l.Growth == 0 {
+			l.Growth = unstructured.DefaultGrowth
 		}
-		opt.Layers[i].FirstHeight = ws.Height
+		l.Growth = math.Pow(l.Growth, 1/r)
+	}
+	if opt.Growth == 0 {
+		opt.Growth = unstructured.DefaultGrowth
+	}
+	opt.Growth = math.Pow(opt.Growth, 1/r)
+	opt.MaxSize /= r
+	opt.Regions = append([]unstructured.Region(nil), opt.Regions...)
+	for i := range opt.Regions {
+		opt.Regions[i].Size /= r
 	}
 	d, err := c.Geometry.shape.Discretise()
 	if err != nil {

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"regexp"
 
 	"github.com/paulmach/orb"
 )
@@ -95,7 +96,42 @@ func polygonOutline(p orb.Polygon, tags PolygonTags, polygon int, where string) 
 	}
 	n, err := o.Normalise()
 	if err != nil {
-		return Outline{}, fmt.Errorf("%s (ring k is loop k; edge k of a ring is its segment k): %w", where, err)
+		return Outline{}, fmt.Errorf("%s: %w", where, ringError(err, p))
 	}
 	return n, nil
+}
+
+// ringError restates an outline error in the file's own terms: loop k is
+// ring k of the polygon and segment e of a ring is its edge from vertex e
+// to vertex e+1, so the message names the ring and the vertices as the
+// file numbers them.
+func ringError(err error, p orb.Polygon) error {
+	var ge *Error
+	if !errors.As(err, &ge) || ge.Loop < 0 || ge.Loop >= len(p) {
+		return err
+	}
+	ring := "exterior ring 0"
+	if ge.Loop > 0 {
+		ring = fmt.Sprintf("hole ring %d", ge.Loop)
+	}
+	if ge.Segment < 0 {
+		return fmt.Errorf("%s: %s: %w", ring, ge.Detail, errOrFormat(ge.Err))
+	}
+	at := ""
+	if ge.HasPoint {
+		at = fmt.Sprintf(" at (%g, %g)", ge.Point[0], ge.Point[1])
+	}
+	// Every segment of a polygon is one line edge: name the other edge a
+	// detail refers to by its vertices too.
+	detail := otherSegment.ReplaceAllString(ge.Detail, "the edge from vertex $1")
+	return fmt.Errorf("%s, edge from vertex %d to vertex %d%s: %s: %w", ring, ge.Segment, ge.Segment+1, at, detail, errOrFormat(ge.Err))
+}
+
+var otherSegment = regexp.MustCompile(`segment (\d+) \(line\)`)
+
+func errOrFormat(err error) error {
+	if err == nil {
+		return ErrFormat
+	}
+	return err
 }

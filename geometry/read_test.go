@@ -102,8 +102,8 @@ func TestReadGeoJSONTags(t *testing.T) {
 		{`{"type": "Feature", "properties": {"edge_tags": [{"form": 0, "to": 1, "tag": "a"}]}, "geometry": null}`, `unknown field "form"`},
 		{`{"type": "Feature", "properties": {"tag": 7}, "geometry": null}`, `property "tag" must be a non-empty string`},
 		{"{\"type\": \"Polygon\",\n \"coordinates\": [[[0, 0], [1, 0], [1, 1] [0, 0]]]}", "line 2, column"},
-		{`{"type": "Polygon", "coordinates": [[[0, 0], [1, 1], [1, 0], [0, 1], [0, 0]]]}`, "outer loop, segment 0 (line) at (0.5, 0.5): meets segment 2 (line): loop crosses itself"},
-		{`{"type": "Polygon", "coordinates": [[[0, 0], [1, 0], [1, 1], [0, 1], [0, 0]], [[2, 2], [3, 2], [3, 3], [2, 2]]]}`, "inner loop 1, segment 0 (line) at (2, 2): this point lies outside the outer loop"},
+		{`{"type": "Polygon", "coordinates": [[[0, 0], [1, 1], [1, 0], [0, 1], [0, 0]]]}`, "exterior ring 0, edge from vertex 0 to vertex 1 at (0.5, 0.5): meets the edge from vertex 2: loop crosses itself"},
+		{`{"type": "Polygon", "coordinates": [[[0, 0], [1, 0], [1, 1], [0, 1], [0, 0]], [[2, 2], [3, 2], [3, 3], [2, 2]]]}`, "hole ring 1, edge from vertex 0 to vertex 1 at (2, 2): this point lies outside the outer loop"},
 		{`{"type": "Point", "coordinates": [1, 2]}`, "no Polygon or MultiPolygon found"},
 		{`{"type": "Polygonal", "coordinates": []}`, `unknown GeoJSON type "Polygonal"`},
 	}

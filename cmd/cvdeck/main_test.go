@@ -161,7 +161,7 @@ func TestSketchStraightToMesh(t *testing.T) {
 	}
 	badDeck := filepath.Join(dir, "bad")
 	code, _, errs = cvdeck(t, "mesh", bad, "--size", "0.1", "-o", badDeck)
-	if code != 2 || !strings.Contains(errs, "ring") || !strings.Contains(errs, "segment 0") || strings.Count(errs, "\n") != 1 {
+	if code != 2 || !strings.Contains(errs, "ring 0") || !strings.Contains(errs, "vertex 0") || strings.Count(errs, "\n") != 1 {
 		t.Fatalf("bow-tie: exit %d, stderr %q", code, errs)
 	}
 	if _, err := os.Stat(badDeck); !os.IsNotExist(err) {

@@ -6,9 +6,10 @@ import (
 	"testing"
 )
 
-// BenchmarkWrite1M writes a 1-million-cell unstructured deck (mesh, BCs,
+// BenchmarkWrite1M writes a 1-million-cell deck (mesh, BCs,
 // flow state, two cell fields) to CGNS/HDF5: quadrilaterals (1000 × 1000)
-// and triangles (500 × 1000 squares, split).
+// and triangles (500 × 1000 squares, split) as one unstructured zone, and
+// the quadrilaterals as two structured zones of 500 × 1000 cells.
 func BenchmarkWrite1M(b *testing.B) {
 	for _, c := range []struct {
 		name string
@@ -16,6 +17,7 @@ func BenchmarkWrite1M(b *testing.B) {
 	}{
 		{"quad", func() *Deck { return testDeck(quadMesh(b, 1000, 1000)) }},
 		{"tri", func() *Deck { return testDeck(triMesh(b, 500, 1000)) }},
+		{"structured", func() *Deck { return testDeck(twoBlockMesh(b, 1000, 1000, true)) }},
 	} {
 		b.Run(c.name, func(b *testing.B) {
 			d := c.deck()

@@ -95,10 +95,21 @@ func TestReadForeignUnstructured(t *testing.T) {
 }
 
 func TestReadForeignStructured(t *testing.T) {
-	m, err := Read(filepath.Join(foreignFiles(t), "twozone.cgns"))
-	if err != nil {
-		t.Fatal(err)
+	dir := foreignFiles(t)
+	for _, file := range []string{"twozone.cgns", "onesided.cgns"} {
+		t.Run(file, func(t *testing.T) {
+			m, err := Read(filepath.Join(dir, file))
+			if err != nil {
+				t.Fatal(err)
+			}
+			checkTwoZone(t, m)
+		})
 	}
+}
+
+// checkTwoZone checks the mesh of foreign.c's two structured zones.
+func checkTwoZone(t *testing.T, m *mesh.Mesh) {
+	t.Helper()
 	// Two 2 × 2-cell zones on [0, 1] × [0, 1] and [1, 2] × [0, 1] sharing
 	// 3 nodes: 15 nodes, 8 cells, 10 interior and 12 boundary faces.
 	if len(m.Nodes) != 15 || m.NumCells() != 8 || m.NumInterior != 10 || m.NumBoundary() != 12 {

@@ -7,6 +7,7 @@ import "C"
 
 import (
 	"fmt"
+	"slices"
 
 	"github.com/paulmach/orb"
 
@@ -332,7 +333,9 @@ func (s *szone) fullSide(rng [4]int32) (mesh.Side, bool) {
 	return 0, false
 }
 
-// interfaces lists the joins of two whole sides, once per pair.
+// interfaces lists the joins of two whole sides, once per pair whether
+// the file records a join from one side or from both, with the lower
+// (zone, side) as A.
 func interfaces(joins []join, zones []szone) []mesh.BlockInterface {
 	var out []mesh.BlockInterface
 	for _, jn := range joins {
@@ -341,7 +344,7 @@ func interfaces(joins []join, zones []szone) []mesh.BlockInterface {
 			continue
 		}
 		sb, ok := zones[jn.b].fullSide(jn.drng)
-		if !ok || jn.a > jn.b || jn.a == jn.b && sa >= sb {
+		if !ok {
 			continue
 		}
 		// The sides run the same way if the range and donor range both
@@ -352,7 +355,13 @@ func interfaces(joins []join, zones []szone) []mesh.BlockInterface {
 			}
 			return rng[2] - rng[0]
 		}
-		out = append(out, mesh.BlockInterface{A: jn.a, B: jn.b, SideA: sa, SideB: sb, Reversed: (along(jn.rng) > 0) != (along(jn.drng) > 0)})
+		bi := mesh.BlockInterface{A: jn.a, B: jn.b, SideA: sa, SideB: sb, Reversed: (along(jn.rng) > 0) != (along(jn.drng) > 0)}
+		if bi.A > bi.B || bi.A == bi.B && bi.SideA > bi.SideB {
+			bi.A, bi.B, bi.SideA, bi.SideB = bi.B, bi.A, bi.SideB, bi.SideA
+		}
+		if !slices.Contains(out, bi) {
+			out = append(out, bi)
+		}
 	}
 	return out
 }

@@ -13,6 +13,8 @@
  *                     y), joined 1-to-1 with Transform [2, 1]; BCs as
  *                     IFaceCenter, JFaceCenter and Vertex ranges.
  *   highorder.cgns  - a TRI_6 section, which cvdeck does not read.
+ *   onesided.cgns   - twozone.cgns with the join recorded on the second
+ *                     zone only.
  *   pointjoin.cgns  - twozone.cgns's zones joined by a GridConnectivity_t
  *                     (point lists) instead, which cvdeck does not merge.
  *
@@ -95,8 +97,11 @@ static void mixedbars(void) {
     ck(cg_close(fn), "close");
 }
 
-static void twozone(int pointjoin) {
-    int fn = open_file(pointjoin ? "pointjoin.cgns" : "twozone.cgns"), B, Z1, Z2, C, BC, I;
+enum join { BOTH_SIDES, ONE_SIDE, POINT_LISTS };
+
+static void twozone(enum join join) {
+    const char *names[] = {"twozone.cgns", "onesided.cgns", "pointjoin.cgns"};
+    int fn = open_file(names[join]), B, Z1, Z2, C, BC, I;
     cgsize_t size[6] = {3, 3, 2, 2, 0, 0};
     double x[9], y[9];
     ck(cg_base_write(fn, "Imported", 2, 2, &B), "base");
@@ -120,14 +125,15 @@ static void twozone(int pointjoin) {
     ck(cg_coord_write(fn, B, Z2, RealDouble, "CoordinateY", y, &C), "y");
     cgsize_t r1[4] = {3, 1, 3, 3}, d1[4] = {1, 1, 3, 1};
     int t[2] = {2, 1};
-    if (pointjoin) {
+    if (join == POINT_LISTS) {
         cgsize_t p1[6] = {3, 1, 3, 2, 3, 3}, q1[6] = {1, 1, 2, 1, 3, 1};
         ck(cg_conn_write(fn, B, Z1, "toright", Vertex, Abutting1to1, PointList, 3, p1, "right",
                          Structured, PointListDonor, Integer, 3, q1, &I), "point join left");
         ck(cg_conn_write(fn, B, Z2, "toleft", Vertex, Abutting1to1, PointList, 3, q1, "left",
                          Structured, PointListDonor, Integer, 3, p1, &I), "point join right");
     } else {
-        ck(cg_1to1_write(fn, B, Z1, "toright", "right", r1, d1, t, &I), "join left");
+        if (join == BOTH_SIDES)
+            ck(cg_1to1_write(fn, B, Z1, "toright", "right", r1, d1, t, &I), "join left");
         ck(cg_1to1_write(fn, B, Z2, "toleft", "left", d1, r1, t, &I), "join right");
     }
     cgsize_t inlet[4] = {1, 1, 1, 2};
@@ -164,8 +170,9 @@ int main(int argc, char **argv) {
     dir = argv[1];
     unordered();
     mixedbars();
-    twozone(0);
-    twozone(1);
+    twozone(BOTH_SIDES);
+    twozone(ONE_SIDE);
+    twozone(POINT_LISTS);
     highorder();
     return 0;
 }
