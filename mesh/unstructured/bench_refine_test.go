@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"syscall"
 	"testing"
 	"time"
 
@@ -16,7 +17,7 @@ import (
 // has about n triangles.
 func refineCase(n int) (geometry.DiscreteOutline, Options) {
 	area := 8 - math.Pi*0.16
-	h := math.Sqrt(area / (0.30 * float64(n)))
+	h := math.Sqrt(area / (0.41 * float64(n)))
 	out := geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{
 		polyLoop([]orb.Point{{0, 0}, {4, 0}, {4, 2}, {0, 2}}, h, "wall"),
 		circleLoop(orb.Point{1.5, 1}, 0.4, int(2*math.Pi*0.4/h), true, "body"),
@@ -26,9 +27,10 @@ func refineCase(n int) (geometry.DiscreteOutline, Options) {
 
 // BenchmarkRefine refines the channel to 250k, 1M and 4M triangles with a
 // 25° minimum angle, on one core. It reports the triangle count, the time
-// per triangle (for the n log n growth check), and the peak heap per
-// triangle: the largest heap in use sampled by a watcher goroutine every
-// millisecond, less the heap before the run.
+// per triangle (for the n log n growth check), the process CPU time (on a
+// machine shared with other jobs the wall time overstates the work), and
+// the peak heap per triangle: the largest heap in use sampled by a watcher
+// goroutine every millisecond, less the heap before the run.
 func BenchmarkRefine(b *testing.B) {
 	for _, n := range []int{250_000, 1_000_000, 4_000_000} {
 		b.Run(fmt.Sprintf("tri=%d", n), func(b *testing.B) {
@@ -37,6 +39,7 @@ func BenchmarkRefine(b *testing.B) {
 			out, opt := refineCase(n)
 			var tris int
 			var peak uint64
+			var cpu time.Duration
 			for b.Loop() {
 				g, err := flatten(out)
 				if err != nil {
@@ -49,10 +52,12 @@ func BenchmarkRefine(b *testing.B) {
 				var base runtime.MemStats
 				runtime.ReadMemStats(&base)
 				go watchHeap(base.HeapAlloc, stop, done)
-				tr, err := triangulateOutline(g, o)
+				cpu0 := cpuTime()
+				tr, err := triangulateOutline(g, g, o)
 				if err != nil {
 					b.Fatal(err)
 				}
+				cpu += cpuTime() - cpu0
 				close(stop)
 				peak = <-done
 				tris = 0
@@ -66,8 +71,19 @@ func BenchmarkRefine(b *testing.B) {
 			b.ReportMetric(float64(tris), "triangles")
 			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(tris), "ns/triangle")
 			b.ReportMetric(float64(peak)/float64(tris), "peak-B/triangle")
+			b.ReportMetric(cpu.Seconds()/float64(b.N), "cpu-s")
+			b.ReportMetric(float64(cpu.Nanoseconds())/float64(b.N)/float64(tris), "cpu-ns/triangle")
 		})
 	}
+}
+
+// cpuTime returns the user and system CPU time of the process so far.
+func cpuTime() time.Duration {
+	var ru syscall.Rusage
+	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err != nil {
+		return 0
+	}
+	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
 }
 
 // watchHeap samples the live heap until stop closes and sends the peak
@@ -90,4 +106,36 @@ func watchHeap(base uint64, stop chan struct{}, done chan uint64) {
 			peak = max(peak, ms.HeapAlloc-min(base, ms.HeapAlloc))
 		}
 	}
+}
+
+// BenchmarkMesh1M runs the whole mesher on the 1M-triangle channel, mesh
+// construction (faces, owner/neighbour, derived geometry) included, on one
+// core, and reports the peak heap per cell.
+func BenchmarkMesh1M(b *testing.B) {
+	prev := runtime.GOMAXPROCS(1)
+	defer runtime.GOMAXPROCS(prev)
+	out, opt := refineCase(1_000_000)
+	var cells int
+	var peak uint64
+	var cpu time.Duration
+	for b.Loop() {
+		runtime.GC()
+		stop := make(chan struct{})
+		done := make(chan uint64)
+		var base runtime.MemStats
+		runtime.ReadMemStats(&base)
+		go watchHeap(base.HeapAlloc, stop, done)
+		cpu0 := cpuTime()
+		m, err := Mesh(out, opt)
+		if err != nil {
+			b.Fatal(err)
+		}
+		cpu += cpuTime() - cpu0
+		close(stop)
+		peak = <-done
+		cells = m.NumCells()
+	}
+	b.ReportMetric(float64(cells), "cells")
+	b.ReportMetric(cpu.Seconds()/float64(b.N), "cpu-s")
+	b.ReportMetric(float64(peak)/float64(cells), "peak-B/cell")
 }

@@ -95,7 +95,7 @@ func (g *pslg) where(i int32) string {
 // unconstrained edges until each is locally Delaunay (Lee and Lin 1986;
 // Chew 1989), and the triangles inside the domain marked.
 func constrainedTriangulation(g *pslg, capTri int) (*triangulation, error) {
-	tr, dup, err := triangulatePoints(g.pts, capTri)
+	tr, dup, err := triangulatePoints(g.pts, capTri, false)
 	if err != nil {
 		return nil, err
 	}

@@ -110,8 +110,9 @@ func (tr *triangulation) insertPoint(i int32) (insertResult, int32, error) {
 }
 
 // triangulatePoints builds the Delaunay triangulation of pts, inserting in
-// Hilbert order. dup[i] is the vertex that point i coincides with, or i.
-func triangulatePoints(pts []orb.Point, extraTri int) (*triangulation, []int32, error) {
+// Hilbert order (or in the given order when inOrder is true). dup[i] is the
+// vertex that point i coincides with, or i.
+func triangulatePoints(pts []orb.Point, extraTri int, inOrder bool) (*triangulation, []int32, error) {
 	n := len(pts)
 	for i, p := range pts {
 		if math.IsNaN(p[0]) || math.IsNaN(p[1]) || math.IsInf(p[0], 0) || math.IsInf(p[1], 0) {
@@ -121,7 +122,15 @@ func triangulatePoints(pts []orb.Point, extraTri int) (*triangulation, []int32, 
 	if n < 3 {
 		return nil, nil, fmt.Errorf("%d points; a triangulation needs at least 3 that are not collinear", n)
 	}
-	order := hilbertOrder(pts)
+	var order []int32
+	if inOrder {
+		order = make([]int32, n)
+		for i := range order {
+			order[i] = int32(i)
+		}
+	} else {
+		order = hilbertOrder(pts)
+	}
 	// The first triangle: the first point in curve order, the next distinct
 	// one and the next one off their line.
 	a := order[0]
@@ -182,11 +191,31 @@ func triangulatePoints(pts []orb.Point, extraTri int) (*triangulation, []int32, 
 // returned when fewer than three points are not collinear or a coordinate
 // is not finite.
 func Delaunay(pts []orb.Point) ([]int32, error) {
-	tr, _, err := triangulatePoints(pts, 0)
+	if len(pts) >= math.MaxInt32/3 {
+		return nil, fmt.Errorf("unstructured: Delaunay: %d points; at most %d fit int32 triangle indices", len(pts), math.MaxInt32/3)
+	}
+	for i, p := range pts {
+		if math.IsNaN(p[0]) || math.IsNaN(p[1]) || math.IsInf(p[0], 0) || math.IsInf(p[1], 0) {
+			return nil, fmt.Errorf("unstructured: Delaunay: point %d is (%v, %v); coordinates must be finite", i, p[0], p[1])
+		}
+	}
+	// Triangulate a copy in curve order, so that the coordinates of
+	// neighbouring vertices are neighbours in memory too, then map the
+	// vertex numbers back.
+	order := hilbertOrder(pts)
+	sorted := make([]orb.Point, len(pts))
+	for k, i := range order {
+		sorted[k] = pts[i]
+	}
+	tr, _, err := triangulatePoints(sorted, 0, true)
 	if err != nil {
 		return nil, fmt.Errorf("unstructured: Delaunay: %w", err)
 	}
-	return tr.realTriangles(), nil
+	tris := tr.realTriangles()
+	for k, v := range tris {
+		tris[k] = order[v]
+	}
+	return tris, nil
 }
 
 // realTriangles returns the vertices of every non-ghost triangle.

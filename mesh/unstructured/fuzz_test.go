@@ -12,10 +12,11 @@ import (
 // polygon (vertex k at angle 2πk/n plus a jitter below half the spacing,
 // radius 0.2–1), its edges split into 1–4 pieces, tags from the bytes, and
 // for n ≥ 6 a clockwise circular hole at the centre small enough to stay
-// clear of the outer loop; plus the minimum-angle target.
-func fuzzOutline(data []byte) (geometry.DiscreteOutline, float64, bool) {
+// clear of the outer loop; plus options: the minimum-angle target and, for
+// some inputs, boundary layers.
+func fuzzOutline(data []byte) (geometry.DiscreteOutline, Options, bool) {
 	if len(data) < 4 {
-		return geometry.DiscreteOutline{}, 0, false
+		return geometry.DiscreteOutline{}, Options{}, false
 	}
 	byteAt := func(i int) float64 { return float64(data[i%len(data)]) / 255 }
 	n := 3 + int(data[0])%40
@@ -49,10 +50,19 @@ func fuzzOutline(data []byte) (geometry.DiscreteOutline, float64, bool) {
 		// rmin·cos(0.76) ≈ 0.72 rmin from the centre.
 		out.Loops = append(out.Loops, circleLoop(orb.Point{}, 0.3*rmin, 12, true, "hole"))
 	}
-	return out, angle, true
+	opt := Options{MinAngle: angle, MaxCells: 200_000}
+	if data[3]%4 >= 2 {
+		// Boundary layers on the first edge's tag (and on the hole when
+		// there is one).
+		opt.Layers = []Layers{{Tags: []string{outer.Tags[0]}, FirstHeight: 0.001 + 0.01*byteAt(len(data)-1), Growth: 1 + 0.5*byteAt(len(data)-2), Count: 1 + int(data[len(data)-3])%12}}
+		if hole {
+			opt.Layers[0].Tags = append(opt.Layers[0].Tags, "hole")
+		}
+	}
+	return out, opt, true
 }
 
-// FuzzMesh meshes random valid outlines: never a panic or a hang (the
+// FuzzMesh meshes random valid outlines, with and without boundary layers: never a panic or a hang (the
 // cell limit bounds the work), always a mesh that passes the basic checks
 // (positive areas, closed cells, every boundary face tagged, the outline's
 // area and edges) or an error.
@@ -62,11 +72,11 @@ func FuzzMesh(f *testing.F) {
 	f.Add([]byte{37, 3, 255, 1, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16})
 	f.Add([]byte{9, 2, 200, 0, 255, 0, 255, 0, 255, 0, 255, 0, 255, 0})
 	f.Fuzz(func(t *testing.T, data []byte) {
-		out, angle, ok := fuzzOutline(data)
+		out, opt, ok := fuzzOutline(data)
 		if !ok {
 			t.Skip()
 		}
-		m, err := Mesh(out, Options{MinAngle: angle, MaxCells: 200_000})
+		m, err := Mesh(out, opt)
 		if err != nil {
 			if err.Error() == "" {
 				t.Fatal("empty error message")

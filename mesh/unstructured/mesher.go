@@ -31,11 +31,23 @@ func Mesh(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, error) {
 	if err != nil {
 		return nil, fmt.Errorf("unstructured: %w", err)
 	}
-	tr, err := triangulateOutline(g, opt)
+	region := g
+	var plan *layerPlan
+	if len(opt.Layers) > 0 {
+		if plan, err = buildLayers(g, opt); err != nil {
+			return nil, fmt.Errorf("unstructured: %w", err)
+		}
+		if plan != nil {
+			if region, err = flatten(plan.front); err != nil {
+				return nil, fmt.Errorf("unstructured: the outline left after the boundary layers is not valid (reduce the layer thickness): %w", err)
+			}
+		}
+	}
+	tr, err := triangulateOutline(region, g, opt)
 	if err != nil {
 		return nil, err
 	}
-	in := tr.meshInput(g)
+	in := meshInput(g, region, plan, tr, opt.QuadDominant)
 	tr = nil
 	m, err := mesh.Build(in)
 	if err != nil {
@@ -45,20 +57,21 @@ func Mesh(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, error) {
 }
 
 // triangulateOutline returns the refined constrained Delaunay
-// triangulation of the flattened outline.
-func triangulateOutline(g *pslg, opt Options) (*triangulation, error) {
-	size, err := newSizeField(g, opt)
+// triangulation of the flattened region outline; orig is the user's
+// outline (for near-tag regions).
+func triangulateOutline(region, orig *pslg, opt Options) (*triangulation, error) {
+	size, err := newSizeField(region, orig, opt)
 	if err != nil {
 		return nil, fmt.Errorf("unstructured: %w", err)
 	}
-	est := size.estimateTriangles(g)
+	est := size.estimateTriangles(region)
 	if est > float64(opt.MaxCells) {
 		return nil, fmt.Errorf("unstructured: the sizes ask for about %.3g cells, above the limit of %d; raise the limit or the sizes", est, opt.MaxCells)
 	}
-	capTri := int(math.Min(1.15*est, float64(opt.MaxCells))) + 4*len(g.pts) + 16
-	pts := make([]orb.Point, len(g.pts), capTri/2+len(g.pts))
-	copy(pts, g.pts)
-	g2 := *g
+	capTri := int(math.Min(1.15*est, float64(opt.MaxCells))) + 4*len(region.pts) + 16
+	pts := make([]orb.Point, len(region.pts), capTri/2+len(region.pts))
+	copy(pts, region.pts)
+	g2 := *region
 	g2.pts = pts
 	tr, err := constrainedTriangulation(&g2, capTri)
 	if err != nil {
@@ -66,15 +79,26 @@ func triangulateOutline(g *pslg, opt Options) (*triangulation, error) {
 	}
 	// Ghost and outside triangles are not cells; allow for them in the
 	// cell limit.
-	r := newRefiner(tr, g, size, opt.MinAngle, opt.MaxCells+4*len(g.pts)+16)
+	r := newRefiner(tr, region, size, opt.MinAngle, opt.MaxCells+4*len(region.pts)+16)
+	r.frozen = region.tagIndex(frontTag)
 	if err := r.run(); err != nil {
 		return nil, fmt.Errorf("unstructured: %w", refineError(err, opt.MaxCells))
 	}
 	return tr, nil
 }
 
+// tagIndex returns the index of the tag name, or noSeg.
+func (g *pslg) tagIndex(name string) int16 {
+	for i, t := range g.tags {
+		if t == name {
+			return int16(i)
+		}
+	}
+	return noSeg
+}
+
 // newSizeField builds the size field of the options over the outline.
-func newSizeField(g *pslg, opt Options) (*sizeField, error) {
+func newSizeField(g, orig *pslg, opt Options) (*sizeField, error) {
 	s := &sizeField{slope: opt.Growth - 1, maxSize: opt.MaxSize}
 	for i, p := range g.pts {
 		a, c := g.pts[g.prevPt[i]], g.pts[g.nextPt[i]]
@@ -89,14 +113,14 @@ func newSizeField(g *pslg, opt Options) (*sizeField, error) {
 			s.circles = append(s.circles, r)
 		case NearTag:
 			found := false
-			for e, ti := range g.edgeTag {
-				if g.tags[ti] != r.Tag {
+			for e, ti := range orig.edgeTag {
+				if orig.tags[ti] != r.Tag {
 					continue
 				}
 				found = true
 				// Sample the edge at most Size apart so the cone union
 				// follows the edge, not just its end points.
-				a, b := g.pts[e], g.pts[g.nextPt[e]]
+				a, b := orig.pts[e], orig.pts[orig.nextPt[e]]
 				l := math.Hypot(b[0]-a[0], b[1]-a[1])
 				n := int(math.Ceil(l / r.Size))
 				if n > 1000 {
@@ -108,7 +132,7 @@ func newSizeField(g *pslg, opt Options) (*sizeField, error) {
 				}
 			}
 			if !found {
-				return nil, fmt.Errorf("region %d (near-tag): no boundary edge is tagged %q; tags are %q", ri, r.Tag, g.tags)
+				return nil, fmt.Errorf("region %d (near-tag): no boundary edge is tagged %q; tags are %q", ri, r.Tag, orig.tags)
 			}
 		}
 	}
@@ -117,7 +141,7 @@ func newSizeField(g *pslg, opt Options) (*sizeField, error) {
 }
 
 // estimateTriangles estimates the triangle count of the refined mesh: the
-// integral over the domain of 1/(a·h²), with a = 0.30 h² the mean triangle
+// integral over the domain of 1/(a·h²), with a = 0.41 h² the mean triangle
 // area refinement gives for the size target h (measured on test domains;
 // an equilateral triangle of edge h has √3/4·h² ≈ 0.43 h²). The domain is
 // integrated on the size field's grid cells whose centres lie inside the
@@ -148,40 +172,75 @@ func (s *sizeField) estimateTriangles(g *pslg) float64 {
 			}
 			if c%2 == 1 {
 				h := s.at(orb.Point{x, y})
-				sum += dx * dy / (0.30 * h * h)
+				sum += dx * dy / (0.41 * h * h)
 			}
 		}
 	}
 	return sum + 2*float64(len(g.pts))
 }
 
-// meshInput turns the inside triangles into a mesh.Input: nodes are the
-// triangulation's vertices in insertion order, cells the inside triangles
-// in slot order, and every segment half-edge of an inside triangle a
-// tagged boundary edge.
-func (tr *triangulation) meshInput(g *pslg) mesh.Input {
-	nt := tr.numTri()
-	in := mesh.Input{Nodes: tr.pts, Tags: g.tags}
-	count := 0
-	for t := int32(0); t < nt; t++ {
-		if tr.flag[t]&flagInside != 0 {
-			count++
-		}
+// meshInput assembles the mesh: the layer plan's nodes and cells (when
+// there are layers) and the inside triangles. Nodes are the outline's
+// points, then layer nodes, then the points refinement inserted, in order;
+// cells are the layer cells, then the triangles in slot order. Every
+// segment half-edge of an inside triangle is a boundary face with its tag,
+// except the layers' front, which is interior. With quads, triangles
+// paired by pairQuads become one quadrilateral cell, at the place of the
+// lower-numbered triangle.
+func meshInput(g, region *pslg, plan *layerPlan, tr *triangulation, quads bool) mesh.Input {
+	nr := int32(len(region.pts))
+	in := mesh.Input{Tags: g.tags}
+	var nodeOf func(v int32) int32
+	tagOf := make([]int16, len(region.tags))
+	for i, name := range region.tags {
+		tagOf[i] = g.tagIndex(name)
 	}
-	in.CellStart = make([]int32, 0, count+1)
-	in.CellNodes = make([]int32, 0, 3*count)
-	in.CellStart = append(in.CellStart, 0)
+	if plan == nil {
+		in.Nodes = tr.pts
+		nodeOf = func(v int32) int32 { return v }
+		in.CellStart = []int32{0}
+	} else {
+		var ids []int32
+		for _, l := range plan.frontID {
+			ids = append(ids, l...)
+		}
+		base := int32(len(plan.nodes))
+		in.Nodes = append(plan.nodes, tr.pts[nr:]...)
+		nodeOf = func(v int32) int32 {
+			if v < nr {
+				return ids[v]
+			}
+			return base + v - nr
+		}
+		in.CellStart = plan.cellStart
+		in.CellNodes = plan.cellNodes
+		in.Edges = plan.edges
+	}
+	nt := tr.numTri()
+	var partner []int32
+	if quads {
+		partner = tr.pairQuads()
+	}
 	for t := int32(0); t < nt; t++ {
 		if tr.flag[t]&flagInside == 0 {
 			continue
 		}
-		in.CellNodes = append(in.CellNodes, tr.v[3*t:3*t+3]...)
-		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
 		for k := int32(0); k < 3; k++ {
-			if s := tr.seg[3*t+k]; s != noSeg {
-				in.Edges = append(in.Edges, mesh.TaggedEdge{A: tr.v[3*t+k], B: tr.v[next(3*t+k)], Tag: s})
+			if s := tr.seg[3*t+k]; s != noSeg && tagOf[s] >= 0 {
+				in.Edges = append(in.Edges, mesh.TaggedEdge{A: nodeOf(tr.v[3*t+k]), B: nodeOf(tr.v[next(3*t+k)]), Tag: tagOf[s]})
 			}
 		}
+		if partner != nil && partner[t] >= 0 {
+			e := partner[t]
+			if tr.adj[e]/3 < t {
+				continue // emitted with its partner
+			}
+			// Triangles a b c and b a d across e = a→b make a d b c.
+			in.CellNodes = append(in.CellNodes, nodeOf(tr.v[e]), nodeOf(tr.v[prev(tr.adj[e])]), nodeOf(tr.v[next(e)]), nodeOf(tr.v[prev(e)]))
+		} else {
+			in.CellNodes = append(in.CellNodes, nodeOf(tr.v[3*t]), nodeOf(tr.v[3*t+1]), nodeOf(tr.v[3*t+2]))
+		}
+		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
 	}
 	return in
 }

@@ -16,7 +16,7 @@ const (
 )
 
 // sizeFactor: a triangle is too large when its circumradius exceeds
-// sizeFactor·h at its centroid. An equilateral triangle of edge h has
+// sizeFactor·h, with h the mean size at its vertices. An equilateral triangle of edge h has
 // circumradius h/√3 ≈ 0.577h; the factor leaves room above that so the
 // mean edge comes out near h.
 const sizeFactor = 0.75
@@ -51,6 +51,9 @@ type refiner struct {
 	sin2   float64 // sin² of the minimum-angle target
 	kind   []uint8 // per vertex
 	onEdge []int32 // per vertex: input edge of a segment vertex, else -1
+	// vh is the size field at each vertex, evaluated once on insertion
+	// (float32: sizes need no more digits, and it saves memory).
+	vh []float32
 	// sharp[i] is true at outline point i when its interior angle is below
 	// 60°.
 	sharp  []bool
@@ -58,6 +61,9 @@ type refiner struct {
 	segQ   []segRef
 	maxTri int
 	minLen float64 // segments shorter than this are not split
+	// frozen is the tag index of segments that may not be split (the
+	// boundary layers' front), or noSeg.
+	frozen int16
 	tmp    [2]int32
 }
 
@@ -69,14 +75,16 @@ var errTooMany = errors.New("too many cells")
 
 func newRefiner(tr *triangulation, g *pslg, size *sizeField, minAngle float64, maxTri int) *refiner {
 	n := len(tr.pts)
-	r := &refiner{tr: tr, g: g, size: size, maxTri: maxTri}
+	r := &refiner{tr: tr, g: g, size: size, maxTri: maxTri, frozen: noSeg}
 	s := math.Sin(minAngle * math.Pi / 180)
 	r.sin2 = s * s
 	r.kind = make([]uint8, n, cap(tr.pts))
 	r.onEdge = make([]int32, n, cap(tr.pts))
+	r.vh = make([]float32, n, cap(tr.pts))
 	for i := range r.kind {
 		r.kind[i] = vInput
 		r.onEdge[i] = -1
+		r.vh[i] = float32(size.at(tr.pts[i]))
 	}
 	r.sharp = make([]bool, n)
 	b := orb.MultiPoint(g.pts).Bound()
@@ -139,7 +147,7 @@ func (r *refiner) checkNew(t int32) {
 	}
 	for k := int32(0); k < 3; k++ {
 		e := 3*t + k
-		if tr.seg[e] == noSeg {
+		if tr.seg[e] == noSeg || tr.seg[e] == r.frozen {
 			continue
 		}
 		a, b, c := tr.pts[tr.v[e]], tr.pts[tr.v[next(e)]], tr.pts[tr.v[prev(e)]]
@@ -172,8 +180,8 @@ func (r *refiner) bad(t int32) bool {
 	lab, lbc, lca := abx*abx+aby*aby, bcx*bcx+bcy*bcy, cax*cax+cay*cay
 	d := abx*(-cay) - aby*(-cax)
 	d2 := d * d
-	// Size: R > sizeFactor·h.
-	h := r.size.at(orb.Point{(a[0] + b[0] + c[0]) / 3, (a[1] + b[1] + c[1]) / 3})
+	// Size: R > sizeFactor·h, h the mean of the vertices' sizes.
+	h := float64(r.vh[ia]+r.vh[ib]+r.vh[ic]) / 3
 	if lab*lbc*lca > 4*d2*sizeFactor*sizeFactor*h*h {
 		return true
 	}
@@ -226,6 +234,7 @@ func (r *refiner) addVertex(p orb.Point, kind uint8, edge int32) int32 {
 	tr.vedge = append(tr.vedge, -1)
 	r.kind = append(r.kind, kind)
 	r.onEdge = append(r.onEdge, edge)
+	r.vh = append(r.vh, float32(r.size.at(p)))
 	return int32(len(tr.pts) - 1)
 }
 
@@ -250,7 +259,7 @@ func (r *refiner) splitSegment(e int32) bool {
 	a, b := tr.v[e], tr.v[next(e)]
 	pa, pb := tr.pts[a], tr.pts[b]
 	l := math.Hypot(pb[0]-pa[0], pb[1]-pa[1])
-	if l < r.minLen {
+	if l < r.minLen || tr.seg[e] == r.frozen {
 		return false
 	}
 	t := 0.5
@@ -331,7 +340,7 @@ func (r *refiner) splitTriangle(t int32) {
 	}
 	encroached := false
 	for _, be := range tr.border {
-		if be.seg == noSeg || be.flag&flagInside == 0 {
+		if be.seg == noSeg || be.seg == r.frozen || be.flag&flagInside == 0 {
 			continue
 		}
 		pa, pb := tr.pts[be.a], tr.pts[be.b]

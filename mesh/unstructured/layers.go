@@ -1,0 +1,459 @@
+package unstructured
+
+import (
+	"fmt"
+	"math"
+
+	"cvdeck/geometry"
+	"cvdeck/mesh"
+	"github.com/paulmach/orb"
+)
+
+// frontTag is the internal tag of the edges between the boundary layers
+// and the triangles: they are constrained but never split, and they are
+// interior faces of the final mesh. The NUL byte keeps it apart from any
+// user tag.
+const frontTag = "\x00layer-front"
+
+// Fan and corner parameters (common practice, chosen on test shapes).
+const (
+	// fanTurn: wall corners turning away from the domain by more than this
+	// get a fan of rays instead of one averaged normal.
+	fanTurn = 40 * math.Pi / 180
+	// fanStep is the largest angle between two rays of a fan.
+	fanStep = 25 * math.Pi / 180
+	// slideCos: a layer whose wall ends beside a non-wall edge at most
+	// acos(slideCos) from the layer normal grows along that edge.
+	slideCos = 0.64 // cos 50°
+	// gapShare is the share of the free distance along a ray, to the
+	// nearest other boundary, that the layers may take, so layers of
+	// opposite walls stop short of each other.
+	gapShare = 0.45
+	// gapSpacing is the least gap, in wall spacings, left between the
+	// layers and another boundary.
+	gapSpacing = 0.3
+	// crossShare is the share of the distance to the point where two
+	// neighbouring rays cross that the layers may take.
+	crossShare = 0.8
+)
+
+// ray is one extrusion line of the boundary layers: from wall point base
+// along unit direction dir, node k at distance scale·s_k.
+type ray struct {
+	base  int32
+	dir   orb.Point
+	scale float64
+	spec  int     // index into the layer requests
+	limit float64 // largest distance the layers may reach along the ray
+	zero  bool    // layers must end here (a wall end that cannot slide)
+	// slide ≥ 0: the ray runs along input edge slide (a non-wall edge at a
+	// wall end) and its layer faces are boundary faces with that tag.
+	slide int32
+	n     int     // layer count after limits
+	nodes []int32 // node ids, nodes[0] = base
+}
+
+// layerPlan is the boundary-layer part of a mesh and the outline of the
+// region the triangles fill.
+type layerPlan struct {
+	nodes     []orb.Point
+	cellStart []int32
+	cellNodes []int32
+	edges     []mesh.TaggedEdge // boundary faces of layer cells, tags of g
+	front     geometry.DiscreteOutline
+	frontID   [][]int32 // node id of each front point, per loop
+}
+
+// heights returns s_0..s_n, the distances of the layer nodes from the
+// wall: s_k = h₁(Gᵏ − 1)/(G − 1), the geometric series of first height h₁
+// and ratio G (s_k = k·h₁ when G = 1); n is Count or, without a count, the
+// most layers whose total stays within Thickness.
+func heights(l Layers) []float64 {
+	s := []float64{0}
+	h, total := l.FirstHeight, 0.0
+	for k := 0; ; k++ {
+		if l.Count > 0 && k == l.Count {
+			break
+		}
+		if l.Count == 0 && (total+h > l.Thickness*(1+1e-12) || k == 200) {
+			break
+		}
+		total += h
+		s = append(s, total)
+		h *= l.Growth
+	}
+	return s
+}
+
+// buildLayers plans quadrilateral layers on the input edges whose tag is
+// in a layer request (Options.Layers):
+//
+//   - every wall point gets a ray along the averaged normal of its two
+//     wall edges, lengthened by 1/cos of the half-turn so each layer keeps
+//     its height from both edges; corners turning away from the domain by
+//     more than fanTurn get a fan of rays, at most fanStep apart, whose
+//     innermost cells are triangles;
+//   - at the end of a wall beside a non-wall edge the ray runs along that
+//     edge when it lies within 50° of the normal (layers slide along
+//     inflow and outflow edges), otherwise the layers taper to nothing;
+//   - layer termination: each ray's layers stop at gapShare of the
+//     distance to the nearest other boundary edge and crossShare of the
+//     distance to where it crosses a neighbouring ray, and neighbouring
+//     rays differ by at most one layer; a layer that ends is closed by a
+//     triangle;
+//   - any cell that would still be inverted or not convex lowers the
+//     layer count of its rays, until none is.
+//
+// The result is the layer cells and the outline of the remaining region,
+// whose edges along the layers' top are tagged frontTag.
+func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
+	specOf := make([]int, len(g.tags))
+	for i := range specOf {
+		specOf[i] = -1
+	}
+	for li, l := range opt.Layers {
+		for _, tag := range l.Tags {
+			found := false
+			for ti, name := range g.tags {
+				if name == tag {
+					found = true
+					if specOf[ti] < 0 || l.FirstHeight < opt.Layers[specOf[ti]].FirstHeight {
+						specOf[ti] = li
+					}
+				}
+			}
+			if !found {
+				return nil, fmt.Errorf("layers %d: no boundary edge is tagged %q; tags are %q", li, tag, g.tags)
+			}
+		}
+	}
+	wall := func(e int32) int { return specOf[g.edgeTag[e]] }
+	hs := make([][]float64, len(opt.Layers))
+	for i, l := range opt.Layers {
+		hs[i] = heights(l)
+	}
+
+	// Rays, loop by loop, in loop order; raysAt[i] are the rays of point i.
+	var rays []ray
+	raysAt := make([][2]int32, len(g.pts)) // [first, end) into rays
+	for i := range g.pts {
+		p := int32(i)
+		in, out := g.prevPt[p], p
+		vin, vout := wall(in), wall(out)
+		first := int32(len(rays))
+		pp, pa, pb := g.pts[p], g.pts[in], g.pts[g.nextPt[p]]
+		d1 := unit(orb.Point{pp[0] - pa[0], pp[1] - pa[1]})
+		d2 := unit(orb.Point{pb[0] - pp[0], pb[1] - pp[1]})
+		n1, n2 := orb.Point{-d1[1], d1[0]}, orb.Point{-d2[1], d2[0]}
+		switch {
+		case vin >= 0 && vout >= 0:
+			spec := vin
+			if opt.Layers[vout].FirstHeight < opt.Layers[vin].FirstHeight {
+				spec = vout
+			}
+			turn := math.Atan2(d1[0]*d2[1]-d1[1]*d2[0], d1[0]*d2[0]+d1[1]*d2[1])
+			if turn < -fanTurn {
+				m := int(math.Ceil(-turn / fanStep))
+				for r := 0; r <= m; r++ {
+					rays = append(rays, ray{base: p, dir: rotate(n1, turn*float64(r)/float64(m)), scale: 1, spec: spec, slide: -1})
+				}
+			} else {
+				n := unit(orb.Point{n1[0] + n2[0], n1[1] + n2[1]})
+				c := math.Max(0.5, n[0]*n1[0]+n[1]*n1[1])
+				rays = append(rays, ray{base: p, dir: n, scale: 1 / c, spec: spec, slide: -1})
+			}
+		case vin >= 0:
+			// The wall ends at p; the next edge is not a wall.
+			r := ray{base: p, dir: n1, scale: 1, spec: vin, slide: -1}
+			if d2[0]*n1[0]+d2[1]*n1[1] >= slideCos {
+				r.dir, r.slide = d2, out
+			} else {
+				r.zero = true
+			}
+			rays = append(rays, r)
+		case vout >= 0:
+			// The wall starts at p after a non-wall edge.
+			back := orb.Point{-d1[0], -d1[1]}
+			r := ray{base: p, dir: n2, scale: 1, spec: vout, slide: -1}
+			if back[0]*n2[0]+back[1]*n2[1] >= slideCos {
+				r.dir, r.slide = back, in
+			} else {
+				r.zero = true
+			}
+			rays = append(rays, r)
+		}
+		raysAt[i] = [2]int32{first, int32(len(rays))}
+	}
+	if len(rays) == 0 {
+		return nil, nil
+	}
+	// connected(j): rays j and j+1 of the same loop bound layer cells: a fan
+	// at one point, or the two ends of a wall edge.
+	nextRay := func(j int32) int32 {
+		p := rays[j].base
+		if j+1 < raysAt[p][1] {
+			return j + 1
+		}
+		q := g.nextPt[p]
+		if raysAt[q][1] > raysAt[q][0] {
+			return raysAt[q][0]
+		}
+		return -1
+	}
+	connected := func(j int32) (int32, bool) {
+		k := nextRay(j)
+		if k < 0 {
+			return -1, false
+		}
+		if rays[k].base == rays[j].base {
+			return k, true
+		}
+		return k, wall(rays[j].base) >= 0
+	}
+
+	// Limits: free distance to other boundary edges, crossing of
+	// neighbouring rays, the length of a slide edge.
+	for j := range rays {
+		r := &rays[j]
+		r.limit = math.Inf(1)
+		o := g.pts[r.base]
+		pa, pb := g.pts[g.prevPt[r.base]], g.pts[g.nextPt[r.base]]
+		spacing := 0.5 * (math.Hypot(o[0]-pa[0], o[1]-pa[1]) + math.Hypot(o[0]-pb[0], o[1]-pb[1]))
+		for e := range g.pts {
+			a, b := int32(e), g.nextPt[e]
+			if a == r.base || b == r.base {
+				continue
+			}
+			if t, ok := rayHit(o, r.dir, g.pts[a], g.pts[b]); ok {
+				// Leave a gap of at least gapSpacing wall spacings, so the
+				// triangles between two fronts are not slivers.
+				r.limit = math.Min(r.limit, math.Min(gapShare*t, 0.5*(t-gapSpacing*spacing)))
+			}
+		}
+		if r.slide >= 0 {
+			a, b := g.pts[r.slide], g.pts[g.nextPt[r.slide]]
+			r.limit = math.Min(r.limit, gapShare*math.Hypot(b[0]-a[0], b[1]-a[1]))
+		}
+	}
+	for j := range rays {
+		k, ok := connected(int32(j))
+		if !ok || rays[k].base == rays[j].base {
+			continue
+		}
+		if t, s, ok := rayCross(g.pts[rays[j].base], rays[j].dir, g.pts[rays[k].base], rays[k].dir); ok {
+			rays[j].limit = math.Min(rays[j].limit, crossShare*t)
+			rays[k].limit = math.Min(rays[k].limit, crossShare*s)
+		}
+	}
+	for j := range rays {
+		r := &rays[j]
+		s := hs[r.spec]
+		r.n = 0
+		if !r.zero {
+			for r.n+1 < len(s) && r.scale*s[r.n+1] <= r.limit {
+				r.n++
+			}
+		}
+	}
+
+	for attempt := 0; ; attempt++ {
+		smoothCounts(rays, connected)
+		plan, bad := assemble(g, rays, hs, raysAt, connected, wall)
+		if len(bad) == 0 {
+			return plan, nil
+		}
+		if attempt > 4*len(rays)+200 {
+			return nil, fmt.Errorf("boundary layers at %s: cells stay inverted however few layers are used (internal error)", g.where(rays[bad[0]].base))
+		}
+		for _, j := range bad {
+			if rays[j].n > 0 {
+				rays[j].n--
+			}
+		}
+	}
+}
+
+// smoothCounts lowers layer counts until connected rays differ by at most
+// one layer.
+func smoothCounts(rays []ray, connected func(int32) (int32, bool)) {
+	for changed := true; changed; {
+		changed = false
+		for j := range rays {
+			k, ok := connected(int32(j))
+			if !ok {
+				continue
+			}
+			a, b := &rays[j], &rays[k]
+			if a.n > b.n+1 {
+				a.n, changed = b.n+1, true
+			}
+			if b.n > a.n+1 {
+				b.n, changed = a.n+1, true
+			}
+		}
+	}
+}
+
+// assemble makes the nodes, cells, boundary faces and front outline for
+// the current layer counts. It returns the rays of cells that came out
+// inverted or not convex.
+func assemble(g *pslg, rays []ray, hs [][]float64, raysAt [][2]int32, connected func(int32) (int32, bool), wall func(int32) int) (*layerPlan, []int32) {
+	p := &layerPlan{nodes: append([]orb.Point(nil), g.pts...), cellStart: []int32{0}}
+	for j := range rays {
+		r := &rays[j]
+		r.nodes = append(r.nodes[:0], r.base)
+		o := g.pts[r.base]
+		for k := 1; k <= r.n; k++ {
+			d := r.scale * hs[r.spec][k]
+			p.nodes = append(p.nodes, orb.Point{o[0] + d*r.dir[0], o[1] + d*r.dir[1]})
+			r.nodes = append(r.nodes, int32(len(p.nodes)-1))
+		}
+	}
+	var bad []int32
+	addCell := func(j, k int32, ids ...int32) {
+		// Drop repeated nodes (the fan's shared wall point).
+		c := ids[:0]
+		for i, v := range ids {
+			if i > 0 && v == c[len(c)-1] {
+				continue
+			}
+			c = append(c, v)
+		}
+		if len(c) > 1 && c[len(c)-1] == c[0] {
+			c = c[:len(c)-1]
+		}
+		for i := range c {
+			a, b, d := p.nodes[c[i]], p.nodes[c[(i+1)%len(c)]], p.nodes[c[(i+2)%len(c)]]
+			if orient2d(a, b, d) <= 0 {
+				bad = append(bad, j, k)
+				return
+			}
+		}
+		p.cellNodes = append(p.cellNodes, c...)
+		p.cellStart = append(p.cellStart, int32(len(p.cellNodes)))
+	}
+	for j := range rays {
+		a := &rays[j]
+		kk, ok := connected(int32(j))
+		if !ok {
+			continue
+		}
+		b := &rays[kk]
+		m := min(a.n, b.n)
+		for k := 0; k < m; k++ {
+			addCell(int32(j), kk, a.nodes[k], b.nodes[k], b.nodes[k+1], a.nodes[k+1])
+		}
+		switch {
+		case a.n > m:
+			addCell(int32(j), kk, a.nodes[m], b.nodes[m], a.nodes[m+1])
+		case b.n > m:
+			addCell(int32(j), kk, a.nodes[m], b.nodes[m], b.nodes[m+1])
+		}
+		if a.base != b.base && max(a.n, b.n) > 0 {
+			// The wall face of the lowest cell.
+			p.edges = append(p.edges, mesh.TaggedEdge{A: a.base, B: b.base, Tag: g.edgeTag[a.base]})
+		}
+	}
+	for j := range rays {
+		r := &rays[j]
+		if r.slide < 0 {
+			continue
+		}
+		for k := 0; k < r.n; k++ {
+			p.edges = append(p.edges, mesh.TaggedEdge{A: r.nodes[k], B: r.nodes[k+1], Tag: g.edgeTag[r.slide]})
+		}
+	}
+	if len(bad) > 0 {
+		return nil, bad
+	}
+
+	// The front: each loop with its wall points replaced by the tops of
+	// their rays.
+	for l := 0; l < int(g.loopOf[len(g.loopOf)-1])+1; l++ {
+		var loop geometry.DiscreteLoop
+		var ids []int32
+		emit := func(id int32, tag string) {
+			if n := len(ids); n > 0 && ids[n-1] == id {
+				loop.Tags[n-1] = tag
+				return
+			}
+			ids = append(ids, id)
+			loop.Points = append(loop.Points, p.nodes[id])
+			loop.Tags = append(loop.Tags, tag)
+		}
+		for i := range g.pts {
+			if int(g.loopOf[i]) != l {
+				continue
+			}
+			pt := int32(i)
+			lo, hi := raysAt[pt][0], raysAt[pt][1]
+			if lo == hi {
+				emit(pt, g.tags[g.edgeTag[pt]])
+				continue
+			}
+			for j := lo; j < hi; j++ {
+				r := &rays[j]
+				top := r.nodes[r.n]
+				tag := frontTag
+				if j == hi-1 {
+					tag = g.tags[g.edgeTag[pt]]
+					if wall(pt) >= 0 {
+						if k, ok := connected(j); ok && (r.n > 0 || rays[k].n > 0) {
+							tag = frontTag
+						}
+					}
+				}
+				emit(top, tag)
+			}
+		}
+		if n := len(ids); n > 1 && ids[n-1] == ids[0] {
+			ids, loop.Points, loop.Tags = ids[:n-1], loop.Points[:n-1], loop.Tags[:n-1]
+		}
+		p.front.Loops = append(p.front.Loops, loop)
+		p.frontID = append(p.frontID, ids)
+	}
+	return p, nil
+}
+
+func unit(v orb.Point) orb.Point {
+	l := math.Hypot(v[0], v[1])
+	if l == 0 {
+		return v
+	}
+	return orb.Point{v[0] / l, v[1] / l}
+}
+
+func rotate(v orb.Point, a float64) orb.Point {
+	s, c := math.Sincos(a)
+	return orb.Point{c*v[0] - s*v[1], s*v[0] + c*v[1]}
+}
+
+// rayHit returns the distance t > 0 at which the ray o + t·d meets the
+// segment ab.
+func rayHit(o, d, a, b orb.Point) (float64, bool) {
+	ex, ey := b[0]-a[0], b[1]-a[1]
+	den := d[0]*ey - d[1]*ex
+	if den == 0 {
+		return 0, false
+	}
+	ax, ay := a[0]-o[0], a[1]-o[1]
+	t := (ax*ey - ay*ex) / den
+	u := (ax*d[1] - ay*d[0]) / den
+	if t <= 0 || u < 0 || u > 1 {
+		return 0, false
+	}
+	return t, true
+}
+
+// rayCross returns where the rays a + t·u and b + s·v cross, if both
+// parameters are positive.
+func rayCross(a, u, b, v orb.Point) (t, s float64, ok bool) {
+	den := u[0]*v[1] - u[1]*v[0]
+	if den == 0 {
+		return 0, 0, false
+	}
+	bx, by := b[0]-a[0], b[1]-a[1]
+	t = (bx*v[1] - by*v[0]) / den
+	s = (bx*u[1] - by*u[0]) / den
+	return t, s, t > 0 && s > 0
+}

@@ -1,0 +1,191 @@
+package unstructured
+
+import (
+	"math"
+	"testing"
+
+	"cvdeck/geometry"
+	"cvdeck/mesh"
+	"github.com/paulmach/orb"
+)
+
+// checkFirstHeight measures the first layer on every wall face tagged tag
+// whose cell is a quadrilateral: the distance from the wall face's line to
+// the midpoint of the opposite edge. It returns the count of such faces and
+// the largest relative deviation from want.
+func checkFirstHeight(t *testing.T, m *mesh.Mesh, tag string, want float64) (int, float64) {
+	t.Helper()
+	lo, hi, ok := m.TagRange(tag)
+	if !ok {
+		t.Fatalf("no faces tagged %q", tag)
+	}
+	n, worst := 0, 0.0
+	for f := lo; f < hi; f++ {
+		c := m.Owner[f]
+		cell := m.Cell(int(c))
+		if len(cell) != 4 {
+			continue
+		}
+		a, b := m.FaceNodes[f][0], m.FaceNodes[f][1]
+		k := 0
+		for cell[k] != a {
+			k++
+		}
+		if cell[(k+1)%4] != b {
+			t.Fatalf("face %d is not in its owner's order", f)
+		}
+		p, q := m.Nodes[cell[(k+2)%4]], m.Nodes[cell[(k+3)%4]]
+		mid := orb.Point{(p[0] + q[0]) / 2, (p[1] + q[1]) / 2}
+		pa, pb := m.Nodes[a], m.Nodes[b]
+		l := math.Hypot(pb[0]-pa[0], pb[1]-pa[1])
+		h := ((pb[0]-pa[0])*(mid[1]-pa[1]) - (pb[1]-pa[1])*(mid[0]-pa[0])) / l
+		worst = math.Max(worst, math.Abs(h-want)/want)
+		n++
+	}
+	return n, worst
+}
+
+func countKinds(m *mesh.Mesh) (tri, quad int) {
+	for c := range m.NumCells() {
+		switch len(m.Cell(c)) {
+		case 3:
+			tri++
+		case 4:
+			quad++
+		}
+	}
+	return
+}
+
+// TestLayers: the first-cell height matches the request within 1% on
+// smooth walls (common practice for a y⁺ target), no cell is inverted, the
+// mesh covers the outline's area exactly and every boundary face is
+// tagged.
+func TestLayers(t *testing.T) {
+	cases := []struct {
+		name   string
+		out    geometry.DiscreteOutline
+		layers Layers
+		wall   string
+	}{
+		{"cylinder in a channel", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{
+			polyLoop([]orb.Point{{0, 0}, {4, 0}, {4, 2}, {0, 2}}, 0.2, "farfield"),
+			circleLoop(orb.Point{1.5, 1}, 0.4, 60, true, "cylinder"),
+		}}, Layers{Tags: []string{"cylinder"}, FirstHeight: 0.002, Growth: 1.25, Count: 12}, "cylinder"},
+		{"channel walls sliding at inlet and outlet", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{
+			channelLoop(),
+		}}, Layers{Tags: []string{"wall"}, FirstHeight: 0.001, Growth: 1.2, Thickness: 0.05}, "wall"},
+		{"square body with fans at its corners", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{
+			polyLoop([]orb.Point{{0, 0}, {4, 0}, {4, 2}, {0, 2}}, 0.2, "farfield"),
+			polyLoop([]orb.Point{{1, 0.8}, {1, 1.2}, {1.4, 1.2}, {1.4, 0.8}}, 0.04, "body"),
+		}}, Layers{Tags: []string{"body"}, FirstHeight: 0.002, Growth: 1.2, Count: 10}, "body"},
+		{"narrow gap: layers of opposite walls end short of each other", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{
+			polyLoop([]orb.Point{{0, 0}, {4, 0}, {4, 2}, {0, 2}}, 0.2, "farfield"),
+			circleLoop(orb.Point{1.5, 1}, 0.4, 60, true, "cylinder"),
+			circleLoop(orb.Point{2.33, 1}, 0.4, 60, true, "cylinder"),
+		}}, Layers{Tags: []string{"cylinder"}, FirstHeight: 0.002, Growth: 1.3, Count: 15}, "cylinder"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			m, err := Mesh(c.out, Options{Layers: []Layers{c.layers}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			basicChecks(t, m, c.out)
+			tri, quad := countKinds(m)
+			n, dev := checkFirstHeight(t, m, c.wall, c.layers.FirstHeight)
+			t.Logf("%d triangles, %d quadrilaterals; first height on %d wall faces, worst deviation %.3g%%", tri, quad, n, 100*dev)
+			if quad == 0 || n == 0 {
+				t.Fatal("no boundary-layer cells")
+			}
+			if dev > 0.01 {
+				t.Errorf("first-cell height deviates by %.3g%% from the request %v; want within 1%%", 100*dev, c.layers.FirstHeight)
+			}
+		})
+	}
+}
+
+// channelLoop is a 3 × 0.5 channel: walls below and above, inflow and
+// outflow at the ends.
+func channelLoop() geometry.DiscreteLoop {
+	var l geometry.DiscreteLoop
+	add := func(part geometry.DiscreteLoop, tag string) {
+		for i := range part.Points {
+			l.Points = append(l.Points, part.Points[i])
+			l.Tags = append(l.Tags, tag)
+		}
+	}
+	seg := func(a, b orb.Point, n int) geometry.DiscreteLoop {
+		var s geometry.DiscreteLoop
+		for k := 0; k < n; k++ {
+			t := float64(k) / float64(n)
+			s.Points = append(s.Points, orb.Point{a[0] + t*(b[0]-a[0]), a[1] + t*(b[1]-a[1])})
+		}
+		return s
+	}
+	add(seg(orb.Point{0, 0}, orb.Point{3, 0}, 60), "wall")
+	add(seg(orb.Point{3, 0}, orb.Point{3, 0.5}, 10), "outflow")
+	add(seg(orb.Point{3, 0.5}, orb.Point{0, 0.5}, 60), "wall")
+	add(seg(orb.Point{0, 0.5}, orb.Point{0, 0}, 10), "inflow")
+	return l
+}
+
+// TestQuadDominant: pairing keeps the mesh valid (positive areas, exact
+// area, tagged boundary) and every quadrilateral it makes is convex with
+// its angles between 36° and 144° (angle quality ≥ 0.4).
+func TestQuadDominant(t *testing.T) {
+	out := geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{
+		polyLoop([]orb.Point{{0, 0}, {4, 0}, {4, 2}, {0, 2}}, 0.1, "farfield"),
+		circleLoop(orb.Point{1.5, 1}, 0.4, 60, true, "cylinder"),
+	}}
+	for _, layers := range [][]Layers{nil, {{Tags: []string{"cylinder"}, FirstHeight: 0.002, Count: 8}}} {
+		plain, err := Mesh(out, Options{Layers: layers})
+		if err != nil {
+			t.Fatal(err)
+		}
+		m, err := Mesh(out, Options{Layers: layers, QuadDominant: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		basicChecks(t, m, out)
+		tri0, quad0 := countKinds(plain)
+		tri, quad := countKinds(m)
+		t.Logf("layers %v: %d tri + %d quad → %d tri + %d quad", layers != nil, tri0, quad0, tri, quad)
+		if quad-quad0 <= 0 || tri0-tri != 2*(quad-quad0) {
+			t.Errorf("pairing made %d quadrilaterals from %d triangles", quad-quad0, tri0-tri)
+		}
+		for c := range m.NumCells() {
+			cell := m.Cell(c)
+			if len(cell) != 4 {
+				continue
+			}
+			var p []orb.Point
+			for _, n := range cell {
+				p = append(p, m.Nodes[n])
+			}
+			if q := angleQuality(p...); q < minQuadQuality-1e-12 {
+				t.Fatalf("quadrilateral %d %v has angle quality %.3f", c, p, q)
+			}
+		}
+	}
+}
+
+// The angle quality of reference shapes: 1 for the equilateral triangle
+// and the square, 1 − 30/90 for a 60°/120° rhombus, 1 − 30/120 for the
+// right isosceles triangle.
+func TestAngleQuality(t *testing.T) {
+	s3 := math.Sqrt(3) / 2
+	for _, c := range []struct {
+		p    []orb.Point
+		want float64
+	}{
+		{[]orb.Point{{0, 0}, {1, 0}, {0.5, s3}}, 1},
+		{[]orb.Point{{0, 0}, {1, 0}, {1, 1}, {0, 1}}, 1},
+		{[]orb.Point{{0, 0}, {1, 0}, {1.5, s3}, {0.5, s3}}, 1 - 30.0/90},
+		{[]orb.Point{{0, 0}, {1, 0}, {0, 1}}, 1 - 30.0/120},
+	} {
+		if q := angleQuality(c.p...); math.Abs(q-c.want) > 1e-12 {
+			t.Errorf("angleQuality(%v) = %.15g, want %.15g", c.p, q, c.want)
+		}
+	}
+}
