@@ -226,3 +226,55 @@ func TestInconsistentArrays(t *testing.T) {
 		t.Errorf("NaN node: %v", err)
 	}
 }
+
+// A triangle with its third node on its base has zero area: it fails the
+// area check whatever the limits, its aspect ratio and Green–Gauss error
+// are +Inf, and the JSON report writes those as null.
+func TestZeroAreaCell(t *testing.T) {
+	// Triangles 0 and 1 split the triangle (0,0), (1,0), (1,1) at node 3 =
+	// (0.5, 0) on its base; cell 2, (0,0), (1,0), (0.5,0), is flat and
+	// shares the two halves of that base with them.
+	nodes := []orb.Point{{0, 0}, {1, 0}, {1, 1}, {0.5, 0}}
+	cells := [][]int32{{0, 3, 2}, {3, 1, 2}, {0, 1, 3}}
+	m := build(t, nodes, cells, true)
+	r := evaluate(t, m)
+	if a := field(t, r, "area")[2]; a != 0 {
+		t.Fatalf("area %g, want 0", a)
+	}
+	if got := failedCells(t, r, "area"); !slices.Equal(got, []int{2}) {
+		t.Errorf("cells failing area %v, want [2]", got)
+	}
+	if ar := field(t, r, "aspect_ratio")[2]; !math.IsInf(ar, 1) {
+		t.Errorf("aspect ratio %g, want +Inf", ar)
+	}
+	var b strings.Builder
+	if err := WriteJSON(&b, r); err != nil {
+		t.Fatalf("JSON with infinite values: %v", err)
+	}
+	if !strings.Contains(b.String(), `"max": null`) {
+		t.Error("no null for an infinite maximum")
+	}
+	b.Reset()
+	if err := WriteText(&b, r); err != nil || !strings.Contains(b.String(), "+inf") {
+		t.Errorf("text report: %v\n%s", err, b.String())
+	}
+}
+
+// An empty mesh and a mesh with a node no cell uses: the unused node is
+// named; nothing panics.
+func TestEmptyAndUnused(t *testing.T) {
+	m, err := mesh.Build(mesh.Input{CellStart: []int32{0}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r := evaluate(t, m); r.Verdict != Pass || len(r.Metrics) != 0 {
+		t.Errorf("empty mesh: %v, %d metrics", r, len(r.Metrics))
+	}
+	nodes := gridNodes(1, 1, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0)
+	nodes = append(nodes, orb.Point{5, 5})
+	r := evaluate(t, build(t, nodes, quadCells(1, 1, false), true))
+	ps := problems(r, CheckUnused)
+	if len(ps) != 1 || ps[0].Node != 4 || r.Verdict != Fail {
+		t.Errorf("unused: %+v, verdict %s", ps, r.Verdict)
+	}
+}

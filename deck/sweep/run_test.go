@@ -282,7 +282,8 @@ func TestInterruptedSweepContinues(t *testing.T) {
 		mu.Unlock()
 	}}
 	s, err := Run(ctx, f, dir, r, Options{Workers: 2})
-	if !errors.Is(err, context.Canceled) {
+	var fe *FailedError
+	if !errors.Is(err, context.Canceled) || !errors.As(err, &fe) || fe.ExitCode() != 1 {
 		t.Fatalf("interrupted run: %v", err)
 	}
 	built := int(r.builds.Load())
