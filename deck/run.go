@@ -92,7 +92,7 @@ func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
 			setup.ReferenceWhere = c.Reference.at.where()
 		}
 		if assign, err = bc.Assign(m, setup); err != nil {
-			return nil, &InputError{File: c.File, Msg: "boundary conditions: " + err.Error(), Err: err}
+			return nil, c.Boundaries.locate(err)
 		}
 	}
 
