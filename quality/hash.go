@@ -10,25 +10,26 @@ import (
 	"cvdeck/mesh"
 )
 
-// gridHash buckets points on a uniform grid of square buckets of side size,
+// gridHash buckets items on a uniform grid of square buckets of side size,
 // in an open-addressing table keyed by the bucket's (i, j), each slot
-// holding a chain of point indices in increasing order. Building is linear
-// and a look-up touches one bucket, so proximity queries on n points cost
-// O(n) rather than O(n²).
+// holding the first entry of the bucket's chain (the chains are kept by the
+// user). Building is linear and a look-up touches one bucket, so proximity
+// queries on n items cost O(n) rather than O(n²).
 type gridHash struct {
 	x0, y0, size float64
 	mask         uint64
 	slotKey      [][2]int64
 	slotHead     []int32
-	next         []int32 // chain: next point in the same bucket, -1 at the end
 }
 
 // maxBuckets bounds the grid extent in buckets along an axis, so that bucket
 // indices stay exact in float64 and int64.
 const maxBuckets = 1 << 50
 
-// newGridHash prepares a hash for count items over the box lo..hi with the
-// given bucket size, enlarged if the box would span more than maxBuckets.
+// newGridHash prepares a hash for at most count distinct buckets over the
+// box lo..hi with the given bucket size, enlarged if the box would span
+// more than maxBuckets. The table has more than twice count slots, so it
+// never fills.
 func newGridHash(lo, hi orb.Point, size float64, count int) *gridHash {
 	ext := max(hi[0]-lo[0], hi[1]-lo[1])
 	if !(size > 0) || ext/size > maxBuckets {
