@@ -28,12 +28,6 @@ type sweepFlags struct {
 // the summary, and a merge with missing or conflicting variants a
 // *sweep.MergeError: both have ExitCode() 1.
 func newSweepCommand() *cobra.Command {
-	return sweepCommand(func(f *sweep.File) sweep.Runner { return sweep.NewPipeline(f) })
-}
-
-// sweepCommand builds the command around a runner factory, so that tests
-// can run it with a fake pipeline.
-func sweepCommand(newRunner func(*sweep.File) sweep.Runner) *cobra.Command {
 	var fl sweepFlags
 	cmd := &cobra.Command{
 		Use:   "sweep SWEEP.yaml -o DIR",
@@ -54,7 +48,7 @@ joins the shard summaries.`,
   cvdeck sweep merge out`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runSweep(cmd, args[0], fl, newRunner)
+			return runSweep(cmd, args[0], fl)
 		},
 	}
 	f := cmd.Flags()
@@ -74,7 +68,7 @@ func globalFlag(cmd *cobra.Command, name string) bool {
 	return err == nil && v
 }
 
-func runSweep(cmd *cobra.Command, path string, fl sweepFlags, newRunner func(*sweep.File) sweep.Runner) error {
+func runSweep(cmd *cobra.Command, path string, fl sweepFlags) error {
 	quiet, jsonOut := globalFlag(cmd, "quiet"), globalFlag(cmd, "json")
 	if fl.out == "" && !fl.list {
 		return fmt.Errorf("%w: sweep: give the output folder with -o DIR", deck.ErrInput)
@@ -112,7 +106,7 @@ func runSweep(cmd *cobra.Command, path string, fl sweepFlags, newRunner func(*sw
 		bar = sweep.NewBar(stderr)
 		opt.Progress = bar.Update
 	}
-	s, err := sweep.Run(ctx, f, fl.out, newRunner(f), opt)
+	s, err := sweep.Run(ctx, f, fl.out, sweep.NewPipeline(f), opt)
 	if bar != nil {
 		bar.Finish()
 	}

@@ -1,47 +1,18 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
-	"errors"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
-	"cvdeck/deck"
 	"cvdeck/deck/sweep"
 )
 
-// sweepCLI runs `cvdeck sweep ...` in-process through the root command
-// and returns the error with stdout and stderr.
-func sweepCLI(t *testing.T, args ...string) (error, string, string) {
-	t.Helper()
-	var out, errb bytes.Buffer
-	root := newRootCommand(&out, &errb)
-	registered := false
-	for _, c := range root.Commands() {
-		registered = registered || c.Name() == "sweep"
-	}
-	if !registered {
-		root.AddCommand(newSweepCommand())
-	}
-	root.SetArgs(append([]string{"sweep"}, args...))
-	err := root.Execute()
-	return err, out.String(), errb.String()
-}
-
-func exitCode(err error) int {
-	var coded interface{ ExitCode() int }
-	switch {
-	case err == nil:
-		return 0
-	case errors.As(err, &coded):
-		return coded.ExitCode()
-	case errors.Is(err, deck.ErrInput):
-		return 2
-	}
-	return -1
+// sampleSweep is the path of a sample sweep file.
+func sampleSweep(name string) string {
+	return filepath.Join("..", "..", "samples", "sweeps", name)
 }
 
 // TestSweepCommandOnTheSample runs the sample family sweep through the
@@ -49,13 +20,13 @@ func exitCode(err error) int {
 // every deck.
 func TestSweepCommandOnTheSample(t *testing.T) {
 	out := t.TempDir()
-	file := filepath.Join("..", "..", "samples", "sweeps", "nozzle-refine.yaml")
-	err, stdout, stderr := sweepCLI(t, file, "-o", out, "-j", "2", "--json")
-	if err != nil {
-		t.Fatalf("%v\n%s", err, stderr)
+	file := sampleSweep("nozzle-refine.yaml")
+	code, stdout, stderr := cvdeck(t, "sweep", file, "-o", out, "-j", "2", "--json")
+	if code != 0 {
+		t.Fatalf("exit %d\n%s", code, stderr)
 	}
 	var got sweep.Summary
-	if err := jsonDecode(stdout, &got); err != nil || len(got.Rows) != 3 {
+	if err := json.Unmarshal([]byte(stdout), &got); err != nil || len(got.Rows) != 3 {
 		t.Fatalf("--json gave %d rows (%v):\n%s", len(got.Rows), err, stdout)
 	}
 	if !strings.Contains(stderr, "3 variants: 3 built, 0 reused, 0 failed") {
@@ -73,9 +44,9 @@ func TestSweepCommandOnTheSample(t *testing.T) {
 			t.Errorf("level %d: effective ratio %v, want 2", r.Level, r.Ratio)
 		}
 	}
-	err, _, stderr = sweepCLI(t, file, "-o", out, "--quiet")
-	if err != nil || stderr != "" {
-		t.Fatalf("second run: %v, stderr %q", err, stderr)
+	code, _, stderr = cvdeck(t, "sweep", file, "-o", out, "--quiet")
+	if code != 0 || stderr != "" {
+		t.Fatalf("second run: exit %d, stderr %q", code, stderr)
 	}
 	s, err := sweep.ReadSummary(filepath.Join(out, "summary.json"))
 	if err != nil {
@@ -92,65 +63,59 @@ func TestSweepCommandErrors(t *testing.T) {
 	dir := t.TempDir()
 	bad := filepath.Join(dir, "bad.yaml")
 	os.WriteFile(bad, []byte("base: ../nozzle.yaml\nparamters: {}\n"), 0o644)
-	err, _, _ := sweepCLI(t, bad, "-o", dir)
-	if exitCode(err) != 2 || !strings.Contains(err.Error(), "bad.yaml:2:1: unknown key \"paramters\"") {
-		t.Errorf("bad key: %v (exit %d)", err, exitCode(err))
+	code, _, stderr := cvdeck(t, "sweep", bad, "-o", dir)
+	if code != 2 || !strings.Contains(stderr, "bad.yaml:2:1: unknown key \"paramters\"") {
+		t.Errorf("bad key: exit %d, %s", code, stderr)
 	}
-	base, _ := filepath.Abs(filepath.Join("..", "..", "samples", "sweeps", "nozzle.yaml"))
+	base, _ := filepath.Abs(sampleSweep("nozzle.yaml"))
 	typo := filepath.Join(dir, "typo.yaml")
 	os.WriteFile(typo, []byte("base: "+base+"\nparameters:\n  throat_h: [20]\n  exit_ration: [1.2, 1.4]\n"), 0o644)
-	err, _, _ = sweepCLI(t, typo, "-o", filepath.Join(dir, "typo"))
-	if exitCode(err) != 2 || !strings.Contains(err.Error(), `typo.yaml:4:3: the base case nozzle.yaml defines no parameter "exit_ration"`) {
-		t.Errorf("misspelt parameter: %v (exit %d)", err, exitCode(err))
+	code, _, stderr = cvdeck(t, "sweep", typo, "-o", filepath.Join(dir, "typo"))
+	if code != 2 || !strings.Contains(stderr, `typo.yaml:4:3: the base case nozzle.yaml defines no parameter "exit_ration"`) {
+		t.Errorf("misspelt parameter: exit %d, %s", code, stderr)
 	}
-	if _, serr := os.Stat(filepath.Join(dir, "typo")); serr == nil {
+	if _, err := os.Stat(filepath.Join(dir, "typo")); err == nil {
 		t.Error("a sweep with a misspelt parameter created its output folder")
 	}
-	file := filepath.Join("..", "..", "samples", "sweeps", "nozzle-refine.yaml")
+	file := sampleSweep("nozzle-refine.yaml")
 	for _, args := range [][]string{{file}, {file, "-o", dir, "--shard", "5/4"}, {file, "-o", dir, "-j", "0"}} {
-		if err, _, _ := sweepCLI(t, args...); exitCode(err) != 2 {
-			t.Errorf("%v: %v (exit %d), want exit 2", args, err, exitCode(err))
+		if code, _, stderr := cvdeck(t, append([]string{"sweep"}, args...)...); code != 2 {
+			t.Errorf("%v: exit %d, want 2\n%s", args, code, stderr)
 		}
 	}
 	// A variant the pipeline refuses (a negative cell count): that variant
-	// fails, the others are built.
+	// fails, the others are built, the exit code is 1.
 	sw := filepath.Join(dir, "some-fail.yaml")
 	os.WriteFile(sw, []byte("base: "+base+"\nparameters:\n  cells_x: [20, -5, 30]\n"), 0o644)
-	err, _, stderr := sweepCLI(t, sw, "-o", filepath.Join(dir, "out"))
-	var fe *sweep.FailedError
-	if !errors.As(err, &fe) || exitCode(err) != 1 || fe.Failed != 1 {
-		t.Fatalf("one failing variant: %v (exit %d)\n%s", err, exitCode(err), stderr)
-	}
-	if !strings.Contains(stderr, "failed: ") || !strings.Contains(stderr, "3 variants: 2 built, 0 reused, 1 failed") {
-		t.Errorf("stderr %q", stderr)
+	code, _, stderr = cvdeck(t, "sweep", sw, "-o", filepath.Join(dir, "out"))
+	if code != 1 || !strings.Contains(stderr, "cells_x=-5-") || !strings.Contains(stderr, "1 of 3 variants failed") ||
+		!strings.Contains(stderr, "3 variants: 2 built, 0 reused, 1 failed") {
+		t.Errorf("one failing variant: exit %d\n%s", code, stderr)
 	}
 }
 
 func TestMergeCommand(t *testing.T) {
 	out := t.TempDir()
-	file := filepath.Join("..", "..", "samples", "sweeps", "nozzle-refine.yaml")
+	file := sampleSweep("nozzle-refine.yaml")
 	for _, k := range []string{"1/2", "2/2"} {
-		if err, _, stderr := sweepCLI(t, file, "-o", out, "--shard", k, "--quiet"); err != nil {
-			t.Fatalf("%s: %v\n%s", k, err, stderr)
+		if code, _, stderr := cvdeck(t, "sweep", file, "-o", out, "--shard", k, "--quiet"); code != 0 {
+			t.Fatalf("%s: exit %d\n%s", k, code, stderr)
 		}
 	}
-	err, _, stderr := sweepCLI(t, "merge", out)
-	if err != nil || !strings.Contains(stderr, "merged 3 of 3 variants") {
-		t.Fatalf("merge: %v\n%s", err, stderr)
+	code, _, stderr := cvdeck(t, "sweep", "merge", out)
+	if code != 0 || !strings.Contains(stderr, "merged 3 of 3 variants") {
+		t.Fatalf("merge: exit %d\n%s", code, stderr)
 	}
 	os.Remove(filepath.Join(out, "summary-shard-2-of-2.json"))
-	err, _, _ = sweepCLI(t, "merge", out, "-o", t.TempDir())
-	if exitCode(err) != 1 || !strings.Contains(err.Error(), "missing") {
-		t.Errorf("merge with a missing shard: %v (exit %d)", err, exitCode(err))
+	code, _, stderr = cvdeck(t, "sweep", "merge", out, "-o", t.TempDir())
+	if code != 1 || !strings.Contains(stderr, "missing") {
+		t.Errorf("merge with a missing shard: exit %d\n%s", code, stderr)
 	}
 }
 
-func jsonDecode(s string, v any) error { return json.Unmarshal([]byte(s), v) }
-
 func TestSweepList(t *testing.T) {
-	file := filepath.Join("..", "..", "samples", "sweeps", "nozzle-throat-exit.yaml")
-	err, stdout, _ := sweepCLI(t, file, "--list", "--shard", "1/5")
-	if err != nil || !strings.HasPrefix(stdout, "5 of 24 variants (shard 1/5)\n") || strings.Count(stdout, "\n") != 6 {
-		t.Errorf("--list: %v\n%s", err, stdout)
+	code, stdout, _ := cvdeck(t, "sweep", sampleSweep("nozzle-throat-exit.yaml"), "--list", "--shard", "1/5")
+	if code != 0 || !strings.HasPrefix(stdout, "5 of 24 variants (shard 1/5)\n") || strings.Count(stdout, "\n") != 6 {
+		t.Errorf("--list: exit %d\n%s", code, stdout)
 	}
 }

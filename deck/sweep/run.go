@@ -78,14 +78,19 @@ type Progress struct {
 }
 
 // FailedError reports a sweep in which some variants have no deck or a
-// deck that failed its checks. Its exit code is 1, as for a single case
-// whose checks fail; the summary has been written.
+// deck that failed its checks, or that was interrupted (Err is then the
+// context's error). Its exit code is 1, as for a single case whose checks
+// fail; the summary has been written.
 type FailedError struct {
-	Failed, ChecksFailed, Total int
+	Failed, NotRun, ChecksFailed, Total int
+	Err                                 error
 }
 
 func (e *FailedError) Error() string {
 	var parts []string
+	if e.Err != nil {
+		parts = append(parts, fmt.Sprintf("sweep interrupted (%v): %d of %d variants not run; run it again to continue", e.Err, e.NotRun, e.Total))
+	}
 	if e.Failed > 0 {
 		parts = append(parts, fmt.Sprintf("%d of %d variants failed", e.Failed, e.Total))
 	}
@@ -95,6 +100,9 @@ func (e *FailedError) Error() string {
 	return strings.Join(parts, "; ") + " (see the summary)"
 }
 
+// Unwrap returns the context's error of an interrupted sweep.
+func (e *FailedError) Unwrap() error { return e.Err }
+
 // ExitCode is 1.
 func (e *FailedError) ExitCode() int { return 1 }
 
@@ -103,9 +111,9 @@ func (e *FailedError) ExitCode() int { return 1 }
 // files into outDir (see SummaryFiles). Failing variants do not stop the
 // others. A variant whose folder holds a deck with the same input hash is
 // kept unless opt.Force. It returns the summary, and a *FailedError when
-// any variant failed or failed its checks; when ctx is cancelled the
+// any variant failed or failed its checks. When ctx is cancelled the
 // summary is still written, with the variants not reached marked not run,
-// and the error is ctx's.
+// and the *FailedError wraps ctx's error.
 func Run(ctx context.Context, f *File, outDir string, r Runner, opt Options) (*Summary, error) {
 	all, err := f.Variants()
 	if err != nil {
@@ -134,11 +142,8 @@ func Run(ctx context.Context, f *File, outDir string, r Runner, opt Options) (*S
 	if err := s.WriteFiles(outDir, opt.Shard); err != nil {
 		return s, err
 	}
-	if err := ctx.Err(); err != nil {
-		return s, fmt.Errorf("sweep interrupted; run it again to continue: %w", err)
-	}
-	if failed, checks := s.Failed(); failed+checks > 0 {
-		return s, &FailedError{Failed: failed, ChecksFailed: checks, Total: len(s.Rows)}
+	if failed, notRun, checks := s.Count(); failed+notRun+checks > 0 || ctx.Err() != nil {
+		return s, &FailedError{Failed: failed, NotRun: notRun, ChecksFailed: checks, Total: len(s.Rows), Err: ctx.Err()}
 	}
 	return s, nil
 }

@@ -131,18 +131,20 @@ func (s *Summary) Finish() {
 	}
 }
 
-// Failed counts the variants without a deck and those whose deck failed
-// its checks.
-func (s *Summary) Failed() (failed, checksFailed int) {
+// Count counts the variants without a deck (failed or not run) and those
+// whose deck failed its checks.
+func (s *Summary) Count() (failed, notRun, checksFailed int) {
 	for _, r := range s.Rows {
 		switch {
-		case r.Status != StatusOK:
+		case r.Status == StatusFailed:
 			failed++
+		case r.Status == StatusNotRun:
+			notRun++
 		case !r.Passed:
 			checksFailed++
 		}
 	}
-	return failed, checksFailed
+	return failed, notRun, checksFailed
 }
 
 // SummaryFiles returns the base names of the summary files of a shard:

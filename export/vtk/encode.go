@@ -151,9 +151,11 @@ func (e *encoder) xyz(p []orb.Point, sel []int32) {
 		b := e.space(24)
 		m := min(n-k, len(b)/24)
 		for i := 0; i < m; i++ {
-			q := p[k+i]
+			var q orb.Point
 			if sel != nil {
 				q = p[sel[k+i]]
+			} else {
+				q = p[k+i]
 			}
 			o := b[24*i : 24*i+24]
 			binary.LittleEndian.PutUint64(o[0:], math.Float64bits(q[0]))

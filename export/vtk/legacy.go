@@ -3,6 +3,7 @@ package vtk
 import (
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 
 	"cvdeck/mesh"
@@ -19,6 +20,12 @@ import (
 // SCALARS array unless told otherwise but every FIELD array. In ASCII form floats are written in the shortest form that
 // reads back exactly. Array names are %XX-encoded where they hold spaces,
 // '%' or non-printing bytes, as the VTK library's legacy writer does.
+//
+// The ASCII form leaves out every field that holds a value that is not
+// finite (a metric marked NaN where it does not apply): the library's
+// legacy reader parses numbers as C++ streams do and stops at "nan",
+// losing the rest of the file. The binary form and the XML formats keep
+// such fields.
 func WriteLegacy(w io.Writer, m *mesh.Mesh, fields []Field, binary bool) error {
 	if err := checkMesh(m); err != nil {
 		return err
@@ -26,6 +33,9 @@ func WriteLegacy(w io.Writer, m *mesh.Mesh, fields []Field, binary bool) error {
 	nc := m.NumCells()
 	if err := checkFields(fields, nc); err != nil {
 		return err
+	}
+	if !binary {
+		fields = finiteFields(fields)
 	}
 	form := "ASCII"
 	if binary {
@@ -125,4 +135,22 @@ func (e *encoder) float(v float64) {
 func (e *encoder) int(v int64) {
 	e.room(20)
 	e.buf = strconv.AppendInt(e.buf, v, 10)
+}
+
+// finiteFields returns the fields whose every value is finite.
+func finiteFields(fields []Field) []Field {
+	var out []Field
+	for _, f := range fields {
+		ok := true
+		for _, v := range f.Values {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				ok = false
+				break
+			}
+		}
+		if ok {
+			out = append(out, f)
+		}
+	}
+	return out
 }

@@ -223,8 +223,10 @@ type smoother struct {
 
 	// Thomas–Middlecoff terms: φ on the south and north rows (by i), ψ on
 	// the west and east columns (by j), and the linear weights across.
-	phiS, phiN, psiW, psiE []float64
+	phiS, dPhi, psiW, dPsi []float64
 	eta, xi                []float64
+	zero                   []float64 // zeros, the spacing terms while untangling
+	anyControl             bool
 	// phiRow and psiRow hold φ and ψ along the row being swept.
 	phiRow, psiRow []float64
 	// Wall control amplitudes: p drives the tangential, q the normal
@@ -242,8 +244,9 @@ type smoother struct {
 func newSmoother(b *Block, opt SmoothOptions) *smoother {
 	ni, nj := b.NI, b.NJ
 	s := &smoother{b: b, ni: ni, nj: nj, x: b.X, y: b.Y, omega: opt.Omega, gain: opt.Gain, sides: opt.Sides}
-	s.phiS, s.phiN = make([]float64, ni), make([]float64, ni)
-	s.psiW, s.psiE = make([]float64, nj), make([]float64, nj)
+	s.phiS, s.dPhi = make([]float64, ni), make([]float64, ni)
+	s.psiW, s.dPsi = make([]float64, nj), make([]float64, nj)
+	s.zero = make([]float64, max(ni, nj))
 	s.eta, s.xi = make([]float64, nj), make([]float64, ni)
 	s.phiRow, s.psiRow = make([]float64, ni), make([]float64, ni)
 	for j := range s.eta {
@@ -256,13 +259,16 @@ func newSmoother(b *Block, opt SmoothOptions) *smoother {
 		for i := 1; i+1 < ni; i++ {
 			s.phiS[i] = spacingTerm(b.X, b.Y, i-1, i, i+1)
 			k := (nj - 1) * ni
-			s.phiN[i] = spacingTerm(b.X, b.Y, k+i-1, k+i, k+i+1)
+			s.dPhi[i] = spacingTerm(b.X, b.Y, k+i-1, k+i, k+i+1) - s.phiS[i]
 		}
 		for j := 1; j+1 < nj; j++ {
 			s.psiW[j] = spacingTerm(b.X, b.Y, (j-1)*ni, j*ni, (j+1)*ni)
 			e := ni - 1
-			s.psiE[j] = spacingTerm(b.X, b.Y, (j-1)*ni+e, j*ni+e, (j+1)*ni+e)
+			s.dPsi[j] = spacingTerm(b.X, b.Y, (j-1)*ni+e, j*ni+e, (j+1)*ni+e) - s.psiW[j]
 		}
+	}
+	for _, c := range opt.Sides {
+		s.anyControl = s.anyControl || c.controlled()
 	}
 	for side := range s.p {
 		n := b.SideLen(mesh.Side(side))
@@ -331,26 +337,19 @@ func starCheck(x, y []float64, k, ni int, px, py float64) (tri, cell float64) {
 	return tri, cell
 }
 
-// controlRows fills s.phiRow and s.psiRow with φ and ψ along row j: the
-// Thomas–Middlecoff part plus whatever wall control reaches the row.
-func (s *smoother) controlRows(j int) {
+// controlRows fills s.phiRow and s.psiRow with the wall-control part of φ
+// and ψ along row j, and reports whether any control reaches the row (the
+// Thomas–Middlecoff part is added in the sweep itself).
+func (s *smoother) controlRows(j int) bool {
 	const negligible = 1e-12
+	if s.mode == freeMode || !s.anyControl {
+		return false
+	}
 	ni := s.ni
 	phi, psi := s.phiRow[:ni], s.psiRow[:ni]
-	eta := s.eta[j]
-	psiW, psiE := s.psiW[j], s.psiE[j]
-	phiS, phiN, xi := s.phiS[:ni], s.phiN[:ni], s.xi[:ni]
-	if s.mode == freeMode {
-		// Untangling: pure Winslow, whose mapping is folding-free; the
-		// spacing and wall terms come in once no cell is inverted.
-		clear(phi)
-		clear(psi)
-		return
-	}
-	for i := range phi {
-		phi[i] = phiS[i]*(1-eta) + phiN[i]*eta
-		psi[i] = psiW*(1-xi[i]) + psiE*xi[i]
-	}
+	clear(phi)
+	clear(psi)
+	active := false
 	// South and north controls act along the whole row, faded by distance.
 	for _, w := range [2]struct {
 		side mesh.Side
@@ -359,6 +358,7 @@ func (s *smoother) controlRows(j int) {
 		if !s.sides[w.side].controlled() || w.d < negligible {
 			continue
 		}
+		active = true
 		p, q := s.p[w.side][:ni], s.q[w.side][:ni]
 		for i := range phi {
 			phi[i] += p[i] * w.d
@@ -367,6 +367,7 @@ func (s *smoother) controlRows(j int) {
 	}
 	// West and east controls reach the first columns from their side.
 	if s.sides[mesh.West].controlled() {
+		active = true
 		p, q := s.p[mesh.West][j], s.q[mesh.West][j]
 		for i, d := range s.decayW[:ni] {
 			if d < negligible {
@@ -377,6 +378,7 @@ func (s *smoother) controlRows(j int) {
 		}
 	}
 	if s.sides[mesh.East].controlled() {
+		active = true
 		p, q := s.p[mesh.East][j], s.q[mesh.East][j]
 		for i := ni - 1; i >= 0; i-- {
 			d := s.decayE[i]
@@ -387,6 +389,7 @@ func (s *smoother) controlRows(j int) {
 			psi[i] += p * d
 		}
 	}
+	return active
 }
 
 // sweep does one SOR sweep over the interior nodes and returns the largest
@@ -398,14 +401,22 @@ func (s *smoother) sweep() float64 {
 	x, y := s.x, s.y
 	om := s.omega
 	worst := 0.0
+	// Thomas–Middlecoff part: φ = φ_S + η (φ_N − φ_S), ψ = ψ_W + ξ (ψ_E − ψ_W);
+	// none while untangling (pure Winslow, whose mapping is folding-free).
+	phiS, dPhi, psiW, dPsi := s.phiS, s.dPhi, s.psiW, s.dPsi
+	if s.mode == freeMode {
+		phiS, dPhi, psiW, dPsi = s.zero[:ni], s.zero[:ni], s.zero[:nj], s.zero[:nj]
+	}
 	for j := 1; j+1 < nj; j++ {
-		s.controlRows(j)
+		active := s.controlRows(j)
+		eta, psiWj, dPsij := s.eta[j], psiW[j], dPsi[j]
 		row := j * ni
 		xc := x[row:][:ni]
 		yc := y[row:][:ni]
 		xs, ys := x[row-ni:][:len(xc)], y[row-ni:][:len(xc)]
 		xn, yn := x[row+ni:][:len(xc)], y[row+ni:][:len(xc)]
 		phiRow, psiRow := s.phiRow[:len(xc)], s.psiRow[:len(xc)]
+		phiSr, dPhir, xir := phiS[:len(xc)], dPhi[:len(xc)], s.xi[:len(xc)]
 		// Odd nodes of the row first, then even ones: each node still uses
 		// the latest values (a Gauss–Seidel ordering), but consecutive
 		// updates no longer wait on each other's result.
@@ -429,7 +440,12 @@ func (s *smoother) sweep() float64 {
 				al := xeta*xeta + yeta*yeta
 				be := xxi*xeta + yxi*yeta
 				ga := xxi*xxi + yxi*yxi
-				phi, psi := phiRow[i], psiRow[i]
+				phi := phiSr[i] + eta*dPhir[i]
+				psi := psiWj + xir[i]*dPsij
+				if active {
+					phi += phiRow[i]
+					psi += psiRow[i]
+				}
 				// Gauss–Seidel value minus the present one, relative form:
 				// [α(e+w+φ r_ξ) + γ(n+s+ψ r_η) − 2β r_ξη] / 2(α+γ) with
 				// every position taken relative to the node.
