@@ -31,7 +31,12 @@ type SideControl struct {
 	Mode SideMode
 	// FirstHeight, when positive, is the height of the first cell off this
 	// side, measured along the side's normal, that the control holds. The
-	// side must be Fixed.
+	// side must be Fixed. Give the two sides that meet this one a node
+	// distribution that already starts near this height: the control then
+	// only corrects it along the wall. From a far-off start (a uniform
+	// distribution and a height a hundred times smaller) it still reaches
+	// the height, but the next few cells grow fast; a smaller Decay spreads
+	// the change over more cells.
 	FirstHeight float64
 	// Orthogonal asks for grid lines that leave the side at right angles.
 	// The side must be Fixed (a sliding side is made orthogonal by sliding).
