@@ -1,8 +1,10 @@
 package deck
 
 import (
+	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/paulmach/orb"
 
@@ -255,4 +257,42 @@ func decodeReference(v value) (*referenceSpec, error) {
 	}
 	o.known("altitude")
 	return r, o.done()
+}
+
+// ConditionErrors are the boundary-condition errors of a case, one located
+// line each.
+type ConditionErrors []error
+
+func (e ConditionErrors) Error() string {
+	lines := make([]string, len(e))
+	for i, err := range e {
+		lines[i] = err.Error()
+	}
+	return strings.Join(lines, "\n")
+}
+
+// Unwrap gives the single errors, ErrInput among them.
+func (e ConditionErrors) Unwrap() []error { return append([]error{ErrInput}, e...) }
+
+// locate gives every error of bc.Assign a case-file place: errors about a
+// condition carry their own; errors about a tag that has no condition are
+// placed at the boundaries section, where the condition belongs.
+func (bs *boundarySpec) locate(err error) error {
+	var list []error
+	if j, ok := err.(interface{ Unwrap() []error }); ok {
+		list = j.Unwrap()
+	} else {
+		list = []error{err}
+	}
+	out := make(ConditionErrors, 0, len(list))
+	for _, e := range list {
+		var be *bc.Error
+		if errors.As(e, &be) && be.Where == "" {
+			c := *be
+			c.Where = bs.at.where()
+			e = &c
+		}
+		out = append(out, e)
+	}
+	return out
 }

@@ -92,7 +92,7 @@ func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
 			setup.ReferenceWhere = c.Reference.at.where()
 		}
 		if assign, err = bc.Assign(m, setup); err != nil {
-			return nil, &InputError{File: c.File, Msg: "boundary conditions: " + err.Error(), Err: err}
+			return nil, c.Boundaries.locate(err)
 		}
 	}
 
@@ -235,6 +235,23 @@ func previewInput(c *Case, m *mesh.Mesh, conds []string, rep *quality.Report) pr
 	}
 	for i, s := range rep.CellStatus {
 		in.Status[i] = preview.Status(s)
+	}
+	// Zoom in on the worst cells of the metrics that fail, then of those
+	// that warn.
+	seen := map[int]bool{}
+	for _, pass := range []func(quality.MetricSummary) bool{
+		func(ms quality.MetricSummary) bool { return ms.Failed > 0 },
+		func(ms quality.MetricSummary) bool { return ms.Failed == 0 && ms.Warned > 0 },
+	} {
+		for _, ms := range rep.Metrics {
+			if ms.Per != "cell" || !pass(ms) || len(ms.Worst) == 0 {
+				continue
+			}
+			if c := ms.Worst[0].Index; !seen[c] && c < m.NumCells() {
+				seen[c] = true
+				in.Worst = append(in.Worst, int32(c))
+			}
+		}
 	}
 	for _, ms := range rep.Metrics {
 		vals, ok := rep.Field(ms.Name)

@@ -45,31 +45,46 @@ func TestSamplesMeshAndPass(t *testing.T) {
 	}
 }
 
-// located matches the one-line located error the command prints for bad
-// input: "cvdeck: FILE:LINE:COL: ...".
-var located = regexp.MustCompile(`^cvdeck: [^\n]*\.yaml:\d+:\d+: [^\n]+\n$`)
+// located matches the located error the command prints for bad input:
+// "cvdeck: FILE:LINE:COL: ...", one line per error (several only where
+// several boundary conditions are wrong at once).
+var located = regexp.MustCompile(`^cvdeck: [^\n]*\.yaml:\d+:\d+: [^\n]+\n([^\n]*\.yaml:\d+:\d+: [^\n]+\n)*$`)
 
 // TestBadInputIsLocatedAndWritesNothing edits the bump-channel sample into
 // each of the bad inputs a user makes, and expects exit code 2, one
 // located line on stderr naming the trouble, and no deck folder.
 func TestBadInputIsLocatedAndWritesNothing(t *testing.T) {
-	base, err := samples.Case("bump-channel")
-	if err != nil {
-		t.Fatal(err)
-	}
 	cases := []struct {
 		name, from, to, want string
+		sample               string // default bump-channel
 	}{
-		{"loop does not close", "- {name: inlet, line: [0, 0]", "- {name: inlet, line: [0, 100]", "not closed"},
-		{"self-crossing loop", "- {name: ceiling, line: [0, height]", "- {name: ceiling, line: [length / 2, -200]}\n        - {line: [0, height], tag: ceiling, spacing: {count: 5}", "cross"},
-		{"inner loop outside", "mesh:", "    - {name: stray, circle: {centre: [5000, 500], radius: 100}, tag: stray, spacing: {count: 17}}\nmesh:", "inside"},
-		{"mismatched side counts", "tag: ceiling, spacing: {count: cells_x + 1}", "tag: ceiling, spacing: {count: cells_x + 4}", "by 3"},
-		{"unknown key", "tag: outlet,", "tga: outlet,", `unknown key "tga"`},
-		{"undefined parameter", "count: cells_y + 1}", "count: cells_z + 1}", `"cells_z" is not a defined parameter`},
-		{"negative size", "tag: ceiling, spacing: {count: cells_x + 1}", "tag: ceiling, spacing: {size: -5}", "greater than zero"},
+		{"loop does not close", "- {name: inlet, line: [0, 0]", "- {name: inlet, line: [0, 100]", "not closed", ""},
+		{"self-crossing loop", "- {name: ceiling, line: [0, height]", "- {name: ceiling, line: [length / 2, -200]}\n        - {line: [0, height], tag: ceiling, spacing: {count: 5}", "cross", ""},
+		{"inner loop outside", "mesh:", "    - {name: stray, circle: {centre: [5000, 500], radius: 100}, tag: stray, spacing: {count: 17}}\nmesh:", "inside", ""},
+		{"mismatched side counts", "tag: ceiling, spacing: {count: cells_x + 1}", "tag: ceiling, spacing: {count: cells_x + 4}", "by 3", ""},
+		{"unknown key", "tag: outlet,", "tga: outlet,", `unknown key "tga"`, ""},
+		{"undefined parameter", "count: cells_y + 1}", "count: cells_z + 1}", `"cells_z" is not a defined parameter`, ""},
+		{"negative size", "tag: ceiling, spacing: {count: cells_x + 1}", "tag: ceiling, spacing: {size: -5}", "greater than zero", ""},
+		// Boundary conditions (issue: a mistyped tag, a negative pressure,
+		// a supersonic outflow given a back pressure, an untagged boundary).
+		{"tag typo", "  ceiling: {kind: wall-slip}", "  celing: {kind: wall-slip}", `"celing"`, ""},
+		{"negative pressure", "outlet: {kind: outflow-pressure, pressure: 101325}", "outlet: {kind: outflow-pressure, pressure: -101325}", "outlet", ""},
+		{"supersonic outflow with back pressure", "exit: {kind: outflow-supersonic}", "exit: {kind: outflow-supersonic, pressure: 1e5}", "exit", "nozzle-blocks"},
+		{"boundary without condition", "  ceiling: {kind: wall-slip}\n", "", `"ceiling"`, ""},
+		// Structured blocks and grown grids.
+		{"shared sides differ", "{name: diag_ne, start: [c, c], segments: [{line: [a, a], spacing: {first: wall_cell, count: radial + 1}}]}",
+			"{name: diag_ne, start: [c, c], segments: [{line: [a, a], spacing: {first: wall_cell, count: radial + 3}}]}", "differ by 2", "cylinder-duct"},
+		{"first height above the outer distance", "first_yplus: 5", "first_height: 30", "larger than the outer distance", "naca-ogrid"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
+			if c.sample == "" {
+				c.sample = "bump-channel"
+			}
+			base, err := samples.Case(c.sample)
+			if err != nil {
+				t.Fatal(err)
+			}
 			text := string(base)
 			if !strings.Contains(text, c.from) {
 				t.Fatalf("the sample no longer contains %q", c.from)

@@ -423,6 +423,9 @@ func (p *fileParser) rangeValues(name string, n *yaml.Node) ([]float64, error) {
 	if has["from"] == nil || has["to"] == nil {
 		return nil, p.errf(n, "the range of %s needs from and to", name)
 	}
+	if math.IsInf(to-from, 0) {
+		return nil, p.errf(n, "the range of %s from %v to %v is wider than a float64 can hold", name, from, to)
+	}
 	switch {
 	case has["step"] != nil && has["count"] != nil:
 		return nil, p.errf(n, "the range of %s has both step and count; give one", name)

@@ -104,6 +104,7 @@ func TestParseErrorsSayWhere(t *testing.T) {
 		{"base: a.yaml\nparameters:\n  sin: [1]\n", "not a valid parameter name", 3, 3},
 		{"base: a.yaml\nrefine: {levels: 3, ratio: 1}\n", "must be above 1", 2, 28},
 		{"parameters:\n  a: [1]\n", "names no base case", 1, 1},
+		{"base: a.yaml\nparameters:\n  a: {from: -1e308, to: 1e308, count: 3}\n", "wider than a float64", 3, 6},
 		{"base: a.yaml\nparameters:\n  a: [1, 2]\n  a: [3]\n", `"a" appears twice`, 4, 3},
 	}
 	for _, c := range cases {

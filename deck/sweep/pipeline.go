@@ -3,6 +3,8 @@ package sweep
 import (
 	"bytes"
 	"context"
+	"crypto/sha256"
+	"encoding/hex"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -85,7 +87,7 @@ func (j *pipelineJob) Build(ctx context.Context, dir string) (Outcome, error) {
 	if err != nil && !errors.As(err, &checks) {
 		return Outcome{}, err
 	}
-	out, ok, err := readDeck(dir)
+	out, _, ok, err := readDeck(dir)
 	if err != nil {
 		return Outcome{}, err
 	}
@@ -96,8 +98,45 @@ func (j *pipelineJob) Build(ctx context.Context, dir string) (Outcome, error) {
 }
 
 // Existing reads the manifest and quality report of the deck in dir.
+// A deck counts only when it is intact: every file its manifest lists is
+// there with the recorded size and, for the files recorded by their bytes'
+// SHA-256 (all but CGNS, recorded by content), the recorded hash; a deck
+// damaged or edited by hand is rebuilt.
 func (p *Pipeline) Existing(dir string) (Outcome, bool, error) {
-	return readDeck(dir)
+	out, files, ok, err := readDeck(dir)
+	if err != nil || !ok {
+		return out, ok, err
+	}
+	for _, f := range files {
+		if !intact(dir, f) {
+			return Outcome{}, false, nil
+		}
+	}
+	return out, true, nil
+}
+
+// deckFile is one entry of the files list of deck.yaml.
+type deckFile struct {
+	Path   string `yaml:"path"`
+	Bytes  int64  `yaml:"bytes"`
+	SHA256 string `yaml:"sha256"`
+}
+
+// intact reports whether a listed file is inside the deck folder and has
+// its recorded size and hash.
+func intact(dir string, f deckFile) bool {
+	if !filepath.IsLocal(f.Path) {
+		return false
+	}
+	data, err := os.ReadFile(filepath.Join(dir, f.Path))
+	if err != nil || int64(len(data)) != f.Bytes {
+		return false
+	}
+	if f.SHA256 == "" {
+		return true
+	}
+	sum := sha256.Sum256(data)
+	return hex.EncodeToString(sum[:]) == f.SHA256
 }
 
 // manifestFile is the part of a deck's deck.yaml that the summary uses
@@ -115,6 +154,7 @@ type manifestFile struct {
 	Checks struct {
 		Verdict string `yaml:"verdict"`
 	} `yaml:"checks"`
+	Files []deckFile `yaml:"files"`
 }
 
 // qualityFile is the part of a deck's quality.json that the summary uses.
@@ -129,20 +169,20 @@ type qualityFile struct {
 
 // readDeck reads a deck's outcome: counts, area and verdict from deck.yaml,
 // and each metric's worst value (its maximum, or its minimum for a metric
-// that gets worse as it falls) from quality.json. ok is false when dir has
-// no deck.yaml.
-func readDeck(dir string) (Outcome, bool, error) {
+// that gets worse as it falls) from quality.json, and the list of the
+// deck's files. ok is false when dir has no deck.yaml.
+func readDeck(dir string) (Outcome, []deckFile, bool, error) {
 	path := filepath.Join(dir, manifest.FileName)
 	mdata, err := os.ReadFile(path)
 	if errors.Is(err, fs.ErrNotExist) {
-		return Outcome{}, false, nil
+		return Outcome{}, nil, false, nil
 	}
 	if err != nil {
-		return Outcome{}, false, err
+		return Outcome{}, nil, false, err
 	}
 	var m manifestFile
 	if err := yaml.Unmarshal(mdata, &m); err != nil {
-		return Outcome{}, false, fmt.Errorf("%s: %w", path, err)
+		return Outcome{}, nil, false, fmt.Errorf("%s: %w", path, err)
 	}
 	out := Outcome{
 		InputHash: m.InputHash,
@@ -155,11 +195,11 @@ func readDeck(dir string) (Outcome, bool, error) {
 	}
 	data, err := os.ReadFile(filepath.Join(dir, "quality.json"))
 	if err != nil {
-		return Outcome{}, false, fmt.Errorf("reading the deck's quality report: %w", err)
+		return Outcome{}, nil, false, fmt.Errorf("reading the deck's quality report: %w", err)
 	}
 	var q qualityFile
 	if err := json.NewDecoder(bytes.NewReader(data)).Decode(&q); err != nil {
-		return Outcome{}, false, fmt.Errorf("%s: %w", filepath.Join(dir, "quality.json"), err)
+		return Outcome{}, nil, false, fmt.Errorf("%s: %w", filepath.Join(dir, "quality.json"), err)
 	}
 	for _, mt := range q.Metrics {
 		v := mt.Max
@@ -174,5 +214,5 @@ func readDeck(dir string) (Outcome, bool, error) {
 		}
 		out.Worst[mt.Name] = *v
 	}
-	return out, true, nil
+	return out, m.Files, true, nil
 }

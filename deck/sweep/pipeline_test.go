@@ -2,6 +2,7 @@ package sweep
 
 import (
 	"context"
+	"os"
 	"path/filepath"
 	"testing"
 )
@@ -66,6 +67,27 @@ func TestPipelineResumeKeepsDecks(t *testing.T) {
 		if string(after[name]) != string(data) {
 			t.Errorf("%s changed on the second run", name)
 		}
+	}
+	// A deck damaged by hand is rebuilt, and only that one.
+	damaged := filepath.Join(dir, first.Rows[1].Name, "mesh.vtu")
+	if err := os.WriteFile(damaged, []byte("<VTKFile/>"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	third, err := Run(context.Background(), f, dir, NewPipeline(f), Options{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, r := range third.Rows {
+		want := RunReused
+		if i == 1 {
+			want = RunBuilt
+		}
+		if r.Run != want {
+			t.Errorf("%s: %s after damaging level 2, want %s", r.Name, r.Run, want)
+		}
+	}
+	if data, _ := os.ReadFile(damaged); string(data) != string(before[filepath.Join(first.Rows[1].Name, "mesh.vtu")]) {
+		t.Error("the damaged file was not rebuilt as it was")
 	}
 	// Cell counts of the family: level l has 2^(l-1) times the cells in
 	// each direction of the 90 x 24 base mesh.

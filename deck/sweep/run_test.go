@@ -3,9 +3,11 @@ package sweep
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
 	"math"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"reflect"
 	"sort"
@@ -428,5 +430,41 @@ func TestWriteList(t *testing.T) {
 	b.Reset()
 	if err := WriteList(&b, f, Shard{}, true); err != nil || !strings.Contains(b.String(), `"name": "a=5-`+vs[4].ID+`"`) {
 		t.Errorf("JSON list: %v\n%s", err, b.String())
+	}
+}
+
+// TestSummaryCSVReadsBack reads summary.csv with Python's csv module
+// (/usr/bin/python3, RFC 4180 dialect "excel") and checks that every row
+// has the header's fields, including an error text with a comma, quotes
+// and a line break.
+func TestSummaryCSVReadsBack(t *testing.T) {
+	if _, err := exec.LookPath("/usr/bin/python3"); err != nil {
+		needTool(t, "/usr/bin/python3 is not installed")
+	}
+	s := &Summary{Parameters: []string{"a"}, Total: 2, Plan: "p", Rows: []Row{
+		{Index: 0, ID: "x", Name: "a=1-x", Params: map[string]float64{"a": 1}, Refine: 1, Status: StatusOK, Passed: true,
+			Verdict: "pass", Cells: 10, Area: 2, Worst: map[string]float64{"skewness": 0.25}, Run: RunBuilt, Seconds: 0.5},
+		{Index: 1, ID: "y", Name: "a=2-y", Params: map[string]float64{"a": 2}, Refine: 1, Status: StatusFailed,
+			Error: "loop \"outer\", segment 3:\ncrosses segment 7, at x=0.5", Run: RunFailed},
+	}}
+	s.Finish()
+	path := filepath.Join(t.TempDir(), "summary.csv")
+	if err := os.WriteFile(path, s.CSV(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, err := exec.Command("/usr/bin/python3", "-c", `
+import csv, json, sys
+rows = list(csv.DictReader(open(sys.argv[1], newline="")))
+print(json.dumps(rows))`, path).Output()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rows []map[string]string
+	if err := json.Unmarshal(out, &rows); err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != 2 || rows[0]["worst_skewness"] != "0.25" || rows[0]["h"] != FormatValue(math.Sqrt(0.2)) ||
+		rows[1]["error"] != s.Rows[1].Error || rows[1]["status"] != "failed" || rows[1]["a"] != "2" {
+		t.Errorf("Python read back %v", rows)
 	}
 }

@@ -3,6 +3,7 @@ package unstructured
 import (
 	"fmt"
 	"math"
+	"slices"
 
 	"cvdeck/geometry"
 	"cvdeck/mesh"
@@ -101,8 +102,9 @@ func heights(l Layers) []float64 {
 //     distance to where it crosses a neighbouring ray, and neighbouring
 //     rays differ by at most one layer; a layer that ends is closed by a
 //     triangle;
-//   - any cell that would still be inverted or not convex lowers the
-//     layer count of its rays, until none is.
+//   - any cell that would still be inverted or not convex, and any front
+//     edge that crosses another, lowers the layer count of its rays, until
+//     none is left.
 //
 // The result is the layer cells and the outline of the remaining region,
 // whose edges along the layers' top are tagged frontTag.
@@ -260,7 +262,12 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 		smoothCounts(rays, connected)
 		plan, bad := assemble(g, rays, hs, raysAt, connected, wall)
 		if len(bad) == 0 {
-			return plan, nil
+			// Layers of different walls may still overlap where their
+			// fans and sides meet: lower the rays at crossing front edges.
+			bad = crossingRays(plan, rays, int32(len(g.pts)))
+			if len(bad) == 0 {
+				return plan, nil
+			}
 		}
 		if attempt > 4*len(rays)+200 {
 			return nil, fmt.Errorf("boundary layers at %s: cells stay inverted however few layers are used (internal error)", g.where(rays[bad[0]].base))
@@ -271,6 +278,104 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 			}
 		}
 	}
+}
+
+// crossingRays returns the rays whose layer tops end front edges that
+// cross another front edge (the front is the outline of the region left
+// for the triangles, so a crossing means overlapping layers). Front edges
+// are bucketed in a uniform grid of cells twice their mean length, and the
+// crossing test is exact (orient2d). Crossings between points that are not
+// layer nodes (id < firstLayer) are left for the triangulation to report.
+func crossingRays(p *layerPlan, rays []ray, firstLayer int32) []int32 {
+	type edge struct{ a, b int32 }
+	var edges []edge
+	for _, ids := range p.frontID {
+		for k := range ids {
+			edges = append(edges, edge{ids[k], ids[(k+1)%len(ids)]})
+		}
+	}
+	if len(edges) == 0 {
+		return nil
+	}
+	var bound orb.Bound = orb.MultiPoint{p.nodes[edges[0].a]}.Bound()
+	total := 0.0
+	for _, e := range edges {
+		a, b := p.nodes[e.a], p.nodes[e.b]
+		bound = bound.Extend(a)
+		total += math.Hypot(b[0]-a[0], b[1]-a[1])
+	}
+	cell := 2 * total / float64(len(edges))
+	w := math.Max(bound.Max[0]-bound.Min[0], bound.Max[1]-bound.Min[1])
+	cell = math.Max(cell, w/2048)
+	nx := int((bound.Max[0]-bound.Min[0])/cell) + 1
+	ny := int((bound.Max[1]-bound.Min[1])/cell) + 1
+	buckets := map[int][]int32{}
+	span := func(e edge) (i0, j0, i1, j1 int) {
+		a, b := p.nodes[e.a], p.nodes[e.b]
+		i0 = int((math.Min(a[0], b[0]) - bound.Min[0]) / cell)
+		i1 = int((math.Max(a[0], b[0]) - bound.Min[0]) / cell)
+		j0 = int((math.Min(a[1], b[1]) - bound.Min[1]) / cell)
+		j1 = int((math.Max(a[1], b[1]) - bound.Min[1]) / cell)
+		return min(i0, nx-1), min(j0, ny-1), min(i1, nx-1), min(j1, ny-1)
+	}
+	for k, e := range edges {
+		i0, j0, i1, j1 := span(e)
+		for j := j0; j <= j1; j++ {
+			for i := i0; i <= i1; i++ {
+				buckets[j*nx+i] = append(buckets[j*nx+i], int32(k))
+			}
+		}
+	}
+	rayOf := make(map[int32]int32)
+	for j := range rays {
+		for k := 1; k < len(rays[j].nodes); k++ {
+			rayOf[rays[j].nodes[k]] = int32(j)
+		}
+	}
+	var out []int32
+	seen := map[[2]int32]bool{}
+	keys := make([]int, 0, len(buckets))
+	for key := range buckets {
+		keys = append(keys, key)
+	}
+	slices.Sort(keys)
+	for _, key := range keys {
+		list := buckets[key]
+		for x := 0; x < len(list); x++ {
+			for y := x + 1; y < len(list); y++ {
+				e, f := edges[list[x]], edges[list[y]]
+				if e.a == f.a || e.a == f.b || e.b == f.a || e.b == f.b {
+					continue
+				}
+				pair := [2]int32{list[x], list[y]}
+				if seen[pair] || !segmentsMeet(p.nodes[e.a], p.nodes[e.b], p.nodes[f.a], p.nodes[f.b]) {
+					continue
+				}
+				seen[pair] = true
+				for _, id := range [...]int32{e.a, e.b, f.a, f.b} {
+					if j, ok := rayOf[id]; ok && id >= firstLayer {
+						out = append(out, j)
+					}
+				}
+			}
+		}
+	}
+	return out
+}
+
+// segmentsMeet reports whether the closed segments ab and cd share a
+// point (exact orientation tests).
+func segmentsMeet(a, b, c, d orb.Point) bool {
+	o1, o2 := orient2d(a, b, c), orient2d(a, b, d)
+	o3, o4 := orient2d(c, d, a), orient2d(c, d, b)
+	if ((o1 > 0 && o2 < 0) || (o1 < 0 && o2 > 0)) && ((o3 > 0 && o4 < 0) || (o3 < 0 && o4 > 0)) {
+		return true
+	}
+	on := func(p, q, r orb.Point) bool { // r on segment pq, given collinear
+		return math.Min(p[0], q[0]) <= r[0] && r[0] <= math.Max(p[0], q[0]) &&
+			math.Min(p[1], q[1]) <= r[1] && r[1] <= math.Max(p[1], q[1])
+	}
+	return (o1 == 0 && on(a, b, c)) || (o2 == 0 && on(a, b, d)) || (o3 == 0 && on(c, d, a)) || (o4 == 0 && on(c, d, b))
 }
 
 // smoothCounts lowers layer counts until connected rays differ by at most

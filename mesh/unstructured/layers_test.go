@@ -85,6 +85,16 @@ func TestLayers(t *testing.T) {
 			circleLoop(orb.Point{2.33, 1}, 0.4, 60, true, "cylinder"),
 		}}, Layers{Tags: []string{"cylinder"}, FirstHeight: 0.002, Growth: 1.3, Count: 15}, "cylinder"},
 	}
+	cases = append(cases, struct {
+		name   string
+		out    geometry.DiscreteOutline
+		layers Layers
+		wall   string
+	}{"two-element section with a slot", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{
+		polyLoop([]orb.Point{{-2, -2}, {4, -2}, {4, 2}, {-2, 2}}, 0.3, "farfield"),
+		nacaLoop(orb.Point{0, 0}, 1, 0, 0.12, 80, "main"),
+		nacaLoop(orb.Point{1.02, -0.06}, 0.3, 25, 0.12, 40, "main"),
+	}}, Layers{Tags: []string{"main"}, FirstHeight: 0.0005, Growth: 1.2, Count: 15}, "main"})
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			m, err := Mesh(c.out, Options{Layers: []Layers{c.layers}})
@@ -188,4 +198,29 @@ func TestAngleQuality(t *testing.T) {
 			t.Errorf("angleQuality(%v) = %.15g, want %.15g", c.p, q, c.want)
 		}
 	}
+}
+
+// nacaLoop is a symmetric NACA 4-digit section of thickness ratio tc
+// (NACA Report 824: y_t = 5·tc·(0.2969√x − 0.1260x − 0.3516x² + 0.2843x³ −
+// 0.1036x⁴), the last coefficient giving a closed trailing edge), chord c
+// from le, pitched nose-up by deg degrees, 2n points clustered at both
+// ends by cosine spacing, clockwise (a body inside the domain).
+func nacaLoop(le orb.Point, c, deg, tc float64, n int, tag string) geometry.DiscreteLoop {
+	var l geometry.DiscreteLoop
+	s, co := math.Sincos(-deg * math.Pi / 180)
+	for k := 0; k < 2*n; k++ {
+		x := 0.5 * (1 + math.Cos(math.Pi*float64(k)/float64(n)))
+		yt := 5 * tc * (0.2969*math.Sqrt(x) - 0.1260*x - 0.3516*x*x + 0.2843*x*x*x - 0.1036*x*x*x*x)
+		y := -yt // lower surface from the trailing edge forward: clockwise
+		if k > n {
+			y = yt
+		}
+		if k == 0 || k == n {
+			y = 0
+		}
+		px, py := c*x, c*y
+		l.Points = append(l.Points, orb.Point{le[0] + px*co - py*s, le[1] + px*s + py*co})
+		l.Tags = append(l.Tags, tag)
+	}
+	return l
 }

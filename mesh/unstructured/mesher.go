@@ -38,6 +38,11 @@ func Mesh(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, error) {
 			return nil, fmt.Errorf("unstructured: %w", err)
 		}
 		if plan != nil {
+			nl := len(plan.cellStart) - 1
+			if nl >= opt.MaxCells {
+				return nil, fmt.Errorf("unstructured: the boundary layers alone have %d cells, above the limit of %d; raise the limit or use fewer layers", nl, opt.MaxCells)
+			}
+			opt.MaxCells -= nl
 			if region, err = flatten(plan.front); err != nil {
 				return nil, fmt.Errorf("unstructured: the outline left after the boundary layers is not valid (reduce the layer thickness): %w", err)
 			}
@@ -45,6 +50,9 @@ func Mesh(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, error) {
 	}
 	tr, err := triangulateOutline(region, g, opt)
 	if err != nil {
+		if plan != nil {
+			return nil, fmt.Errorf("unstructured: meshing the region left by the boundary layers (their top is loop points there; reduce the layer thickness): %w", err)
+		}
 		return nil, err
 	}
 	in := meshInput(g, region, plan, tr, opt.QuadDominant)
@@ -141,11 +149,12 @@ func newSizeField(g, orig *pslg, opt Options) (*sizeField, error) {
 }
 
 // estimateTriangles estimates the triangle count of the refined mesh: the
-// integral over the domain of 1/(a·h²), with a = 0.41 h² the mean triangle
-// area refinement gives for the size target h (measured on test domains;
-// an equilateral triangle of edge h has √3/4·h² ≈ 0.43 h²). The domain is
-// integrated on the size field's grid cells whose centres lie inside the
-// outline (even-odd rule).
+// integral over the domain of 1/(0.41·h²), 0.41·h² being the mean
+// triangle area refinement gives for the size target h (measured on the
+// benchmark channel; an equilateral triangle of edge h has
+// √3/4·h² ≈ 0.43·h²), plus two per outline point. The integral is a
+// midpoint sum on a 128 × 128 grid over the outline's bounding box,
+// counting the samples inside the outline by the even-odd rule.
 func (s *sizeField) estimateTriangles(g *pslg) float64 {
 	b := orb.MultiPoint(g.pts).Bound()
 	const n = 128

@@ -36,11 +36,14 @@ const sizeFactor = 0.75
 //     the other inserted is split at a distance from the outline point
 //     that is a power of two (Ruppert's "concentric shells", as in
 //     Shewchuk 2002 §4), so the splits on two segments of a sharp corner
-//     line up; and a skinny triangle whose shortest edge joins two such
-//     inserted points at the same distance from a corner sharper than 60°
-//     is left alone, since no insertion could fix the corner's angle
-//     (Shewchuk 2002 §4; Miller, Pav and Walkington 2003 give the proof of
-//     termination for this kind of rule).
+//     line up; and a skinny triangle whose shortest edge joins two points
+//     on the two input edges of a corner sharper than 60° (points inserted
+//     on them, or their outline end points) at the same distance from the
+//     corner is left alone, since no insertion could fix the corner's
+//     angle (Shewchuk 2002 §4; Miller, Pav and Walkington 2003 give the
+//     proof of termination for this kind of rule). Triangles of a sharp
+//     corner's fan, within about one boundary spacing of it, may therefore
+//     stay below the target.
 //
 // Every triangle count is bounded by maxTri, so refinement stops with an
 // error rather than running away.
@@ -202,29 +205,48 @@ func (r *refiner) bad(t int32) bool {
 	return !r.heldByCorner(p, q)
 }
 
-// heldByCorner reports whether p and q are inserted points on the two
-// input edges of a sharp corner at the same distance from it.
+// heldByCorner reports whether p and q lie on the two input edges of a
+// sharp corner (inserted points, or the edges' far outline points) at the
+// same distance from it, within 5%.
 func (r *refiner) heldByCorner(p, q int32) bool {
-	if r.kind[p] != vSegment || r.kind[q] != vSegment {
-		return false
-	}
-	ep, eq := r.onEdge[p], r.onEdge[q]
-	var o int32
+	fp, bp := r.cornerEnds(p)
+	fq, bq := r.cornerEnds(q)
+	var o int32 = -1
 	switch {
-	case r.g.nextPt[ep] == eq:
-		o = eq
-	case r.g.nextPt[eq] == ep:
-		o = ep
+	case fp >= 0 && fp == bq:
+		o = fp
+	case bp >= 0 && bp == fq:
+		o = bp
 	default:
-		return false
-	}
-	if !r.sharp[o] {
 		return false
 	}
 	po, pp, pq := r.tr.pts[o], r.tr.pts[p], r.tr.pts[q]
 	dp := math.Hypot(pp[0]-po[0], pp[1]-po[1])
 	dq := math.Hypot(pq[0]-po[0], pq[1]-po[1])
-	return math.Abs(dp-dq) <= 0.01*math.Max(dp, dq)
+	return math.Abs(dp-dq) <= 0.05*math.Max(dp, dq)
+}
+
+// cornerEnds returns the sharp corners at the forward and backward ends
+// (in loop order) of the input edges boundary vertex v lies on, -1 where
+// the end is not sharp or v is not on the boundary.
+func (r *refiner) cornerEnds(v int32) (fwd, bwd int32) {
+	fwd, bwd = -1, -1
+	var a, b int32
+	switch r.kind[v] {
+	case vSegment:
+		a, b = r.onEdge[v], r.g.nextPt[r.onEdge[v]]
+	case vInput:
+		a, b = r.g.prevPt[v], r.g.nextPt[v]
+	default:
+		return
+	}
+	if r.sharp[b] {
+		fwd = b
+	}
+	if r.sharp[a] {
+		bwd = a
+	}
+	return
 }
 
 // addVertex appends a vertex and returns its index.

@@ -26,7 +26,7 @@ const (
 // triangulation is a triangulation in flat half-edge arrays. Triangle t
 // owns half-edges 3t, 3t+1, 3t+2 in counter-clockwise order; half-edge e
 // runs from v[e] to v[next(e)] and adj[e] is its twin in the neighbouring
-// triangle. No pointers: 4 int32 and one int16 per half-edge, one byte
+// triangle. No pointers: two int32 and one int16 per half-edge, one byte
 // per triangle.
 type triangulation struct {
 	pts  []orb.Point
