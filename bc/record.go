@@ -40,6 +40,27 @@ func (es Entries) MarshalYAML() (any, error) {
 	return n, nil
 }
 
+// UnmarshalYAML reads the mapping MarshalYAML writes, keeping its order, so
+// that scripts and cvdeck itself can read a deck manifest back.
+func (es *Entries) UnmarshalYAML(n *yaml.Node) error {
+	if n.Kind != yaml.MappingNode {
+		return fmt.Errorf("line %d: expected a mapping of names to {value, unit}", n.Line)
+	}
+	out := make(Entries, 0, len(n.Content)/2)
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		var v struct {
+			Value float64 `yaml:"value"`
+			Unit  string  `yaml:"unit"`
+		}
+		if err := n.Content[i+1].Decode(&v); err != nil {
+			return fmt.Errorf("%s: %w", n.Content[i].Value, err)
+		}
+		out = append(out, Entry{Key: n.Content[i].Value, Value: v.Value, Unit: v.Unit})
+	}
+	*es = out
+	return nil
+}
+
 // MarshalJSON writes the entries as one JSON object, key to SI value, in
 // order. A value that is not finite is an error, since JSON cannot hold it.
 func (es Entries) MarshalJSON() ([]byte, error) {

@@ -185,31 +185,11 @@ func (o *object) done() error {
 func closest(s string, candidates []string) string {
 	best, bestD := "", 3
 	for _, c := range candidates {
-		if d := levenshtein(s, c); d < bestD {
+		if d := expr.EditDistance(s, c); d < bestD {
 			best, bestD = c, d
 		}
 	}
 	return best
-}
-
-func levenshtein(a, b string) int {
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			c := 1
-			if a[i-1] == b[j-1] {
-				c = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+c)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(b)]
 }
 
 func (v value) list() ([]value, error) {

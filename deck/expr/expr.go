@@ -185,7 +185,7 @@ func suggest(name string, vars map[string]float64) string {
 	}
 	best, bestD := "", 1<<30
 	for k := range vars {
-		d := editDistance(strings.ToLower(name), strings.ToLower(k))
+		d := EditDistance(strings.ToLower(name), strings.ToLower(k))
 		if d < bestD || d == bestD && k < best {
 			best, bestD = k, d
 		}
@@ -196,8 +196,10 @@ func suggest(name string, vars map[string]float64) string {
 	return ""
 }
 
-// editDistance is the Levenshtein distance between a and b.
-func editDistance(a, b string) int {
+// EditDistance is the Levenshtein distance between a and b: the fewest
+// single-byte insertions, deletions and substitutions that turn one into
+// the other (Levenshtein 1966), used to suggest the name a typo meant.
+func EditDistance(a, b string) int {
 	prev := make([]int, len(b)+1)
 	cur := make([]int, len(b)+1)
 	for j := range prev {

@@ -92,12 +92,18 @@ func (s *sizeField) build(bound orb.Bound) {
 			s.best[j*s.nx+i] = int32(k)
 		}
 	}
+	// A cone has slope at most G−1, so a neighbour's source cannot beat
+	// this node's value when the neighbour's value is higher by more than
+	// (G−1) times their distance; such neighbours, and neighbours with the
+	// same source, are skipped without evaluating a cone.
+	reach := s.slope * s.cell * math.Sqrt2
 	relax := func(i, j, ni, nj int) {
 		if ni < 0 || nj < 0 || ni >= s.nx || nj >= s.ny {
 			return
 		}
-		b := s.best[nj*s.nx+ni]
-		if b < 0 {
+		k, nk := j*s.nx+i, nj*s.nx+ni
+		b := s.best[nk]
+		if b < 0 || b == s.best[k] || val[nk]-reach >= val[k] {
 			return
 		}
 		if v := s.cone(b, node(i, j)); v < val[j*s.nx+i] {

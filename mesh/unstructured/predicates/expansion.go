@@ -139,7 +139,3 @@ func estimate(e []float64) float64 {
 	}
 	return s
 }
-
-// most returns the most significant component: its sign is the sign of the
-// expansion.
-func most(e []float64) float64 { return e[len(e)-1] }

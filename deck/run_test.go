@@ -1,0 +1,107 @@
+package deck
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"os"
+	"path/filepath"
+	"sort"
+	"testing"
+
+	"cvdeck/export/manifest"
+)
+
+// TestRunWritesAConsistentDeck runs a case twice into two folders and
+// checks the deck: every file the manifest lists is there with its hash
+// (for CGNS, the content hash is recorded instead of the file's), nothing
+// else is there but the manifest, and the same input gives the same bytes
+// for every file cvdeck writes itself.
+func TestRunWritesAConsistentDeck(t *testing.T) {
+	dirs := []string{filepath.Join(t.TempDir(), "a"), filepath.Join(t.TempDir(), "b")}
+	var mans []*manifest.Manifest
+	for _, dir := range dirs {
+		c, err := Parse("square.yaml", []byte(square+"outputs: {formats: [cgns, vtu, vtk, vts, preview, png, manifest]}\n"), LoadOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, err := Run(c, dir, RunOptions{}); err != nil {
+			t.Fatal(err)
+		}
+		m, err := manifest.Read(dir)
+		if err != nil {
+			t.Fatal(err)
+		}
+		mans = append(mans, m)
+		listed := map[string]bool{manifest.FileName: true}
+		for _, f := range m.Files {
+			listed[f.Path] = true
+			data, err := os.ReadFile(filepath.Join(dir, f.Path))
+			if err != nil {
+				t.Fatal(err)
+			}
+			if int64(len(data)) != f.Bytes {
+				t.Errorf("%s: %d bytes, the manifest says %d", f.Path, len(data), f.Bytes)
+			}
+			sum := sha256.Sum256(data)
+			if f.SHA256 != "" && f.SHA256 != hex.EncodeToString(sum[:]) {
+				t.Errorf("%s: hash differs from the manifest's", f.Path)
+			}
+			if f.SHA256 == "" && f.ContentSHA256 == "" {
+				t.Errorf("%s has no hash in the manifest", f.Path)
+			}
+		}
+		entries, _ := os.ReadDir(dir)
+		for _, e := range entries {
+			if !listed[e.Name()] {
+				t.Errorf("%s is in the deck but not in the manifest", e.Name())
+			}
+		}
+	}
+	for _, name := range []string{"deck.yaml", "mesh.vtu", "boundary.vtp", "mesh.vtk", "preview.svg", "preview.png", "quality.json", "blocks.vtm"} {
+		a, _ := os.ReadFile(filepath.Join(dirs[0], name))
+		b, _ := os.ReadFile(filepath.Join(dirs[1], name))
+		if len(a) == 0 || !bytes.Equal(a, b) {
+			t.Errorf("%s differs between two runs of the same case (or is empty)", name)
+		}
+	}
+	var sums []string
+	for _, m := range mans {
+		for _, f := range m.Files {
+			if f.Path == "mesh.cgns" {
+				sums = append(sums, f.ContentSHA256)
+			}
+		}
+	}
+	sort.Strings(sums)
+	if len(sums) != 2 || sums[0] != sums[1] {
+		t.Errorf("CGNS content hashes %v: want two equal ones", sums)
+	}
+}
+
+// TestRunBadInputWritesNothing: a case whose conditions name a tag the
+// mesh does not have stops before anything is written, and an existing
+// deck stays as it was.
+func TestRunBadInputWritesNothing(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "deck")
+	good, err := Parse("square.yaml", []byte(square+"boundaries: {wall: {kind: wall-slip}}\n"), LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := Run(good, dir, RunOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	before, _ := os.ReadFile(filepath.Join(dir, manifest.FileName))
+	bad, err := Parse("square.yaml", []byte(square+"boundaries: {wal: {kind: wall-slip}}\n"), LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := Run(bad, dir, RunOptions{}); !errors.Is(err, ErrInput) {
+		t.Fatalf("got %v, want an input error", err)
+	}
+	after, _ := os.ReadFile(filepath.Join(dir, manifest.FileName))
+	if !bytes.Equal(before, after) {
+		t.Fatal("a failed run changed the existing deck")
+	}
+}
