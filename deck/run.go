@@ -236,6 +236,23 @@ func previewInput(c *Case, m *mesh.Mesh, conds []string, rep *quality.Report) pr
 	for i, s := range rep.CellStatus {
 		in.Status[i] = preview.Status(s)
 	}
+	// Zoom in on the worst cells of the metrics that fail, then of those
+	// that warn.
+	seen := map[int]bool{}
+	for _, pass := range []func(quality.MetricSummary) bool{
+		func(ms quality.MetricSummary) bool { return ms.Failed > 0 },
+		func(ms quality.MetricSummary) bool { return ms.Failed == 0 && ms.Warned > 0 },
+	} {
+		for _, ms := range rep.Metrics {
+			if ms.Per != "cell" || !pass(ms) || len(ms.Worst) == 0 {
+				continue
+			}
+			if c := ms.Worst[0].Index; !seen[c] && c < m.NumCells() {
+				seen[c] = true
+				in.Worst = append(in.Worst, int32(c))
+			}
+		}
+	}
 	for _, ms := range rep.Metrics {
 		vals, ok := rep.Field(ms.Name)
 		if !ok || ms.Per != "cell" || len(vals) != m.NumCells() {

@@ -55,79 +55,34 @@ func Assemble(blocks []*Block, opt AssembleOptions) (*mesh.Mesh, error) {
 	if len(blocks) == 0 {
 		return nil, fmt.Errorf("structured: no blocks to assemble")
 	}
+	if err := checkBlocks(blocks); err != nil {
+		return nil, err
+	}
 	offset := make([]int, len(blocks)+1)
-	var lo, hi orb.Point
 	for b, blk := range blocks {
-		if err := blk.check(); err != nil {
-			return nil, fmt.Errorf("structured: %w", err)
-		}
 		offset[b+1] = offset[b] + blk.NI*blk.NJ
-		for k := range blk.X {
-			p := orb.Point{blk.X[k], blk.Y[k]}
-			if b == 0 && k == 0 {
-				lo, hi = p, p
-			}
-			lo = orb.Point{math.Min(lo[0], p[0]), math.Min(lo[1], p[1])}
-			hi = orb.Point{math.Max(hi[0], p[0]), math.Max(hi[1], p[1])}
-		}
 	}
 	tol := opt.Tol
 	if tol <= 0 {
-		tol = 1e-9 * math.Hypot(hi[0]-lo[0], hi[1]-lo[1])
+		tol = defaultTol(blocks)
 	}
-	for b, blk := range blocks {
-		if a := blockArea(blk); a <= 0 {
-			return nil, fmt.Errorf("structured: block %d %q has signed area %.3g: its i and j must run so that cells are counter-clockwise (i along south west to east, j south to north)", b, blk.Name, a)
-		}
+	ifaces, partner, err := findShared(blocks, tol)
+	if err != nil {
+		return nil, err
 	}
-
-	// Find the shared sides.
-	var sides []sideSample
-	for b, blk := range blocks {
-		for s := mesh.South; s <= mesh.West; s++ {
-			sides = append(sides, sampleSide(sideRef{b, s}, blk.SidePoints(s)))
-		}
-	}
-	partner := make([]int, len(sides))
-	for k := range partner {
-		partner[k] = -1
-	}
-	reversed := make([]bool, len(sides))
-	var ifaces []mesh.BlockInterface
 	parent := make([]int32, offset[len(blocks)])
 	for k := range parent {
 		parent[k] = int32(k)
 	}
-	for x := range sides {
-		for y := x + 1; y < len(sides); y++ {
-			sx, sy := &sides[x], &sides[y]
-			rev, ok := sameCurve(sx, sy)
-			if !ok {
-				continue
+	for _, f := range ifaces {
+		ba, bb := blocks[f.A], blocks[f.B]
+		n := ba.SideLen(f.SideA)
+		for k := 0; k < n; k++ {
+			kb := k
+			if f.Reversed {
+				kb = n - 1 - k
 			}
-			if err := conform(blocks, sx, sy, rev, tol); err != nil {
-				return nil, err
-			}
-			for _, z := range [2]int{x, y} {
-				if partner[z] >= 0 {
-					o := sides[partner[z]].ref
-					other := sides[x+y-z].ref
-					return nil, fmt.Errorf("structured: %s coincides with both %s and %s; a side can be shared with one other side only",
-						refName(blocks, sides[z].ref), refName(blocks, o), refName(blocks, other))
-				}
-			}
-			partner[x], partner[y] = y, x
-			reversed[x], reversed[y] = rev, rev
-			ifaces = append(ifaces, mesh.BlockInterface{A: sx.ref.block, B: sy.ref.block, SideA: sx.ref.side, SideB: sy.ref.side, Reversed: rev})
-			n := len(sx.pts)
-			bx, by := blocks[sx.ref.block], blocks[sy.ref.block]
-			for k := 0; k < n; k++ {
-				ky := k
-				if rev {
-					ky = n - 1 - k
-				}
-				union(parent, int32(offset[sx.ref.block]+bx.SideNode(sx.ref.side, k)), int32(offset[sy.ref.block]+by.SideNode(sy.ref.side, ky)))
-			}
+			union(parent, int32(offset[f.A]+ba.SideNode(f.SideA, k)), int32(offset[f.B]+bb.SideNode(f.SideB, kb)))
 		}
 	}
 
@@ -160,9 +115,9 @@ func Assemble(blocks []*Block, opt AssembleOptions) (*mesh.Mesh, error) {
 	in.CellNodes = make([]int32, 0, 4*ncell)
 	in.CellStart = append(in.CellStart, 0)
 	nedge := 0
-	for z, sd := range sides {
-		if partner[z] < 0 {
-			nedge += len(sd.pts) - 1
+	for z, p := range partner {
+		if p < 0 {
+			nedge += blocks[z/4].SideLen(mesh.Side(z%4)) - 1
 		}
 	}
 	in.Edges = make([]mesh.TaggedEdge, 0, nedge)
@@ -206,6 +161,71 @@ func Assemble(blocks []*Block, opt AssembleOptions) (*mesh.Mesh, error) {
 		return nil, fmt.Errorf("structured: %w", err)
 	}
 	return m, nil
+}
+
+// checkBlocks verifies each block's arrays and that its cells run
+// counter-clockwise.
+func checkBlocks(blocks []*Block) error {
+	for b, blk := range blocks {
+		if err := blk.check(); err != nil {
+			return fmt.Errorf("structured: %w", err)
+		}
+		if a := blockArea(blk); a <= 0 {
+			return fmt.Errorf("structured: block %d %q has signed area %.3g: its i and j must run so that cells are counter-clockwise (i along south west to east, j south to north)", b, blk.Name, a)
+		}
+	}
+	return nil
+}
+
+// defaultTol is 1e-9 times the bounding-box diagonal of all blocks.
+func defaultTol(blocks []*Block) float64 {
+	lo := orb.Point{math.Inf(1), math.Inf(1)}
+	hi := orb.Point{math.Inf(-1), math.Inf(-1)}
+	for _, blk := range blocks {
+		for k := range blk.X {
+			lo = orb.Point{math.Min(lo[0], blk.X[k]), math.Min(lo[1], blk.Y[k])}
+			hi = orb.Point{math.Max(hi[0], blk.X[k]), math.Max(hi[1], blk.Y[k])}
+		}
+	}
+	return 1e-9 * math.Hypot(hi[0]-lo[0], hi[1]-lo[1])
+}
+
+// findShared finds the pairs of block sides that trace the same curve
+// (see Assemble), checks that each pair conforms, and returns them as
+// interfaces, with partner[4·block+side] the partner side's number (or −1).
+func findShared(blocks []*Block, tol float64) ([]mesh.BlockInterface, []int, error) {
+	var sides []sideSample
+	for b, blk := range blocks {
+		for s := mesh.South; s <= mesh.West; s++ {
+			sides = append(sides, sampleSide(sideRef{b, s}, blk.SidePoints(s)))
+		}
+	}
+	partner := make([]int, len(sides))
+	for k := range partner {
+		partner[k] = -1
+	}
+	var ifaces []mesh.BlockInterface
+	for x := range sides {
+		for y := x + 1; y < len(sides); y++ {
+			sx, sy := &sides[x], &sides[y]
+			rev, ok := sameCurve(sx, sy)
+			if !ok {
+				continue
+			}
+			if err := conform(blocks, sx, sy, rev, tol); err != nil {
+				return nil, nil, err
+			}
+			for _, z := range [2]int{x, y} {
+				if partner[z] >= 0 {
+					return nil, nil, fmt.Errorf("structured: %s coincides with both %s and %s; a side can be shared with one other side only",
+						refName(blocks, sides[z].ref), refName(blocks, sides[partner[z]].ref), refName(blocks, sides[x+y-z].ref))
+				}
+			}
+			partner[x], partner[y] = y, x
+			ifaces = append(ifaces, mesh.BlockInterface{A: sx.ref.block, B: sy.ref.block, SideA: sx.ref.side, SideB: sy.ref.side, Reversed: rev})
+		}
+	}
+	return ifaces, partner, nil
 }
 
 // nodeIJ returns the (i, j) of the k-th node of side s.

@@ -31,7 +31,12 @@ type SideControl struct {
 	Mode SideMode
 	// FirstHeight, when positive, is the height of the first cell off this
 	// side, measured along the side's normal, that the control holds. The
-	// side must be Fixed.
+	// side must be Fixed. Give the two sides that meet this one a node
+	// distribution that already starts near this height: the control then
+	// only corrects it along the wall. From a far-off start (a uniform
+	// distribution and a height a hundred times smaller) it still reaches
+	// the height, but the next few cells grow fast; a smaller Decay spreads
+	// the change over more cells.
 	FirstHeight float64
 	// Orthogonal asks for grid lines that leave the side at right angles.
 	// The side must be Fixed (a sliding side is made orthogonal by sliding).
@@ -130,30 +135,38 @@ type SmoothResult struct {
 // size, before any damping, so a node held back by the fold test keeps the
 // iteration from reporting convergence.
 func Smooth(b *Block, opt SmoothOptions) (SmoothResult, error) {
-	var res SmoothResult
+	res, err := SmoothBlocks([]*Block{b}, []SmoothOptions{opt})
+	if len(res) == 0 {
+		return SmoothResult{}, err
+	}
+	return res[0], err
+}
+
+// normalise checks the options for block b and fills in the defaults.
+func (opt *SmoothOptions) normalise(b *Block) error {
 	if err := b.check(); err != nil {
-		return res, fmt.Errorf("structured: %w", err)
+		return fmt.Errorf("structured: %w", err)
 	}
 	if b.NI < 3 || b.NJ < 3 {
-		return res, fmt.Errorf("structured: block %q is %d × %d nodes; smoothing needs interior nodes (at least 3 × 3)", b.Name, b.NI, b.NJ)
+		return fmt.Errorf("structured: block %q is %d × %d nodes; smoothing needs interior nodes (at least 3 × 3)", b.Name, b.NI, b.NJ)
 	}
 	for s, c := range opt.Sides {
 		side := mesh.Side(s)
 		if c.Mode > Slide {
-			return res, fmt.Errorf("structured: block %q %s side: unknown side mode %d", b.Name, side, c.Mode)
+			return fmt.Errorf("structured: block %q %s side: unknown side mode %d", b.Name, side, c.Mode)
 		}
 		if c.FirstHeight < 0 || math.IsNaN(c.FirstHeight) || math.IsInf(c.FirstHeight, 0) {
-			return res, fmt.Errorf("structured: block %q %s side: first-cell height %g must be positive (or 0 for none)", b.Name, side, c.FirstHeight)
+			return fmt.Errorf("structured: block %q %s side: first-cell height %g must be positive (or 0 for none)", b.Name, side, c.FirstHeight)
 		}
 		if c.controlled() && c.Mode != Fixed {
-			return res, fmt.Errorf("structured: block %q %s side: first-height and orthogonality control need fixed nodes, the side is set to %s", b.Name, side, c.Mode)
+			return fmt.Errorf("structured: block %q %s side: first-height and orthogonality control need fixed nodes, the side is set to %s", b.Name, side, c.Mode)
 		}
 	}
 	if opt.MaxIterations == 0 {
 		opt.MaxIterations = 5000
 	}
 	if opt.MaxIterations < 0 {
-		return res, fmt.Errorf("structured: smoothing iteration limit %d is negative", opt.MaxIterations)
+		return fmt.Errorf("structured: smoothing iteration limit %d is negative", opt.MaxIterations)
 	}
 	if opt.Tolerance == 0 {
 		opt.Tolerance = 1e-6
@@ -162,7 +175,7 @@ func Smooth(b *Block, opt SmoothOptions) (SmoothResult, error) {
 		opt.Omega = 1.5
 	}
 	if !(opt.Omega > 0 && opt.Omega < 2) {
-		return res, fmt.Errorf("structured: over-relaxation factor %g must lie in (0, 2)", opt.Omega)
+		return fmt.Errorf("structured: over-relaxation factor %g must lie in (0, 2)", opt.Omega)
 	}
 	if opt.Decay == 0 {
 		opt.Decay = 0.25
@@ -171,36 +184,27 @@ func Smooth(b *Block, opt SmoothOptions) (SmoothResult, error) {
 		opt.Gain = 0.05
 	}
 	if !(opt.Decay > 0) || !(opt.Gain > 0) {
-		return res, fmt.Errorf("structured: control decay %g and gain %g must be positive", opt.Decay, opt.Gain)
+		return fmt.Errorf("structured: control decay %g and gain %g must be positive", opt.Decay, opt.Gain)
 	}
+	return nil
+}
 
-	s := newSmoother(b, opt)
-	res.FoldedAtStart, _, _ = inverted(b)
-	for it := 0; it < opt.MaxIterations; it++ {
-		r2 := s.sweep()
-		for _, sl := range s.sliders {
-			r2 = math.Max(r2, s.slide(sl))
-		}
-		control := 0.0
-		if s.mode != freeMode {
-			control = s.feedback()
-		}
-		if s.mode != starMode && it%10 == 9 {
-			s.updateMode()
-		}
-		res.Iterations = it + 1
-		res.Residual = math.Max(math.Sqrt(r2), control)
-		if res.Residual <= opt.Tolerance {
-			res.Converged = true
-			break
-		}
+// step does one iteration on the block: a sweep, the sliding sides, the
+// wall-control feedback and, while the grid is not strictly convex, a
+// fresh look at which fold test applies. It returns the residual.
+func (s *smoother) step(it int) float64 {
+	r2 := s.sweep()
+	for _, sl := range s.sliders {
+		r2 = math.Max(r2, s.slide(sl))
 	}
-	res.Damped = s.damped
-	res.HeightError, res.MeanHeightError, res.AngleError, res.MeanAngleError = s.wallErrors()
-	if n, i, j := inverted(b); n > 0 {
-		return res, fmt.Errorf("structured: block %q: smoothing could not untangle the starting grid: %d cells are still inverted after %d iterations, the first is cell (%d, %d); refine the sides or give a better starting grid", b.Name, n, res.Iterations, i, j)
+	control := 0.0
+	if s.mode != freeMode {
+		control = s.feedback()
 	}
-	return res, nil
+	if s.mode != starMode && it%10 == 9 {
+		s.updateMode()
+	}
+	return math.Max(math.Sqrt(r2), control)
 }
 
 // foldMode is the test a node move must pass.

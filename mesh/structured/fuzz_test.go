@@ -1,0 +1,105 @@
+package structured
+
+import (
+	"encoding/binary"
+	"math"
+	"testing"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/geometry"
+)
+
+// floats reads float64s from data, eight bytes each.
+func floats(data []byte) []float64 {
+	var v []float64
+	for len(data) >= 8 {
+		v = append(v, math.Float64frombits(binary.LittleEndian.Uint64(data)))
+		data = data[8:]
+	}
+	return v
+}
+
+// sidesFrom builds four chains from the fuzz input: node counts from the
+// first bytes, then perturbations of a unit square's sides.
+func sidesFrom(ns, nw uint8, data []byte) BlockSides {
+	ni, nj := 2+int(ns%12), 2+int(nw%12)
+	f := floats(data)
+	pert := func(k int) float64 {
+		if len(f) == 0 {
+			return 0
+		}
+		return f[k%len(f)]
+	}
+	side := func(a, b orb.Point, n, off int) geometry.Chain {
+		c := line(a, b, uniform(n), "t")
+		for k := 1; k+1 < n; k++ {
+			c.Points[k][0] += pert(off + 2*k)
+			c.Points[k][1] += pert(off + 2*k + 1)
+		}
+		return c
+	}
+	return BlockSides{Name: "fuzz",
+		South: side(orb.Point{0, 0}, orb.Point{1, 0}, ni, 0),
+		East:  side(orb.Point{1, 0}, orb.Point{1, 1}, nj, 7),
+		North: side(orb.Point{1, 1}, orb.Point{0, 1}, ni, 13),
+		West:  side(orb.Point{0, 1}, orb.Point{0, 0}, nj, 29),
+	}
+}
+
+// FuzzTFISmoothAssemble: any perturbed block either fails with an error or
+// yields a mesh; nothing panics. Smoothing a valid block keeps its cells
+// positive or reports an error.
+func FuzzTFISmoothAssemble(f *testing.F) {
+	f.Add(uint8(5), uint8(4), []byte{})
+	f.Add(uint8(9), uint8(9), make([]byte, 64))
+	seed := make([]byte, 80)
+	binary.LittleEndian.PutUint64(seed[8:], math.Float64bits(0.3))
+	binary.LittleEndian.PutUint64(seed[16:], math.Float64bits(math.NaN()))
+	f.Add(uint8(3), uint8(7), seed)
+	f.Fuzz(func(t *testing.T, ns, nw uint8, data []byte) {
+		b, err := TFI(sidesFrom(ns, nw, data))
+		if err != nil {
+			return
+		}
+		if _, err := Assemble([]*Block{b}, AssembleOptions{}); err != nil {
+			return
+		}
+		if n, _, _ := inverted(b); n > 0 {
+			return
+		}
+		if _, err := Smooth(b, SmoothOptions{MaxIterations: 50}); err != nil {
+			return
+		}
+		if n, i, j := inverted(b); n > 0 {
+			t.Fatalf("smoothing a valid block inverted %d cells, first (%d, %d)", n, i, j)
+		}
+	})
+}
+
+// FuzzMarch: hyperbolic marching from a perturbed circle either errors or
+// gives a grid of positive cells; nothing panics.
+func FuzzMarch(f *testing.F) {
+	f.Add(uint8(16), 1e-2, 1.2, uint8(10), []byte{})
+	f.Add(uint8(40), 1e-3, 1.05, uint8(30), make([]byte, 48))
+	f.Fuzz(func(t *testing.T, n uint8, h, growth float64, layers uint8, data []byte) {
+		loop := circleLoop(orb.Point{}, 1, 4+int(n%60), "wall")
+		d := floats(data)
+		for k := range loop.Points {
+			if len(d) > 0 {
+				loop.Points[k][0] += 0.2 * math.Tanh(d[k%len(d)])
+			}
+		}
+		b, _, err := MarchClosed(loop, MarchOptions{Name: "f", FirstHeight: h, Growth: growth, Layers: int(layers % 40), OuterTag: "far"})
+		if err != nil {
+			return
+		}
+		for j := 0; j+1 < b.NJ; j++ {
+			for i := 0; i+1 < b.NI; i++ {
+				if quadArea(b, i, j) <= 0 {
+					t.Fatalf("cell (%d, %d) has area %g", i, j, quadArea(b, i, j))
+				}
+			}
+		}
+	})
+}
