@@ -264,9 +264,10 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 		}
 	}
 
-	for attempt := 0; ; attempt++ {
+	for {
 		smoothCounts(rays, connected)
 		plan, bad := assemble(g, rays, hs, raysAt, connected, wall)
+		crossing := false
 		if len(bad) == 0 {
 			// Layers of different walls may still overlap where their
 			// fans and sides meet: lower the rays at crossing front edges.
@@ -274,14 +275,21 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 			if len(bad) == 0 {
 				return plan, nil
 			}
+			crossing = true
 		}
-		if attempt > 4*len(rays)+200 {
-			return nil, fmt.Errorf("boundary layers at %s: cells stay inverted however few layers are used (internal error)", g.where(rays[bad[0]].base))
-		}
+		lowered := false
 		for _, j := range bad {
 			if rays[j].n > 0 {
 				rays[j].n--
+				lowered = true
 			}
+		}
+		if !lowered {
+			// Every layer count is already zero where the trouble is.
+			if crossing {
+				return plan, nil // the outline itself crosses: the triangulation says where
+			}
+			return nil, fmt.Errorf("boundary layers at %s: cells are inverted even with no layers there (internal error)", g.where(rays[bad[0]].base))
 		}
 	}
 }
