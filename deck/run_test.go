@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"sort"
+	"strings"
 	"testing"
 
 	"cvdeck/export/manifest"
@@ -103,5 +104,45 @@ func TestRunBadInputWritesNothing(t *testing.T) {
 	after, _ := os.ReadFile(filepath.Join(dir, manifest.FileName))
 	if !bytes.Equal(before, after) {
 		t.Fatal("a failed run changed the existing deck")
+	}
+}
+
+// periodicSquare is the square case with its bottom and top tagged for a
+// periodic pair and the sides as walls.
+var periodicSquare = strings.NewReplacer(
+	"{name: s, line: [side, 0], tag: wall,", "{name: s, line: [side, 0], tag: lower,",
+	"{name: n, line: [0, side], tag: wall,", "{name: n, line: [0, side], tag: upper,",
+).Replace(square)
+
+// TestPeriodicPairIsVerified: a periodic pair whose faces match under the
+// translation is recorded in the manifest with its face count; a wrong
+// translation is an input error naming the tag and the case-file line,
+// and nothing is written.
+func TestPeriodicPairIsVerified(t *testing.T) {
+	good := periodicSquare + "boundaries:\n  wall: {kind: wall-slip}\n  upper: {kind: periodic, partner: lower, translation: [0, -side]}\n"
+	c, err := Parse("square.yaml", []byte(good), LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := filepath.Join(t.TempDir(), "deck")
+	if _, err := Run(c, dir, RunOptions{Formats: []string{"manifest"}}); err != nil {
+		t.Fatal(err)
+	}
+	data, _ := os.ReadFile(filepath.Join(dir, manifest.FileName))
+	if !strings.Contains(string(data), "partner: lower") || !strings.Contains(string(data), "kind: periodic") {
+		t.Fatalf("the manifest does not record the pairing:\n%s", data)
+	}
+	bad := strings.Replace(good, "translation: [0, -side]", "translation: [0.5, -side]", 1)
+	c, err = Parse("square.yaml", []byte(bad), LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir = filepath.Join(t.TempDir(), "deck")
+	_, err = Run(c, dir, RunOptions{})
+	if !errors.Is(err, ErrInput) || !strings.Contains(err.Error(), `"upper"`) || !strings.Contains(err.Error(), "square.yaml:") {
+		t.Fatalf("got %v", err)
+	}
+	if _, statErr := os.Stat(dir); !os.IsNotExist(statErr) {
+		t.Fatal("a deck was written for a periodic pair that does not match")
 	}
 }

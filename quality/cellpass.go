@@ -3,6 +3,8 @@ package quality
 import (
 	"math"
 
+	"github.com/paulmach/orb"
+
 	"cvdeck/mesh"
 )
 
@@ -45,6 +47,7 @@ func cellPass(m *mesh.Mesh, cf cellFaces, ff *faceFields, lim *Limits, status []
 	for k := range bounds {
 		bounds[k] = *metricDefs[k].bound(lim)
 	}
+	fa := newFaceArrays(m, cf, ff)
 	forChunks(nc, func(lo, hi int) {
 		var buf []float64
 		var sh cellShape
@@ -56,7 +59,7 @@ func cellPass(m *mesh.Mesh, cf cellFaces, ff *faceFields, lim *Limits, status []
 			vals[mEquiangle][c] = sh.equiangle
 			vals[mJacobian][c] = sh.jacobian
 			var fc faceSummary
-			fc.gather(m, cf, ff, c)
+			fc.gather(fa, c)
 			vals[mFaceLength][c] = fc.minLength
 			vals[mNonOrth][c] = fc.maxNonOrth
 			vals[mSkewness][c] = fc.maxSkew
@@ -70,6 +73,26 @@ func cellPass(m *mesh.Mesh, cf cellFaces, ff *faceFields, lim *Limits, status []
 		}
 	})
 	return vals, parts
+}
+
+// faceArrays are the face and cell arrays that faceSummary.gather reads.
+type faceArrays struct {
+	start, faces           []int32
+	length, nonOrth, cross []float64
+	faceLength             []float64
+	normal, mid, centroid  []orb.Point
+	owner, neighbour       []int32
+	area                   []float64
+}
+
+func newFaceArrays(m *mesh.Mesh, cf cellFaces, ff *faceFields) *faceArrays {
+	return &faceArrays{
+		start: cf.start, faces: cf.faces,
+		length: ff.length, nonOrth: ff.nonOrth, cross: ff.cross,
+		faceLength: m.Geo.FaceLength, normal: m.Geo.FaceNormal, mid: m.Geo.FaceMid,
+		owner: m.Owner, neighbour: m.Neighbour,
+		centroid: m.Geo.CellCentroid, area: m.Geo.CellArea,
+	}
 }
 
 // faceSummary gathers what a cell takes from its faces: the worst face
@@ -117,33 +140,41 @@ var freeStream = [2]float64{0.6, 0.8}
 // |∇φ_GG − ∇φ| over the two, relative to |∇φ| = 1, so it bounds the error
 // for any linear field up to a factor √2 (common practice). A cell of zero
 // area, or a face whose centroid line runs along it, gives +Inf.
-func (s *faceSummary) gather(m *mesh.Mesh, cf cellFaces, ff *faceFields, c int) {
-	g := &m.Geo
-	cc := g.CellCentroid[c]
-	ac := math.Abs(g.CellArea[c])
+func (s *faceSummary) gather(fa *faceArrays, c int) {
+	cc := fa.centroid[c]
+	ac := math.Abs(fa.area[c])
 	var sx, sy, sum, flux float64
 	var gxx, gxy, gyx, gyy float64
 	minLen, maxNO, maxSkew := math.Inf(1), math.Inf(-1), math.Inf(-1)
 	// The extreme neighbour areas give the growth at the end.
 	minAo, maxAo := math.Inf(1), math.Inf(-1)
-	faces := cf.faces[cf.start[c]:cf.start[c+1]]
-	for _, f := range faces {
-		if x := ff.length[f]; x < minLen {
+	faces := fa.faces[fa.start[c]:fa.start[c+1]]
+	// Local slices of one length let the compiler drop the per-array index
+	// checks after the one below.
+	nf := len(fa.length)
+	length, nonOrth, cross, faceLength := fa.length, fa.nonOrth[:nf], fa.cross[:nf], fa.faceLength[:nf]
+	normal, mid, owner, neighbour := fa.normal[:nf], fa.mid[:nf], fa.owner[:nf], fa.neighbour[:nf]
+	for _, fi := range faces {
+		f := int(fi)
+		if uint(f) >= uint(nf) {
+			continue // never: buildCellFaces lists faces of the mesh
+		}
+		if x := length[f]; x < minLen {
 			minLen = x
 		}
-		if x := ff.nonOrth[f]; x > maxNO {
+		if x := nonOrth[f]; x > maxNO {
 			maxNO = x
 		}
-		t := ff.cross[f]
+		t := cross[f]
 		if x := math.Abs(t); x > maxSkew {
 			maxSkew = x
 		}
-		l := g.FaceLength[f]
-		n := g.FaceNormal[f]
-		mid := g.FaceMid[f]
-		qx, qy := mid[0]-cc[0], mid[1]-cc[1]
+		l := faceLength[f]
+		n := normal[f]
+		mf := mid[f]
+		qx, qy := mf[0]-cc[0], mf[1]-cc[1]
 		sl := l
-		o, nb := m.Owner[f], m.Neighbour[f]
+		o, nb := owner[f], neighbour[f]
 		if nb >= 0 {
 			other := o
 			if o == int32(c) {
@@ -151,7 +182,7 @@ func (s *faceSummary) gather(m *mesh.Mesh, cf cellFaces, ff *faceFields, c int) 
 			} else {
 				sl = -l
 			}
-			ao := math.Abs(g.CellArea[other])
+			ao := math.Abs(fa.area[other])
 			if ao < minAo {
 				minAo = ao
 			}
@@ -193,7 +224,7 @@ func (s *faceSummary) gather(m *mesh.Mesh, cf cellFaces, ff *faceFields, c int) 
 	inv := 1 / sum
 	s.closure = math.Sqrt(sx*sx+sy*sy) * inv
 	s.freeStream = math.Abs(flux) * inv
-	ia := 1 / g.CellArea[c]
+	ia := 1 / fa.area[c]
 	ex, ey := gxx*ia-1, gxy*ia
 	fx, fy := gyx*ia, gyy*ia-1
 	e := math.Sqrt(max(ex*ex+ey*ey, fx*fx+fy*fy))

@@ -15,11 +15,18 @@ const (
 	CheckBoundaryTag = "boundary_tag"     // each boundary face carries a tag
 	CheckWatertight  = "watertight"       // boundary loops are closed: Σ S n = 0, every node balanced
 	CheckZeroFace    = "zero_length_face" // no face of zero length
-	CheckDuplicate   = "duplicate_node"   // no two nodes closer than the tolerance
+	CheckDuplicate   = "duplicate_node"   // no two boundary nodes closer than the tolerance (see below)
 	CheckUnused      = "unused_node"      // every node belongs to a cell
 	CheckHanging     = "hanging_node"     // no node lies inside another cell's face
 )
 
+// Duplicate nodes are looked for among the boundary nodes: two copies of a
+// node that should be one leave a crack, and the faces along a crack are
+// boundary faces, so both copies are boundary nodes. Coincident nodes that
+// are both interior would mean two fans of cells covering the same ground
+// (as overset grids do by design); that is an overlap, not a duplicate.
+// Coincident nodes of one cell show as zero-length faces or degenerate
+// cells, and unreferenced copies as unused nodes.
 var checkNames = []string{CheckFaceCells, CheckCellFaces, CheckOrientation, CheckBoundaryTag,
 	CheckWatertight, CheckZeroFace, CheckDuplicate, CheckUnused, CheckHanging}
 
@@ -210,63 +217,52 @@ func checkFaces(m *mesh.Mesh, cf cellFaces, cn *connectivity) {
 // checkFaceRange checks faces [lo, hi).
 func checkFaceRange(m *mesh.Mesh, lo, hi int, cn *connectivity) {
 	g := &m.Geo
+	// report records a defect of face f naming cell c, placed at the face
+	// midpoint (read only then).
+	report := func(check string, f, c int, msg string) {
+		mid := g.FaceMid[f]
+		cn.add(Problem{Check: check, Cell: c, Face: f, Node: -1, X: mid[0], Y: mid[1], Message: msg})
+	}
 	for f := lo; f < hi; f++ {
 		fn := m.FaceNodes[f]
 		a, b := fn[0], fn[1]
 		o, nb := int(m.Owner[f]), int(m.Neighbour[f])
-		mid := g.FaceMid[f]
-		p := Problem{Cell: o, Face: f, Node: -1, X: mid[0], Y: mid[1]}
 		interior := f < m.NumInterior
 		switch {
 		case interior && nb < 0:
-			p.Check = CheckFaceCells
-			p.Message = fmt.Sprintf("face %d (nodes %d-%d) is listed among the interior faces but has only cell %d", f, a, b, o)
-			cn.add(p)
+			report(CheckFaceCells, f, o, fmt.Sprintf("face %d (nodes %d-%d) is listed among the interior faces but has only cell %d", f, a, b, o))
 		case !interior && nb >= 0:
-			p.Check = CheckFaceCells
-			p.Message = fmt.Sprintf("face %d (nodes %d-%d) is listed among the boundary faces but has two cells, %d and %d", f, a, b, o, nb)
-			cn.add(p)
+			report(CheckFaceCells, f, o, fmt.Sprintf("face %d (nodes %d-%d) is listed among the boundary faces but has two cells, %d and %d", f, a, b, o, nb))
 		case nb == o:
-			p.Check = CheckFaceCells
-			p.Message = fmt.Sprintf("face %d (nodes %d-%d) has cell %d on both sides", f, a, b, o)
-			cn.add(p)
+			report(CheckFaceCells, f, o, fmt.Sprintf("face %d (nodes %d-%d) has cell %d on both sides", f, a, b, o))
 		}
-		if edgeAt(m.Cell(o), a, b) < 0 {
-			p.Check = CheckFaceCells
-			if edgeAt(m.Cell(o), b, a) >= 0 {
-				p.Check = CheckOrientation
-				p.Message = fmt.Sprintf("face %d runs %d→%d but its owner, cell %d, traverses it %d→%d; the normal would point into the owner", f, a, b, o, b, a)
+		if owner := m.CellNodes[m.CellStart[o]:m.CellStart[o+1]]; edgeAt(owner, a, b) < 0 {
+			if edgeAt(owner, b, a) >= 0 {
+				report(CheckOrientation, f, o, fmt.Sprintf("face %d runs %d→%d but its owner, cell %d, traverses it %d→%d; the normal would point into the owner", f, a, b, o, b, a))
 			} else {
-				p.Message = fmt.Sprintf("face %d (nodes %d-%d) is not an edge of its owner, cell %d", f, a, b, o)
+				report(CheckFaceCells, f, o, fmt.Sprintf("face %d (nodes %d-%d) is not an edge of its owner, cell %d", f, a, b, o))
 			}
-			cn.add(p)
 		}
-		if nb >= 0 && nb != o && edgeAt(m.Cell(nb), b, a) < 0 {
-			q := p
-			q.Cell = nb
-			if edgeAt(m.Cell(nb), a, b) >= 0 {
-				q.Check = CheckOrientation
-				// Name the cell that is turned the wrong way, if one is.
-				if g.CellArea[o] < 0 && g.CellArea[nb] >= 0 {
-					q.Cell = o
+		if nb >= 0 && nb != o {
+			if other := m.CellNodes[m.CellStart[nb]:m.CellStart[nb+1]]; edgeAt(other, b, a) < 0 {
+				if edgeAt(other, a, b) >= 0 {
+					// Name the cell that is turned the wrong way, if one is.
+					c := nb
+					if g.CellArea[o] < 0 && g.CellArea[nb] >= 0 {
+						c = o
+					}
+					report(CheckOrientation, f, c, fmt.Sprintf("cells %d and %d both traverse face %d as %d→%d; neighbouring cells must traverse a shared face in opposite directions (cell %d area %.6g, cell %d area %.6g)",
+						o, nb, f, a, b, o, g.CellArea[o], nb, g.CellArea[nb]))
+				} else {
+					report(CheckFaceCells, f, nb, fmt.Sprintf("face %d (nodes %d-%d) is not an edge of its neighbour, cell %d", f, a, b, nb))
 				}
-				q.Message = fmt.Sprintf("cells %d and %d both traverse face %d as %d→%d; neighbouring cells must traverse a shared face in opposite directions (cell %d area %.6g, cell %d area %.6g)",
-					o, nb, f, a, b, o, g.CellArea[o], nb, g.CellArea[nb])
-			} else {
-				q.Check = CheckFaceCells
-				q.Message = fmt.Sprintf("face %d (nodes %d-%d) is not an edge of its neighbour, cell %d", f, a, b, nb)
 			}
-			cn.add(q)
 		}
 		if !interior && nb < 0 && m.FaceTag[f] < 0 {
-			p.Check = CheckBoundaryTag
-			p.Message = fmt.Sprintf("boundary face %d (nodes %d-%d) of cell %d has no tag; an untagged face inside the domain is a crack, a hole or a hanging node", f, a, b, o)
-			cn.add(p)
+			report(CheckBoundaryTag, f, o, fmt.Sprintf("boundary face %d (nodes %d-%d) of cell %d has no tag; an untagged face inside the domain is a crack, a hole or a hanging node", f, a, b, o))
 		}
 		if g.FaceLength[f] == 0 {
-			p.Check = CheckZeroFace
-			p.Message = fmt.Sprintf("face %d joins nodes %d and %d at the same position", f, a, b)
-			cn.add(p)
+			report(CheckZeroFace, f, o, fmt.Sprintf("face %d joins nodes %d and %d at the same position", f, a, b))
 		}
 	}
 }

@@ -10,25 +10,26 @@ import (
 	"cvdeck/mesh"
 )
 
-// gridHash buckets points on a uniform grid of square buckets of side size,
+// gridHash buckets items on a uniform grid of square buckets of side size,
 // in an open-addressing table keyed by the bucket's (i, j), each slot
-// holding a chain of point indices in increasing order. Building is linear
-// and a look-up touches one bucket, so proximity queries on n points cost
-// O(n) rather than O(n²).
+// holding the first entry of the bucket's chain (the chains are kept by the
+// user). Building is linear and a look-up touches one bucket, so proximity
+// queries on n items cost O(n) rather than O(n²).
 type gridHash struct {
 	x0, y0, size float64
 	mask         uint64
 	slotKey      [][2]int64
 	slotHead     []int32
-	next         []int32 // chain: next point in the same bucket, -1 at the end
 }
 
 // maxBuckets bounds the grid extent in buckets along an axis, so that bucket
 // indices stay exact in float64 and int64.
 const maxBuckets = 1 << 50
 
-// newGridHash prepares a hash for count items over the box lo..hi with the
-// given bucket size, enlarged if the box would span more than maxBuckets.
+// newGridHash prepares a hash for at most count distinct buckets over the
+// box lo..hi with the given bucket size, enlarged if the box would span
+// more than maxBuckets. The table has more than twice count slots, so it
+// never fills.
 func newGridHash(lo, hi orb.Point, size float64, count int) *gridHash {
 	ext := max(hi[0]-lo[0], hi[1]-lo[1])
 	if !(size > 0) || ext/size > maxBuckets {
@@ -64,8 +65,9 @@ func (h *gridHash) bucket(k [2]int64) int32 {
 	return h.slotHead[h.slot(k)]
 }
 
-// findDuplicates reports every node w that lies closer than tol to a node
-// of lower index, naming the lowest such node.
+// findDuplicates reports every node w of the candidate set (node indices
+// in increasing order) that lies closer than tol to a candidate of lower
+// index, naming the lowest such node.
 //
 // Nodes are bucketed on a grid of square buckets of side 16·tol; the
 // bucket keys (i, j) are sorted by a radix sort, which puts every bucket's
@@ -77,12 +79,16 @@ func (h *gridHash) bucket(k [2]int64) int32 {
 // access, unlike a table look-up per node. The sweep stops with a finding
 // once it has made more than 64 comparisons per node, which only a pile
 // of near-coincident nodes can cause.
-func findDuplicates(m *mesh.Mesh, first []int32, tol float64, cn *connectivity) {
-	nn := len(m.Nodes)
+func findDuplicates(m *mesh.Mesh, cand []int32, first []int32, tol float64, cn *connectivity) {
+	nn := len(cand)
 	if nn < 2 || !(tol > 0) {
 		return
 	}
-	lo, hi := bounds(m.Nodes)
+	pts := make([]orb.Point, nn)
+	for s, v := range cand {
+		pts[s] = m.Nodes[v]
+	}
+	lo, hi := bounds(pts)
 	size := 16 * tol
 	if ext := max(hi[0]-lo[0], hi[1]-lo[1]); ext/size > 1<<31 {
 		size = ext / (1 << 31)
@@ -92,13 +98,12 @@ func findDuplicates(m *mesh.Mesh, first []int32, tol float64, cn *connectivity) 
 	ny := uint64((hi[1] - lo[1]) / size)
 	shift := uint(bits.Len64(ny))
 	keys := make([]uint64, nn)
-	forChunks(nn, func(a, b int) {
-		for v := a; v < b; v++ {
-			p := m.Nodes[v]
-			keys[v] = uint64((p[0]-lo[0])/size)<<shift | uint64((p[1]-lo[1])/size)
-		}
-	})
-	order := radixOrder(keys)
+	for s, p := range pts {
+		keys[s] = uint64((p[0]-lo[0])/size)<<shift | uint64((p[1]-lo[1])/size)
+	}
+	keys, order := radixSort(keys)
+	// dupOf[s] is the lowest candidate position a candidate s duplicates;
+	// positions order like node indices, since cand is increasing.
 	dupOf := make([]int32, nn)
 	for i := range dupOf {
 		dupOf[i] = -1
@@ -107,7 +112,7 @@ func findDuplicates(m *mesh.Mesh, first []int32, tol float64, cn *connectivity) 
 	budget := 64*nn + 1024
 	compare := func(v, w int32) {
 		budget--
-		p, q := m.Nodes[v], m.Nodes[w]
+		p, q := pts[v], pts[w]
 		dx, dy := q[0]-p[0], q[1]-p[1]
 		if dx*dx+dy*dy < tol2 {
 			a, b := min(v, w), max(v, w)
@@ -116,21 +121,20 @@ func findDuplicates(m *mesh.Mesh, first []int32, tol float64, cn *connectivity) 
 			}
 		}
 	}
-	key := func(s int) uint64 { return keys[order[s]] }
 	right := 0 // walks the column to the right of the current one
 	for s := 0; s < nn && budget > 0; s++ {
-		k := key(s)
+		k := keys[s]
 		col := k >> shift
 		// Same bucket and the next one up: they follow in the order.
-		for t := s + 1; t < nn && key(t) <= k+1 && key(t)>>shift == col; t++ {
+		for t := s + 1; t < nn && keys[t] <= k+1 && keys[t]>>shift == col; t++ {
 			compare(order[s], order[t])
 		}
 		// Buckets (i+1, j−1 .. j+1).
 		lowKey := (col+1)<<shift | (max(k&(1<<shift-1), 1) - 1)
-		for right < nn && key(right) < lowKey {
+		for right < nn && keys[right] < lowKey {
 			right++
 		}
-		for t := right; t < nn && key(t) <= lowKey+2 && key(t)>>shift == col+1; t++ {
+		for t := right; t < nn && keys[t] <= lowKey+2 && keys[t]>>shift == col+1; t++ {
 			compare(order[s], order[t])
 		}
 	}
@@ -138,10 +142,11 @@ func findDuplicates(m *mesh.Mesh, first []int32, tol float64, cn *connectivity) 
 		cn.add(Problem{Check: CheckDuplicate, Cell: -1, Face: -1, Node: -1,
 			Message: fmt.Sprintf("more than %d node pairs lie within %.3g of each other; the duplicate search stopped there", 64*nn, 16*tol)})
 	}
-	for w, v := range dupOf {
-		if v < 0 {
+	for sw, sv := range dupOf {
+		if sv < 0 {
 			continue
 		}
+		v, w := int(cand[sv]), int(cand[sw])
 		p, q := m.Nodes[v], m.Nodes[w]
 		cn.add(Problem{Check: CheckDuplicate, Cell: int(first[w]), Face: -1, Node: w, X: q[0], Y: q[1],
 			Message: fmt.Sprintf("node %d (cell %d) and node %d (cell %d) are %.3g apart at (%.9g, %.9g), closer than the tolerance %.3g: they should be one node",
@@ -149,11 +154,14 @@ func findDuplicates(m *mesh.Mesh, first []int32, tol float64, cn *connectivity) 
 	}
 }
 
-// radixOrder returns the permutation that sorts keys, stable (equal keys
-// keep increasing index), by a least-significant-digit radix sort on
-// 12-bit digits (a histogram that fits in the first-level cache) up to the
-// highest bit any key uses.
-func radixOrder(keys []uint64) []int32 {
+// radixSort sorts keys (in place, returning the sorted slice, which may be
+// a different one) and returns beside them the permutation that sorts
+// them: sorted[s] = keys[order[s]]. It is stable (equal keys keep
+// increasing index) and is a least-significant-digit radix sort on 12-bit
+// digits (a histogram that fits in the first-level cache) up to the
+// highest bit any key uses. Keys travel with their indices, so every pass
+// reads its input in order.
+func radixSort(keys []uint64) ([]uint64, []int32) {
 	n := len(keys)
 	order := make([]int32, n)
 	for i := range order {
@@ -164,27 +172,30 @@ func radixOrder(keys []uint64) []int32 {
 		or |= k
 	}
 	top := uint(bits.Len64(or))
-	tmp := make([]int32, n)
+	tmpKey := make([]uint64, n)
+	tmpIdx := make([]int32, n)
 	const digit = 12
 	var count [1 << digit]int
 	for shift := uint(0); shift < top; shift += digit {
 		clear(count[:])
-		for _, i := range order {
-			count[keys[i]>>shift&(1<<digit-1)]++
+		for _, k := range keys {
+			count[k>>shift&(1<<digit-1)]++
 		}
 		sum := 0
 		for d, c := range count {
 			count[d] = sum
 			sum += c
 		}
-		for _, i := range order {
-			d := keys[i] >> shift & (1<<digit - 1)
-			tmp[count[d]] = i
+		for s, k := range keys {
+			d := k >> shift & (1<<digit - 1)
+			tmpKey[count[d]] = k
+			tmpIdx[count[d]] = order[s]
 			count[d]++
 		}
-		order, tmp = tmp, order
+		keys, tmpKey = tmpKey, keys
+		order, tmpIdx = tmpIdx, order
 	}
-	return order
+	return keys, order
 }
 
 // findHanging reports boundary nodes that lie inside another boundary face:
@@ -196,22 +207,20 @@ func radixOrder(keys []uint64) []int32 {
 // Boundary faces are hashed into the buckets they pass through, with
 // buckets the size of the mean boundary face, so each node looks in one
 // bucket.
-func findHanging(m *mesh.Mesh, relTol float64, cn *connectivity) {
+func findHanging(m *mesh.Mesh, bnodes []int32, relTol float64, cn *connectivity) {
 	nb := m.NumBoundary()
 	if nb == 0 {
 		return
 	}
-	isB := make([]bool, len(m.Nodes))
 	var total float64
 	lo := orb.Point{math.Inf(1), math.Inf(1)}
 	hi := orb.Point{math.Inf(-1), math.Inf(-1)}
+	for _, v := range bnodes {
+		p := m.Nodes[v]
+		lo = orb.Point{min(lo[0], p[0]), min(lo[1], p[1])}
+		hi = orb.Point{max(hi[0], p[0]), max(hi[1], p[1])}
+	}
 	for f := m.NumInterior; f < m.NumFaces(); f++ {
-		for _, v := range m.FaceNodes[f] {
-			isB[v] = true
-			p := m.Nodes[v]
-			lo = orb.Point{min(lo[0], p[0]), min(lo[1], p[1])}
-			hi = orb.Point{max(hi[0], p[0]), max(hi[1], p[1])}
-		}
 		total += m.Geo.FaceLength[f]
 	}
 	size := total / float64(nb)
@@ -257,10 +266,8 @@ func findHanging(m *mesh.Mesh, relTol float64, cn *connectivity) {
 			}
 		}
 	}
-	for v, ok := range isB {
-		if !ok {
-			continue
-		}
+	for _, vi := range bnodes {
+		v := int(vi)
 		p := m.Nodes[v]
 		for e := h.bucket(h.key(p)); e >= 0; e = entNext[e] {
 			f := int(entFace[e])
@@ -284,6 +291,23 @@ func findHanging(m *mesh.Mesh, relTol float64, cn *connectivity) {
 			}
 		}
 	}
+}
+
+// boundaryNodes returns the nodes of the boundary faces, in increasing
+// order.
+func boundaryNodes(m *mesh.Mesh) []int32 {
+	on := make([]bool, len(m.Nodes))
+	for f := m.NumInterior; f < m.NumFaces(); f++ {
+		on[m.FaceNodes[f][0]] = true
+		on[m.FaceNodes[f][1]] = true
+	}
+	var out []int32
+	for v, b := range on {
+		if b {
+			out = append(out, int32(v))
+		}
+	}
+	return out
 }
 
 // bounds returns the bounding box of the points.

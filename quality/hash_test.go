@@ -39,8 +39,12 @@ func TestDuplicatesMatchBruteForce(t *testing.T) {
 	}
 	m := &mesh.Mesh{Nodes: pts}
 	first := make([]int32, len(pts))
+	all := make([]int32, len(pts))
+	for i := range all {
+		all[i] = int32(i)
+	}
 	cn := newConnectivity(1 << 20)
-	findDuplicates(m, first, tol, cn)
+	findDuplicates(m, all, first, tol, cn)
 	// Each finding names the node and, in its message, the lowest node it
 	// duplicates; compare both with the oracle.
 	var got, want []string

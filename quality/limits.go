@@ -65,12 +65,37 @@ type Limits struct {
 	MaxProblems int
 }
 
-// profiles are the named limit sets. Every threshold is common practice
-// for cell-centred finite-volume solvers, chosen by us: "everyday" suits
-// meshes with boundary layers (high aspect ratios and needle cells are
-// allowed, caps, folds and broken conservation are not); "tight" suits
-// isotropic meshes for inviscid or scale-resolving runs; "tolerant" only
-// fails cells that a solver cannot use at all.
+// profiles are the named limit sets. "everyday" suits meshes with
+// boundary layers (high aspect ratios and needle cells are allowed; caps,
+// folds and broken conservation are not); "tight" suits isotropic meshes
+// for inviscid or scale-resolving runs; "tolerant" fails only cells that a
+// solver cannot use at all. Every threshold is common practice for
+// cell-centred finite-volume solvers, set by us; the reasoning, metric by
+// metric (everyday values):
+//
+//   - area, face_length: a non-positive value is an inverted or collapsed
+//     control volume and always fails; there is no size limit.
+//   - aspect_ratio 1e3 / 1e5: wall-resolved boundary layers reach 1e3–1e4;
+//     beyond 1e5 the cell's geometry is at the mercy of rounding.
+//   - min_angle 1° / 0.001°: the needle corners of stretched boundary-layer
+//     triangles are small but bounded; 0.001° is a collapsed corner.
+//   - max_angle 160° / 179°: a cap (an angle near 180°) has a centroid far
+//     from its faces and ruins gradients; this, not the minimum angle,
+//     separates slivers from needles.
+//   - equiangle_skewness 0.9 / 1: high values are usual for needles; above
+//     1 a corner is reflex or the cell inverted.
+//   - scaled_jacobian 0.2 / 0.001: a quadrilateral corner below sin 11.5°
+//     is poor; at 0 the corner has collapsed.
+//   - non_orthogonality 70° / 85°: above about 70° solvers need explicit
+//     non-orthogonal correction; near 90° the face flux is ill-defined.
+//   - skewness 0.5 / 1: at 0.5 the centroid line crosses the face at its
+//     end; at 1 it misses the face by half its length.
+//   - growth 3 / 20: area ratios between neighbours much above 1.2–1.5
+//     cost accuracy; 20 is a jump no interpolation bridges.
+//   - closure, free_stream, dual_closure 1e-12 / 1e-9: these are rounding
+//     errors (about 1e-16) on any valid polygon; 1e-9 means faces that do
+//     not close.
+//   - gradient_error 0.5 / 100: see below.
 //
 // The Green–Gauss error of a cell-centred scheme grows like skewness times
 // aspect ratio (an offset t·L of the crossing point on a face of length L

@@ -181,8 +181,9 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 		if hmin := ff.shortest(); !math.IsInf(hmin, 0) {
 			r.DuplicateDistance = lim.DuplicateTolerance * hmin
 		}
-		findDuplicates(m, first, r.DuplicateDistance, cn)
-		findHanging(m, lim.HangingTolerance, cn)
+		bnodes := boundaryNodes(m)
+		findDuplicates(m, bnodes, first, r.DuplicateDistance, cn)
+		findHanging(m, bnodes, lim.HangingTolerance, cn)
 	}()
 	wg.Wait()
 

@@ -5,6 +5,7 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"path/filepath"
 	"runtime"
 	"syscall"
 
@@ -139,7 +140,7 @@ func reportSweep(w io.Writer, s *sweep.Summary, out string, shard sweep.Shard) {
 		fmt.Fprintf(w, "warning: %s\n", m)
 	}
 	_, csv := sweep.SummaryFiles(shard)
-	fmt.Fprintf(w, "%s; summary in %s\n", s.Tally(), out+string(os.PathSeparator)+csv)
+	fmt.Fprintf(w, "%s; summary in %s\n", s.Tally(), filepath.Join(out, csv))
 }
 
 // newSweepMergeCommand returns `cvdeck sweep merge`.
@@ -182,7 +183,7 @@ found twice. The decks stay where the shards wrote them.`,
 				for _, m := range s.Warnings {
 					fmt.Fprintf(w, "warning: %s\n", m)
 				}
-				fmt.Fprintf(w, "merged %d of %d variants into %s\n", len(s.Rows), s.Total, dest+string(os.PathSeparator)+"summary.csv")
+				fmt.Fprintf(w, "merged %d of %d variants into %s\n", len(s.Rows), s.Total, filepath.Join(dest, "summary.csv"))
 			}
 			return err
 		},

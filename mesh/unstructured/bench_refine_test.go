@@ -60,13 +60,20 @@ func BenchmarkRefine(b *testing.B) {
 				cpu += cpuTime() - cpu0
 				close(stop)
 				peak = <-done
+				b.StopTimer()
 				tris = 0
+				worst := 180.0
 				for t := int32(0); t < tr.numTri(); t++ {
 					if tr.flag[t]&flagInside != 0 {
 						tris++
+						worst = math.Min(worst, triMinAngle(tr, t))
 					}
 				}
-				_ = tr
+				// The channel has no sharp corner: the bound holds everywhere.
+				if worst < o.MinAngle {
+					b.Fatalf("smallest angle %.2f° below the target %v°", worst, o.MinAngle)
+				}
+				b.StartTimer()
 			}
 			b.ReportMetric(float64(tris), "triangles")
 			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(tris), "ns/triangle")
@@ -138,4 +145,16 @@ func BenchmarkMesh1M(b *testing.B) {
 	b.ReportMetric(float64(cells), "cells")
 	b.ReportMetric(cpu.Seconds()/float64(b.N), "cpu-s")
 	b.ReportMetric(float64(peak)/float64(cells), "peak-B/cell")
+}
+
+// triMinAngle returns the smallest angle of triangle t in degrees.
+func triMinAngle(tr *triangulation, t int32) float64 {
+	best := 180.0
+	for k := int32(0); k < 3; k++ {
+		p, q, r := tr.pts[tr.v[3*t+(k+2)%3]], tr.pts[tr.v[3*t+k]], tr.pts[tr.v[3*t+(k+1)%3]]
+		ux, uy := p[0]-q[0], p[1]-q[1]
+		vx, vy := r[0]-q[0], r[1]-q[1]
+		best = math.Min(best, math.Atan2(math.Abs(ux*vy-uy*vx), ux*vx+uy*vy)*180/math.Pi)
+	}
+	return best
 }

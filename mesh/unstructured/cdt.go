@@ -51,10 +51,13 @@ func flatten(out geometry.DiscreteOutline) (*pslg, error) {
 			}
 			area += (p[0]-o[0])*(q[1]-o[1]) - (q[0]-o[0])*(p[1]-o[1])
 		}
-		if li == 0 && area <= 0 {
+		if area == 0 {
+			return nil, fmt.Errorf("loop %d encloses no area (its points are collinear); a loop must enclose a region", li)
+		}
+		if li == 0 && area < 0 {
 			return nil, fmt.Errorf("loop 0 (the outer loop) runs clockwise; it must run counter-clockwise")
 		}
-		if li > 0 && area >= 0 {
+		if li > 0 && area > 0 {
 			return nil, fmt.Errorf("loop %d (an inner loop) runs counter-clockwise; inner loops must run clockwise", li)
 		}
 		base := int32(len(g.pts))

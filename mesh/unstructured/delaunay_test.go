@@ -14,6 +14,7 @@ import (
 	"strings"
 	"testing"
 
+	"cvdeck/geometry"
 	"cvdeck/mesh/unstructured/predicates"
 	"github.com/paulmach/orb"
 )
@@ -276,4 +277,48 @@ func TestDelaunayMatchesScipy(t *testing.T) {
 			t.Fatalf("triangle %d differs: cvdeck %v, scipy %v", i, g[i], w[i])
 		}
 	}
+}
+
+// checkConstrainedDelaunay checks the defining property of the
+// constrained Delaunay triangulation (Lee and Lin 1986; Chew 1989): every
+// edge that is not a segment is locally Delaunay, the far vertex of either
+// neighbour outside the other's circumcircle. With ghost triangles every
+// edge has two sides, so hull edges are skipped.
+func checkConstrainedDelaunay(t *testing.T, tr *triangulation) {
+	t.Helper()
+	for e := int32(0); e < int32(len(tr.v)); e++ {
+		if tr.seg[e] != noSeg || tr.isGhost(e/3) || tr.isGhost(tr.adj[e]/3) {
+			continue
+		}
+		if tr.illegal(e) {
+			t.Fatalf("edge %d–%d is not a segment and not locally Delaunay", tr.v[e], tr.v[next(e)])
+		}
+		if tr.adj[tr.adj[e]] != e || tr.v[tr.adj[e]] != tr.v[next(e)] {
+			t.Fatalf("half-edge %d and its twin %d do not match", e, tr.adj[e])
+		}
+	}
+}
+
+// Recovery and refinement keep the triangulation constrained Delaunay.
+func TestConstrainedDelaunay(t *testing.T) {
+	out := geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{
+		polyLoop([]orb.Point{{0, 0}, {3, 0}, {3, 1}, {0, 1}}, 0.1, "duct"),
+		polyLoop([]orb.Point{{0.5, 0.2}, {0.55, 0.8}, {0.6, 0.2}}, 0.05, "fin"),
+		circleLoop(orb.Point{2, 0.5}, 0.3, 30, true, "body"),
+	}}
+	g, err := flatten(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tr, err := constrainedTriangulation(g, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkConstrainedDelaunay(t, tr)
+	opt, _ := Options{}.withDefaults()
+	tr, err = triangulateOutline(g, g, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkConstrainedDelaunay(t, tr)
 }

@@ -215,14 +215,20 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 
 	// Limits: free distance to other boundary edges, crossing of
 	// neighbouring rays, the length of a slide edge.
+	grid := newEdgeGrid(g)
+	var near []int32
 	for j := range rays {
 		r := &rays[j]
 		r.limit = math.Inf(1)
 		o := g.pts[r.base]
 		pa, pb := g.pts[g.prevPt[r.base]], g.pts[g.nextPt[r.base]]
 		spacing := 0.5 * (math.Hypot(o[0]-pa[0], o[1]-pa[1]) + math.Hypot(o[0]-pb[0], o[1]-pb[1]))
-		for e := range g.pts {
-			a, b := int32(e), g.nextPt[e]
+		// Hits farther than reach cannot limit the layers.
+		need := r.scale * hs[r.spec][len(hs[r.spec])-1]
+		reach := math.Max(need/gapShare, 2*need+gapSpacing*spacing)
+		near = grid.along(near[:0], o, orb.Point{o[0] + reach*r.dir[0], o[1] + reach*r.dir[1]})
+		for _, e := range near {
+			a, b := e, g.nextPt[e]
 			if a == r.base || b == r.base {
 				continue
 			}
@@ -258,9 +264,10 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 		}
 	}
 
-	for attempt := 0; ; attempt++ {
+	for {
 		smoothCounts(rays, connected)
 		plan, bad := assemble(g, rays, hs, raysAt, connected, wall)
+		crossing := false
 		if len(bad) == 0 {
 			// Layers of different walls may still overlap where their
 			// fans and sides meet: lower the rays at crossing front edges.
@@ -268,16 +275,102 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 			if len(bad) == 0 {
 				return plan, nil
 			}
+			crossing = true
 		}
-		if attempt > 4*len(rays)+200 {
-			return nil, fmt.Errorf("boundary layers at %s: cells stay inverted however few layers are used (internal error)", g.where(rays[bad[0]].base))
-		}
+		lowered := false
 		for _, j := range bad {
 			if rays[j].n > 0 {
 				rays[j].n--
+				lowered = true
+			}
+		}
+		if !lowered {
+			// Every layer count is already zero where the trouble is.
+			if crossing {
+				return plan, nil // the outline itself crosses: the triangulation says where
+			}
+			return nil, fmt.Errorf("boundary layers at %s: cells are inverted even with no layers there (internal error)", g.where(rays[bad[0]].base))
+		}
+	}
+}
+
+// edgeGrid buckets the input edges in a uniform grid by their bounding
+// boxes, so the edges near a segment are found without scanning them all.
+type edgeGrid struct {
+	g       *pslg
+	x0, y0  float64
+	inv     float64
+	nx, ny  int
+	start   []int32 // CSR: edges of cell c are edge[start[c]:start[c+1]]
+	edge    []int32
+	stamp   []int32 // per edge: last query that returned it
+	queries int32
+}
+
+// newEdgeGrid makes cells about twice the mean edge length, at most 1024
+// along a side.
+func newEdgeGrid(g *pslg) *edgeGrid {
+	b := orb.MultiPoint(g.pts).Bound()
+	total := 0.0
+	for e := range g.pts {
+		p, q := g.pts[e], g.pts[g.nextPt[e]]
+		total += math.Hypot(q[0]-p[0], q[1]-p[1])
+	}
+	w := math.Max(b.Max[0]-b.Min[0], b.Max[1]-b.Min[1])
+	cell := math.Max(2*total/float64(len(g.pts)), w/1024)
+	eg := &edgeGrid{g: g, x0: b.Min[0], y0: b.Min[1], inv: 1 / cell, stamp: make([]int32, len(g.pts))}
+	eg.nx = int((b.Max[0]-b.Min[0])*eg.inv) + 1
+	eg.ny = int((b.Max[1]-b.Min[1])*eg.inv) + 1
+	count := make([]int32, eg.nx*eg.ny+1)
+	eg.each(func(e int32, c int) { count[c+1]++ })
+	for c := 0; c < eg.nx*eg.ny; c++ {
+		count[c+1] += count[c]
+	}
+	eg.start = append([]int32(nil), count...)
+	eg.edge = make([]int32, count[eg.nx*eg.ny])
+	eg.each(func(e int32, c int) { eg.edge[count[c]] = e; count[c]++ })
+	return eg
+}
+
+// cellRange returns the cells covering the box of p and q, clamped.
+func (eg *edgeGrid) cellRange(p, q orb.Point) (i0, j0, i1, j1 int) {
+	clamp := func(v float64, n int) int { return min(max(int(v), 0), n-1) }
+	i0 = clamp((math.Min(p[0], q[0])-eg.x0)*eg.inv, eg.nx)
+	i1 = clamp((math.Max(p[0], q[0])-eg.x0)*eg.inv, eg.nx)
+	j0 = clamp((math.Min(p[1], q[1])-eg.y0)*eg.inv, eg.ny)
+	j1 = clamp((math.Max(p[1], q[1])-eg.y0)*eg.inv, eg.ny)
+	return
+}
+
+// each calls f for every edge and every cell its box covers, in order.
+func (eg *edgeGrid) each(f func(e int32, c int)) {
+	for e := range eg.g.pts {
+		i0, j0, i1, j1 := eg.cellRange(eg.g.pts[e], eg.g.pts[eg.g.nextPt[e]])
+		for j := j0; j <= j1; j++ {
+			for i := i0; i <= i1; i++ {
+				f(int32(e), j*eg.nx+i)
 			}
 		}
 	}
+}
+
+// along appends to out, once each and in cell order, the edges in the
+// cells covering the box of segment pq.
+func (eg *edgeGrid) along(out []int32, p, q orb.Point) []int32 {
+	eg.queries++
+	i0, j0, i1, j1 := eg.cellRange(p, q)
+	for j := j0; j <= j1; j++ {
+		for i := i0; i <= i1; i++ {
+			c := j*eg.nx + i
+			for _, e := range eg.edge[eg.start[c]:eg.start[c+1]] {
+				if eg.stamp[e] != eg.queries {
+					eg.stamp[e] = eg.queries
+					out = append(out, e)
+				}
+			}
+		}
+	}
+	return out
 }
 
 // crossingRays returns the rays whose layer tops end front edges that

@@ -2,6 +2,23 @@
 // triangulation, constrained edges, quality refinement with a size field,
 // boundary layers and an optional quad-dominant pass, turning a
 // discretised outline into a mesh.Mesh.
+//
+// The pieces, each with its source:
+//
+//   - predicates: Shewchuk's adaptive-precision orient2d and incircle
+//     (1997), exact for every float64 input;
+//   - Delaunay: Bowyer–Watson insertion (1981) in Hilbert-curve order with
+//     a visibility walk, ghost triangles at the hull, flat int32 arrays;
+//   - constrained edges: recovery by flips (Sloan 1993), Lawson flips to the
+//     constrained Delaunay triangulation, inside and outside by parity;
+//   - refinement: Ruppert (1995) as presented by Shewchuk (2002), with
+//     concentric-shell segment splits and the sharp-corner rule for small
+//     input angles, and a size field of cones from the boundary spacing,
+//     growth ratio, regions and maximum size;
+//   - boundary layers: rays along averaged wall normals with fans at convex
+//     corners, layers sliding along neighbouring edges or tapering at wall
+//     ends, termination by free distance and crossings;
+//   - quad-dominant: greedy pairing of triangles by angle quality.
 package unstructured
 
 import (

@@ -260,6 +260,8 @@ func TestMeshErrors(t *testing.T) {
 		want string
 	}{
 		{"no loops", geometry.DiscreteOutline{}, Options{}, "no loops"},
+		{"self-crossing loop", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{{Points: []orb.Point{{0, 0}, {0, 1}, {3, 0}, {3, 2}}, Tags: []string{"a", "a", "a", "a"}}}}, Options{}, "crosses another input edge"},
+		{"flat loop", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{{Points: []orb.Point{{0, 0}, {1, 0}, {2, 0}}, Tags: []string{"a", "a", "a"}}}}, Options{}, "loop 0 encloses no area"},
 		{"outer clockwise", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{sq(0, 0, 1, true)}}, Options{}, "loop 0 (the outer loop) runs clockwise"},
 		{"hole counter-clockwise", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{sq(0, 0, 4, false), sq(1, 1, 1, false)}}, Options{}, "loop 1 (an inner loop) runs counter-clockwise"},
 		{"hole crossing the outer loop", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{sq(0, 0, 4, false), sq(3.3, 1.1, 1.3, true)}}, Options{}, "crosses another input edge"},
