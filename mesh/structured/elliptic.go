@@ -134,6 +134,9 @@ type SmoothResult struct {
 // The residual is the largest proposed move of a sweep over the local cell
 // size, before any damping, so a node held back by the fold test keeps the
 // iteration from reporting convergence.
+//
+// Two sides of the block that coincide (an O-grid's seam) are smoothed
+// across, as SmoothBlocks does for sides shared between blocks.
 func Smooth(b *Block, opt SmoothOptions) (SmoothResult, error) {
 	res, err := SmoothBlocks([]*Block{b}, []SmoothOptions{opt})
 	if len(res) == 0 {
