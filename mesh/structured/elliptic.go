@@ -406,7 +406,7 @@ func (s *smoother) controlRows(j int) bool {
 func (s *smoother) sweep() float64 {
 	ni, nj := s.ni, s.nj
 	x, y := s.x, s.y
-	om := s.omega
+	hom := 0.5 * s.omega
 	worst := 0.0
 	// Thomas–Middlecoff part: φ = φ_S + η (φ_N − φ_S), ψ = ψ_W + ξ (ψ_E − ψ_W);
 	// none while untangling (pure Winslow, whose mapping is folding-free).
@@ -459,9 +459,10 @@ func (s *smoother) sweep() float64 {
 				if !(al+ga > 0) {
 					continue // all neighbours on the node: no direction to move in
 				}
-				inv := om * 0.5 / (al + ga)
-				dx := (al*(ex+wx+phi*xxi) + ga*(nx+sx+psi*xeta) - 2*be*xxe) * inv
-				dy := (al*(ey+wy+phi*yxi) + ga*(ny+sy+psi*yeta) - 2*be*yxe) * inv
+				inv := hom / (al + ga)
+				be2 := be + be
+				dx := (al*(ex+wx+phi*xxi) + ga*(nx+sx+psi*xeta) - be2*xxe) * inv
+				dy := (al*(ey+wy+phi*yxi) + ga*(ny+sy+psi*yeta) - be2*yxe) * inv
 
 				h := al
 				if ga < h {
