@@ -134,6 +134,9 @@ type SmoothResult struct {
 // The residual is the largest proposed move of a sweep over the local cell
 // size, before any damping, so a node held back by the fold test keeps the
 // iteration from reporting convergence.
+//
+// Two sides of the block that coincide (an O-grid's seam) are smoothed
+// across, as SmoothBlocks does for sides shared between blocks.
 func Smooth(b *Block, opt SmoothOptions) (SmoothResult, error) {
 	res, err := SmoothBlocks([]*Block{b}, []SmoothOptions{opt})
 	if len(res) == 0 {
@@ -453,6 +456,9 @@ func (s *smoother) sweep() float64 {
 				// Gauss–Seidel value minus the present one, relative form:
 				// [α(e+w+φ r_ξ) + γ(n+s+ψ r_η) − 2β r_ξη] / 2(α+γ) with
 				// every position taken relative to the node.
+				if !(al+ga > 0) {
+					continue // all neighbours on the node: no direction to move in
+				}
 				inv := om * 0.5 / (al + ga)
 				dx := (al*(ex+wx+phi*xxi) + ga*(nx+sx+psi*xeta) - 2*be*xxe) * inv
 				dy := (al*(ey+wy+phi*yxi) + ga*(ny+sy+psi*yeta) - 2*be*yxe) * inv
