@@ -6,7 +6,6 @@ import (
 	"os"
 	"path/filepath"
 	"sort"
-	"time"
 
 	"cvdeck/bc"
 	"cvdeck/export/atomic"
@@ -39,9 +38,6 @@ type Result struct {
 	InputHash string
 	Mesh      *mesh.Mesh
 	Report    *quality.Report
-	Manifest  *manifest.Manifest
-	// Elapsed is the wall time of the run; it goes nowhere into the deck.
-	Elapsed time.Duration
 }
 
 // CheckFailure is returned, together with a Result, when the deck was
@@ -63,7 +59,6 @@ func (e *CheckFailure) Error() string {
 // error wrapping ErrInput and writes nothing; a failed check writes the
 // deck and returns it with a *CheckFailure.
 func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
-	start := time.Now()
 	stage := opts.Stage
 	if stage == nil {
 		stage = func(string) {}
@@ -114,7 +109,7 @@ func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
 	}); err != nil {
 		return nil, fmt.Errorf("writing the deck: %w", err)
 	}
-	res := &Result{Case: c.Name, Dir: outDir, InputHash: c.InputHash, Mesh: m, Report: rep, Manifest: man, Elapsed: time.Since(start)}
+	res := &Result{Case: c.Name, Dir: outDir, InputHash: c.InputHash, Mesh: m, Report: rep}
 	if rep.Verdict == quality.Fail {
 		return res, &CheckFailure{Dir: outDir, Failed: rep.FailedCells}
 	}

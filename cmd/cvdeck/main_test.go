@@ -2,6 +2,8 @@ package main
 
 import (
 	"bytes"
+	"encoding/json"
+	"math"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -181,5 +183,40 @@ func TestSketchStraightToMesh(t *testing.T) {
 	}
 	if _, err := os.Stat(badDeck); !os.IsNotExist(err) {
 		t.Fatalf("a deck was written for a bad sketch")
+	}
+}
+
+// TestCaseRefinementFamily: a case with a refine section meshes into one
+// deck per level and a family summary whose refinement ratio between
+// levels is the one asked for (h = (A/N)^(1/2), Celik et al. 2008).
+func TestCaseRefinementFamily(t *testing.T) {
+	base, err := samples.Case("nozzle-half")
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	casePath := filepath.Join(dir, "family.yaml")
+	if err := os.WriteFile(casePath, append(base, []byte("refine: {levels: 2, ratio: 1.5}\n")...), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "family")
+	code, stdout, errs := cvdeck(t, "mesh", casePath, "-o", out, "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var s struct {
+		Rows []struct { // the summary's "variants"
+			Level int     `json:"level"`
+			Cells int     `json:"cells"`
+			Ratio float64 `json:"ratio"`
+		} `json:"variants"`
+	}
+	if err := json.Unmarshal([]byte(stdout), &s); err != nil {
+		t.Fatalf("%v: %s", err, stdout)
+	}
+	// 90 × 24 cells, then 135 × 36: the ratio is 1.5 to a few parts in 1e3
+	// (the curved wall changes the area slightly between levels).
+	if len(s.Rows) != 2 || s.Rows[0].Cells != 2160 || s.Rows[1].Cells != 4860 || math.Abs(s.Rows[1].Ratio-1.5) > 5e-3 {
+		t.Fatalf("family rows %+v", s.Rows)
 	}
 }

@@ -6,10 +6,12 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"runtime"
 
 	"github.com/spf13/cobra"
 
 	"cvdeck/deck"
+	"cvdeck/deck/sweep"
 	"cvdeck/quality"
 )
 
@@ -114,6 +116,9 @@ func runMesh(cmd *cobra.Command, g *globals, f *meshFlags, path string) error {
 	if err != nil {
 		return err
 	}
+	if c.Family != nil {
+		return runFamily(cmd, g, f, path, c, overrides, formats)
+	}
 	res, err := deck.Run(c, f.out, opts)
 	var failed *deck.CheckFailure
 	if err != nil && !errors.As(err, &failed) {
@@ -156,4 +161,42 @@ func report(w io.Writer, g *globals, res *deck.Result, runErr error) error {
 func stderrIsTerminal(w io.Writer) bool {
 	f, ok := w.(*os.File)
 	return ok && isTerminal(f)
+}
+
+// runFamily builds a case's refinement family (its refine section) as a
+// sweep of one combination: DIR/<level folder> per level, and the family
+// summary (representative cell size h and the ratio between levels) in
+// DIR/summary.csv and summary.json. Parameters set with --set stay fixed
+// over the family.
+func runFamily(cmd *cobra.Command, g *globals, f *meshFlags, path string, c *deck.Case, overrides map[string]float64, formats []string) error {
+	if f.refine != 1 {
+		return fmt.Errorf("%w: the case defines a refinement family (refine: ...); --refine applies to single decks", deck.ErrInput)
+	}
+	if formats != nil || f.limits != "" || f.maxCells != deck.DefaultMaxCells {
+		return fmt.Errorf("%w: --format, --limits and --max-cells apply to single decks; for a refinement family set them in the case file", deck.ErrInput)
+	}
+	sf := &sweep.File{Path: path, Base: path, Refine: &sweep.Refine{Levels: c.Family.Levels, Ratio: c.Family.Ratio}}
+	for _, name := range c.ParamOrder {
+		if v, ok := overrides[name]; ok {
+			sf.Params = append(sf.Params, sweep.Param{Name: name, Values: []float64{v}})
+		}
+	}
+	opt := sweep.Options{Workers: runtime.NumCPU()}
+	s, err := sweep.Run(cmd.Context(), sf, f.out, sweep.NewPipeline(sf), opt)
+	if s == nil {
+		return err
+	}
+	if g.json {
+		js, jerr := s.JSON()
+		if jerr != nil {
+			return jerr
+		}
+		if _, werr := cmd.OutOrStdout().Write(js); werr != nil {
+			return werr
+		}
+	}
+	if !g.quiet && !g.json {
+		reportSweep(cmd.OutOrStdout(), s, f.out, sweep.Shard{})
+	}
+	return err
 }

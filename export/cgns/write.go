@@ -27,8 +27,6 @@ import (
 // unstructured zone (see (*writer).unstructured) or one structured zone
 // per block (see (*writer).structured).
 func Write(path string, d *Deck) (string, error) {
-	libMu.Lock()
-	defer libMu.Unlock()
 	bcTypes, err := d.validate()
 	if err != nil {
 		return "", err
@@ -43,7 +41,11 @@ func Write(path string, d *Deck) (string, error) {
 	}
 	tmp := tmpf.Name()
 	tmpf.Close()
+	// Only the library calls are serialised; the sync and rename of the
+	// finished file run outside the lock, so parallel decks overlap them.
+	libMu.Lock()
 	sum, err := writeFile(tmp, d, bcTypes)
+	libMu.Unlock()
 	if err == nil {
 		err = syncFile(tmp)
 	}

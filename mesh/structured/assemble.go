@@ -14,7 +14,8 @@ import (
 type AssembleOptions struct {
 	// Tol is the largest distance between two nodes of shared sides that
 	// still counts as the same node; 0 means 1e-9 times the bounding-box
-	// diagonal of all blocks.
+	// diagonal of all blocks, or a millionth of the shortest side edge if
+	// that is smaller.
 	Tol float64
 }
 
@@ -40,7 +41,10 @@ type sideSample struct {
 // to within 5% of the shorter side's length. A shared pair must then
 // conform: equal node counts and every node within Tol of its partner,
 // otherwise the error names the two blocks and sides and gives the counts,
-// or the largest mismatch and where it is. Two sides of one block may be
+// or the largest mismatch and where it is. The exception is two sides that
+// both carry boundary tags on every edge and do not conform: they are two
+// boundaries that run close (as the wall and the outer side of a thin
+// block), not an interface. Two sides of one block may be
 // shared (the seam of an O-grid). Shared nodes become one mesh node (the
 // first block's position is kept), so interfaces become interior faces and
 // are listed in Mesh.Interfaces.
@@ -163,6 +167,16 @@ func Assemble(blocks []*Block, opt AssembleOptions) (*mesh.Mesh, error) {
 	return m, nil
 }
 
+// tagged reports whether every edge of the side carries a boundary tag.
+func tagged(blocks []*Block, r sideRef) bool {
+	for _, t := range blocks[r.block].Tags[r.side] {
+		if t == "" {
+			return false
+		}
+	}
+	return true
+}
+
 // checkBlocks verifies each block's arrays and that its cells run
 // counter-clockwise.
 func checkBlocks(blocks []*Block) error {
@@ -177,22 +191,36 @@ func checkBlocks(blocks []*Block) error {
 	return nil
 }
 
-// defaultTol is 1e-9 times the bounding-box diagonal of all blocks.
+// defaultTol is 1e-9 times the bounding-box diagonal of all blocks, or a
+// millionth of the shortest side edge if that is smaller (a grid that
+// spans many orders of size, as a march with strong growth, must not merge
+// its fine cells).
 func defaultTol(blocks []*Block) float64 {
 	lo := orb.Point{math.Inf(1), math.Inf(1)}
 	hi := orb.Point{math.Inf(-1), math.Inf(-1)}
+	shortest := math.Inf(1)
 	for _, blk := range blocks {
 		for k := range blk.X {
 			lo = orb.Point{math.Min(lo[0], blk.X[k]), math.Min(lo[1], blk.Y[k])}
 			hi = orb.Point{math.Max(hi[0], blk.X[k]), math.Max(hi[1], blk.Y[k])}
 		}
+		for s := mesh.South; s <= mesh.West; s++ {
+			p := blk.SidePoints(s)
+			for e := 1; e < len(p); e++ {
+				if d := dist(p[e-1], p[e]); d > 0 {
+					shortest = math.Min(shortest, d)
+				}
+			}
+		}
 	}
-	return 1e-9 * math.Hypot(hi[0]-lo[0], hi[1]-lo[1])
+	return math.Min(1e-9*math.Hypot(hi[0]-lo[0], hi[1]-lo[1]), 1e-6*shortest)
 }
 
 // findShared finds the pairs of block sides that trace the same curve
 // (see Assemble), checks that each pair conforms, and returns them as
 // interfaces, with partner[4·block+side] the partner side's number (or −1).
+// Candidate pairs are taken best match first, so that of several sides
+// near one another (the sides of thin blocks) the coincident ones pair up.
 func findShared(blocks []*Block, tol float64) ([]mesh.BlockInterface, []int, error) {
 	var sides []sideSample
 	for b, blk := range blocks {
@@ -200,31 +228,49 @@ func findShared(blocks []*Block, tol float64) ([]mesh.BlockInterface, []int, err
 			sides = append(sides, sampleSide(sideRef{b, s}, blk.SidePoints(s)))
 		}
 	}
+	type candidate struct {
+		x, y     int
+		rev      bool
+		mismatch float64
+	}
+	var cands []candidate
+	for x := range sides {
+		for y := x + 1; y < len(sides); y++ {
+			if rev, d, ok := sameCurve(&sides[x], &sides[y]); ok {
+				cands = append(cands, candidate{x, y, rev, d})
+			}
+		}
+	}
+	sort.SliceStable(cands, func(a, b int) bool { return cands[a].mismatch < cands[b].mismatch })
 	partner := make([]int, len(sides))
 	for k := range partner {
 		partner[k] = -1
 	}
 	var ifaces []mesh.BlockInterface
-	for x := range sides {
-		for y := x + 1; y < len(sides); y++ {
-			sx, sy := &sides[x], &sides[y]
-			rev, ok := sameCurve(sx, sy)
-			if !ok {
+	for _, c := range cands {
+		if partner[c.x] >= 0 || partner[c.y] >= 0 {
+			continue
+		}
+		sx, sy := &sides[c.x], &sides[c.y]
+		if err := conform(blocks, sx, sy, c.rev, tol); err != nil {
+			if tagged(blocks, sx.ref) && tagged(blocks, sy.ref) {
+				// Two boundary sides that merely run close: not shared.
 				continue
 			}
-			if err := conform(blocks, sx, sy, rev, tol); err != nil {
-				return nil, nil, err
-			}
-			for _, z := range [2]int{x, y} {
-				if partner[z] >= 0 {
-					return nil, nil, fmt.Errorf("structured: %s coincides with both %s and %s; a side can be shared with one other side only",
-						refName(blocks, sides[z].ref), refName(blocks, sides[partner[z]].ref), refName(blocks, sides[x+y-z].ref))
-				}
-			}
-			partner[x], partner[y] = y, x
-			ifaces = append(ifaces, mesh.BlockInterface{A: sx.ref.block, B: sy.ref.block, SideA: sx.ref.side, SideB: sy.ref.side, Reversed: rev})
+			return nil, nil, err
 		}
+		partner[c.x], partner[c.y] = c.y, c.x
+		ifaces = append(ifaces, mesh.BlockInterface{A: sx.ref.block, B: sy.ref.block, SideA: sx.ref.side, SideB: sy.ref.side, Reversed: c.rev})
 	}
+	// Report interfaces in block and side order, whatever order they were
+	// found in.
+	sort.Slice(ifaces, func(a, b int) bool {
+		fa, fb := ifaces[a], ifaces[b]
+		if fa.A != fb.A {
+			return fa.A < fb.A
+		}
+		return fa.SideA < fb.SideA
+	})
 	return ifaces, partner, nil
 }
 
@@ -263,27 +309,22 @@ func sampleSide(r sideRef, pts []orb.Point) sideSample {
 }
 
 // sameCurve reports whether two sides trace the same curve (within 5% of
-// the shorter length at five arc-length fractions) and whether they run in
-// opposite directions.
-func sameCurve(a, b *sideSample) (rev, ok bool) {
+// the shorter length at five arc-length fractions), whether they run in
+// opposite directions, and the largest sample distance over that length.
+func sameCurve(a, b *sideSample) (rev bool, mismatch float64, ok bool) {
 	L := math.Min(a.length, b.length)
 	if L == 0 {
-		return false, false
+		return false, 0, false
 	}
-	loose := 0.05 * L
-	fwd, bwd := true, true
+	var fwd, bwd float64
 	for q := 0; q < 5; q++ {
-		if dist(a.at[q], b.at[q]) > loose {
-			fwd = false
-		}
-		if dist(a.at[q], b.at[4-q]) > loose {
-			bwd = false
-		}
+		fwd = math.Max(fwd, dist(a.at[q], b.at[q]))
+		bwd = math.Max(bwd, dist(a.at[q], b.at[4-q]))
 	}
-	if fwd {
-		return false, true
+	if fwd <= bwd {
+		return false, fwd / L, fwd <= 0.05*L
 	}
-	return bwd, bwd
+	return true, bwd / L, bwd <= 0.05*L
 }
 
 // conform checks that two sides recognised as shared match node for node.

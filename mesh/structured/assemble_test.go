@@ -266,3 +266,32 @@ func TestSplitI(t *testing.T) {
 		t.Error("cuts out of order accepted")
 	}
 }
+
+// Thin blocks: a layer 2% as thick as it is long has sides within the 5%
+// matching distance of each other. Only the coincident sides may pair: the
+// layer's wall and its outer side are boundaries, and stacked on another
+// block its outer side joins that block's floor.
+func TestAssembleThinBlocks(t *testing.T) {
+	sq := func(name string, y0, y1 float64, south, north string) *Block {
+		b, err := TFI(BlockSides{Name: name,
+			South: line(orb.Point{0, y0}, orb.Point{1, y0}, uniform(11), south),
+			East:  line(orb.Point{1, y0}, orb.Point{1, y1}, uniform(3), "out"),
+			North: line(orb.Point{1, y1}, orb.Point{0, y1}, uniform(11), north),
+			West:  line(orb.Point{0, y1}, orb.Point{0, y0}, uniform(3), "in")})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return b
+	}
+	if _, err := Assemble([]*Block{sq("layer", 0, 0.02, "wall", "far")}, AssembleOptions{}); err != nil {
+		t.Errorf("lone thin layer: %v", err)
+	}
+	m, err := Assemble([]*Block{sq("layer", 0, 0.02, "wall", ""), sq("above", 0.02, 0.04, "", "far")}, AssembleOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := mesh.BlockInterface{A: 0, B: 1, SideA: mesh.North, SideB: mesh.South} // both run west to east
+	if len(m.Interfaces) != 1 || m.Interfaces[0] != want {
+		t.Errorf("interfaces %+v, want %+v", m.Interfaces, want)
+	}
+}

@@ -109,6 +109,9 @@ func (b *Block) Clone() *Block {
 // This is how an O-grid is divided so that surrounding blocks can meet it
 // side to side.
 func (b *Block) SplitI(cuts ...int) ([]*Block, error) {
+	if err := b.check(); err != nil {
+		return nil, err
+	}
 	prev := 0
 	var out []*Block
 	ends := append(append([]int(nil), cuts...), b.NI-1)

@@ -15,7 +15,7 @@ import (
 // radius 0.5. A hyperbolic O-grid reaches radius 1.5; it is cut into four
 // quarters that meet four TFI blocks filling the rest, each between a
 // quarter of the O-grid's outer ring and a corner of the channel. Eight
-// blocks, twelve interfaces, all conforming.
+// blocks, twelve interfaces, smoothed together, all conforming.
 func TestChannelWithCylinder(t *testing.T) {
 	const n, layers = 64, 30
 	ring, rep, err := MarchClosed(circleLoop(orb.Point{}, 0.5, n, "cylinder"),
@@ -68,15 +68,28 @@ func TestChannelWithCylinder(t *testing.T) {
 		if err != nil {
 			t.Fatalf("quarter %d: %v", q, err)
 		}
-		res, err := Smooth(b, SmoothOptions{MaxIterations: 3000})
-		if err != nil {
-			t.Fatal(err)
-		}
-		if !res.Converged {
-			t.Errorf("smoothing %q: %+v", b.Name, res)
-		}
 		blocks = append(blocks, b)
 	}
+	// Smooth all eight together, holding the first-cell height and
+	// orthogonality on the cylinder: twelve interfaces, four points where
+	// four blocks meet.
+	opts := make([]SmoothOptions, len(blocks))
+	for b := range opts {
+		opts[b].MaxIterations = 20000
+		if b < 4 {
+			opts[b].Sides[mesh.South] = SideControl{FirstHeight: 2e-3, Orthogonal: true}
+		}
+	}
+	results, err := SmoothBlocks(blocks, opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for b, res := range results {
+		if !res.Converged || (b < 4 && (res.HeightError > 0.01 || res.MeanAngleError > 2)) {
+			t.Errorf("smoothing %q: %+v", blocks[b].Name, res)
+		}
+	}
+	t.Logf("joint smoothing: %d iterations; cylinder first height within %.2g, mean wall angle error %.3g°", results[0].Iterations, results[0].HeightError, results[0].MeanAngleError)
 	m := assertPositive(t, blocks...)
 	assertNoDuplicateNodes(t, m)
 	if len(m.Interfaces) != 12 {

@@ -134,6 +134,9 @@ type SmoothResult struct {
 // The residual is the largest proposed move of a sweep over the local cell
 // size, before any damping, so a node held back by the fold test keeps the
 // iteration from reporting convergence.
+//
+// Two sides of the block that coincide (an O-grid's seam) are smoothed
+// across, as SmoothBlocks does for sides shared between blocks.
 func Smooth(b *Block, opt SmoothOptions) (SmoothResult, error) {
 	res, err := SmoothBlocks([]*Block{b}, []SmoothOptions{opt})
 	if len(res) == 0 {
@@ -403,7 +406,7 @@ func (s *smoother) controlRows(j int) bool {
 func (s *smoother) sweep() float64 {
 	ni, nj := s.ni, s.nj
 	x, y := s.x, s.y
-	om := s.omega
+	hom := 0.5 * s.omega
 	worst := 0.0
 	// Thomas–Middlecoff part: φ = φ_S + η (φ_N − φ_S), ψ = ψ_W + ξ (ψ_E − ψ_W);
 	// none while untangling (pure Winslow, whose mapping is folding-free).
@@ -453,9 +456,13 @@ func (s *smoother) sweep() float64 {
 				// Gauss–Seidel value minus the present one, relative form:
 				// [α(e+w+φ r_ξ) + γ(n+s+ψ r_η) − 2β r_ξη] / 2(α+γ) with
 				// every position taken relative to the node.
-				inv := om * 0.5 / (al + ga)
-				dx := (al*(ex+wx+phi*xxi) + ga*(nx+sx+psi*xeta) - 2*be*xxe) * inv
-				dy := (al*(ey+wy+phi*yxi) + ga*(ny+sy+psi*yeta) - 2*be*yxe) * inv
+				if !(al+ga > 0) {
+					continue // all neighbours on the node: no direction to move in
+				}
+				inv := hom / (al + ga)
+				be2 := be + be
+				dx := (al*(ex+wx+phi*xxi) + ga*(nx+sx+psi*xeta) - be2*xxe) * inv
+				dy := (al*(ey+wy+phi*yxi) + ga*(ny+sy+psi*yeta) - be2*yxe) * inv
 
 				h := al
 				if ga < h {

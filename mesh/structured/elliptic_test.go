@@ -317,3 +317,79 @@ func TestSmoothOGridSeam(t *testing.T) {
 	}
 	assertPositive(t, b)
 }
+
+// distToPolyline is the distance from p to the polyline q.
+func distToPolyline(p orb.Point, q []orb.Point) float64 {
+	best := math.Inf(1)
+	for k := 1; k < len(q); k++ {
+		a, b := q[k-1], q[k]
+		ex, ey := b[0]-a[0], b[1]-a[1]
+		u := math.Max(0, math.Min(1, ((p[0]-a[0])*ex+(p[1]-a[1])*ey)/(ex*ex+ey*ey)))
+		best = math.Min(best, dist(p, orb.Point{a[0] + u*ex, a[1] + u*ey}))
+	}
+	return best
+}
+
+// A curved side whose nodes are bunched towards one end, so the TFI lines
+// meet it at a slant. Sliding lets its nodes move along the side's own
+// polyline (they must stay on it, in order) until the lines meet it at
+// right angles: the mean departure from 90° must fall well below the
+// fixed-side value.
+func TestSmoothSlidingCurvedSide(t *testing.T) {
+	top := make([]orb.Point, 31)
+	f := geometric(31, 0.01)
+	for k := range top {
+		x := 2 - 2*f[k]
+		top[k] = orb.Point{x, 1 + 0.3*math.Sin(math.Pi*x/2)}
+	}
+	sides := BlockSides{Name: "dome",
+		South: line(orb.Point{0, 0}, orb.Point{2, 0}, uniform(31), "floor"),
+		East:  line(orb.Point{2, 0}, orb.Point{2, 1}, uniform(16), "out"),
+		North: chainOf(top, "roof"),
+		West:  line(orb.Point{0, 1}, orb.Point{0, 0}, uniform(16), "in"),
+	}
+	northAngle := func(b *Block) float64 {
+		sum := 0.0
+		for i := 1; i+1 < b.NI; i++ {
+			a, c := b.At(i-1, b.NJ-1), b.At(i+1, b.NJ-1)
+			w, p := b.At(i, b.NJ-1), b.At(i, b.NJ-2)
+			tx, ty := c[0]-a[0], c[1]-a[1]
+			dx, dy := p[0]-w[0], p[1]-w[1]
+			cos := (tx*dx + ty*dy) / (math.Hypot(tx, ty) * math.Hypot(dx, dy))
+			sum += math.Abs(math.Acos(cos)*180/math.Pi - 90)
+		}
+		return sum / float64(b.NI-2)
+	}
+	fixed, err := TFI(sides)
+	if err != nil {
+		t.Fatal(err)
+	}
+	slid := fixed.Clone()
+	if _, err := Smooth(fixed, SmoothOptions{MaxIterations: 20000}); err != nil {
+		t.Fatal(err)
+	}
+	var opt SmoothOptions
+	opt.Sides[mesh.North].Mode = Slide
+	opt.MaxIterations = 20000
+	res, err := Smooth(slid, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	af, as := northAngle(fixed), northAngle(slid)
+	t.Logf("mean angle at the curved side: fixed %.2f°, sliding %.2f° (%d iterations, converged %v)", af, as, res.Iterations, res.Converged)
+	if !res.Converged || as > af/3 {
+		t.Errorf("sliding gave %.2f° against %.2f° fixed (%+v)", as, af, res)
+	}
+	prev := math.Inf(-1) // the north side runs west to east in the block
+	for i := 0; i < slid.NI; i++ {
+		p := slid.At(i, slid.NJ-1)
+		if d := distToPolyline(p, top); d > 1e-12 {
+			t.Fatalf("north node %d left the side by %g", i, d)
+		}
+		if p[0] <= prev {
+			t.Fatalf("north nodes out of order at %d", i)
+		}
+		prev = p[0]
+	}
+	assertPositive(t, slid)
+}

@@ -103,3 +103,35 @@ func FuzzMarch(f *testing.F) {
 		}
 	})
 }
+
+// FuzzMarchOpenAndCGrid: an open wall or an airfoil-like chain built from
+// the input either errors or gives blocks that assemble into positive cells.
+func FuzzMarchOpenAndCGrid(f *testing.F) {
+	f.Add(uint8(20), 1e-3, 1.1, uint8(12), 3.0, uint8(10), []byte{})
+	f.Add(uint8(8), 1e-2, 1.3, uint8(5), 0.0, uint8(0), make([]byte, 40))
+	f.Fuzz(func(t *testing.T, n uint8, h, growth float64, layers uint8, wakeLen float64, wakeCells uint8, data []byte) {
+		d := floats(data)
+		bump := func(k int) float64 {
+			if len(d) == 0 {
+				return 0
+			}
+			return 0.05 * math.Tanh(d[k%len(d)])
+		}
+		m := 3 + int(n%40)
+		wall := make([]orb.Point, m)
+		for k := range wall {
+			wall[k] = orb.Point{float64(k) / float64(m-1), bump(k)}
+		}
+		opt := MarchOptions{Name: "f", FirstHeight: h, Growth: growth, Layers: int(layers % 30), OuterTag: "far", StartTag: "a", EndTag: "b"}
+		if b, _, err := MarchOpen(chainOf(wall, "wall"), opt); err == nil {
+			assertPositive(t, b)
+		}
+		foil := nacaChain(2 + int(n%30))
+		for k := 1; k+1 < len(foil.Points); k++ {
+			foil.Points[k][1] += 0.2 * bump(k)
+		}
+		if bs, _, err := MarchCGrid(foil, WakeOptions{Length: wakeLen, Cells: int(wakeCells % 40)}, opt); err == nil {
+			assertPositive(t, bs...)
+		}
+	})
+}

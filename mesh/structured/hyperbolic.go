@@ -397,9 +397,11 @@ func checkPoints(p []orb.Point, closed bool) error {
 //	(I + C δ_ξ − ε_i δ_ξξ) Δr = Δs n + ε_e δ_ξξ r⁰,   C = B⁻¹A,
 //	A = [x_η⁰ y_η⁰; y_η⁰ −x_η⁰],   B = [x_ξ⁰ y_ξ⁰; −y_ξ⁰ x_ξ⁰],
 //
-// with central differences δ_ξ, δ_ξξ, implicit dissipation ε_i = 2ε_e, and
-// explicit dissipation ε_e scaled by min(1, Δs/ℓ) with ℓ the local edge
-// length (so it does not overwhelm the first thin layers), raised by
+// with central differences δ_ξ, δ_ξξ, implicit dissipation ε_i twice the
+// explicit coefficient before the scaling below (which keeps even a large
+// explicit coefficient stable), and explicit
+// dissipation ε_e scaled by min(1, Δs/ℓ) with ℓ the local edge length (so
+// it does not overwhelm the first thin layers), raised by
 // 1 + 8θ/π near a concave turn of θ radians (the largest turn within three
 // nodes), and with the backward normal part of δ_ξξ r⁰ dropped at convex
 // turns. One block-tridiagonal solve (periodic for a closed line)
@@ -414,9 +416,9 @@ func checkPoints(p []orb.Point, closed bool) error {
 // Chaussee's cell-area smoothing: such nodes step further and the front
 // rounds the corner off. A layer whose cells would not all be strictly
 // convex is tried again with twice the dissipation, up to five times; then
-// the march stops with an error naming the layer and the position. Concave
-// turns up to about 75° march out many wall spacings; a right-angle inside
-// corner stops after a few, with that error.
+// the march stops with an error naming the layer and the position. A
+// right-angle inside corner marches out some twenty wall spacings; sharper
+// ones stop sooner, with that error.
 func march(pts []orb.Point, periodic bool, heights []float64, opt MarchOptions, rep *MarchReport) (xs, ys []float64, err error) {
 	n := len(pts)
 	nk := len(heights) + 1
@@ -525,7 +527,7 @@ func march(pts []orb.Point, periodic bool, heights []float64, opt MarchOptions, 
 				ell := 0.5 * (math.Hypot(at(x0, i+1)-x0[i], at(y0, i+1)-y0[i]) + math.Hypot(x0[i]-at(x0, i-1), y0[i]-at(y0, i-1)))
 				f := ds / (L2 * ell)
 				C := mat2{-2 * xx * yx * f, (xx*xx - yx*yx) * f, (xx*xx - yx*yx) * f, 2 * xx * yx * f}
-				ee := math.Min(0.5, eps*scale*epsLocal[i]*math.Min(1, ds/ell))
+				ee := eps * scale * epsLocal[i] * math.Min(1, ds/ell)
 				ei := 2 * eps * scale * epsLocal[i]
 				a[i] = mat2{-0.5*C[0] - ei, -0.5 * C[1], -0.5 * C[2], -0.5*C[3] - ei}
 				b[i] = mat2{1 + 2*ei, 0, 0, 1 + 2*ei}

@@ -185,6 +185,9 @@ func (j *join) sweep() float64 {
 		if free {
 			phi = 0
 		}
+		if !(al+ga > 0) {
+			continue // all neighbours on the node: no direction to move in
+		}
 		inv := om * 0.5 / (al + ga)
 		d[0] = (al*(q[0][0]+q[4][0]+phi*xxi) + ga*(q[2][0]+q[6][0]) - 2*be*xxe) * inv
 		d[1] = (al*(q[0][1]+q[4][1]+phi*yxi) + ga*(q[2][1]+q[6][1]) - 2*be*yxe) * inv

@@ -610,7 +610,93 @@ func assemble(g *pslg, rays []ray, hs [][]float64, raysAt [][2]int32, connected 
 		p.front.Loops = append(p.front.Loops, loop)
 		p.frontID = append(p.frontID, ids)
 	}
+	p.smoothFront(rays, hs, int32(len(g.pts)))
 	return p, nil
+}
+
+// smoothFront pulls back, along its ray, every layer top where the front
+// bends towards the triangles (the region's angle there between 150° and
+// 179°), until the front bends the other way by half a degree. The
+// front cannot be split, so at such a point the triangulation would keep a
+// sliver made of the point and its two front neighbours. A pull stays
+// within half of the top layer's height and is undone if a layer cell
+// would stop being convex; only the top layer's height changes.
+func (p *layerPlan) smoothFront(rays []ray, hs [][]float64, firstLayer int32) {
+	const minBend = 150 * math.Pi / 180
+	const maxBend = 179 * math.Pi / 180
+	const target = 180.5 * math.Pi / 180
+	topOf := make(map[int32]int32)
+	for j := range rays {
+		if r := &rays[j]; r.n > 0 && r.slide < 0 {
+			topOf[r.nodes[r.n]] = int32(j)
+		}
+	}
+	// Cells by node, to check convexity after a pull.
+	cellsOf := make(map[int32][]int32)
+	for c := 0; c+1 < len(p.cellStart); c++ {
+		for _, v := range p.cellNodes[p.cellStart[c]:p.cellStart[c+1]] {
+			if _, ok := topOf[v]; ok {
+				cellsOf[v] = append(cellsOf[v], int32(c))
+			}
+		}
+	}
+	convex := func(c int32) bool {
+		nodes := p.cellNodes[p.cellStart[c]:p.cellStart[c+1]]
+		for i := range nodes {
+			if orient2d(p.nodes[nodes[i]], p.nodes[nodes[(i+1)%len(nodes)]], p.nodes[nodes[(i+2)%len(nodes)]]) <= 0 {
+				return false
+			}
+		}
+		return true
+	}
+	for li, ids := range p.frontID {
+		n := len(ids)
+		for k, b := range ids {
+			j, ok := topOf[b]
+			if !ok || b < firstLayer {
+				continue
+			}
+			a, c := ids[(k+n-1)%n], ids[(k+1)%n]
+			if ang := bend(p.nodes[a], p.nodes[b], p.nodes[c]); ang >= maxBend || ang < minBend {
+				continue
+			}
+			r := &rays[j]
+			top := r.scale * (hs[r.spec][r.n] - hs[r.spec][r.n-1])
+			orig := p.nodes[b]
+			pulled := false
+			for step := 1; step <= 10; step++ {
+				d := 0.05 * float64(step) * top
+				p.nodes[b] = orb.Point{orig[0] - d*r.dir[0], orig[1] - d*r.dir[1]}
+				if bend(p.nodes[a], p.nodes[b], p.nodes[c]) >= target {
+					pulled = true
+					break
+				}
+			}
+			for _, cell := range cellsOf[b] {
+				if !pulled || !convex(cell) {
+					pulled = false
+					break
+				}
+			}
+			if !pulled {
+				p.nodes[b] = orig
+			}
+			p.front.Loops[li].Points[k] = p.nodes[b]
+		}
+	}
+}
+
+// bend returns the angle of the region left of the path a→b→c at b,
+// between the edge to c and the edge to a measured counter-clockwise, in
+// [0, 2π).
+func bend(a, b, c orb.Point) float64 {
+	u := orb.Point{c[0] - b[0], c[1] - b[1]}
+	w := orb.Point{a[0] - b[0], a[1] - b[1]}
+	ang := math.Atan2(u[0]*w[1]-u[1]*w[0], u[0]*w[0]+u[1]*w[1])
+	if ang < 0 {
+		ang += 2 * math.Pi
+	}
+	return ang
 }
 
 func unit(v orb.Point) orb.Point {

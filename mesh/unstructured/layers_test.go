@@ -108,6 +108,14 @@ func TestLayers(t *testing.T) {
 			if quad == 0 || n == 0 {
 				t.Fatal("no boundary-layer cells")
 			}
+			// Common practice: cells with an angle near 180° ruin
+			// gradients. The front cannot be split, so a few triangles
+			// beside it may stay flatter than refinement allows elsewhere
+			// (up to about 166° here); slivers of 176° came back before
+			// the apex rule of insertFor.
+			if worst := maxAngleDeg(m); worst > 170 {
+				t.Errorf("largest cell angle %.1f°, want at most 170°", worst)
+			}
 			if dev > 0.01 {
 				t.Errorf("first-cell height deviates by %.3g%% from the request %v; want within 1%%", 100*dev, c.layers.FirstHeight)
 			}
@@ -223,4 +231,20 @@ func nacaLoop(le orb.Point, c, deg, tc float64, n int, tag string) geometry.Disc
 		l.Tags = append(l.Tags, tag)
 	}
 	return l
+}
+
+// maxAngleDeg returns the largest corner angle of any cell, in degrees.
+func maxAngleDeg(m *mesh.Mesh) float64 {
+	worst := 0.0
+	for c := range m.NumCells() {
+		nodes := m.Cell(c)
+		n := len(nodes)
+		for k := range n {
+			p, q, r := m.Nodes[nodes[(k+n-1)%n]], m.Nodes[nodes[k]], m.Nodes[nodes[(k+1)%n]]
+			ux, uy := p[0]-q[0], p[1]-q[1]
+			vx, vy := r[0]-q[0], r[1]-q[1]
+			worst = math.Max(worst, math.Atan2(math.Abs(ux*vy-uy*vx), ux*vx+uy*vy)*180/math.Pi)
+		}
+	}
+	return worst
 }

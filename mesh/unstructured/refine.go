@@ -328,15 +328,47 @@ func (tr *triangulation) circumcentre(t int32) orb.Point {
 // splitTriangle inserts the circumcentre of bad triangle t, or splits the
 // segments it would encroach.
 func (r *refiner) splitTriangle(t int32) {
-	tr := r.tr
-	c := tr.circumcentre(t)
+	c := r.tr.circumcentre(t)
 	if math.IsNaN(c[0]) || math.IsNaN(c[1]) || math.IsInf(c[0], 0) || math.IsInf(c[1], 0) {
 		return
 	}
+	r.insertFor(t, c, false, 0)
+}
+
+// insertFor inserts point c on behalf of bad triangle t, following
+// Ruppert's rule: a segment that c encroaches, or that the way from t to c
+// crosses, is split instead and t waits.
+//
+// Frozen segments (the layers' front) cannot be split. A point beyond one,
+// or so close to one (a, b) that the angle acb exceeds 180° − 2θ_min, would
+// leave a triangle on it with a base angle below the target that nothing
+// could fix; so the apex of the equilateral triangle on that segment,
+// inside the domain, is tried in its place (apex mode). An apex is inserted
+// only where it needs nothing else: no segment split, no frozen segment
+// spoiled, and at least clear (half the segment's length) from every vertex
+// of its cavity. Each frozen segment has one apex, so this cannot run away.
+func (r *refiner) insertFor(t int32, c orb.Point, apexMode bool, clear float64) {
+	tr := r.tr
+	toApex := func(e int32) {
+		if apexMode {
+			return
+		}
+		pa, pb := tr.pts[tr.v[e]], tr.pts[tr.v[next(e)]]
+		h := math.Sqrt(3) / 2
+		apex := orb.Point{(pa[0]+pb[0])/2 - h*(pb[1]-pa[1]), (pa[1]+pb[1])/2 + h*(pb[0]-pa[0])}
+		r.insertFor(t, apex, true, 0.5*math.Hypot(pb[0]-pa[0], pb[1]-pa[1]))
+	}
+	split := func(e int32) {
+		if !apexMode && r.splitSegment(e) {
+			r.triQ = append(r.triQ, t)
+		}
+	}
 	loc, hit := tr.walkTo(t, c)
 	if hit >= 0 {
-		if r.splitSegment(hit) {
-			r.triQ = append(r.triQ, t)
+		if tr.seg[hit] == r.frozen {
+			toApex(hit)
+		} else {
+			split(hit)
 		}
 		return
 	}
@@ -350,8 +382,10 @@ func (r *refiner) splitTriangle(t int32) {
 			return
 		}
 		if tr.seg[e] != noSeg && tr.orient(w, tr.v[next(e)], c) == 0 {
-			if r.splitSegment(e) {
-				r.triQ = append(r.triQ, t)
+			if tr.seg[e] == r.frozen {
+				toApex(e)
+			} else {
+				split(e)
 			}
 			return
 		}
@@ -360,16 +394,36 @@ func (r *refiner) splitTriangle(t int32) {
 	if err := tr.digCavity(c, r.tmp[:1], -1); err != nil {
 		return
 	}
+	if clear > 0 {
+		for _, be := range tr.border {
+			if be.a != ghost && math.Hypot(tr.pts[be.a][0]-c[0], tr.pts[be.a][1]-c[1]) < clear {
+				return
+			}
+		}
+	}
 	encroached := false
+	spoilCos := -math.Cos(2 * math.Asin(math.Sqrt(r.sin2)))
 	for _, be := range tr.border {
-		if be.seg == noSeg || be.seg == r.frozen || be.flag&flagInside == 0 {
+		if be.seg == noSeg || be.flag&flagInside == 0 {
 			continue
 		}
 		pa, pb := tr.pts[be.a], tr.pts[be.b]
-		if (pa[0]-c[0])*(pb[0]-c[0])+(pa[1]-c[1])*(pb[1]-c[1]) < 0 {
-			// The half-edge of the segment inside the cavity is the twin
-			// of its outer half-edge.
-			e := tr.adj[be.outer]
+		ax, ay, bx, by := pa[0]-c[0], pa[1]-c[1], pb[0]-c[0], pb[1]-c[1]
+		dot := ax*bx + ay*by
+		// The half-edge of the segment inside the cavity is the twin of
+		// its outer half-edge.
+		e := tr.adj[be.outer]
+		if be.seg == r.frozen {
+			if dot < spoilCos*math.Sqrt((ax*ax+ay*ay)*(bx*bx+by*by)) {
+				toApex(e)
+				return
+			}
+			continue
+		}
+		if dot < 0 {
+			if apexMode {
+				return
+			}
 			r.segQ = append(r.segQ, segRef{e, be.a, be.b})
 			encroached = true
 		}
