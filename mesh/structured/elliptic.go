@@ -164,6 +164,14 @@ func (opt *SmoothOptions) normalise(b *Block) error {
 		if c.controlled() && c.Mode != Fixed {
 			return fmt.Errorf("structured: block %q %s side: first-height and orthogonality control need fixed nodes, the side is set to %s", b.Name, side, c.Mode)
 		}
+		if c.Mode == Slide {
+			p := b.SidePoints(side)
+			for e := 1; e < len(p); e++ {
+				if p[e] == p[e-1] {
+					return fmt.Errorf("structured: block %q %s side: edge %d has zero length, so its nodes cannot slide along it", b.Name, side, e-1)
+				}
+			}
+		}
 	}
 	if opt.MaxIterations == 0 {
 		opt.MaxIterations = 5000
@@ -598,6 +606,11 @@ func (s *smoother) wallFrame(sd mesh.Side, k int) (dx, dy, tx, ty, nx, ny float6
 	}
 	tx, ty = s.x[c]-s.x[a], s.y[c]-s.y[a]
 	l := math.Hypot(tx, ty)
+	if l == 0 {
+		// The side doubles back on itself here: no tangent. A zero
+		// tangent gives zero height, which the callers skip.
+		return 0, 0, 0, 0, 0, 0
+	}
 	tx, ty = tx/l, ty/l
 	// The block lies left of south and east (walked in increasing index),
 	// right of north and west.
