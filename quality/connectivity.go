@@ -123,26 +123,40 @@ func validateArrays(m *mesh.Mesh) error {
 	if int(m.CellStart[nc]) != len(m.CellNodes) || m.CellStart[0] != 0 {
 		return fmt.Errorf("quality: CellStart runs %d..%d; it must run from 0 to len(CellNodes)=%d", m.CellStart[0], m.CellStart[nc], len(m.CellNodes))
 	}
-	if err := firstError(nn, func(v int) error {
-		if p := m.Nodes[v]; math.IsNaN(p[0]) || math.IsNaN(p[1]) || math.IsInf(p[0], 0) || math.IsInf(p[1], 0) {
-			return fmt.Errorf("quality: node %d is at (%g, %g); coordinates must be finite", v, p[0], p[1])
+	// x − x is zero exactly when x is finite.
+	if v := firstBad(nn, func(lo, hi int) int {
+		for v, p := range m.Nodes[lo:hi] {
+			if p[0]-p[0] != 0 || p[1]-p[1] != 0 {
+				return lo + v
+			}
 		}
-		return nil
-	}); err != nil {
-		return err
+		return -1
+	}); v >= 0 {
+		p := m.Nodes[v]
+		return fmt.Errorf("quality: node %d is at (%g, %g); coordinates must be finite", v, p[0], p[1])
 	}
-	if err := firstError(nc, func(c int) error {
-		if m.CellStart[c+1]-m.CellStart[c] < 3 || m.CellStart[c+1] > m.CellStart[nc] {
-			return fmt.Errorf("quality: cell %d has %d nodes; a cell needs at least 3", c, m.CellStart[c+1]-m.CellStart[c])
+	start, end := m.CellStart, m.CellStart[nc]
+	if c := firstBad(nc, func(lo, hi int) int {
+		for c := lo; c < hi; c++ {
+			if start[c+1]-start[c] < 3 || start[c+1] > end {
+				return c
+			}
+			for _, v := range m.CellNodes[start[c]:start[c+1]] {
+				if uint32(v) >= uint32(nn) {
+					return c
+				}
+			}
 		}
-		for i := m.CellStart[c]; i < m.CellStart[c+1]; i++ {
-			if v := m.CellNodes[i]; v < 0 || int(v) >= nn {
+		return -1
+	}); c >= 0 {
+		if start[c+1]-start[c] < 3 || start[c+1] > end {
+			return fmt.Errorf("quality: cell %d has %d nodes; a cell needs at least 3", c, start[c+1]-start[c])
+		}
+		for _, v := range m.CellNodes[start[c]:start[c+1]] {
+			if v < 0 || int(v) >= nn {
 				return fmt.Errorf("quality: cell %d refers to node %d; nodes run from 0 to %d", c, v, nn-1)
 			}
 		}
-		return nil
-	}); err != nil {
-		return err
 	}
 	if len(m.Owner) != nf || len(m.Neighbour) != nf || len(m.FaceTag) != nf {
 		return fmt.Errorf("quality: %d faces but %d owners, %d neighbours and %d face tags; all four must agree", nf, len(m.Owner), len(m.Neighbour), len(m.FaceTag))
@@ -150,7 +164,7 @@ func validateArrays(m *mesh.Mesh) error {
 	if m.NumInterior < 0 || m.NumInterior > nf {
 		return fmt.Errorf("quality: NumInterior = %d; it must lie in 0..%d", m.NumInterior, nf)
 	}
-	if err := firstError(nf, func(f int) error {
+	faceErr := func(f int) error {
 		fn := m.FaceNodes[f]
 		if fn[0] < 0 || int(fn[0]) >= nn || fn[1] < 0 || int(fn[1]) >= nn {
 			return fmt.Errorf("quality: face %d joins nodes %d-%d; nodes run from 0 to %d", f, fn[0], fn[1], nn-1)
@@ -165,8 +179,19 @@ func validateArrays(m *mesh.Mesh) error {
 			return fmt.Errorf("quality: face %d has tag index %d; there are %d tags", f, t, len(m.Tags))
 		}
 		return nil
-	}); err != nil {
-		return err
+	}
+	// The unsigned comparisons test 0 ≤ i < n; adding 1 admits −1.
+	if f := firstBad(nf, func(lo, hi int) int {
+		faceNodes, owner, neighbour, tag := m.FaceNodes[lo:hi], m.Owner[lo:hi], m.Neighbour[lo:hi], m.FaceTag[lo:hi]
+		for i, fn := range faceNodes {
+			if uint32(fn[0]) >= uint32(nn) || uint32(fn[1]) >= uint32(nn) || uint32(owner[i]) >= uint32(nc) ||
+				uint32(neighbour[i]+1) > uint32(nc) || uint32(int32(tag[i])+1) > uint32(len(m.Tags)) {
+				return lo + i
+			}
+		}
+		return -1
+	}); f >= 0 {
+		return faceErr(f)
 	}
 	g := &m.Geo
 	if len(g.FaceLength) != nf || len(g.FaceNormal) != nf || len(g.FaceMid) != nf || len(g.CellArea) != nc || len(g.CellCentroid) != nc {
@@ -175,24 +200,18 @@ func validateArrays(m *mesh.Mesh) error {
 	return nil
 }
 
-// firstError runs check on every index of [0, n) in parallel chunks and
-// returns the error of the lowest failing index, or nil.
-func firstError(n int, check func(i int) error) error {
-	errs := make([]error, (n+chunk-1)/chunk)
-	forChunks(n, func(lo, hi int) {
-		for i := lo; i < hi; i++ {
-			if err := check(i); err != nil {
-				errs[lo/chunk] = err
-				return
-			}
-		}
-	})
-	for _, err := range errs {
-		if err != nil {
-			return err
+// firstBad runs scan over [0, n) in parallel chunks, each call returning
+// the first bad index of its range [lo, hi) or -1, and returns the lowest
+// bad index, or -1.
+func firstBad(n int, scan func(lo, hi int) int) int {
+	bad := make([]int, (n+chunk-1)/chunk)
+	forChunks(n, func(lo, hi int) { bad[lo/chunk] = scan(lo, hi) })
+	for _, i := range bad {
+		if i >= 0 {
+			return i
 		}
 	}
-	return nil
+	return -1
 }
 
 // edgeAt returns the position k in cell nodes idx where the edge a→b

@@ -13,8 +13,10 @@ type faceFields struct {
 	// nonOrth is the non-orthogonality angle in degrees.
 	nonOrth []float64
 	// cross is the signed position t of the point x_ip = m_f + t (b − a)
-	// where the centroid line crosses the face; the skewness is |t|.
+	// where the centroid line crosses the face.
 	cross []float64
+	// skew is the skewness |t|.
+	skew []float64
 	// shortestPart is the shortest non-zero face length of each chunk.
 	shortestPart []float64
 }
@@ -62,6 +64,7 @@ func computeFaces(m *mesh.Mesh) faceFields {
 		length:       make([]float64, nf),
 		nonOrth:      make([]float64, nf),
 		cross:        make([]float64, nf),
+		skew:         make([]float64, nf),
 		shortestPart: make([]float64, (nf+chunk-1)/chunk),
 	}
 	forChunks(nf, func(lo, hi int) {
@@ -88,11 +91,12 @@ func computeFaces(m *mesh.Mesh) faceFields {
 			}
 			cr := n[0]*dy - n[1]*dx
 			dt := n[0]*dx + n[1]*dy
-			ff.nonOrth[f] = math.Atan2(math.Abs(cr), dt) * rad2deg
+			ff.nonOrth[f] = atan2(math.Abs(cr), dt) * rad2deg
 			if t != t {
 				t = math.Inf(1) // zero-length face with a degenerate centroid line
 			}
 			ff.cross[f] = t
+			ff.skew[f] = math.Abs(t)
 			if dt < 0 {
 				l = -l
 			}
@@ -101,17 +105,6 @@ func computeFaces(m *mesh.Mesh) faceFields {
 		ff.shortestPart[lo/chunk] = short
 	})
 	return ff
-}
-
-// skewness returns |t| of every face.
-func (ff *faceFields) skewness() []float64 {
-	out := make([]float64, len(ff.cross))
-	forChunks(len(out), func(lo, hi int) {
-		for f := lo; f < hi; f++ {
-			out[f] = math.Abs(ff.cross[f])
-		}
-	})
-	return out
 }
 
 // cellFaces is the list of faces of each cell in CSR form, each list in

@@ -170,7 +170,9 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 		defer wg.Done()
 		dual = computeDualClosure(m)
 		forChunks(nn, func(lo, hi int) {
-			nodeParts[lo/chunk].scan(dd, lim.DualClosure, lim.WorstCells, dual[lo:hi], lo, nodeStatus)
+			p := &nodeParts[lo/chunk]
+			p.start()
+			p.scan(dd, lim.DualClosure, lim.WorstCells, dual[lo:hi], lo, nodeStatus)
 		})
 	}()
 	go func() {
@@ -219,7 +221,7 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 		r.Verdict = max(r.Verdict, s)
 	}
 	r.CellFields = append(r.CellFields, Field{"status", status}, Field{"defects", defects})
-	r.FaceFields = []Field{{"face_length", ff.length}, {"non_orthogonality", ff.nonOrth}, {"skewness", ff.skewness()}}
+	r.FaceFields = []Field{{"face_length", ff.length}, {"non_orthogonality", ff.nonOrth}, {"skewness", ff.skew}}
 	for _, s := range nodeStatus {
 		if s == Fail {
 			r.FailedNodes++

@@ -195,7 +195,7 @@ func angleKey(cr, dt, ll float64) float64 {
 // cornerAngle returns the interior angle in degrees, in [0, 360), of a
 // corner given its (cross, dot) pair.
 func cornerAngle(cd [2]float64) float64 {
-	a := math.Atan2(cd[0], cd[1]) * rad2deg
+	a := atan2(cd[0], cd[1]) * rad2deg
 	if a < 0 {
 		a += 360
 	}

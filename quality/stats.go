@@ -9,12 +9,18 @@ type partial struct {
 	worst                 []Located
 }
 
-// scan summarises the values v = values[lo:lo+len(v)] of metric d against
-// bound b: count, extremes, sums, graded counts and the k worst entries,
-// raising status[lo+i] to the grade of each value. NaN (not applicable)
-// is skipped.
-func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status []Status) {
+// start empties p, ready for scan.
+func (p *partial) start() {
 	*p = partial{min: math.Inf(1), max: math.Inf(-1)}
+}
+
+// scan adds the values v = values[lo:lo+len(v)] of metric d to the
+// summary p, graded against bound b: count, extremes, sums, graded counts
+// and the k worst entries, raising status[lo+i] to the grade of each
+// value. NaN (not applicable) is skipped. A chunk may be scanned in
+// consecutive pieces, in index order: the sums then run in the same order
+// as one scan of the whole chunk, so the result is the same.
+func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status []Status) {
 	// Flip the sign of lower-is-worse metrics so that one loop serves both:
 	// larger y = sign·x is always worse.
 	sign := 1.0
@@ -24,10 +30,13 @@ func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status
 	warn, fail := sign*b.Warn, sign*b.Fail
 	// cut is the value an entry must beat to join a full worst list.
 	cut := math.Inf(-1)
-	if k == 0 {
+	switch {
+	case k == 0:
 		cut = math.Inf(1)
+	case len(p.worst) == k:
+		cut = sign * float64(p.worst[k-1].Value)
 	}
-	mn, mx, sum, sumsq := p.min, p.max, 0.0, 0.0
+	mn, mx, sum, sumsq := p.min, p.max, p.sum, p.sumsq
 	for i, x := range v {
 		if x != x {
 			continue

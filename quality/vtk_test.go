@@ -8,7 +8,6 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
-	"strconv"
 	"strings"
 	"testing"
 
@@ -80,15 +79,13 @@ func writeLegacyVTK(t testing.TB, path string, m *mesh.Mesh) {
 }
 
 // vtkQualityScript runs the VTK library's mesh-quality filter for each
-// measure "Kind:Name" given (Kind Triangle or Quad), timing the filter's
-// Update alone, and writes the per-cell values as little-endian float64 to
-// the output file, measure after measure. It prints, per measure, the
-// wall-clock and the process CPU time of the best of the given number of
-// repeats, in seconds.
+// measure "Kind:Name" given (Kind Triangle or Quad) and writes the per-cell
+// values as little-endian float64 to the output file, measure after
+// measure.
 const vtkQualityScript = `
-import sys, time, numpy, vtk
+import sys, numpy, vtk
 from vtk.util.numpy_support import vtk_to_numpy
-path, out, measures, repeats = sys.argv[1], sys.argv[2], sys.argv[3].split(','), int(sys.argv[4])
+path, out, measures = sys.argv[1], sys.argv[2], sys.argv[3].split(',')
 r = vtk.vtkUnstructuredGridReader()
 r.SetFileName(path)
 r.Update()
@@ -96,43 +93,24 @@ grid = r.GetOutput()
 arrays = []
 for m in measures:
     kind, name = m.split(':')
-    best = None
-    for _ in range(repeats):
-        q = vtk.vtkMeshQuality()
-        q.SetInputData(grid)
-        getattr(q, 'Set%sQualityMeasureTo%s' % (kind, name))()
-        t0, c0 = time.perf_counter(), time.process_time()
-        q.Update()
-        dt, dc = time.perf_counter() - t0, time.process_time() - c0
-        if best is None or dt < best[0]:
-            best = (dt, dc)
+    q = vtk.vtkMeshQuality()
+    q.SetInputData(grid)
+    getattr(q, 'Set%sQualityMeasureTo%s' % (kind, name))()
+    q.Update()
     arrays.append(vtk_to_numpy(q.GetOutput().GetCellData().GetArray('Quality')).astype('<f8'))
-    print(best[0], best[1])
 numpy.concatenate(arrays).tofile(out)
 `
 
-// vtkTime is the wall-clock and CPU time of one filter run, in seconds.
-type vtkTime struct{ wall, cpu float64 }
-
 // runVTKQuality runs vtkQualityScript on m and returns the per-cell values
-// of each measure and the filter time of each.
-func runVTKQuality(t testing.TB, m *mesh.Mesh, measures []string, repeats int) ([][]float64, []vtkTime) {
+// of each measure.
+func runVTKQuality(t testing.TB, m *mesh.Mesh, measures []string) [][]float64 {
 	t.Helper()
 	dir := t.TempDir()
 	in, out := filepath.Join(dir, "mesh.vtk"), filepath.Join(dir, "quality.f64")
 	writeLegacyVTK(t, in, m)
-	cmd := exec.Command(python, "-c", vtkQualityScript, in, out, strings.Join(measures, ","), strconv.Itoa(repeats))
-	stdout, err := cmd.Output()
-	if err != nil {
+	cmd := exec.Command(python, "-c", vtkQualityScript, in, out, strings.Join(measures, ","))
+	if _, err := cmd.Output(); err != nil {
 		t.Fatalf("VTK mesh quality: %v\n%s", err, stderrOf(err))
-	}
-	var times []vtkTime
-	for _, line := range strings.Split(strings.TrimSpace(string(stdout)), "\n") {
-		var w, c float64
-		if _, err := fmt.Sscan(line, &w, &c); err != nil {
-			t.Fatalf("VTK script printed %q: %v", line, err)
-		}
-		times = append(times, vtkTime{w, c})
 	}
 	raw, err := os.ReadFile(out)
 	if err != nil {
@@ -149,7 +127,7 @@ func runVTKQuality(t testing.TB, m *mesh.Mesh, measures []string, repeats int) (
 			vals[k][c] = math.Float64frombits(binary.LittleEndian.Uint64(raw[8*(k*nc+c):]))
 		}
 	}
-	return vals, times
+	return vals
 }
 
 func stderrOf(err error) string {
@@ -176,7 +154,7 @@ func TestShapeAgainstVTK(t *testing.T) {
 	for _, tc := range cases {
 		m := build(t, gridNodes(40, 30, [2]float64{3, -1}, [2]float64{0.05, 0.01}, [2]float64{-0.01, 0.04}, 0.3), quadCells(40, 30, tc.tri), true)
 		r := evaluate(t, m)
-		vals, _ := runVTKQuality(t, m, tc.measures, 1)
+		vals := runVTKQuality(t, m, tc.measures)
 		for k, name := range tc.fields {
 			ours := field(t, r, name)
 			worst := 0.0

@@ -164,6 +164,14 @@ func (opt *SmoothOptions) normalise(b *Block) error {
 		if c.controlled() && c.Mode != Fixed {
 			return fmt.Errorf("structured: block %q %s side: first-height and orthogonality control need fixed nodes, the side is set to %s", b.Name, side, c.Mode)
 		}
+		if c.Mode == Slide {
+			p := b.SidePoints(side)
+			for e := 1; e < len(p); e++ {
+				if p[e] == p[e-1] {
+					return fmt.Errorf("structured: block %q %s side: edge %d has zero length, so its nodes cannot slide along it", b.Name, side, e-1)
+				}
+			}
+		}
 	}
 	if opt.MaxIterations == 0 {
 		opt.MaxIterations = 5000
@@ -406,7 +414,7 @@ func (s *smoother) controlRows(j int) bool {
 func (s *smoother) sweep() float64 {
 	ni, nj := s.ni, s.nj
 	x, y := s.x, s.y
-	om := s.omega
+	hom := 0.5 * s.omega
 	worst := 0.0
 	// Thomas–Middlecoff part: φ = φ_S + η (φ_N − φ_S), ψ = ψ_W + ξ (ψ_E − ψ_W);
 	// none while untangling (pure Winslow, whose mapping is folding-free).
@@ -459,9 +467,10 @@ func (s *smoother) sweep() float64 {
 				if !(al+ga > 0) {
 					continue // all neighbours on the node: no direction to move in
 				}
-				inv := om * 0.5 / (al + ga)
-				dx := (al*(ex+wx+phi*xxi) + ga*(nx+sx+psi*xeta) - 2*be*xxe) * inv
-				dy := (al*(ey+wy+phi*yxi) + ga*(ny+sy+psi*yeta) - 2*be*yxe) * inv
+				inv := hom / (al + ga)
+				be2 := be + be
+				dx := (al*(ex+wx+phi*xxi) + ga*(nx+sx+psi*xeta) - be2*xxe) * inv
+				dy := (al*(ey+wy+phi*yxi) + ga*(ny+sy+psi*yeta) - be2*yxe) * inv
 
 				h := al
 				if ga < h {
@@ -597,6 +606,11 @@ func (s *smoother) wallFrame(sd mesh.Side, k int) (dx, dy, tx, ty, nx, ny float6
 	}
 	tx, ty = s.x[c]-s.x[a], s.y[c]-s.y[a]
 	l := math.Hypot(tx, ty)
+	if l == 0 {
+		// The side doubles back on itself here: no tangent. A zero
+		// tangent gives zero height, which the callers skip.
+		return 0, 0, 0, 0, 0, 0
+	}
 	tx, ty = tx/l, ty/l
 	// The block lies left of south and east (walked in increasing index),
 	// right of north and west.

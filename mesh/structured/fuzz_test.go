@@ -58,6 +58,14 @@ func FuzzTFISmoothAssemble(f *testing.F) {
 	binary.LittleEndian.PutUint64(seed[16:], math.Float64bits(math.NaN()))
 	f.Add(uint8(3), uint8(7), seed)
 	f.Fuzz(func(t *testing.T, ns, nw uint8, data []byte) {
+		// The low bits of ns and nw also pick a side to slide and a side to
+		// control.
+		var opt SmoothOptions
+		opt.MaxIterations = 50
+		opt.Sides[(ns>>4)%4].Mode = Slide
+		if c := (nw >> 4) % 4; c != (ns>>4)%4 {
+			opt.Sides[c] = SideControl{FirstHeight: 0.01 + float64(nw>>6)*0.05, Orthogonal: true}
+		}
 		b, err := TFI(sidesFrom(ns, nw, data))
 		if err != nil {
 			return
@@ -68,7 +76,7 @@ func FuzzTFISmoothAssemble(f *testing.F) {
 		if n, _, _ := inverted(b); n > 0 {
 			return
 		}
-		if _, err := Smooth(b, SmoothOptions{MaxIterations: 50}); err != nil {
+		if _, err := Smooth(b, opt); err != nil {
 			return
 		}
 		if n, i, j := inverted(b); n > 0 {
