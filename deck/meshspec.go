@@ -19,6 +19,8 @@ type meshSpec struct {
 	maxCells int
 	// structured: blocks over named curves.
 	blocks []blockSpec
+	// jointSmooth smooths the smoothed blocks together, shared sides and all.
+	jointSmooth bool
 	// grow: grids marched off bodies and walls, joined to the blocks.
 	grow []growSpec
 	// unstructured: the outline meshed by the unstructured mesher.
@@ -81,6 +83,11 @@ func decodeMesh(c *Case, v value) (*meshSpec, error) {
 	so, err := sv.object()
 	if err != nil {
 		return nil, err
+	}
+	if jv, ok := so.get("smooth_across_interfaces"); ok {
+		if ms.jointSmooth, err = jv.boolean(); err != nil {
+			return nil, err
+		}
 	}
 	var items []value
 	if bv, ok := so.get("blocks"); ok {

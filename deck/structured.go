@@ -340,14 +340,10 @@ func (ms *meshSpec) buildStructured() (*mesh.Mesh, []string, error) {
 		if err != nil {
 			return nil, nil, bs.at.wrap(fmt.Errorf("block %q: %w", bs.name, err))
 		}
-		if bs.smooth != nil {
-			res, err := structured.Smooth(blk, bs.smooth.opt)
-			if err != nil {
-				return nil, nil, bs.smooth.at.wrap(fmt.Errorf("block %q: %w", bs.name, err))
-			}
-			notes = append(notes, smoothNote(bs.name, res))
-		}
 		blocks = append(blocks, blk)
+	}
+	if err := ms.smoothBlocks(blocks, &notes); err != nil {
+		return nil, nil, err
 	}
 	for i := range ms.grow {
 		bs, note, err := ms.grow[i].build()
@@ -362,6 +358,50 @@ func (ms *meshSpec) buildStructured() (*mesh.Mesh, []string, error) {
 		return nil, nil, ms.at.wrap(err)
 	}
 	return m, notes, nil
+}
+
+// smoothBlocks smooths the blocks that ask for it. Each block is smoothed
+// with its sides held, unless the case says smooth_across_interfaces:
+// then the smoothed blocks are smoothed together and the sides they share
+// move with them (grid lines cross the interfaces without a kink); a side
+// shared with a block that is not smoothed stays put either way. Where
+// three or more blocks meet at a corner, moving the shared sides can skew
+// the cells next to it, so joint smoothing is a choice, not the default.
+func (ms *meshSpec) smoothBlocks(blocks []*structured.Block, notes *[]string) error {
+	var smoothed []*structured.Block
+	var opts []structured.SmoothOptions
+	var which []int
+	for b, bs := range ms.blocks {
+		if bs.smooth != nil {
+			smoothed = append(smoothed, blocks[b])
+			opts = append(opts, bs.smooth.opt)
+			which = append(which, b)
+		}
+	}
+	if len(smoothed) == 0 {
+		return nil
+	}
+	var results []structured.SmoothResult
+	if ms.jointSmooth {
+		r, err := structured.SmoothBlocks(smoothed, opts)
+		if err != nil {
+			return ms.blocks[which[0]].smooth.at.wrap(err)
+		}
+		results = r
+	} else {
+		for k, blk := range smoothed {
+			r, err := structured.Smooth(blk, opts[k])
+			if err != nil {
+				bs := ms.blocks[which[k]]
+				return bs.smooth.at.wrap(fmt.Errorf("block %q: %w", bs.name, err))
+			}
+			results = append(results, r)
+		}
+	}
+	for k, r := range results {
+		*notes = append(*notes, smoothNote(ms.blocks[which[k]].name, r))
+	}
+	return nil
 }
 
 // smoothNote says how a block's smoothing went.

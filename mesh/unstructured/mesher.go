@@ -35,10 +35,17 @@ import (
 // split edges; the pieces keep the edge's tag), every boundary face
 // carries its edge's tag, and cells are counter-clockwise.
 //
-// The steps: validate and flatten the outline; constrained Delaunay
-// triangulation of its points and edges; Delaunay refinement to the
-// minimum angle and the size field (see refiner and sizeField); boundary
-// layers and quad pairing when asked for; mesh.Build.
+// The steps: validate and flatten the outline; boundary layers when asked
+// for, which leave a smaller region whose top edges may not be split;
+// an estimate of the cell count from the size field, refused above
+// MaxCells before anything large is allocated; the constrained Delaunay
+// triangulation of the region; Delaunay refinement to the minimum angle
+// and the size field (see refiner and sizeField); quad pairing when asked
+// for; mesh.Build.
+//
+// Node order: the outline's points first, loop by loop in outline order,
+// then the layer nodes, then the points refinement inserted. Cell order:
+// the layer cells, then the triangles (and paired quadrilaterals).
 func Mesh(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, error) {
 	opt, err := opt.withDefaults()
 	if err != nil {

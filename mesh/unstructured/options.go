@@ -63,6 +63,11 @@ type Region struct {
 }
 
 // Layers asks for quadrilateral boundary layers on the walls tagged Tags.
+// Layers get fewer (down to none) where they would come within reach of
+// another boundary or of other layers. Where a wall ends beside an edge
+// that is not a wall, within 50° of the layer normal, the layers grow
+// along that edge's first piece (up to 45% of its length); otherwise they
+// taper to nothing at the wall's end.
 type Layers struct {
 	// Tags are the boundary tags the layers grow from.
 	Tags []string
