@@ -2,10 +2,7 @@ package deck
 
 import (
 	"bytes"
-	"encoding/xml"
-	"errors"
 	"fmt"
-	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -50,12 +47,15 @@ func readSketch(path string, data []byte, r sketchRead) (geometry.Outline, error
 	case "wkt":
 		outs, err = geometry.ReadWKT(string(data), geometry.PolygonTags{})
 	case "svg":
-		var d string
-		if d, err = svgPathData(data); err == nil {
-			var o geometry.Outline
-			o, err = geometry.ReadSVGPath(d, geometry.SVGOptions{Scale: 1, FlipY: r.flipY, Tags: r.tags})
-			outs = []geometry.Outline{o}
+		// An SVG document (from a drawing program) or bare path data.
+		opt := geometry.SVGOptions{Scale: 1, FlipY: r.flipY, Tags: r.tags}
+		var o geometry.Outline
+		if strings.HasPrefix(strings.TrimSpace(string(data)), "<") {
+			o, err = geometry.ReadSVGDocument(bytes.NewReader(data), opt)
+		} else {
+			o, err = geometry.ReadSVGPath(string(data), opt)
 		}
+		outs = []geometry.Outline{o}
 	case "points":
 		var pl *geometry.Polyline
 		var closed bool
@@ -85,37 +85,6 @@ func readSketch(path string, data []byte, r sketchRead) (geometry.Outline, error
 
 func sketchExtensions() string {
 	return ".geojson/.json (GeoJSON), .wkt (WKT), .svg (SVG path data) or .xy/.txt/.dat/.csv (x y points)"
-}
-
-// svgPathData returns raw path data as it is, or the d attributes of the
-// path elements of an SVG document joined in document order.
-func svgPathData(data []byte) (string, error) {
-	text := strings.TrimSpace(string(data))
-	if !strings.HasPrefix(text, "<") {
-		return text, nil
-	}
-	dec := xml.NewDecoder(bytes.NewReader(data))
-	var parts []string
-	for {
-		tok, err := dec.Token()
-		if errors.Is(err, io.EOF) {
-			break
-		}
-		if err != nil {
-			return "", fmt.Errorf("not a readable SVG document: %w", err)
-		}
-		if se, ok := tok.(xml.StartElement); ok && se.Name.Local == "path" {
-			for _, a := range se.Attr {
-				if a.Name.Local == "d" {
-					parts = append(parts, a.Value)
-				}
-			}
-		}
-	}
-	if len(parts) == 0 {
-		return "", fmt.Errorf("the SVG document has no path element with a d attribute")
-	}
-	return strings.Join(parts, " "), nil
 }
 
 // decodeSketchRef reads a geometry section that points at a sketch file:

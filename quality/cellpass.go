@@ -171,16 +171,15 @@ func (s *faceSummary) gather(fa *faceArrays, c int) {
 		if uint(f) >= uint(nf) {
 			continue // never: buildCellFaces lists faces of the mesh
 		}
-		if x := length[f]; x < minLen {
-			minLen = x
-		}
-		if x := nonOrth[f]; x > maxNO {
-			maxNO = x
-		}
+		// The running extremes are updated by pick, without branches: the
+		// order of a cell's face values is random.
+		x := length[f]
+		minLen = pick(x < minLen, x, minLen)
+		x = nonOrth[f]
+		maxNO = pick(x > maxNO, x, maxNO)
 		t := cross[f]
-		if x := math.Abs(t); x > maxSkew {
-			maxSkew = x
-		}
+		x = math.Abs(t)
+		maxSkew = pick(x > maxSkew, x, maxSkew)
 		l := faceLength[f]
 		n := normal[f]
 		mf := mid[f]
@@ -195,12 +194,8 @@ func (s *faceSummary) gather(fa *faceArrays, c int) {
 				sl = -l
 			}
 			ao := math.Abs(fa.area[other])
-			if ao < minAo {
-				minAo = ao
-			}
-			if ao > maxAo {
-				maxAo = ao
-			}
+			minAo = pick(ao < minAo, ao, minAo)
+			maxAo = pick(ao > maxAo, ao, maxAo)
 			// x_ip − c = (m_f − c) + t (b − a), b − a = |S_f| (−n_y, n_x).
 			qx -= t * l * n[1]
 			qy += t * l * n[0]
@@ -247,4 +242,11 @@ func (s *faceSummary) gather(fa *faceArrays, c int) {
 		s.closure, s.freeStream = math.Inf(1), math.Inf(1) // every face of zero length
 	}
 	s.gradient = e
+}
+
+// pick returns a if c, else b, by bit masking rather than a branch. It is
+// exactly "if c { return a }; return b", signed zeros and NaN included.
+func pick(c bool, a, b float64) float64 {
+	ab, bb := math.Float64bits(a), math.Float64bits(b)
+	return math.Float64frombits(bb ^ (ab^bb)&-uint64(b2i(c)))
 }

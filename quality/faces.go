@@ -13,10 +13,9 @@ type faceFields struct {
 	// nonOrth is the non-orthogonality angle in degrees.
 	nonOrth []float64
 	// cross is the signed position t of the point x_ip = m_f + t (b − a)
-	// where the centroid line crosses the face.
+	// where the centroid line crosses the face, until skewness turns it
+	// into the skewness |t| in place.
 	cross []float64
-	// skew is the skewness |t|.
-	skew []float64
 	// shortestPart is the shortest non-zero face length of each chunk.
 	shortestPart []float64
 }
@@ -64,7 +63,6 @@ func computeFaces(m *mesh.Mesh) faceFields {
 		length:       make([]float64, nf),
 		nonOrth:      make([]float64, nf),
 		cross:        make([]float64, nf),
-		skew:         make([]float64, nf),
 		shortestPart: make([]float64, (nf+chunk-1)/chunk),
 	}
 	forChunks(nf, func(lo, hi int) {
@@ -96,7 +94,6 @@ func computeFaces(m *mesh.Mesh) faceFields {
 				t = math.Inf(1) // zero-length face with a degenerate centroid line
 			}
 			ff.cross[f] = t
-			ff.skew[f] = math.Abs(t)
 			if dt < 0 {
 				l = -l
 			}
@@ -105,6 +102,18 @@ func computeFaces(m *mesh.Mesh) faceFields {
 		ff.shortestPart[lo/chunk] = short
 	})
 	return ff
+}
+
+// skewness turns cross into the skewness |t| of every face, in place (so
+// that no second face array is allocated), and returns it. The signed
+// values are gone afterwards.
+func (ff *faceFields) skewness() []float64 {
+	forChunks(len(ff.cross), func(lo, hi int) {
+		for f := lo; f < hi; f++ {
+			ff.cross[f] = math.Abs(ff.cross[f])
+		}
+	})
+	return ff.cross
 }
 
 // cellFaces is the list of faces of each cell in CSR form, each list in

@@ -221,7 +221,7 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 		r.Verdict = max(r.Verdict, s)
 	}
 	r.CellFields = append(r.CellFields, Field{"status", status}, Field{"defects", defects})
-	r.FaceFields = []Field{{"face_length", ff.length}, {"non_orthogonality", ff.nonOrth}, {"skewness", ff.skew}}
+	r.FaceFields = []Field{{"face_length", ff.length}, {"non_orthogonality", ff.nonOrth}, {"skewness", ff.skewness()}}
 	for _, s := range nodeStatus {
 		if s == Fail {
 			r.FailedNodes++

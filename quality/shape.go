@@ -140,31 +140,23 @@ func (s *cellShape) triangle(p0, p1, p2 orb.Point, area float64) {
 	// Edge k runs from p_k to p_{k+1}; the corner opposite it is p_{k+2}.
 	// Corner p_j lies between incoming edge e_{j−1} and outgoing edge e_j:
 	// with v = e_j and u = −e_{j−1}, v × u = e_{j−1} × e_j and
-	// v · u = −e_{j−1} · e_j.
-	corner := func(k int) [2]float64 {
-		switch k {
-		case 0: // opposite e0: corner p2, between e1 and e2
-			return [2]float64{e1x*e2y - e1y*e2x, -(e1x*e2x + e1y*e2y)}
-		case 1: // corner p0, between e2 and e0
-			return [2]float64{e2x*e0y - e2y*e0x, -(e2x*e0x + e2y*e0y)}
-		}
-		return [2]float64{e0x*e1y - e0y*e1x, -(e0x*e1x + e0y*e1y)} // corner p1
+	// v · u = −e_{j−1} · e_j. corners[k] is the (cross, dot) pair of the
+	// corner opposite edge k.
+	corners := [3][2]float64{
+		{e1x*e2y - e1y*e2x, -(e1x*e2x + e1y*e2y)}, // corner p2, between e1 and e2
+		{e2x*e0y - e2y*e0x, -(e2x*e0x + e2y*e0y)}, // corner p0, between e2 and e0
+		{e0x*e1y - e0y*e1x, -(e0x*e1x + e0y*e1y)}, // corner p1, between e0 and e1
 	}
-	kmin, kmax := 0, 0
-	qmin, qmax := q0, q0
-	if q1 < qmin {
-		kmin, qmin = 1, q1
-	}
-	if q1 > qmax {
-		kmax, qmax = 1, q1
-	}
-	if q2 < qmin {
-		kmin, qmin = 2, q2
-	}
-	if q2 > qmax {
-		kmax, qmax = 2, q2
-	}
-	a, b := cornerAngle(corner(kmin)), cornerAngle(corner(kmax))
+	// The shortest and longest edges, the first of equals, chosen by
+	// index arithmetic rather than branches, which the random shapes of a
+	// mesh would mispredict.
+	q := [3]float64{q0, q1, q2}
+	kmin := b2i(q1 < q0)
+	kmin += (2 - kmin) * b2i(q2 < q[kmin])
+	kmax := b2i(q1 > q0)
+	kmax += (2 - kmax) * b2i(q2 > q[kmax])
+	qmin, qmax := q[kmin], q[kmax]
+	a, b := cornerAngle(corners[kmin]), cornerAngle(corners[kmax])
 	if qmin == 0 {
 		a = 0 // a zero-length edge: a 0° corner
 	}

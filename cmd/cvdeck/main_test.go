@@ -171,6 +171,23 @@ func TestSketchStraightToMesh(t *testing.T) {
 	if code, out, errs = cvdeck(t, "mesh", casePath, "-o", filepath.Join(dir, "deck2"), "--format", "vtu"); code != 0 {
 		t.Fatalf("mesh of the written case: exit %d\n%s\n%s", code, out, errs)
 	}
+	// An SVG drawing: a duct path and a circle, tagged by their ids, y
+	// flipped, millimetres scaled to metres.
+	svg := filepath.Join(dir, "duct.svg")
+	drawing := `<svg xmlns="http://www.w3.org/2000/svg"><path id="duct" d="M 0 0 L 200 0 L 200 60 Q 100 100 0 60 Z"/><circle id="probe" cx="60" cy="30" r="8"/></svg>`
+	if err := os.WriteFile(svg, []byte(drawing), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	svgDeck := filepath.Join(dir, "svgdeck")
+	if code, out, errs = cvdeck(t, "mesh", svg, "--flip-y", "--scale", "0.001", "--size", "0.005", "-o", svgDeck, "--format", "manifest"); code != 0 {
+		t.Fatalf("SVG sketch: exit %d\n%s\n%s", code, out, errs)
+	}
+	data, _ = os.ReadFile(filepath.Join(svgDeck, "deck.yaml"))
+	for _, want := range []string{"tag: duct", "tag: probe"} {
+		if !strings.Contains(string(data), want) {
+			t.Errorf("SVG deck.yaml lacks %q", want)
+		}
+	}
 	// A bow-tie ring: exit 2, located at the ring and vertex, nothing written.
 	bad := filepath.Join(dir, "bowtie.geojson")
 	if err := os.WriteFile(bad, []byte(`{"type": "Polygon", "coordinates": [[[0, 0], [1, 1], [1, 0], [0, 1], [0, 0]]]}`), 0o644); err != nil {

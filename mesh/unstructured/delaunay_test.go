@@ -50,13 +50,18 @@ func checkEmptyCircles(t *testing.T, pts []orb.Point, tris []int32) {
 		}
 	}
 	hull := hullArea(pts)
-	if math.Abs(area-hull) > 1e-9*hull {
+	b := orb.MultiPoint(pts).Bound()
+	scale := (b.Max[0] - b.Min[0]) * (b.Max[1] - b.Min[1])
+	if math.Abs(area-hull) > 1e-9*hull+1e-14*scale {
 		t.Fatalf("triangles cover area %.15g, convex hull has %.15g", area, hull)
 	}
 }
 
 // hullArea returns the area of the convex hull (Andrew 1979).
 func hullArea(pts []orb.Point) float64 {
+	if len(pts) < 3 {
+		return 0
+	}
 	p := slices.Clone(pts)
 	slices.SortFunc(p, func(a, b orb.Point) int {
 		if a[0] != b[0] {
@@ -321,4 +326,41 @@ func TestConstrainedDelaunay(t *testing.T) {
 		t.Fatal(err)
 	}
 	checkConstrainedDelaunay(t, tr)
+}
+
+// FuzzDelaunay triangulates up to 64 points decoded from bytes, on a
+// coarse 16 × 16 lattice so that collinear, cocircular and repeated points
+// are common (in float64 the lattice of 0.1 steps is not exactly
+// collinear, which makes slivers too), and checks the empty-circle
+// property and the hull area; the only acceptable error is for inputs
+// with no three points off one line.
+func FuzzDelaunay(f *testing.F) {
+	f.Add([]byte{0x00, 0x0f, 0xf0, 0xff, 0x88})
+	f.Add([]byte{0x11, 0x22, 0x33, 0x44, 0x55, 0x66})
+	f.Add([]byte{0x00, 0x01, 0x10, 0x11, 0x02, 0x20, 0x22, 0x12, 0x21})
+	f.Fuzz(func(t *testing.T, data []byte) {
+		if len(data) > 64 {
+			data = data[:64]
+		}
+		pts := make([]orb.Point, len(data))
+		for i, b := range data {
+			pts[i] = orb.Point{float64(b>>4) * 0.1, float64(b&15) * 0.1}
+		}
+		tris, err := Delaunay(pts)
+		if err != nil {
+			// Refusal is right only if no three points are off one line
+			// (exactly, in float64).
+			for i := range pts {
+				for j := range pts {
+					for k := range pts {
+						if predicates.Orient2d(pts[i][0], pts[i][1], pts[j][0], pts[j][1], pts[k][0], pts[k][1]) != 0 {
+							t.Fatalf("points %d, %d, %d are not collinear, yet: %v", i, j, k, err)
+						}
+					}
+				}
+			}
+			return
+		}
+		checkEmptyCircles(t, pts, tris)
+	})
 }
