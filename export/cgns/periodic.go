@@ -67,6 +67,9 @@ func (d *Deck) validatePeriodic(byTag map[string]string, inPair map[string]int) 
 			return fmt.Errorf("cgns: %s: translation (%g, %g) must be finite and not zero", where, t[0], t[1])
 		}
 		na, nb := ranges[0][1]-ranges[0][0], ranges[1][1]-ranges[1][0]
+		if na == 0 || nb == 0 {
+			return fmt.Errorf("cgns: %s: tag %q has %d faces and tag %q has %d; a periodic pair needs faces on both sides", where, p.A, na, p.B, nb)
+		}
 		if len(p.Pairs) != na || len(p.Pairs) != nb {
 			return fmt.Errorf("cgns: %s has %d face pairs; tag %q has %d faces and tag %q has %d, and every face needs exactly one partner", where, len(p.Pairs), p.A, na, p.B, nb)
 		}

@@ -332,6 +332,12 @@ func TestPeriodicRejects(t *testing.T) {
 			p := d.Periodic[0].Pairs
 			p[0][1], p[1][1] = p[1][1], p[0][1]
 		}, "the pairs do not match this mesh"},
+		{"tag without faces", func(d *Deck) {
+			d.Mesh.Tags = append(d.Mesh.Tags, "spare")
+			d.Mesh.TagStart = append(d.Mesh.TagStart, d.Mesh.TagStart[len(d.Mesh.TagStart)-1])
+			d.Periodic = append(d.Periodic, Periodic{A: "left", B: "spare", Translation: [2]float64{1, 0}})
+			d.BCs = []BC{{Tag: "right", BCType: "BCWall"}}
+		}, `tag "left" has 4 faces and tag "spare" has 0`},
 		{"tag with itself", func(d *Deck) { d.Periodic[0].B = "bottom" }, "pairs a tag with itself"},
 		{"zero translation", func(d *Deck) { d.Periodic[0].Translation = [2]float64{} }, "translation (0, 0) must be finite and not zero"},
 		{"NaN translation", func(d *Deck) { d.Periodic[0].Translation[0] = math.NaN() }, "must be finite"},

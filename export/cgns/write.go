@@ -22,10 +22,12 @@ import (
 //
 // Layout: one base (cell and physical dimension 2) named Deck.Name, with
 // DataClass Dimensional and DimensionalUnits SI (Kilogram, Meter, Second,
-// Kelvin, Radian), one Family_t with a FamilyBC per boundary tag, the
-// FlowEquationSet and ReferenceState from Deck.Flow, and either one
-// unstructured zone (see (*writer).unstructured) or one structured zone
-// per block (see (*writer).structured).
+// Kelvin, Radian), one Family_t per boundary tag (with a FamilyBC, except
+// for the tags of periodic pairs), the FlowEquationSet and ReferenceState
+// from Deck.Flow, and either one unstructured zone (see
+// (*writer).unstructured) or one structured zone per block (see
+// (*writer).structured). Periodic pairs are written as connectivity with
+// a Periodic_t (see Periodic).
 func Write(path string, d *Deck) (string, error) {
 	pl, err := d.validate()
 	if err != nil {
