@@ -298,10 +298,20 @@ func cgnsDeck(c *Case, m *mesh.Mesh, assign *bc.Assignment, fields []vtk.Field) 
 	d := &cgns.Deck{Mesh: m, Name: cgnsName(c.Name)}
 	for t, tag := range m.Tags {
 		typ := "BCTypeUserDefined"
-		if assign != nil && assign.Conditions[t].Kind.CGNSType() != "" {
-			typ = assign.Conditions[t].Kind.CGNSType()
+		if assign != nil {
+			if assign.Conditions[t].Kind == bc.Periodic {
+				continue // written as connectivity below
+			}
+			if ct := assign.Conditions[t].Kind.CGNSType(); ct != "" {
+				typ = ct
+			}
 		}
 		d.BCs = append(d.BCs, cgns.BC{Tag: tag, BCType: typ})
+	}
+	if assign != nil {
+		for _, p := range assign.Periodic {
+			d.Periodic = append(d.Periodic, cgns.Periodic{A: p.A, B: p.B, Translation: [2]float64{p.Translation[0], p.Translation[1]}, Pairs: p.Pairs})
+		}
 	}
 	if c.Reference != nil {
 		s := c.Reference.state

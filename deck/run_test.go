@@ -5,12 +5,14 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
+	"math"
 	"os"
 	"path/filepath"
 	"sort"
 	"strings"
 	"testing"
 
+	"cvdeck/export/cgns"
 	"cvdeck/export/manifest"
 )
 
@@ -125,8 +127,17 @@ func TestPeriodicPairIsVerified(t *testing.T) {
 		t.Fatal(err)
 	}
 	dir := filepath.Join(t.TempDir(), "deck")
-	if _, err := Run(c, dir, RunOptions{Formats: []string{"manifest"}}); err != nil {
+	if _, err := Run(c, dir, RunOptions{Formats: []string{"cgns", "manifest"}}); err != nil {
 		t.Fatal(err)
+	}
+	// The CGNS file carries the pair as connectivity (read back through
+	// the library).
+	back, err := cgns.ReadDeck(filepath.Join(dir, "mesh.cgns"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(back.Periodic) != 1 || len(back.Periodic[0].Pairs) != 4 || math.Abs(back.Periodic[0].Translation[1]+0.01) > 1e-9 {
+		t.Fatalf("CGNS periodic pairs read back: %+v", back.Periodic)
 	}
 	data, _ := os.ReadFile(filepath.Join(dir, manifest.FileName))
 	if !strings.Contains(string(data), "partner: lower") || !strings.Contains(string(data), "kind: periodic") {

@@ -28,8 +28,15 @@ type Deck struct {
 	// Name is the CGNS base name (at most 32 characters, no '/');
 	// "Base" if empty.
 	Name string
-	// BCs gives the boundary condition of every boundary tag of the mesh.
+	// BCs gives the boundary condition of every boundary tag of the mesh
+	// that is not in a periodic pair; a periodic tag takes none.
 	BCs []BC
+	// Periodic are the periodic pairs of boundary tags, written as
+	// connectivity with a Periodic_t translation rather than as BCs: in
+	// an unstructured zone as two Abutting1to1 GridConnectivity_t (see
+	// (*writer).unstructuredPeriodic), in structured zones as 1-to-1
+	// periodic joins of whole block sides (see structuredPeriodic).
+	Periodic []Periodic
 	// Flow is the reference (free-stream) state and gas model; nil writes
 	// neither FlowEquationSet nor ReferenceState.
 	Flow *FlowState
@@ -124,12 +131,35 @@ func checkName(what, s string) error {
 	return nil
 }
 
-// validate checks the deck before anything is written and returns the
-// BCType of every mesh tag, in tag order.
-func (d *Deck) validate() ([]C.BCType_t, error) {
+// plan is what validation works out before anything is written: the
+// BCType of every mesh tag, in tag order (periodicTag for the tags of a
+// periodic pair), and the periodic joins of a structured deck.
+type plan struct {
+	bcTypes []C.BCType_t
+	joins   []periodicJoin
+}
+
+// validate checks the deck before anything is written.
+func (d *Deck) validate() (*plan, error) {
 	if d == nil || d.Mesh == nil {
 		return nil, fmt.Errorf("cgns: deck has no mesh")
 	}
+	types, err := d.validateTags()
+	if err != nil {
+		return nil, err
+	}
+	pl := &plan{bcTypes: types}
+	if d.structured() {
+		if pl.joins, err = structuredPeriodic(d.Mesh, d.Periodic); err != nil {
+			return nil, fmt.Errorf("cgns: %w", err)
+		}
+	}
+	return pl, nil
+}
+
+// validateTags checks everything but the structured periodic joins and
+// returns the BCType of every mesh tag (see plan).
+func (d *Deck) validateTags() ([]C.BCType_t, error) {
 	m := d.Mesh
 	if m.NumCells() == 0 {
 		return nil, fmt.Errorf("cgns: mesh has no cells")
@@ -156,6 +186,10 @@ func (d *Deck) validate() ([]C.BCType_t, error) {
 		}
 		byTag[bc.Tag] = bc.BCType
 	}
+	inPair := map[string]int{}
+	if err := d.validatePeriodic(byTag, inPair); err != nil {
+		return nil, err
+	}
 	types := make([]C.BCType_t, len(m.Tags))
 	for t, tag := range m.Tags {
 		if err := checkName("boundary tag", tag); err != nil {
@@ -164,9 +198,13 @@ func (d *Deck) validate() ([]C.BCType_t, error) {
 		if reservedZoneChild[tag] || reservedBaseChild[tag] {
 			return nil, fmt.Errorf("cgns: boundary tag %q is also the name of a standard CGNS node of the deck; rename the tag", tag)
 		}
+		if _, ok := inPair[tag]; ok {
+			types[t] = periodicTag
+			continue
+		}
 		name, ok := byTag[tag]
 		if !ok {
-			return nil, fmt.Errorf("cgns: boundary tag %q has no boundary condition; give it a CGNS BCType such as BCWall or BCFarfield", tag)
+			return nil, fmt.Errorf("cgns: boundary tag %q has no boundary condition; give it a CGNS BCType such as BCWall or BCFarfield, or put it in a periodic pair", tag)
 		}
 		bt, err := bcTypeByName(name)
 		if err != nil {

@@ -19,6 +19,7 @@ var (
 	expViscosity   = [5]float64{1, -1, -1, 0, 0} // Pa s = kg m⁻¹ s⁻¹
 	expGasConstant = [5]float64{0, 2, -2, -1, 0} // J kg⁻¹ K⁻¹ = m² s⁻² K⁻¹
 	expLength      = [5]float64{0, 1, 0, 0, 0}   // m
+	expAngle       = [5]float64{0, 0, 0, 0, 1}   // rad
 )
 
 // scalar is one named value written as a DataArray_t of length 1.

@@ -33,11 +33,18 @@ import (
 //     (GridLocation Vertex: every boundary edge with both nodes listed);
 //     its tag is its FamilyName, or its own name if it has none. (This
 //     library version, 3.4, has no FamilyName under Elements_t.)
+//     Each periodic GridConnectivity_t (Periodic_t under its
+//     GridConnectivityProperty_t) tags the BAR_2 faces of its PointList
+//     with its BoundaryTag descriptor, or its name; other connections
+//     are ignored.
 //   - structured: each zone's quadrilaterals, i fastest, zone after zone;
 //     nodes joined by GridConnectivity1to1_t records (PointRange,
 //     PointRangeDonor, Transform) are merged into one node, and the result
 //     keeps the structured view (one mesh.Block per zone, and a
-//     mesh.BlockInterface for every join of two whole sides). A
+//     mesh.BlockInterface for every join of two whole sides). A periodic
+//     join (Periodic_t under its GridConnectivityProperty_t) merges
+//     nothing: its edges are boundary faces tagged with its BoundaryTag
+//     descriptor, or its name. A
 //     left-handed zone's cells are turned counter-clockwise. BCs are
 //     Vertex point ranges or lists, or face ranges (EdgeCenter, the 2D
 //     face location, or IFaceCenter/JFaceCenter).
@@ -50,10 +57,13 @@ func Read(path string) (*mesh.Mesh, error) {
 	return m, err
 }
 
-// ReadDeck reads a CGNS file like Read and also returns the base name and
+// ReadDeck reads a CGNS file like Read and also returns the base name,
 // the boundary condition of every tag: the BCType of its BCs, or for
 // FamilySpecified (and for a boundary family no BC uses) the FamilyBC of
-// its family. Tags whose BCs disagree are an error naming them.
+// its family, and the periodic pairs (see periodicPairs). Tags whose BCs
+// disagree are an error naming them, as is a periodic connection whose
+// faces cannot be paired by a translation (a rotation, faces given by
+// vertices).
 func ReadDeck(path string) (*Deck, error) {
 	r, m, err := open(path)
 	if err != nil {
@@ -77,6 +87,9 @@ func ReadDeck(path string) (*Deck, error) {
 			return nil, fmt.Errorf("cgns: read %s: tag %q has BCs of types %v; one tag takes one boundary condition", path, tag, names)
 		}
 		d.BCs = append(d.BCs, BC{Tag: tag, BCType: bcTypeName(ts[0])})
+	}
+	if d.Periodic, err = r.periodicPairs(m); err != nil {
+		return nil, fmt.Errorf("cgns: read %s: %w", path, err)
 	}
 	return d, nil
 }
@@ -125,6 +138,8 @@ type reader struct {
 	// tags collects tag names in the order of families, then of use.
 	tags  []string
 	tagIx map[string]int16
+	// periodic are the periodic connections found, in file order.
+	periodic []periodicFound
 }
 
 func (r *reader) read() (*mesh.Mesh, error) {

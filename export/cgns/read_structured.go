@@ -29,6 +29,11 @@ type join struct {
 	a, b      int // zone indices
 	rng, drng [4]int32
 	transform [2]int32
+	// periodic marks a periodic join, which merges no nodes; tag is its
+	// boundary tag and found its faces.
+	periodic bool
+	tag      string
+	found    periodicFound
 }
 
 // donorOf maps 1-based index (i, j) of the receiving zone to the donor
@@ -103,6 +108,9 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 			return nil, err
 		}
 		for _, jn := range js {
+			if jn.periodic {
+				continue
+			}
 			a, b := &zones[jn.a], &zones[jn.b]
 			si, sj := step(jn.rng[0], jn.rng[2]), step(jn.rng[1], jn.rng[3])
 			for j := jn.rng[1]; ; j += sj {
@@ -180,11 +188,27 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 	}
 	in.Interfaces = interfaces(joins, zones)
 
-	type tagged struct {
-		tag   string
-		edges [][2]int32
+	var found []taggedEdges
+	for _, jn := range joins {
+		if !jn.periodic {
+			continue
+		}
+		pf := jn.found
+		if pf.unsupported == "" {
+			edges, err := joinEdges(&jn, &zones[jn.a], &zones[jn.b])
+			if err != nil {
+				return nil, err
+			}
+			t := taggedEdges{tag: jn.tag}
+			for _, e := range edges {
+				a := [2]int32{newID[e[0][0]], newID[e[0][1]]}
+				pf.faces = append(pf.faces, [2][2]int32{a, {newID[e[1][0]], newID[e[1][1]]}})
+				t.edges = append(t.edges, a)
+			}
+			found = append(found, t)
+		}
+		r.periodic = append(r.periodic, pf)
 	}
-	var found []tagged
 	for zi := range zones {
 		s := &zones[zi]
 		bcs, err := r.bocos(C.int(zi+1), s.path, 2)
@@ -196,7 +220,7 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 			if err != nil {
 				return nil, err
 			}
-			t := tagged{tag: b.tag}
+			t := taggedEdges{tag: b.tag}
 			for _, e := range edges {
 				t.edges = append(t.edges, [2]int32{newID[e[0]], newID[e[1]]})
 			}
@@ -271,6 +295,16 @@ func (r *reader) joins(z C.int, s *szone, zones []szone, byName map[string]int) 
 		if di, dj := jn.donorOf(jn.rng[2], jn.rng[3]); di != jn.drng[2] || dj != jn.drng[3] {
 			return nil, fmt.Errorf("%s: the Transform %v maps the range end to (%d, %d), not to the donor range end (%d, %d)", jn.path, jn.transform, di, dj, jn.drng[2], jn.drng[3])
 		}
+		pf, ok, err := periodicOf(jn.path, func(c, a, t *C.float) C.int { return C.cg_1to1_periodic_read(r.fn, r.b, z, k, c, a, t) })
+		if err != nil {
+			return nil, err
+		}
+		if ok {
+			jn.periodic, jn.found = true, pf
+			if jn.tag, err = r.connTag(jn.path, C.GoString(&name[0])); err != nil {
+				return nil, err
+			}
+		}
 		out = append(out, jn)
 	}
 	return out, nil
@@ -333,12 +367,15 @@ func (s *szone) fullSide(rng [4]int32) (mesh.Side, bool) {
 	return 0, false
 }
 
-// interfaces lists the joins of two whole sides, once per pair whether
+// interfaces lists the non-periodic joins of two whole sides, once per pair whether
 // the file records a join from one side or from both, with the lower
 // (zone, side) as A.
 func interfaces(joins []join, zones []szone) []mesh.BlockInterface {
 	var out []mesh.BlockInterface
 	for _, jn := range joins {
+		if jn.periodic {
+			continue
+		}
 		sa, ok := zones[jn.a].fullSide(jn.rng)
 		if !ok {
 			continue

@@ -117,11 +117,7 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 	if err != nil {
 		return nil, err
 	}
-	type tagged struct {
-		tag   string
-		edges [][2]int32
-	}
-	var found []tagged
+	var found []taggedEdges
 	var vertexBCs []bcInfo
 	for _, b := range bcs {
 		ids := b.pts
@@ -144,7 +140,7 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 			return nil, fmt.Errorf("%s: GridLocation %s; cvdeck reads boundary faces at EdgeCenter, FaceCenter or Vertex",
 				b.path, C.GoString(C.cg_GridLocationName(b.loc)))
 		}
-		t := tagged{tag: b.tag}
+		t := taggedEdges{tag: b.tag}
 		t.edges = make([][2]int32, 0, len(ids))
 		for i, id := range ids {
 			e, ok := barOf(id)
@@ -170,7 +166,7 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 				}
 				in[v-1] = true
 			}
-			t := tagged{tag: b.tag}
+			t := taggedEdges{tag: b.tag}
 			for f := plain.NumInterior; f < plain.NumFaces(); f++ {
 				if fn := plain.FaceNodes[f]; in[fn[0]] && in[fn[1]] {
 					t.edges = append(t.edges, fn)
@@ -179,6 +175,11 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 			found = append(found, t)
 		}
 	}
+	conns, err := r.unstructuredConns(z, zp, zn, barOf)
+	if err != nil {
+		return nil, err
+	}
+	found = append(found, conns...)
 	used := make([]string, len(found))
 	for i, t := range found {
 		used[i] = t.tag

@@ -160,9 +160,11 @@ func zoneNames(m *mesh.Mesh, structured bool) []string {
 // with its PointRange, PointRangeDonor and Transform (SIDS 8.4); joins are
 // found from shared mesh nodes, so they include the wake cut of a C-type
 // block as well as the joins listed in Mesh.Interfaces, and each is
-// written from both sides. Every run of boundary edges of one tag along a
-// side becomes a BC with a Vertex PointRange and FamilyName the tag.
-func (w *writer) structured(d *Deck, bcTypes []C.BCType_t) error {
+// written from both sides. Periodic pairs of whole block sides become
+// periodic 1-to-1 joins (see structuredPeriodic and blockPeriodic). Every
+// other run of boundary edges of one tag along a side becomes a BC with a
+// Vertex PointRange and FamilyName the tag.
+func (w *writer) structured(d *Deck, bcTypes []C.BCType_t, pjoins []periodicJoin) error {
 	m := d.Mesh
 	names := zoneNames(m, true)
 	bface := make(map[[2]int32]int32, m.NumBoundary())
@@ -200,6 +202,9 @@ func (w *writer) structured(d *Deck, bcTypes []C.BCType_t) error {
 	}
 	for b := range m.Blocks {
 		if err := w.blockJoins(m, b, zs[b], names, onSide); err != nil {
+			return err
+		}
+		if err := w.blockPeriodic(b, zs[b], names, pjoins); err != nil {
 			return err
 		}
 	}
@@ -253,17 +258,8 @@ func (w *writer) blockJoins(m *mesh.Mesh, b int, z C.int, names []string, onSide
 			ei, ej := sideIJ(dblk, p.s, dEnd)
 			rng := []int32{int32(ai + 1), int32(aj + 1), int32(bi + 1), int32(bj + 1)}
 			drng := []int32{int32(di + 1), int32(dj + 1), int32(ei + 1), int32(ej + 1)}
-			var tr [2]int32
-			aa, an := sideAxis(s)
-			ba, bn := sideAxis(p.s)
-			sign := int32(1)
-			if !same {
-				sign = -1
-			}
-			tr[aa-1] = sign * int32(ba)
-			tr[an-1] = int32(outward(s)*-outward(p.s)) * int32(bn)
 			n++
-			if err := w.join(z, names[b], fmt.Sprintf("Join_%d", n), names[p.b], rng, drng, tr); err != nil {
+			if _, err := w.join(z, names[b], fmt.Sprintf("Join_%d", n), names[p.b], rng, drng, transform(s, p.s, same)); err != nil {
 				return err
 			}
 			k = k1
@@ -286,8 +282,9 @@ func partner(m *mesh.Mesh, onSide map[[2]int32][]sideEdge, e sideEdge) (sideEdge
 	return sideEdge{}, false, false
 }
 
-// join writes one GridConnectivity1to1_t (cg_1to1_write).
-func (w *writer) join(z C.int, zone, name, donor string, rng, drng []int32, tr [2]int32) error {
+// join writes one GridConnectivity1to1_t (cg_1to1_write) and returns its
+// index in the zone.
+func (w *writer) join(z C.int, zone, name, donor string, rng, drng []int32, tr [2]int32) (C.int, error) {
 	n, dn := cstr(name), cstr(donor)
 	defer free(n)
 	defer free(dn)
@@ -295,13 +292,13 @@ func (w *writer) join(z C.int, zone, name, donor string, rng, drng []int32, tr [
 	t := [2]C.int{C.int(tr[0]), C.int(tr[1])}
 	var i C.int
 	if err := libError(C.cg_1to1_write(w.fn, w.b, z, n, dn, ip(rng), ip(drng), &t[0], &i), "write 1-to-1 join "+path); err != nil {
-		return err
+		return 0, err
 	}
 	w.sum.text(path, donor)
 	w.sum.ints(path+"/PointRange", rng)
 	w.sum.ints(path+"/PointRangeDonor", drng)
 	w.sum.ints(path+"/Transform", tr[:])
-	return nil
+	return i, nil
 }
 
 // blockBCs writes the point-range BCs of block b.
@@ -320,7 +317,7 @@ func (w *writer) blockBCs(m *mesh.Mesh, b int, z C.int, zone string, bface map[[
 		nk := sideLen(blk, s) - 1
 		for k := 0; k < nk; {
 			t := tagAt(s, k)
-			if t < 0 {
+			if t < 0 || bcTypes[t] == periodicTag {
 				k++
 				continue
 			}

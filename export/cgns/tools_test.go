@@ -23,8 +23,9 @@ func tool(t *testing.T, name string) string {
 }
 
 // cgnscheck runs the CGNS library's checker (Debian cgns-convert) with
-// every warning level on and fails the test on any error or warning.
-func cgnscheck(t *testing.T, path string) {
+// every warning level on, fails the test on any error or warning and
+// returns its report.
+func cgnscheck(t *testing.T, path string) string {
 	t.Helper()
 	out, err := exec.Command(tool(t, "cgnscheck"), "-w3", path).CombinedOutput()
 	text := string(out)
@@ -39,6 +40,7 @@ func cgnscheck(t *testing.T, path string) {
 	if !strings.Contains(text, "checking complete") {
 		t.Fatalf("cgnscheck %s did not complete:\n%s", path, text)
 	}
+	return text
 }
 
 // h5dump reads the whole file with the HDF5 library's own dump tool

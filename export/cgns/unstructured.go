@@ -37,7 +37,9 @@ const unstructuredZone = "Mesh"
 //
 // ZoneBC has one BC per tag, named after the tag, with the BCType of the
 // deck, a PointList of the tag's BAR_2 element numbers at GridLocation
-// EdgeCenter (the face location of a 2D zone) and FamilyName the tag.
+// EdgeCenter (the face location of a 2D zone) and FamilyName the tag; the
+// tags of periodic pairs get none, their faces being written as
+// ZoneGridConnectivity (see unstructuredPeriodic).
 func (w *writer) unstructured(d *Deck, bcTypes []C.BCType_t) error {
 	m := d.Mesh
 	nn, nc := len(m.Nodes), m.NumCells()
@@ -92,7 +94,7 @@ func (w *writer) unstructured(d *Deck, bcTypes []C.BCType_t) error {
 		}
 	}
 	for _, g := range groups {
-		if g.tag < 0 || g.hi == g.lo {
+		if g.tag < 0 || g.hi == g.lo || bcTypes[g.tag] == periodicTag {
 			continue
 		}
 		pts := make([]int32, g.hi-g.lo)
@@ -102,6 +104,9 @@ func (w *writer) unstructured(d *Deck, bcTypes []C.BCType_t) error {
 		if err := w.boco(z, zp, g.name, g.name, bcTypes[g.tag], C.PointList, pts, C.EdgeCenter); err != nil {
 			return err
 		}
+	}
+	if err := w.unstructuredPeriodic(z, zn, nc, d.Periodic); err != nil {
+		return err
 	}
 	return w.cellFields(z, zn, d, []int32{int32(nc)}, func(f int) []float64 { return d.CellFields[f].Values })
 }

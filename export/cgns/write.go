@@ -22,12 +22,14 @@ import (
 //
 // Layout: one base (cell and physical dimension 2) named Deck.Name, with
 // DataClass Dimensional and DimensionalUnits SI (Kilogram, Meter, Second,
-// Kelvin, Radian), one Family_t with a FamilyBC per boundary tag, the
-// FlowEquationSet and ReferenceState from Deck.Flow, and either one
-// unstructured zone (see (*writer).unstructured) or one structured zone
-// per block (see (*writer).structured).
+// Kelvin, Radian), one Family_t per boundary tag (with a FamilyBC, except
+// for the tags of periodic pairs), the FlowEquationSet and ReferenceState
+// from Deck.Flow, and either one unstructured zone (see
+// (*writer).unstructured) or one structured zone per block (see
+// (*writer).structured). Periodic pairs are written as connectivity with
+// a Periodic_t (see Periodic).
 func Write(path string, d *Deck) (string, error) {
-	bcTypes, err := d.validate()
+	pl, err := d.validate()
 	if err != nil {
 		return "", err
 	}
@@ -44,7 +46,7 @@ func Write(path string, d *Deck) (string, error) {
 	// Only the library calls are serialised; the sync and rename of the
 	// finished file run outside the lock, so parallel decks overlap them.
 	libMu.Lock()
-	sum, err := writeFile(tmp, d, bcTypes)
+	sum, err := writeFile(tmp, d, pl)
 	libMu.Unlock()
 	if err == nil {
 		err = syncFile(tmp)
@@ -94,7 +96,7 @@ type writer struct {
 	sum  *contentHash
 }
 
-func writeFile(path string, d *Deck, bcTypes []C.BCType_t) (string, error) {
+func writeFile(path string, d *Deck, pl *plan) (string, error) {
 	if err := libError(C.cg_set_file_type(C.CG_FILE_HDF5), "select HDF5 storage"); err != nil {
 		return "", err
 	}
@@ -104,7 +106,7 @@ func writeFile(path string, d *Deck, bcTypes []C.BCType_t) (string, error) {
 	if err := libError(C.cg_open(p, C.CG_MODE_WRITE, &w.fn), "open "+path); err != nil {
 		return "", err
 	}
-	err := w.deck(d, bcTypes)
+	err := w.deck(d, pl)
 	if cerr := libError(C.cg_close(w.fn), "close "+path); err == nil {
 		err = cerr
 	}
@@ -114,7 +116,8 @@ func writeFile(path string, d *Deck, bcTypes []C.BCType_t) (string, error) {
 	return w.sum.sum(), nil
 }
 
-func (w *writer) deck(d *Deck, bcTypes []C.BCType_t) error {
+func (w *writer) deck(d *Deck, pl *plan) error {
+	bcTypes := pl.bcTypes
 	name := cstr(w.base)
 	defer free(name)
 	if err := libError(C.cg_base_write(w.fn, name, 2, 2, &w.b), "write base "+w.base); err != nil {
@@ -133,7 +136,7 @@ func (w *writer) deck(d *Deck, bcTypes []C.BCType_t) error {
 		}
 	}
 	if d.structured() {
-		return w.structured(d, bcTypes)
+		return w.structured(d, bcTypes, pl.joins)
 	}
 	return w.unstructured(d, bcTypes)
 }
@@ -153,12 +156,21 @@ func (w *writer) units() error {
 }
 
 // families writes one Family_t per boundary tag, each with a FamilyBC of
-// the tag's BCType, so BCs can refer to their tag by FamilyName.
+// the tag's BCType, so BCs can refer to their tag by FamilyName; the
+// family of a periodic tag has no FamilyBC, its faces being connectivity.
 func (w *writer) families(tags []string, bcTypes []C.BCType_t) error {
 	for t, tag := range tags {
 		name := cstr(tag)
 		var f, bc C.int
 		err := libError(C.cg_family_write(w.fn, w.b, name, &f), "write family /"+w.base+"/"+tag)
+		if bcTypes[t] == periodicTag {
+			free(name)
+			if err != nil {
+				return err
+			}
+			w.sum.text("/"+w.base+"/"+tag, "Family_t")
+			continue
+		}
 		if err == nil {
 			fb := cstr("FamBC")
 			err = libError(C.cg_fambc_write(w.fn, w.b, f, fb, bcTypes[t], &bc), "write FamilyBC of family "+tag)
