@@ -237,3 +237,16 @@ func TestCaseRefinementFamily(t *testing.T) {
 		t.Fatalf("family rows %+v", s.Rows)
 	}
 }
+
+// TestMain lets the test binary stand in for the cvdeck program: a parallel
+// sweep builds its variants in child processes of the running program
+// (os.Executable), which under `go test` is this binary. The marker
+// variable, set for the whole test process and so inherited by its
+// children, makes such a child run the command line instead of the tests.
+func TestMain(m *testing.M) {
+	if os.Getenv("CVDECK_TEST_BINARY_AS_CLI") == "1" {
+		os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+	}
+	os.Setenv("CVDECK_TEST_BINARY_AS_CLI", "1")
+	os.Exit(m.Run())
+}

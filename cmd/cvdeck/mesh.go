@@ -23,6 +23,7 @@ type meshFlags struct {
 	maxCells int
 	limits   string
 	refine   float64
+	oneDeck  bool
 	sketch   deck.SketchOptions
 }
 
@@ -60,6 +61,7 @@ failed (the report names the cells); 2 bad input, nothing written.`,
 	fl.IntVar(&f.maxCells, "max-cells", deck.DefaultMaxCells, "refuse a mesh estimated to have more cells")
 	fl.StringVar(&f.limits, "limits", "", "a limits file overriding the case's quality limits")
 	fl.Float64Var(&f.refine, "refine", 1, "scale every spacing: 2 halves every cell size")
+	fl.BoolVar(&f.oneDeck, "one-deck", false, "build one deck even when the case defines a refinement family")
 	fl.Float64Var(&f.sketch.Size, "size", 0, "sketch only: target cell size in metres (the sketch's units after --scale)")
 	fl.Float64Var(&f.sketch.MinAngle, "min-angle", 0, "sketch only: smallest triangle angle in degrees (default the mesher's)")
 	fl.Float64Var(&f.sketch.Growth, "growth", 0, "sketch only: size growth ratio away from the boundary (default the mesher's)")
@@ -116,7 +118,7 @@ func runMesh(cmd *cobra.Command, g *globals, f *meshFlags, path string) error {
 	if err != nil {
 		return err
 	}
-	if c.Family != nil {
+	if c.Family != nil && !f.oneDeck {
 		return runFamily(cmd, g, f, path, c, overrides, formats)
 	}
 	res, err := deck.Run(c, f.out, opts)
@@ -182,7 +184,7 @@ func runFamily(cmd *cobra.Command, g *globals, f *meshFlags, path string, c *dec
 		}
 	}
 	opt := sweep.Options{Workers: runtime.NumCPU()}
-	s, err := sweep.Run(cmd.Context(), sf, f.out, sweep.NewPipeline(sf), opt)
+	s, err := sweep.Run(cmd.Context(), sf, f.out, newPipeline(sf, opt.Workers), opt)
 	if s == nil {
 		return err
 	}

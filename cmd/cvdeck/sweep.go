@@ -107,7 +107,7 @@ func runSweep(cmd *cobra.Command, path string, fl sweepFlags) error {
 		bar = sweep.NewBar(stderr)
 		opt.Progress = bar.Update
 	}
-	s, err := sweep.Run(ctx, f, fl.out, sweep.NewPipeline(f), opt)
+	s, err := sweep.Run(ctx, f, fl.out, newPipeline(f, fl.jobs), opt)
 	if bar != nil {
 		bar.Finish()
 	}
@@ -190,4 +190,18 @@ found twice. The decks stay where the shards wrote them.`,
 	}
 	cmd.Flags().StringVarP(&out, "out", "o", "", "folder for the merged summary (default: the first DIR)")
 	return cmd
+}
+
+// newPipeline returns the sweep's pipeline. With more than one worker each
+// variant is built by a child cvdeck process (this program), GOMAXPROCS
+// shared out among the workers, so that the workers really run at once:
+// the CGNS library takes one call at a time within a process.
+func newPipeline(f *sweep.File, workers int) *sweep.Pipeline {
+	p := sweep.NewPipeline(f)
+	if workers > 1 {
+		if exe, err := os.Executable(); err == nil {
+			p.Exe, p.Threads = exe, max(1, runtime.NumCPU()/workers)
+		}
+	}
+	return p
 }

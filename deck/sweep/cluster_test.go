@@ -16,7 +16,7 @@ import (
 
 // needTool skips the test when a reference tool or a condition is
 // missing, and fails it under CI (CI=true), where everything must be there.
-func needTool(t *testing.T, why string) {
+func needTool(t testing.TB, why string) {
 	t.Helper()
 	if os.Getenv("CI") == "true" {
 		t.Fatalf("CI=true but %s", why)

@@ -10,7 +10,10 @@ import (
 	"fmt"
 	"io/fs"
 	"os"
+	"os/exec"
 	"path/filepath"
+	"sort"
+	"strconv"
 	"strings"
 
 	"gopkg.in/yaml.v3"
@@ -27,6 +30,16 @@ type Pipeline struct {
 	Base string
 	// Options are passed to every deck.Run.
 	Options deck.RunOptions
+	// Exe, when set, is the cvdeck program: each variant is then built by
+	// a child process, "Exe mesh BASE -o DIR --one-deck --set name=value
+	// ... --refine F", instead of in this process, with GOMAXPROCS set to
+	// Threads. Parallel workers need it to scale: the CGNS library keeps
+	// global state, so within one process its writes take turns, while
+	// separate processes write at the same time. Options must then be
+	// zero (the child takes the case file's own).
+	Exe string
+	// Threads is the GOMAXPROCS of each child process (0: the Go default).
+	Threads int
 }
 
 // NewPipeline returns the pipeline runner of a sweep file.
@@ -61,6 +74,49 @@ func (p *Pipeline) Check(f *File) error {
 type pipelineJob struct {
 	p *Pipeline
 	c *deck.Case
+	v Variant
+}
+
+// buildInChild builds the deck with the cvdeck program in a child process.
+// Exit code 0 (checks pass) and 1 (deck written, a check failed) both
+// leave a deck; any other outcome is an error carrying the child's
+// message. The parameter values and the refinement factor are written in
+// Go's shortest round-trip form, so the child loads exactly the case this
+// process loaded (the same input hash).
+func (j *pipelineJob) buildInChild(ctx context.Context, dir string) error {
+	args := []string{"mesh", j.p.Base, "-o", dir, "--quiet", "--one-deck"}
+	params := j.v.ParamMap()
+	names := make([]string, 0, len(params))
+	for n := range params {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		args = append(args, "--set", n+"="+strconv.FormatFloat(params[n], 'g', -1, 64))
+	}
+	if r := j.v.Refine; r != 0 && r != 1 {
+		args = append(args, "--refine", strconv.FormatFloat(r, 'g', -1, 64))
+	}
+	cmd := exec.CommandContext(ctx, j.p.Exe, args...)
+	cmd.Env = os.Environ()
+	if j.p.Threads > 0 {
+		cmd.Env = append(cmd.Env, "GOMAXPROCS="+strconv.Itoa(j.p.Threads))
+	}
+	var stderr bytes.Buffer
+	cmd.Stderr = &stderr
+	err := cmd.Run()
+	var exit *exec.ExitError
+	if errors.As(err, &exit) && exit.ExitCode() == 1 {
+		return nil
+	}
+	if err != nil {
+		msg := strings.TrimSpace(strings.TrimPrefix(stderr.String(), "cvdeck: "))
+		if msg == "" {
+			msg = err.Error()
+		}
+		return errors.New(msg)
+	}
+	return nil
 }
 
 // Prepare loads the base case with v's parameters and refinement.
@@ -69,7 +125,7 @@ func (p *Pipeline) Prepare(ctx context.Context, v Variant) (Job, error) {
 	if err != nil {
 		return nil, err
 	}
-	return &pipelineJob{p: p, c: c}, nil
+	return &pipelineJob{p: p, c: c, v: v}, nil
 }
 
 func (j *pipelineJob) InputHash() string { return j.c.InputHash }
@@ -82,10 +138,16 @@ func (j *pipelineJob) Build(ctx context.Context, dir string) (Outcome, error) {
 	if err := ctx.Err(); err != nil {
 		return Outcome{}, err
 	}
-	_, err := deck.Run(j.c, dir, j.p.Options)
-	var checks *deck.CheckFailure
-	if err != nil && !errors.As(err, &checks) {
-		return Outcome{}, err
+	if j.p.Exe != "" {
+		if err := j.buildInChild(ctx, dir); err != nil {
+			return Outcome{}, err
+		}
+	} else {
+		_, err := deck.Run(j.c, dir, j.p.Options)
+		var checks *deck.CheckFailure
+		if err != nil && !errors.As(err, &checks) {
+			return Outcome{}, err
+		}
 	}
 	out, _, ok, err := readDeck(dir)
 	if err != nil {

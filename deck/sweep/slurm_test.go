@@ -15,7 +15,7 @@ import (
 
 // buildCvdeck builds the cvdeck command into a temporary folder and
 // returns its path.
-func buildCvdeck(t *testing.T) string {
+func buildCvdeck(t testing.TB) string {
 	t.Helper()
 	bin := filepath.Join(t.TempDir(), "cvdeck")
 	cmd := exec.Command("go", "build", "-o", bin, "./cmd/cvdeck")
