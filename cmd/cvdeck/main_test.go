@@ -250,3 +250,30 @@ func TestMain(m *testing.M) {
 	os.Setenv("CVDECK_TEST_BINARY_AS_CLI", "1")
 	os.Exit(m.Run())
 }
+
+// TestMaxCellsRefusesBeforeMeshing: --max-cells, and the case's own
+// mesh.max_cells when the flag is not given, refuse a mesh estimated too
+// large with the estimate, before anything is made or written.
+func TestMaxCellsRefusesBeforeMeshing(t *testing.T) {
+	dir := t.TempDir()
+	_, out, _ := cvdeck(t, "init", "bump-channel", dir)
+	casePath := strings.TrimSpace(out)
+	code, _, errs := cvdeck(t, "mesh", casePath, "-o", filepath.Join(dir, "a"), "--max-cells", "1000")
+	if code != 2 || !strings.Contains(errs, "3072 cells, more than the limit of 1000") {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	text, _ := os.ReadFile(casePath)
+	limited := strings.Replace(string(text), "mesh:\n", "mesh:\n  max_cells: 2000\n", 1)
+	if err := os.WriteFile(casePath, []byte(limited), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, _, errs = cvdeck(t, "mesh", casePath, "-o", filepath.Join(dir, "b"))
+	if code != 2 || !strings.Contains(errs, "limit of 2000") {
+		t.Fatalf("case max_cells: exit %d: %s", code, errs)
+	}
+	for _, d := range []string{"a", "b"} {
+		if _, err := os.Stat(filepath.Join(dir, d)); !os.IsNotExist(err) {
+			t.Fatalf("deck %s written despite the cell limit", d)
+		}
+	}
+}

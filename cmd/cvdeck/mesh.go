@@ -93,7 +93,11 @@ func runMesh(cmd *cobra.Command, g *globals, f *meshFlags, path string) error {
 			return err
 		}
 	}
-	opts := deck.RunOptions{Formats: formats, MaxCells: f.maxCells}
+	opts := deck.RunOptions{Formats: formats}
+	if cmd.Flags().Changed("max-cells") {
+		// Only an explicit flag overrides the case's own mesh.max_cells.
+		opts.MaxCells = f.maxCells
+	}
 	if f.limits != "" {
 		p, err := quality.LoadPatch(f.limits)
 		if err != nil {
@@ -174,7 +178,7 @@ func runFamily(cmd *cobra.Command, g *globals, f *meshFlags, path string, c *dec
 	if f.refine != 1 {
 		return fmt.Errorf("%w: the case defines a refinement family (refine: ...); --refine applies to single decks", deck.ErrInput)
 	}
-	if formats != nil || f.limits != "" || f.maxCells != deck.DefaultMaxCells {
+	if formats != nil || f.limits != "" || cmd.Flags().Changed("max-cells") {
 		return fmt.Errorf("%w: --format, --limits and --max-cells apply to single decks; for a refinement family set them in the case file", deck.ErrInput)
 	}
 	sf := &sweep.File{Path: path, Base: path, Refine: &sweep.Refine{Levels: c.Family.Levels, Ratio: c.Family.Ratio}}
