@@ -38,10 +38,32 @@ func TestSamplesMeshAndPass(t *testing.T) {
 			if code != 0 {
 				t.Fatalf("mesh: exit %d\nstdout:\n%s\nstderr:\n%s", code, out, errs)
 			}
-			for _, f := range []string{"mesh.vtu", "boundary.vtp", "mesh.cgns", "deck.yaml", "quality.json"} {
+			for _, f := range []string{"mesh.vtu", "boundary.vtp", "mesh.cgns", "deck.yaml", "quality.json", "preview.svg"} {
 				if _, err := os.Stat(filepath.Join(deckDir, f)); err != nil {
 					t.Errorf("deck lacks %s: %v", f, err)
 				}
+			}
+			// The discrete conservation form holds on every cell: closure
+			// below 1e-14 and the free-stream residual below 1e-13 relative
+			// to the cell's Σ|S_f| (round-off of sums of a few terms of
+			// order one; common practice).
+			raw, err := os.ReadFile(filepath.Join(deckDir, "quality.json"))
+			if err != nil {
+				t.Fatal(err)
+			}
+			var q struct {
+				Audit struct {
+					ClosureMax    float64 `json:"closure_max"`
+					FreeStreamMax float64 `json:"free_stream_max"`
+					DualMax       float64 `json:"dual_closure_max"`
+					Boundary      float64 `json:"boundary_closure"`
+				} `json:"audit"`
+			}
+			if err := json.Unmarshal(raw, &q); err != nil {
+				t.Fatal(err)
+			}
+			if a := q.Audit; !(a.ClosureMax < 1e-14) || !(a.FreeStreamMax < 1e-13) || !(a.DualMax < 1e-13) || !(a.Boundary < 1e-13) {
+				t.Errorf("conservation audit %+v: want closure < 1e-14, free-stream, dual closure and boundary sum < 1e-13", a)
 			}
 		})
 	}
