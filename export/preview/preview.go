@@ -67,7 +67,7 @@ type Input struct {
 
 // Bounds on what one picture draws, whatever the mesh size.
 const (
-	MaxInteriorFaces = 12000
+	MaxInteriorFaces = 30000
 	MaxBoundaryFaces = 8000
 	MaxFlaggedCells  = 3000
 	MaxZoomWindows   = 3
