@@ -7,6 +7,8 @@ import (
 	"path/filepath"
 	"strings"
 
+	"github.com/paulmach/orb"
+
 	"cvdeck/geometry"
 )
 
@@ -61,9 +63,16 @@ func readSketch(path string, data []byte, r sketchRead) (geometry.Outline, error
 		var closed bool
 		pl, closed, err = geometry.ReadPoints(bytes.NewReader(data), geometry.Attr{Tag: "outer"}, true)
 		if err == nil && closed {
-			var o geometry.Outline
-			o, err = geometry.Outline{Outer: geometry.Loop{Name: "outer", Segments: []geometry.Segment{pl}}}.Normalise()
-			outs = []geometry.Outline{o}
+			// One line segment per edge, as the polygon readers make, so
+			// that a spacing law places nodes edge by edge and every
+			// corner of the drawing stays a node.
+			var loop geometry.Loop
+			loop, err = edgeLoop(pl.Vertices(), "outer")
+			if err == nil {
+				var o geometry.Outline
+				o, err = geometry.Outline{Outer: loop}.Normalise()
+				outs = []geometry.Outline{o}
+			}
 		}
 	default:
 		return geometry.Outline{}, fmt.Errorf("%s: cvdeck reads sketches as %s", path, sketchExtensions())
@@ -311,4 +320,22 @@ func outlineSize(o geometry.Outline) float64 {
 		}
 	}
 	return dist(lo, hi)
+}
+
+// edgeLoop makes a closed loop of one line per edge of the closed vertex
+// list (first == last), every edge tagged tag.
+func edgeLoop(pts []orb.Point, tag string) (geometry.Loop, error) {
+	loop := geometry.Loop{Name: tag}
+	for k := 0; k+1 < len(pts); k++ {
+		a, b := pts[k], pts[k+1]
+		if a == b {
+			continue
+		}
+		l, err := geometry.NewLine(a[0], a[1], b[0], b[1], geometry.Attr{Tag: tag})
+		if err != nil {
+			return loop, fmt.Errorf("edge %d (vertex %d to %d): %w", k, k, k+1, err)
+		}
+		loop.Segments = append(loop.Segments, l)
+	}
+	return loop, nil
 }

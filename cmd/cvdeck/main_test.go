@@ -10,6 +10,7 @@ import (
 	"strings"
 	"testing"
 
+	"cvdeck/export/vtk"
 	"cvdeck/samples"
 )
 
@@ -209,6 +210,28 @@ func TestSketchStraightToMesh(t *testing.T) {
 		if !strings.Contains(string(data), want) {
 			t.Errorf("SVG deck.yaml lacks %q", want)
 		}
+	}
+	// An x-y point file: every corner stays a node, so the mesh's area is
+	// the polygon's by the shoelace formula (closed form: 1 × 0.2 plus a
+	// triangle of base 1 and height 0.1, 0.25).
+	xy := filepath.Join(dir, "pentagon.xy")
+	if err := os.WriteFile(xy, []byte("# x y\n0 0\n1 0\n1 0.2\n0.5 0.3\n0 0.2\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	xyDeck := filepath.Join(dir, "xydeck")
+	if code, out, errs = cvdeck(t, "mesh", xy, "--size", "0.02", "-o", xyDeck, "--format", "vtu"); code != 0 {
+		t.Fatalf("x-y sketch: exit %d\n%s\n%s", code, out, errs)
+	}
+	xm, err := vtk.ReadFile(filepath.Join(xyDeck, "mesh.vtu"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	area := 0.0
+	for _, a := range xm.Geo.CellArea {
+		area += a
+	}
+	if math.Abs(area-0.25) > 1e-12*0.25 {
+		t.Fatalf("x-y sketch area %.17g, want 0.25", area)
 	}
 	// A bow-tie ring: exit 2, located at the ring and vertex, nothing written.
 	bad := filepath.Join(dir, "bowtie.geojson")
