@@ -2,6 +2,7 @@ package deck
 
 import (
 	"fmt"
+	"os"
 	"path/filepath"
 	"strings"
 
@@ -20,8 +21,10 @@ type CheckResult struct {
 	File   string
 	Mesh   *mesh.Mesh
 	Report *quality.Report
-	// Warnings are notes on how the file was read (for example untagged
-	// boundary faces put into DefaultTag).
+	// Notes say how the file was read (for example where its tags came
+	// from); Warnings say what was assumed (untagged boundary faces put
+	// into DefaultTag).
+	Notes    []string
 	Warnings []string
 }
 
@@ -46,6 +49,23 @@ func Check(path string, patches ...quality.Patch) (*CheckResult, error) {
 		return nil, fmt.Errorf("%w: %w", ErrInput, err)
 	}
 	res := &CheckResult{File: path}
+	if lo, hi := m.UntaggedRange(); hi > lo && strings.EqualFold(filepath.Ext(path), ".vtu") {
+		// A cvdeck deck keeps its boundary tags in boundary.vtp beside
+		// mesh.vtu: take them from there when the file is present.
+		side := filepath.Join(filepath.Dir(path), "boundary.vtp")
+		if data, err := os.ReadFile(side); err == nil {
+			lines, err := vtk.ReadBoundaryVTP(data, side)
+			if err != nil {
+				return nil, fmt.Errorf("%w: %w", ErrInput, err)
+			}
+			tagged, note, err := tagFromLines(m, lines)
+			if err != nil {
+				return nil, fmt.Errorf("%w: %s: %w", ErrInput, side, err)
+			}
+			m = tagged
+			res.Notes = append(res.Notes, fmt.Sprintf("boundary tags taken from %s (%s)", side, note))
+		}
+	}
 	if lo, hi := m.UntaggedRange(); hi > lo {
 		if m, err = tagUntagged(m); err != nil {
 			return nil, err
@@ -64,6 +84,54 @@ func Check(path string, patches ...quality.Patch) (*CheckResult, error) {
 		return res, &CheckFailure{Failed: res.Report.FailedCells}
 	}
 	return res, nil
+}
+
+// tagFromLines rebuilds m with the tags of boundary lines given by their
+// end points (matched to mesh nodes by exact coordinates, as a deck's
+// boundary.vtp holds the very numbers its mesh.vtu does). Lines that are
+// not boundary faces of m are an error; boundary faces no line covers stay
+// untagged.
+func tagFromLines(m *mesh.Mesh, lines []vtk.BoundaryLine) (*mesh.Mesh, string, error) {
+	node := make(map[[2]float64]int32, m.NumBoundary())
+	for f := m.NumInterior; f < m.NumFaces(); f++ {
+		for _, v := range m.FaceNodes[f] {
+			node[m.Nodes[v]] = v
+		}
+	}
+	in := mesh.Input{Nodes: m.Nodes, CellStart: m.CellStart, CellNodes: m.CellNodes, Tags: append([]string(nil), m.Tags...), Blocks: m.Blocks, Interfaces: m.Interfaces}
+	index := map[string]int16{}
+	for t, name := range in.Tags {
+		index[name] = int16(t)
+	}
+	for f := m.NumInterior; f < m.NumFaces(); f++ {
+		if t := m.FaceTag[f]; t >= 0 {
+			in.Edges = append(in.Edges, mesh.TaggedEdge{A: m.FaceNodes[f][0], B: m.FaceNodes[f][1], Tag: t})
+		}
+	}
+	used := 0
+	for k, l := range lines {
+		if l.Tag == "" {
+			continue
+		}
+		a, okA := node[l.A]
+		b, okB := node[l.B]
+		if !okA || !okB {
+			return nil, "", fmt.Errorf("line %d from (%g, %g) to (%g, %g) does not join two boundary nodes of the mesh", k, l.A[0], l.A[1], l.B[0], l.B[1])
+		}
+		t, ok := index[l.Tag]
+		if !ok {
+			t = int16(len(in.Tags))
+			index[l.Tag] = t
+			in.Tags = append(in.Tags, l.Tag)
+		}
+		in.Edges = append(in.Edges, mesh.TaggedEdge{A: a, B: b, Tag: t})
+		used++
+	}
+	tagged, err := mesh.Build(in)
+	if err != nil {
+		return nil, "", err
+	}
+	return tagged, fmt.Sprintf("%d tagged lines, %d tags", used, len(in.Tags)), nil
 }
 
 // tagUntagged rebuilds m with its untagged boundary faces under DefaultTag

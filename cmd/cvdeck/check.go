@@ -51,15 +51,21 @@ Exit codes: 0 the mesh passes; 1 a cell fails a limit; 2 the file cannot be read
 				out := struct {
 					File     string          `json:"file"`
 					Verdict  string          `json:"verdict"`
+					Notes    []string        `json:"notes"`
 					Warnings []string        `json:"warnings"`
 					Quality  *quality.Report `json:"quality"`
-				}{res.File, res.Report.Verdict.String(), append([]string{}, res.Warnings...), res.Report}
+				}{res.File, res.Report.Verdict.String(), append([]string{}, res.Notes...), append([]string{}, res.Warnings...), res.Report}
 				enc := json.NewEncoder(w)
 				enc.SetIndent("", "  ")
 				if e := enc.Encode(out); e != nil {
 					return e
 				}
 				return err
+			}
+			for _, note := range res.Notes {
+				if !g.quiet {
+					fmt.Fprintf(cmd.ErrOrStderr(), "cvdeck: %s\n", note)
+				}
 			}
 			for _, warn := range res.Warnings {
 				fmt.Fprintf(cmd.ErrOrStderr(), "cvdeck: warning: %s\n", warn)

@@ -322,3 +322,46 @@ func TestMaxCellsRefusesBeforeMeshing(t *testing.T) {
 		}
 	}
 }
+
+// TestCheckOwnDeck: `cvdeck check` on a deck's mesh.vtu takes the boundary
+// tags from the boundary.vtp beside it, so the deck checks as it was
+// written; without that file the boundary goes into one tag, with a
+// warning. The same mesh read from mesh.cgns checks alike.
+func TestCheckOwnDeck(t *testing.T) {
+	dir := t.TempDir()
+	_, out, _ := cvdeck(t, "init", "bump-channel", dir)
+	deckDir := filepath.Join(dir, "deck")
+	if code, _, errs := cvdeck(t, "mesh", strings.TrimSpace(out), "-o", deckDir, "--quiet"); code != 0 {
+		t.Fatalf("mesh: %s", errs)
+	}
+	type result struct {
+		Warnings []string `json:"warnings"`
+		Quality  struct {
+			BoundaryFaces int `json:"boundary_faces"`
+			FailedCells   int `json:"failed_cells"`
+		} `json:"quality"`
+	}
+	check := func(path string) result {
+		code, stdout, errs := cvdeck(t, "check", path, "--json")
+		if code != 0 {
+			t.Fatalf("check %s: exit %d: %s", path, code, errs)
+		}
+		var r result
+		if err := json.Unmarshal([]byte(stdout), &r); err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+	if r := check(filepath.Join(deckDir, "mesh.vtu")); len(r.Warnings) != 0 || r.Quality.BoundaryFaces != 256 {
+		t.Fatalf("mesh.vtu with boundary.vtp: %+v", r)
+	}
+	if r := check(filepath.Join(deckDir, "mesh.cgns")); len(r.Warnings) != 0 || r.Quality.BoundaryFaces != 256 {
+		t.Fatalf("mesh.cgns: %+v", r)
+	}
+	if err := os.Remove(filepath.Join(deckDir, "boundary.vtp")); err != nil {
+		t.Fatal(err)
+	}
+	if r := check(filepath.Join(deckDir, "mesh.vtu")); len(r.Warnings) != 1 || !strings.Contains(r.Warnings[0], "carry no tag") {
+		t.Fatalf("mesh.vtu alone: %+v", r)
+	}
+}

@@ -63,3 +63,33 @@ func TestBoundaryVTPErrors(t *testing.T) {
 		t.Fatal("condition array written without conditions")
 	}
 }
+
+// TestBoundaryVTPRoundTrip reads back what WriteBoundaryVTP writes: every
+// boundary face as a line with its end points and tag, in face order.
+func TestBoundaryVTPRoundTrip(t *testing.T) {
+	m := mixedMesh(t, 6, 5, -40) // west untagged: read back as ""
+	var buf bytes.Buffer
+	if err := WriteBoundaryVTP(&buf, m, nil); err != nil {
+		t.Fatal(err)
+	}
+	lines, err := ReadBoundaryVTP(buf.Bytes(), "boundary.vtp")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(lines) != m.NumBoundary() {
+		t.Fatalf("%d lines for %d boundary faces", len(lines), m.NumBoundary())
+	}
+	for k, l := range lines {
+		f := m.NumInterior + k
+		want := ""
+		if tg := m.FaceTag[f]; tg >= 0 {
+			want = m.Tags[tg]
+		}
+		if l.A != m.Nodes[m.FaceNodes[f][0]] || l.B != m.Nodes[m.FaceNodes[f][1]] || l.Tag != want {
+			t.Fatalf("line %d = %+v, want face %d of tag %q", k, l, f, want)
+		}
+	}
+	if _, err := ReadBoundaryVTP([]byte("<VTKFile type=\"UnstructuredGrid\"></VTKFile>"), "x.vtp"); err == nil {
+		t.Fatal("an UnstructuredGrid file was read as boundary polydata")
+	}
+}
