@@ -53,9 +53,9 @@ func NewSpline(pts []orb.Point, a Attr) (*Spline, error) {
 		if n < 4 {
 			return nil, fmt.Errorf("closed spline has %d distinct points, needs at least 3: %w", n-1, ErrSegment)
 		}
-		s.mx, s.my = periodicMoments(s.t, x), periodicMoments(s.t, y)
+		s.mx, s.my = periodicSecondDerivs(s.t, x), periodicSecondDerivs(s.t, y)
 	} else {
-		s.mx, s.my = naturalMoments(s.t, x), naturalMoments(s.t, y)
+		s.mx, s.my = naturalSecondDerivs(s.t, x), naturalSecondDerivs(s.t, y)
 	}
 	breaks := make([]float64, 0, 2*n-1)
 	for i := range n {
@@ -72,11 +72,11 @@ func NewSpline(pts []orb.Point, a Attr) (*Spline, error) {
 // spline, a whole loop by itself).
 func (s *Spline) Closed() bool { return s.pts[0] == s.pts[len(s.pts)-1] }
 
-// naturalMoments solves the tridiagonal system for the second derivatives
+// naturalSecondDerivs solves the tridiagonal system for the second derivatives
 // M of a natural spline through (t, y):
 // hᵢ₋₁Mᵢ₋₁ + 2(hᵢ₋₁+hᵢ)Mᵢ + hᵢMᵢ₊₁ = 6((yᵢ₊₁−yᵢ)/hᵢ − (yᵢ−yᵢ₋₁)/hᵢ₋₁),
 // M₀ = Mₙ₋₁ = 0, by the Thomas algorithm.
-func naturalMoments(t, y []float64) []float64 {
+func naturalSecondDerivs(t, y []float64) []float64 {
 	n := len(t)
 	m := make([]float64, n)
 	if n < 3 {
@@ -103,11 +103,11 @@ func naturalMoments(t, y []float64) []float64 {
 	return m
 }
 
-// periodicMoments solves the cyclic tridiagonal system of a periodic
+// periodicSecondDerivs solves the cyclic tridiagonal system of a periodic
 // spline (y[n−1] = y[0], M[n−1] = M[0]) by the Sherman–Morrison correction
 // of the Thomas algorithm (Press et al., Numerical Recipes, §2.7, "cyclic
 // tridiagonal systems").
-func periodicMoments(t, y []float64) []float64 {
+func periodicSecondDerivs(t, y []float64) []float64 {
 	n := len(t) - 1 // unknowns M₀ … Mₙ₋₁, the last knot repeating the first
 	h := func(i int) float64 { i = ((i % n) + n) % n; return t[i+1] - t[i] }
 	yv := func(i int) float64 { return y[((i%n)+n)%n] }

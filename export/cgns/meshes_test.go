@@ -92,13 +92,13 @@ func mixedMesh(tb testing.TB, nx, ny int) *mesh.Mesh {
 	})
 }
 
-// polyMesh is a quad grid whose first row of squares is merged in pairs
+// polygonMesh is a quad grid whose first row of squares is merged in pairs
 // into hexagons (6 nodes: the pair's 4 bottom/top nodes... counted along
 // the boundary of the merged pair), giving NGON_n runs between quad runs.
-func polyMesh(tb testing.TB, nx, ny int) *mesh.Mesh {
+func polygonMesh(tb testing.TB, nx, ny int) *mesh.Mesh {
 	tb.Helper()
 	if nx%2 != 0 {
-		tb.Fatal("polyMesh needs an even nx")
+		tb.Fatal("polygonMesh needs an even nx")
 	}
 	id := func(i, j int) int32 { return int32(j*(nx+1) + i) }
 	start := []int32{0}

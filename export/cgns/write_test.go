@@ -26,7 +26,7 @@ func deckCases(t *testing.T) []struct {
 		{"tri", testDeck(triMesh(t, 8, 4))},
 		{"quad", testDeck(quadMesh(t, 8, 4))},
 		{"mixed", testDeck(mixedMesh(t, 8, 5))},
-		{"poly", testDeck(polyMesh(t, 8, 4))},
+		{"poly", testDeck(polygonMesh(t, 8, 4))},
 		{"twoblock", testDeck(twoBlockMesh(t, 8, 4, true))},
 		{"twoblock-aligned", testDeck(twoBlockMesh(t, 8, 4, false))},
 		{"ring", testDeck(ringMesh(t, 12, 3))},

@@ -57,9 +57,9 @@ func checkFields(fields []Field, nc int) error {
 	return nil
 }
 
-// checkMesh rejects a mesh whose arrays disagree, so writers never index
+// checkArrays rejects a mesh whose arrays disagree, so writers never index
 // out of range.
-func checkMesh(m *mesh.Mesh) error {
+func checkArrays(m *mesh.Mesh) error {
 	if m == nil {
 		return fmt.Errorf("vtk: no mesh")
 	}

@@ -27,7 +27,7 @@ import (
 // losing the rest of the file. The binary form and the XML formats keep
 // such fields.
 func WriteLegacy(w io.Writer, m *mesh.Mesh, fields []Field, binary bool) error {
-	if err := checkMesh(m); err != nil {
+	if err := checkArrays(m); err != nil {
 		return err
 	}
 	nc := m.NumCells()

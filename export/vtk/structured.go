@@ -15,7 +15,7 @@ import (
 // area and fields of the block's cells, mesh cells FirstCell onwards, also
 // i fastest.
 func WriteVTS(w io.Writer, m *mesh.Mesh, b int, fields []Field) error {
-	if err := checkMesh(m); err != nil {
+	if err := checkArrays(m); err != nil {
 		return err
 	}
 	if err := checkFields(fields, m.NumCells()); err != nil {
@@ -84,7 +84,7 @@ func WriteVTM(w io.Writer, blocks []BlockFile) error {
 // them, each file atomically. It returns the names written, relative to
 // dir, index last. A block with no name is called "block K".
 func WriteStructured(dir, base string, m *mesh.Mesh, fields []Field) ([]string, error) {
-	if err := checkMesh(m); err != nil {
+	if err := checkArrays(m); err != nil {
 		return nil, err
 	}
 	if len(m.Blocks) == 0 {

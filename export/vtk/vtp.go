@@ -33,7 +33,7 @@ const (
 // like m.Tags ("" for none); its distinct names, in order of first use, make
 // ConditionNamesArray. The data layout is that of WriteVTU.
 func WriteBoundaryVTP(w io.Writer, m *mesh.Mesh, conditions []string) error {
-	if err := checkMesh(m); err != nil {
+	if err := checkArrays(m); err != nil {
 		return err
 	}
 	if conditions != nil && len(conditions) != len(m.Tags) {

@@ -16,7 +16,7 @@ import (
 //
 // The data are streamed through one buffer; nothing is allocated per cell.
 func WriteVTU(w io.Writer, m *mesh.Mesh, fields []Field) error {
-	if err := checkMesh(m); err != nil {
+	if err := checkArrays(m); err != nil {
 		return err
 	}
 	nc := m.NumCells()
