@@ -21,73 +21,89 @@ import (
 // base64), uncompressed or zlib-compressed (vtkZLibDataCompressor),
 // header_type UInt32 or UInt64, either byte order, one piece.
 func ReadVTU(data []byte, name string) (*mesh.Mesh, error) {
-	x, err := parseXML(data, name)
+	g, nc, err := readPiece(data, name, "UnstructuredGrid", "NumberOfCells", "Cells", "connectivity", "offsets", "types")
 	if err != nil {
 		return nil, err
 	}
-	if t := x.root.attr["type"]; t != "UnstructuredGrid" {
-		return nil, fmt.Errorf("%s: VTKFile type is %q; cvdeck reads UnstructuredGrid files here", name, t)
+	if len(g.types) != nc {
+		return nil, fmt.Errorf("%s: Cells/types has %d values for NumberOfCells=%d", name, len(g.types), nc)
 	}
-	ug := x.root.child("UnstructuredGrid")
-	if ug == nil {
-		return nil, fmt.Errorf("%s: no UnstructuredGrid element", name)
+	return g.toMesh()
+}
+
+// readPiece reads the one piece of an XML file of the given dataset type
+// into a grid: its points, the integer arrays named in want of its cell
+// element (connectivity, offsets and, for unstructured grids, types), its
+// cell data and the dataset's field data. It returns the grid and the
+// piece's cell count (the attribute countAttr).
+func readPiece(data []byte, name, dataset, countAttr, cellsElem string, want ...string) (*grid, int, error) {
+	x, err := parseXML(data, name)
+	if err != nil {
+		return nil, 0, err
+	}
+	if t := x.root.attr["type"]; t != dataset {
+		return nil, 0, fmt.Errorf("%s: VTKFile type is %q; cvdeck reads %s files here", name, t, dataset)
+	}
+	ds := x.root.child(dataset)
+	if ds == nil {
+		return nil, 0, fmt.Errorf("%s: no %s element", name, dataset)
 	}
 	var pieces []*element
-	for _, c := range ug.children {
+	for _, c := range ds.children {
 		if c.name == "Piece" {
 			pieces = append(pieces, c)
 		}
 	}
 	if len(pieces) != 1 {
-		return nil, fmt.Errorf("%s: %d pieces; cvdeck reads single-piece files", name, len(pieces))
+		return nil, 0, fmt.Errorf("%s: %d pieces; cvdeck reads single-piece files", name, len(pieces))
 	}
 	p := pieces[0]
 	np, err := x.count(p, "NumberOfPoints")
 	if err != nil {
-		return nil, err
+		return nil, 0, err
 	}
-	nc, err := x.count(p, "NumberOfCells")
+	nc, err := x.count(p, countAttr)
 	if err != nil {
-		return nil, err
+		return nil, 0, err
 	}
 	g := &grid{file: name}
 	pts := p.child("Points")
 	if pts == nil || len(pts.arrays()) != 1 {
-		return nil, fmt.Errorf("%s: Piece needs a Points element with one DataArray", name)
+		return nil, 0, fmt.Errorf("%s: Piece needs a Points element with one DataArray", name)
 	}
 	pa, err := x.read(pts.arrays()[0], "Points")
 	if err != nil {
-		return nil, err
+		return nil, 0, err
 	}
 	if pa.strs != nil {
-		return nil, fmt.Errorf("%s: Points is a String array; it must be numeric", name)
+		return nil, 0, fmt.Errorf("%s: Points is a String array; it must be numeric", name)
 	}
 	if pa.comps != 3 || pa.length() != 3*np {
-		return nil, fmt.Errorf("%s: Points has %d values in %d components; want 3 components for %d points", name, pa.length(), pa.comps, np)
+		return nil, 0, fmt.Errorf("%s: Points has %d values in %d components; want 3 components for %d points", name, pa.length(), pa.comps, np)
 	}
 	g.points = pa.asFloats()
-	cells := p.child("Cells")
+	cells := p.child(cellsElem)
 	if cells == nil {
-		return nil, fmt.Errorf("%s: Piece has no Cells element", name)
+		return nil, 0, fmt.Errorf("%s: Piece has no %s element", name, cellsElem)
 	}
-	for _, want := range []string{"connectivity", "offsets", "types"} {
+	for _, w := range want {
 		var el *element
 		for _, a := range cells.arrays() {
-			if a.attr["Name"] == want {
+			if a.attr["Name"] == w {
 				el = a
 			}
 		}
 		if el == nil {
-			return nil, fmt.Errorf("%s: Cells has no %q DataArray", name, want)
+			return nil, 0, fmt.Errorf("%s: %s has no %q DataArray", name, cellsElem, w)
 		}
-		a, err := x.read(el, "Cells/"+want)
+		a, err := x.read(el, cellsElem+"/"+w)
 		if err != nil {
-			return nil, err
+			return nil, 0, err
 		}
 		if a.ints == nil {
-			return nil, fmt.Errorf("%s: Cells/%s is of type %s; it must be an integer array", name, want, el.attr["type"])
+			return nil, 0, fmt.Errorf("%s: %s/%s is of type %s; it must be an integer array", name, cellsElem, w, el.attr["type"])
 		}
-		switch want {
+		switch w {
 		case "connectivity":
 			g.conn = a.ints
 		case "offsets":
@@ -96,28 +112,25 @@ func ReadVTU(data []byte, name string) (*mesh.Mesh, error) {
 			g.types = a.ints
 		}
 	}
-	if len(g.types) != nc {
-		return nil, fmt.Errorf("%s: Cells/types has %d values for NumberOfCells=%d", name, len(g.types), nc)
-	}
 	if cd := p.child("CellData"); cd != nil {
 		for _, el := range cd.arrays() {
 			a, err := x.read(el, "CellData/"+el.attr["Name"])
 			if err != nil {
-				return nil, err
+				return nil, 0, err
 			}
 			g.cellData = append(g.cellData, a)
 		}
 	}
-	if fd := ug.child("FieldData"); fd != nil {
+	if fd := ds.child("FieldData"); fd != nil {
 		for _, el := range fd.arrays() {
 			a, err := x.read(el, "FieldData/"+el.attr["Name"])
 			if err != nil {
-				return nil, err
+				return nil, 0, err
 			}
 			g.fieldData = append(g.fieldData, a)
 		}
 	}
-	return g.toMesh()
+	return g, nc, nil
 }
 
 // element is an XML element of a VTK file's head.
