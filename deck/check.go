@@ -98,16 +98,7 @@ func tagFromLines(m *mesh.Mesh, lines []vtk.BoundaryLine) (*mesh.Mesh, string, e
 			node[m.Nodes[v]] = v
 		}
 	}
-	in := mesh.Input{Nodes: m.Nodes, CellStart: m.CellStart, CellNodes: m.CellNodes, Tags: append([]string(nil), m.Tags...), Blocks: m.Blocks, Interfaces: m.Interfaces}
-	index := map[string]int16{}
-	for t, name := range in.Tags {
-		index[name] = int16(t)
-	}
-	for f := m.NumInterior; f < m.NumFaces(); f++ {
-		if t := m.FaceTag[f]; t >= 0 {
-			in.Edges = append(in.Edges, mesh.TaggedEdge{A: m.FaceNodes[f][0], B: m.FaceNodes[f][1], Tag: t})
-		}
-	}
+	rt := newRetag(m)
 	used := 0
 	for k, l := range lines {
 		if l.Tag == "" {
@@ -118,42 +109,57 @@ func tagFromLines(m *mesh.Mesh, lines []vtk.BoundaryLine) (*mesh.Mesh, string, e
 		if !okA || !okB {
 			return nil, "", fmt.Errorf("line %d from (%g, %g) to (%g, %g) does not join two boundary nodes of the mesh", k, l.A[0], l.A[1], l.B[0], l.B[1])
 		}
-		t, ok := index[l.Tag]
-		if !ok {
-			t = int16(len(in.Tags))
-			index[l.Tag] = t
-			in.Tags = append(in.Tags, l.Tag)
-		}
-		in.Edges = append(in.Edges, mesh.TaggedEdge{A: a, B: b, Tag: t})
+		rt.add(a, b, l.Tag)
 		used++
 	}
-	tagged, err := mesh.Build(in)
+	tagged, err := mesh.Build(rt.in)
 	if err != nil {
 		return nil, "", err
 	}
-	return tagged, fmt.Sprintf("%d tagged lines, %d tags", used, len(in.Tags)), nil
+	return tagged, fmt.Sprintf("%d tagged lines, %d tags", used, len(rt.in.Tags)), nil
 }
 
 // tagUntagged rebuilds m with its untagged boundary faces under DefaultTag
 // (a new tag, or the existing one of that name).
 func tagUntagged(m *mesh.Mesh) (*mesh.Mesh, error) {
-	in := mesh.Input{Nodes: m.Nodes, CellStart: m.CellStart, CellNodes: m.CellNodes, Tags: append([]string(nil), m.Tags...), Blocks: m.Blocks, Interfaces: m.Interfaces}
-	def := int16(-1)
-	for t, name := range in.Tags {
-		if name == DefaultTag {
-			def = int16(t)
-		}
+	rt := newRetag(m)
+	lo, hi := m.UntaggedRange()
+	for f := lo; f < hi; f++ {
+		rt.add(m.FaceNodes[f][0], m.FaceNodes[f][1], DefaultTag)
 	}
-	if def < 0 {
-		def = int16(len(in.Tags))
-		in.Tags = append(in.Tags, DefaultTag)
+	return mesh.Build(rt.in)
+}
+
+// retag collects a mesh's builder input with its tagged boundary edges,
+// to which more tagged edges are added before the mesh is built again.
+type retag struct {
+	in    mesh.Input
+	index map[string]int16
+}
+
+func newRetag(m *mesh.Mesh) *retag {
+	rt := &retag{
+		in:    mesh.Input{Nodes: m.Nodes, CellStart: m.CellStart, CellNodes: m.CellNodes, Tags: append([]string(nil), m.Tags...), Blocks: m.Blocks, Interfaces: m.Interfaces},
+		index: map[string]int16{},
+	}
+	for t, name := range rt.in.Tags {
+		rt.index[name] = int16(t)
 	}
 	for f := m.NumInterior; f < m.NumFaces(); f++ {
-		t := m.FaceTag[f]
-		if t < 0 {
-			t = def
+		if t := m.FaceTag[f]; t >= 0 {
+			rt.in.Edges = append(rt.in.Edges, mesh.TaggedEdge{A: m.FaceNodes[f][0], B: m.FaceNodes[f][1], Tag: t})
 		}
-		in.Edges = append(in.Edges, mesh.TaggedEdge{A: m.FaceNodes[f][0], B: m.FaceNodes[f][1], Tag: t})
 	}
-	return mesh.Build(in)
+	return rt
+}
+
+// add tags the edge a–b with tag, adding the tag if it is new.
+func (rt *retag) add(a, b int32, tag string) {
+	t, ok := rt.index[tag]
+	if !ok {
+		t = int16(len(rt.in.Tags))
+		rt.index[tag] = t
+		rt.in.Tags = append(rt.in.Tags, tag)
+	}
+	rt.in.Edges = append(rt.in.Edges, mesh.TaggedEdge{A: a, B: b, Tag: t})
 }

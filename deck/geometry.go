@@ -147,19 +147,9 @@ func decodeLoop(c *Case, g *geometrySpec, v value, index int) (loopSpec, error) 
 			return l, err
 		}
 	}
-	defTag := ""
-	if tv, ok := o.get("tag"); ok {
-		if defTag, err = tv.str(); err != nil {
-			return l, err
-		}
-	}
-	var defSpacing *geometry.Spacing
-	if sv, ok := o.get("spacing"); ok {
-		sp, err := decodeSpacing(sv, c)
-		if err != nil {
-			return l, err
-		}
-		defSpacing = &sp
+	defTag, defSpacing, err := decodeDefaults(c, o, "")
+	if err != nil {
+		return l, err
 	}
 	shape := ""
 	for _, k := range loopShapes {
@@ -174,27 +164,13 @@ func decodeLoop(c *Case, g *geometrySpec, v value, index int) (loopSpec, error) 
 	case "":
 		return l, v.errf("a loop needs segments (with a start point) or one of the shapes circle, rectangle, naca")
 	case "segments":
-		sv, err := o.need("start")
-		if err != nil {
-			return l, err
-		}
-		start, err := sv.point()
-		if err != nil {
-			return l, err
-		}
-		list, _ := o.get("segments")
-		named, err := decodeChain(c, start, list, defTag, defSpacing)
+		named, err := decodeStartedChain(c, g, o, defTag, defSpacing)
 		if err != nil {
 			return l, err
 		}
 		for _, ns := range named {
 			l.segments = append(l.segments, ns.seg)
 			l.segAt = append(l.segAt, ns.at)
-			if ns.name != "" {
-				if err := g.addCurve(&curveSpec{name: ns.name, segments: []geometry.Segment{ns.seg}, at: ns.at}); err != nil {
-					return l, err
-				}
-			}
 		}
 	default:
 		sv, _ := o.get(shape)
@@ -221,7 +197,8 @@ func decodeLoop(c *Case, g *geometrySpec, v value, index int) (loopSpec, error) 
 	return l, nil
 }
 
-// decodeCurve reads a free curve: {name, start, segments, tag, spacing}.
+// decodeCurve reads a free curve: {name, start, segments, tag, spacing};
+// its segments take the curve's name as their tag unless told otherwise.
 func decodeCurve(c *Case, g *geometrySpec, v value) error {
 	o, err := v.object()
 	if err != nil {
@@ -235,33 +212,11 @@ func decodeCurve(c *Case, g *geometrySpec, v value) error {
 	if err != nil {
 		return err
 	}
-	defTag := name
-	if tv, ok := o.get("tag"); ok {
-		if defTag, err = tv.str(); err != nil {
-			return err
-		}
-	}
-	var defSpacing *geometry.Spacing
-	if sv, ok := o.get("spacing"); ok {
-		sp, err := decodeSpacing(sv, c)
-		if err != nil {
-			return err
-		}
-		defSpacing = &sp
-	}
-	sv, err := o.need("start")
+	defTag, defSpacing, err := decodeDefaults(c, o, name)
 	if err != nil {
 		return err
 	}
-	start, err := sv.point()
-	if err != nil {
-		return err
-	}
-	list, err := o.need("segments")
-	if err != nil {
-		return err
-	}
-	named, err := decodeChain(c, start, list, defTag, defSpacing)
+	named, err := decodeStartedChain(c, g, o, defTag, defSpacing)
 	if err != nil {
 		return err
 	}
@@ -271,13 +226,58 @@ func decodeCurve(c *Case, g *geometrySpec, v value) error {
 	cs := &curveSpec{name: name, at: v}
 	for _, ns := range named {
 		cs.segments = append(cs.segments, ns.seg)
+	}
+	return g.addCurve(cs)
+}
+
+// decodeDefaults reads the tag and spacing a loop or curve gives the
+// segments that name none of their own; defTag is the tag when it gives
+// none either.
+func decodeDefaults(c *Case, o *object, defTag string) (string, *geometry.Spacing, error) {
+	var err error
+	if tv, ok := o.get("tag"); ok {
+		if defTag, err = tv.str(); err != nil {
+			return "", nil, err
+		}
+	}
+	var defSpacing *geometry.Spacing
+	if sv, ok := o.get("spacing"); ok {
+		sp, err := decodeSpacing(sv, c)
+		if err != nil {
+			return "", nil, err
+		}
+		defSpacing = &sp
+	}
+	return defTag, defSpacing, nil
+}
+
+// decodeStartedChain reads the start point and the segments of a loop or
+// curve (see decodeChain) and registers every named segment as a curve.
+func decodeStartedChain(c *Case, g *geometrySpec, o *object, defTag string, defSpacing *geometry.Spacing) ([]namedSegment, error) {
+	sv, err := o.need("start")
+	if err != nil {
+		return nil, err
+	}
+	start, err := sv.point()
+	if err != nil {
+		return nil, err
+	}
+	list, err := o.need("segments")
+	if err != nil {
+		return nil, err
+	}
+	named, err := decodeChain(c, start, list, defTag, defSpacing)
+	if err != nil {
+		return nil, err
+	}
+	for _, ns := range named {
 		if ns.name != "" {
 			if err := g.addCurve(&curveSpec{name: ns.name, segments: []geometry.Segment{ns.seg}, at: ns.at}); err != nil {
-				return err
+				return nil, err
 			}
 		}
 	}
-	return g.addCurve(cs)
+	return named, nil
 }
 
 // outline validates the loops as one outline (closed, not self-crossing,

@@ -145,7 +145,7 @@ func (c *Case) limits(extra *quality.Patch) (quality.Limits, error) {
 // writeDeck writes every output into the (temporary) deck folder dir, then
 // the manifest with the hashes of all of them.
 func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *quality.Report, man *manifest.Manifest, formats []string) error {
-	fields := cellFields(m, rep)
+	fields := cellFields(rep)
 	conds := conditionNames(m, assign)
 	type output struct {
 		name, format string
@@ -270,7 +270,7 @@ func fileRecord(dir, name, format string) (manifest.File, error) {
 
 // cellFields are the per-cell arrays written with the mesh: the quality
 // metrics (the area comes with every VTK file anyway).
-func cellFields(m *mesh.Mesh, rep *quality.Report) []vtk.Field {
+func cellFields(rep *quality.Report) []vtk.Field {
 	var out []vtk.Field
 	for _, f := range rep.CellFields {
 		if f.Name == vtk.AreaName {

@@ -7,6 +7,7 @@ import (
 	"io"
 	"os"
 	"runtime"
+	"strings"
 
 	"github.com/spf13/cobra"
 
@@ -72,14 +73,7 @@ failed (the report names the cells); 2 bad input, nothing written.`,
 }
 
 func joinFormats() string {
-	s := ""
-	for i, f := range deck.Formats {
-		if i > 0 {
-			s += ", "
-		}
-		s += f
-	}
-	return s + " (default " + fmt.Sprint(deck.DefaultFormats) + ")"
+	return strings.Join(deck.Formats, ", ") + " (default " + strings.Join(deck.DefaultFormats, ",") + ")"
 }
 
 func runMesh(cmd *cobra.Command, g *globals, f *meshFlags, path string) error {
@@ -192,17 +186,8 @@ func runFamily(cmd *cobra.Command, g *globals, f *meshFlags, path string, c *dec
 	if s == nil {
 		return err
 	}
-	if g.json {
-		js, jerr := s.JSON()
-		if jerr != nil {
-			return jerr
-		}
-		if _, werr := cmd.OutOrStdout().Write(js); werr != nil {
-			return werr
-		}
-	}
-	if !g.quiet && !g.json {
-		reportSweep(cmd.OutOrStdout(), s, f.out, sweep.Shard{})
+	if perr := printSweep(cmd.OutOrStdout(), cmd.OutOrStdout(), s, f.out, sweep.Shard{}, g.json, g.quiet || g.json); perr != nil {
+		return perr
 	}
 	return err
 }

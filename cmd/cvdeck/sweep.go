@@ -114,19 +114,28 @@ func runSweep(cmd *cobra.Command, path string, fl sweepFlags) error {
 	if s == nil {
 		return err
 	}
+	if perr := printSweep(cmd.OutOrStdout(), stderr, s, fl.out, shard, jsonOut, quiet); perr != nil {
+		return perr
+	}
+	return err
+}
+
+// printSweep writes a sweep's summary as JSON on stdout with --json, and
+// its closing report on report unless quiet.
+func printSweep(stdout, report io.Writer, s *sweep.Summary, out string, shard sweep.Shard, jsonOut, quiet bool) error {
 	if jsonOut {
-		js, jerr := s.JSON()
-		if jerr != nil {
-			return jerr
+		js, err := s.JSON()
+		if err != nil {
+			return err
 		}
-		if _, werr := cmd.OutOrStdout().Write(js); werr != nil {
-			return werr
+		if _, err := stdout.Write(js); err != nil {
+			return err
 		}
 	}
 	if !quiet {
-		reportSweep(stderr, s, fl.out, shard)
+		reportSweep(report, s, out, shard)
 	}
-	return err
+	return nil
 }
 
 // reportSweep prints the failures, the warnings and a closing line.
