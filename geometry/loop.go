@@ -22,6 +22,10 @@ type Loop struct {
 	// segment k of a flipped loop is segment n−1−k of the input, run
 	// backwards.
 	Flipped bool
+	// ringEdges is set by the polygon readers, whose segment k is the
+	// ring's edge from vertex k to vertex k+1: validation messages then name
+	// segments by their vertices, as the file numbers them.
+	ringEdges bool
 }
 
 // Outline is a region bounded by one outer loop and any number of inner

@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"regexp"
 
 	"github.com/paulmach/orb"
 )
@@ -71,7 +70,7 @@ func polygonOutline(p orb.Polygon, tags PolygonTags, polygon int, where string) 
 	}
 	var o Outline
 	for ri, r := range p {
-		l := Loop{}
+		l := Loop{ringEdges: true}
 		for k := range len(r) - 1 {
 			t := edgeTags[ri][k]
 			if t == "" {
@@ -121,13 +120,8 @@ func ringError(err error, p orb.Polygon) error {
 	if ge.HasPoint {
 		at = fmt.Sprintf(" at (%g, %g)", ge.Point[0], ge.Point[1])
 	}
-	// Every segment of a polygon is one line edge: name the other edge a
-	// detail refers to by its vertices too.
-	detail := otherSegment.ReplaceAllString(ge.Detail, "the edge from vertex $1")
-	return fmt.Errorf("%s, edge from vertex %d to vertex %d%s: %s: %w", ring, ge.Segment, ge.Segment+1, at, detail, errOrFormat(ge.Err))
+	return fmt.Errorf("%s, edge from vertex %d to vertex %d%s: %s: %w", ring, ge.Segment, ge.Segment+1, at, ge.Detail, errOrFormat(ge.Err))
 }
-
-var otherSegment = regexp.MustCompile(`segment (\d+) \(line\)`)
 
 func errOrFormat(err error) error {
 	if err == nil {

@@ -195,7 +195,9 @@ func checkRings(rings []ring, loops []Loop, size float64) ([]float64, error) {
 			}
 			s = loopLabel(r.loop, name) + ", "
 		}
-		if r.seg >= 0 {
+		if r.seg >= 0 && r.loop < len(loops) && loops[r.loop].ringEdges {
+			s += fmt.Sprintf("the edge from vertex %d", r.seg)
+		} else if r.seg >= 0 {
 			s += fmt.Sprintf("segment %d (%s)", r.seg, loops[r.loop].Segments[r.seg].Kind())
 			if r.vert >= 0 {
 				s += fmt.Sprintf(" edge from vertex %d", r.vert)
