@@ -244,6 +244,8 @@ type smoother struct {
 	anyControl             bool
 	// phiRow and psiRow hold φ and ψ along the row being swept.
 	phiRow, psiRow []float64
+	// held collects the moves of one pass that wait for damping.
+	held []heldMove
 	// Wall control amplitudes: p drives the tangential, q the normal
 	// direction; south and north by i, west and east by j. Decay factors
 	// e^(−a k) by distance k from each side.
@@ -264,6 +266,7 @@ func newSmoother(b *Block, opt SmoothOptions) *smoother {
 	s.zero = make([]float64, max(ni, nj))
 	s.eta, s.xi = make([]float64, nj), make([]float64, ni)
 	s.phiRow, s.psiRow = make([]float64, ni), make([]float64, ni)
+	s.held = make([]heldMove, (ni+1)/2)
 	for j := range s.eta {
 		s.eta[j] = float64(j) / float64(nj-1)
 	}
@@ -352,19 +355,28 @@ func starCheck(x, y []float64, k, ni int, px, py float64) (tri, cell float64) {
 	return tri, cell
 }
 
-// controlRows fills s.phiRow and s.psiRow with the wall-control part of φ
-// and ψ along row j, and reports whether any control reaches the row (the
-// Thomas–Middlecoff part is added in the sweep itself).
-func (s *smoother) controlRows(j int) bool {
+// controlRows fills s.phiRow and s.psiRow with φ and ψ along row j: the
+// Thomas–Middlecoff part φ = φ_S + η (φ_N − φ_S), ψ = ψ_W + ξ (ψ_E − ψ_W)
+// (none while untangling: pure Winslow, whose mapping is folding-free) plus
+// the wall-control part faded by distance from each controlled side.
+func (s *smoother) controlRows(j int) {
 	const negligible = 1e-12
-	if s.mode == freeMode || !s.anyControl {
-		return false
-	}
 	ni := s.ni
 	phi, psi := s.phiRow[:ni], s.psiRow[:ni]
-	clear(phi)
-	clear(psi)
-	active := false
+	if s.mode == freeMode {
+		clear(phi)
+		clear(psi)
+		return
+	}
+	eta, psiW, dPsi := s.eta[j], s.psiW[j], s.dPsi[j]
+	phiS, dPhi, xi := s.phiS[:ni], s.dPhi[:ni], s.xi[:ni]
+	for i := range phi {
+		phi[i] = phiS[i] + eta*dPhi[i]
+		psi[i] = psiW + xi[i]*dPsi
+	}
+	if !s.anyControl {
+		return
+	}
 	// South and north controls act along the whole row, faded by distance.
 	for _, w := range [2]struct {
 		side mesh.Side
@@ -373,7 +385,6 @@ func (s *smoother) controlRows(j int) bool {
 		if !s.sides[w.side].controlled() || w.d < negligible {
 			continue
 		}
-		active = true
 		p, q := s.p[w.side][:ni], s.q[w.side][:ni]
 		for i := range phi {
 			phi[i] += p[i] * w.d
@@ -382,7 +393,6 @@ func (s *smoother) controlRows(j int) bool {
 	}
 	// West and east controls reach the first columns from their side.
 	if s.sides[mesh.West].controlled() {
-		active = true
 		p, q := s.p[mesh.West][j], s.q[mesh.West][j]
 		for i, d := range s.decayW[:ni] {
 			if d < negligible {
@@ -393,7 +403,6 @@ func (s *smoother) controlRows(j int) bool {
 		}
 	}
 	if s.sides[mesh.East].controlled() {
-		active = true
 		p, q := s.p[mesh.East][j], s.q[mesh.East][j]
 		for i := ni - 1; i >= 0; i-- {
 			d := s.decayE[i]
@@ -404,73 +413,53 @@ func (s *smoother) controlRows(j int) bool {
 			psi[i] += p * d
 		}
 	}
-	return active
 }
 
 // sweep does one SOR sweep over the interior nodes and returns the largest
 // squared node move over the squared local cell size. The loop body uses
-// only local values and row views of plain slices (no allocation, few bounds
-// checks); the fold test reuses the eight neighbours already loaded.
+// only row views of plain slices (no allocation, no bounds checks inside),
+// and is ordered so that few values are live at once: each difference is
+// formed from the loaded positions where it is used, and the fold test
+// loads the eight neighbours afresh. With sixteen floating-point registers
+// this keeps the loop out of the stack, where holding all sixteen relative
+// neighbour coordinates put it.
 func (s *smoother) sweep() float64 {
 	ni, nj := s.ni, s.nj
 	x, y := s.x, s.y
 	hom := 0.5 * s.omega
 	worst := 0.0
-	// Thomas–Middlecoff part: φ = φ_S + η (φ_N − φ_S), ψ = ψ_W + ξ (ψ_E − ψ_W);
-	// none while untangling (pure Winslow, whose mapping is folding-free).
-	phiS, dPhi, psiW, dPsi := s.phiS, s.dPhi, s.psiW, s.dPsi
-	if s.mode == freeMode {
-		phiS, dPhi, psiW, dPsi = s.zero[:ni], s.zero[:ni], s.zero[:nj], s.zero[:nj]
-	}
 	for j := 1; j+1 < nj; j++ {
-		active := s.controlRows(j)
-		eta, psiWj, dPsij := s.eta[j], psiW[j], dPsi[j]
+		s.controlRows(j)
 		row := j * ni
 		xc := x[row:][:ni]
 		yc := y[row:][:ni]
 		xs, ys := x[row-ni:][:len(xc)], y[row-ni:][:len(xc)]
 		xn, yn := x[row+ni:][:len(xc)], y[row+ni:][:len(xc)]
 		phiRow, psiRow := s.phiRow[:len(xc)], s.psiRow[:len(xc)]
-		phiSr, dPhir, xir := phiS[:len(xc)], dPhi[:len(xc)], s.xi[:len(xc)]
 		// Odd nodes of the row first, then even ones: each node still uses
 		// the latest values (a Gauss–Seidel ordering), but consecutive
 		// updates no longer wait on each other's result.
 		for i0 := 1; i0 <= 2; i0++ {
+			held, nheld := s.held[:(len(xc)+1)/2], 0
 			for i := i0; i < len(xc)-1; i += 2 {
 				px, py := xc[i], yc[i]
-				// Neighbours relative to the node.
-				ex, ey := xc[i+1]-px, yc[i+1]-py
-				wx, wy := xc[i-1]-px, yc[i-1]-py
-				nx, ny := xn[i]-px, yn[i]-py
-				sx, sy := xs[i]-px, ys[i]-py
-				nex, ney := xn[i+1]-px, yn[i+1]-py
-				nwx, nwy := xn[i-1]-px, yn[i-1]-py
-				sex, sey := xs[i+1]-px, ys[i+1]-py
-				swx, swy := xs[i-1]-px, ys[i-1]-py
-
-				xxi, yxi := 0.5*(ex-wx), 0.5*(ey-wy)
-				xeta, yeta := 0.5*(nx-sx), 0.5*(ny-sy)
-				xxe := 0.25 * (nex - nwx - sex + swx)
-				yxe := 0.25 * (ney - nwy - sey + swy)
+				xxi, yxi := 0.5*(xc[i+1]-xc[i-1]), 0.5*(yc[i+1]-yc[i-1])
+				xeta, yeta := 0.5*(xn[i]-xs[i]), 0.5*(yn[i]-ys[i])
 				al := xeta*xeta + yeta*yeta
 				be := xxi*xeta + yxi*yeta
 				ga := xxi*xxi + yxi*yxi
-				phi := phiSr[i] + eta*dPhir[i]
-				psi := psiWj + xir[i]*dPsij
-				if active {
-					phi += phiRow[i]
-					psi += psiRow[i]
-				}
-				// Gauss–Seidel value minus the present one, relative form:
-				// [α(e+w+φ r_ξ) + γ(n+s+ψ r_η) − 2β r_ξη] / 2(α+γ) with
-				// every position taken relative to the node.
+				// Gauss–Seidel value minus the present one:
+				// [α(e+w−2p+φ r_ξ) + γ(n+s−2p+ψ r_η) − 2β r_ξη] / 2(α+γ).
 				if !(al+ga > 0) {
 					continue // all neighbours on the node: no direction to move in
 				}
 				inv := hom / (al + ga)
-				be2 := be + be
-				dx := (al*(ex+wx+phi*xxi) + ga*(nx+sx+psi*xeta) - be2*xxe) * inv
-				dy := (al*(ey+wy+phi*yxi) + ga*(ny+sy+psi*yeta) - be2*yxe) * inv
+				be2 := 0.5 * be // 2β × the 1/4 of the cross difference
+				phi, psi := phiRow[i], psiRow[i]
+				dx := (al*(xc[i+1]+xc[i-1]-2*px+phi*xxi) + ga*(xn[i]+xs[i]-2*px+psi*xeta) -
+					be2*(xn[i+1]-xn[i-1]-xs[i+1]+xs[i-1])) * inv
+				dy := (al*(yc[i+1]+yc[i-1]-2*py+phi*yxi) + ga*(yn[i]+ys[i]-2*py+psi*yeta) -
+					be2*(yn[i+1]-yn[i-1]-ys[i+1]+ys[i-1])) * inv
 
 				h := al
 				if ga < h {
@@ -481,30 +470,63 @@ func (s *smoother) sweep() float64 {
 				}
 
 				// Fold test: the eight triangles (P', Q_m, Q_m+1) around the
-				// moved node, with Q relative to P' = P + d.
-				e2x, e2y := ex-dx, ey-dy
-				ne2x, ne2y := nex-dx, ney-dy
-				n2x, n2y := nx-dx, ny-dy
-				nw2x, nw2y := nwx-dx, nwy-dy
-				w2x, w2y := wx-dx, wy-dy
-				sw2x, sw2y := swx-dx, swy-dy
-				s2x, s2y := sx-dx, sy-dy
-				se2x, se2y := sex-dx, sey-dy
-				if e2x*ne2y-ne2x*e2y <= 0 || ne2x*n2y-n2x*ne2y <= 0 ||
-					n2x*nw2y-nw2x*n2y <= 0 || nw2x*w2y-w2x*nw2y <= 0 ||
-					w2x*sw2y-sw2x*w2y <= 0 || sw2x*s2y-s2x*sw2y <= 0 ||
-					s2x*se2y-se2x*s2y <= 0 || se2x*e2y-e2x*se2y <= 0 {
-					var ok bool
-					dx, dy, ok = s.damp(row+i, px, py, dx, dy)
-					if !ok {
-						continue
-					}
+				// moved node P' = P + d, neighbours Q in counter-clockwise
+				// order E, NE, N, NW, W, SW, S, SE, taken relative to P'.
+				// The node is stored first, which also makes the compiler load
+				// the neighbours afresh instead of keeping the earlier loads
+				// (on the stack, for want of registers); a failed test puts
+				// it back.
+				qx, qy := px+dx, py+dy
+				xc[i], yc[i] = qx, qy
+				ex, ey := xc[i+1]-qx, yc[i+1]-qy
+				ax, ay := xn[i+1]-qx, yn[i+1]-qy
+				if ex*ay-ax*ey <= 0 {
+					goto damp
 				}
-				xc[i], yc[i] = px+dx, py+dy
+				if bx, by := xn[i]-qx, yn[i]-qy; ax*by-bx*ay <= 0 {
+					goto damp
+				} else if ax, ay = xn[i-1]-qx, yn[i-1]-qy; bx*ay-ax*by <= 0 {
+					goto damp
+				}
+				if bx, by := xc[i-1]-qx, yc[i-1]-qy; ax*by-bx*ay <= 0 {
+					goto damp
+				} else if ax, ay = xs[i-1]-qx, ys[i-1]-qy; bx*ay-ax*by <= 0 {
+					goto damp
+				}
+				if bx, by := xs[i]-qx, ys[i]-qy; ax*by-bx*ay <= 0 {
+					goto damp
+				} else if ax, ay = xs[i+1]-qx, ys[i+1]-qy; bx*ay-ax*by <= 0 {
+					goto damp
+				}
+				if ax*ey-ex*ay <= 0 {
+					goto damp
+				}
+				continue
+			damp:
+				xc[i], yc[i] = px, py
+				held[nheld] = heldMove{i, dx, dy}
+				nheld++
+			}
+			// The nodes held back are damped after the pass. Their stars are
+			// made of the other parity of this row and of the rows beside it,
+			// none of which the pass moves, so this is the same as damping
+			// them in turn; it keeps the call out of the loop, whose values
+			// would otherwise all live on the stack.
+			for _, h := range held[:nheld] {
+				if dx, dy, ok := s.damp(row+h.i, xc[h.i], yc[h.i], h.dx, h.dy); ok {
+					xc[h.i], yc[h.i] = xc[h.i]+dx, yc[h.i]+dy
+				}
 			}
 		}
 	}
 	return worst
+}
+
+// heldMove is a proposed move of node i of the row being swept that failed
+// the fold test and waits for damping.
+type heldMove struct {
+	i      int
+	dx, dy float64
 }
 
 // damp handles a move (dx, dy) of interior node k from (px, py) that
