@@ -34,6 +34,13 @@ type CheckResult struct {
 // faces that carry no tag go into DefaultTag with a warning, so that only
 // geometry and connectivity decide the verdict. A failed check is a
 // *CheckFailure together with the result.
+//
+// A mesh inside a deck is checked with the deck's own limits, as recorded
+// in the quality.json beside it, so that the check gives the deck's
+// verdict: those limits come first and the patches apply on top of them,
+// unless a patch names a profile, which starts afresh from that profile. A
+// quality.json that cannot be read as a report gives a warning and the
+// default profile.
 func Check(path string, patches ...quality.Patch) (*CheckResult, error) {
 	var m *mesh.Mesh
 	var err error
@@ -73,6 +80,9 @@ func Check(path string, patches ...quality.Patch) (*CheckResult, error) {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%d boundary faces carry no tag; they are checked as one tag %q", hi-lo, DefaultTag))
 	}
 	res.Mesh = m
+	patches, notes, warns := withDeckLimits(path, patches)
+	res.Notes = append(res.Notes, notes...)
+	res.Warnings = append(res.Warnings, warns...)
 	lim, err := quality.Resolve(patches...)
 	if err != nil {
 		return nil, fmt.Errorf("%w: limits: %w", ErrInput, err)
@@ -84,6 +94,26 @@ func Check(path string, patches ...quality.Patch) (*CheckResult, error) {
 		return res, &CheckFailure{Failed: res.Report.FailedCells}
 	}
 	return res, nil
+}
+
+// withDeckLimits puts the limits of the quality.json beside path before
+// the patches when none of them names a profile, and says so.
+func withDeckLimits(path string, patches []quality.Patch) ([]quality.Patch, []string, []string) {
+	for _, p := range patches {
+		if p.Profile != "" {
+			return patches, nil, nil
+		}
+	}
+	side := filepath.Join(filepath.Dir(path), "quality.json")
+	if _, err := os.Stat(side); err != nil {
+		return patches, nil, nil
+	}
+	dp, err := quality.ReportPatch(side)
+	if err != nil {
+		return patches, nil, []string{fmt.Sprintf("%v; checking with the %q profile instead", err, quality.DefaultProfile)}
+	}
+	note := fmt.Sprintf("limits taken from %s (profile %q with the deck's changes)", side, dp.Profile)
+	return append([]quality.Patch{dp}, patches...), []string{note}, nil
 }
 
 // tagFromLines rebuilds m with the tags of boundary lines given by their

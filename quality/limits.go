@@ -331,6 +331,56 @@ func (p Patch) Apply(base Limits) (Limits, error) {
 	return l, nil
 }
 
+// ReportPatch reads a report written as JSON (a deck's quality.json) and
+// returns the patch that gives back the limits it was graded with: its
+// profile, the warn and fail thresholds of every metric it lists and its
+// duplicate and hanging tolerances. Checking a deck's mesh again with this
+// patch reproduces the deck's verdict. Errors name the file and what is
+// missing.
+func ReportPatch(path string) (Patch, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return Patch{}, fmt.Errorf("quality: reading report: %w", err)
+	}
+	var doc struct {
+		Profile string `json:"profile"`
+		Metrics []struct {
+			Name  string `json:"name"`
+			Limit *struct {
+				Warn, Fail *float64
+			} `json:"limit"`
+		} `json:"metrics"`
+		DuplicateTolerance *float64 `json:"duplicate_tolerance"`
+		HangingTolerance   *float64 `json:"hanging_tolerance"`
+	}
+	if err := json.Unmarshal(data, &doc); err != nil {
+		return Patch{}, fmt.Errorf("quality: %s is not a cvdeck quality report: %w", path, err)
+	}
+	if _, ok := profiles[doc.Profile]; !ok {
+		return Patch{}, fmt.Errorf("quality: %s: no limit profile %q; profiles are %s", path, doc.Profile, strings.Join(ProfileNames(), ", "))
+	}
+	p := Patch{Profile: doc.Profile}
+	for i, m := range doc.Metrics {
+		pos := fmt.Sprintf("%s: metrics[%d] (%s)", path, i, m.Name)
+		if metricByName(m.Name) == nil {
+			return Patch{}, fmt.Errorf("quality: %s: unknown metric; metrics are %s", pos, strings.Join(MetricNames(), ", "))
+		}
+		if m.Limit == nil || m.Limit.Warn == nil || m.Limit.Fail == nil {
+			return Patch{}, fmt.Errorf("quality: %s: the limit needs finite warn and fail thresholds", pos)
+		}
+		p.entries = append(p.entries, patchEntry{key: m.Name, warn: m.Limit.Warn, fail: m.Limit.Fail, pos: pos})
+	}
+	for _, t := range []struct {
+		key string
+		v   *float64
+	}{{"duplicate_tolerance", doc.DuplicateTolerance}, {"hanging_tolerance", doc.HangingTolerance}} {
+		if t.v != nil {
+			p.entries = append(p.entries, patchEntry{key: t.key, value: *t.v, pos: path + ": " + t.key})
+		}
+	}
+	return p, nil
+}
+
 // Resolve builds the limits of a run: the profile named by the last patch
 // that names one (else DefaultProfile), then every patch applied in order,
 // for example the case file's limits and then a --limits file.

@@ -77,7 +77,12 @@ type Report struct {
 	FailedNodes int `json:"failed_nodes"`
 	// DuplicateDistance is the absolute distance below which two nodes
 	// count as duplicates (Limits.DuplicateTolerance × shortest face).
-	DuplicateDistance float64         `json:"duplicate_distance"`
+	DuplicateDistance float64 `json:"duplicate_distance"`
+	// DuplicateTolerance and HangingTolerance are the limits' relative
+	// tolerances of those two checks, kept so that the report records
+	// every limit it was graded with (see ReportPatch).
+	DuplicateTolerance float64         `json:"duplicate_tolerance"`
+	HangingTolerance   float64         `json:"hanging_tolerance"`
 	Metrics           []MetricSummary `json:"metrics"`
 	Audit             Audit           `json:"audit"`
 	Connectivity      []CheckResult   `json:"connectivity"`
@@ -149,6 +154,7 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 
 	r := &Report{
 		Profile: lim.Profile, Cells: nc, Faces: m.NumFaces(), BoundaryFaces: m.NumBoundary(), Nodes: nn,
+		DuplicateTolerance: lim.DuplicateTolerance, HangingTolerance: lim.HangingTolerance,
 		CellStatus: make([]Status, nc),
 	}
 	// Three independent sweeps run side by side: the cell metrics, the node

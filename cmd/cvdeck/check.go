@@ -21,7 +21,10 @@ with triangles, quads or polygons (line cells are boundary faces, tagged by a
 "boundary_tag" or "tag" cell array), or a CGNS file — and runs every quality
 metric, the connectivity checks and the conservation audit on it.
 
-Boundary faces with no tag are checked as one tag "boundary", with a warning.
+A mesh inside a deck (a quality.json beside it) is graded with the limits the
+deck records, so the check gives the deck's verdict; --limits applies on top of
+them and --profile starts afresh from a named profile. Boundary faces with no
+tag are checked as one tag "boundary", with a warning.
 Exit codes: 0 the mesh passes; 1 a cell fails a limit; 2 the file cannot be read.`,
 		Args: func(cmd *cobra.Command, args []string) error {
 			if len(args) != 1 {

@@ -365,3 +365,67 @@ func TestCheckOwnDeck(t *testing.T) {
 		t.Fatalf("mesh.vtu alone: %+v", r)
 	}
 }
+
+// TestCheckUsesDeckLimits: a deck's mesh is checked with the limits its
+// quality.json records, so `cvdeck check` gives the deck's verdict (the
+// naca-ogrid case relaxes face skewness, which its thin curved wall cells
+// exceed under the default profile); a limits file applies on top of them,
+// --profile starts afresh, and an unreadable quality.json falls back to
+// the default profile with a warning.
+func TestCheckUsesDeckLimits(t *testing.T) {
+	dir := t.TempDir()
+	_, out, _ := cvdeck(t, "init", "naca-ogrid", dir)
+	deckDir := filepath.Join(dir, "deck")
+	if code, _, errs := cvdeck(t, "mesh", strings.TrimSpace(out), "-o", deckDir, "--quiet"); code != 0 {
+		t.Fatalf("mesh: %s", errs)
+	}
+	type report struct {
+		Verdict     string `json:"verdict"`
+		FailedCells int    `json:"failed_cells"`
+		WarnedCells int    `json:"warned_cells"`
+	}
+	var own report
+	data, err := os.ReadFile(filepath.Join(deckDir, "quality.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := json.Unmarshal(data, &own); err != nil {
+		t.Fatal(err)
+	}
+	type result struct {
+		Notes    []string `json:"notes"`
+		Warnings []string `json:"warnings"`
+		Quality  report   `json:"quality"`
+	}
+	check := func(want int, args ...string) result {
+		code, stdout, errs := cvdeck(t, append([]string{"check", filepath.Join(deckDir, "mesh.vtu"), "--json"}, args...)...)
+		if code != want {
+			t.Fatalf("check %v: exit %d, want %d: %s", args, code, want, errs)
+		}
+		var r result
+		if err := json.Unmarshal([]byte(stdout), &r); err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+	r := check(0)
+	if r.Quality != own || !strings.Contains(strings.Join(r.Notes, "\n"), "limits taken from") {
+		t.Fatalf("check with the deck's limits gave %+v, the deck %+v", r, own)
+	}
+	if r := check(1, "--profile", "everyday"); r.Quality.Verdict != "fail" || r.Quality.FailedCells == 0 {
+		t.Fatalf("--profile everyday: %+v", r.Quality)
+	}
+	tighter := filepath.Join(dir, "tighter.yaml")
+	if err := os.WriteFile(tighter, []byte("skewness: {warn: 1, fail: 2}\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if r := check(1, "--limits", tighter); r.Quality.FailedCells == 0 {
+		t.Fatalf("--limits on top of the deck's: %+v", r.Quality)
+	}
+	if err := os.WriteFile(filepath.Join(deckDir, "quality.json"), []byte("{not json"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if r := check(1); len(r.Warnings) != 1 || !strings.Contains(r.Warnings[0], "not a cvdeck quality report") {
+		t.Fatalf("broken quality.json: %+v", r)
+	}
+}
