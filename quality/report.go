@@ -83,9 +83,9 @@ type Report struct {
 	// every limit it was graded with (see ReportPatch).
 	DuplicateTolerance float64         `json:"duplicate_tolerance"`
 	HangingTolerance   float64         `json:"hanging_tolerance"`
-	Metrics           []MetricSummary `json:"metrics"`
-	Audit             Audit           `json:"audit"`
-	Connectivity      []CheckResult   `json:"connectivity"`
+	Metrics            []MetricSummary `json:"metrics"`
+	Audit              Audit           `json:"audit"`
+	Connectivity       []CheckResult   `json:"connectivity"`
 
 	// CellStatus is the worst status of each cell.
 	CellStatus []Status `json:"-"`
