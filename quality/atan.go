@@ -28,13 +28,12 @@ import "math"
 // the constant term of each interval is kept already turned into each
 // quadrant, so the result is rounded once after it.
 func atan2(y, x float64) float64 {
-	if y-y != 0 || x-x != 0 || y == 0 || x == 0 {
-		return math.Atan2(y, x) // NaN, ±Inf or a zero: the library's special cases
-	}
 	a, b := math.Abs(y), math.Abs(x)
 	t := min(a, b) / max(a, b)
-	if t == 0 {
-		return math.Atan2(y, x) // the ratio underflows
+	if !(t > 0) {
+		// A NaN, ±Inf or zero operand (t is NaN or 0), or a ratio that
+		// underflows: the library's special cases.
+		return math.Atan2(y, x)
 	}
 	k := min(int(t*atanIntervals), atanIntervals-1)
 	u := t - atanCentre[k]
