@@ -418,7 +418,10 @@ func checkPoints(p []orb.Point, closed bool) error {
 // convex is tried again with twice the dissipation, up to five times; then
 // the march stops with an error naming the layer and the position. A
 // right-angle inside corner marches out some twenty wall spacings; sharper
-// ones stop sooner, with that error.
+// ones stop sooner, with that error. A layer whose line runs into itself
+// or into the line below (frontCrossing: two parts of the front meeting
+// across a narrow gap, which no cell-by-cell test sees) also stops the
+// march, with the layer and the place.
 func march(pts []orb.Point, periodic bool, heights []float64, opt MarchOptions, rep *MarchReport) (xs, ys []float64, err error) {
 	n := len(pts)
 	nk := len(heights) + 1
@@ -567,6 +570,10 @@ func march(pts []orb.Point, periodic bool, heights []float64, opt MarchOptions, 
 			i := convexLayer(x0, y0, x1, y1, periodic)
 			return nil, nil, fmt.Errorf("layer %d of %d (height %.3g, %.3g from the wall) cannot advance without folding the cell at i = %d near (%g, %g), even with 32 times the dissipation; lower the first height or growth, use fewer layers, or refine the wall there",
 				k+1, nk-1, ds, sum(heights[:k+1]), i, x0[i], y0[i])
+		}
+		if i, j, px, py, hit := frontCrossing(x0, y0, x1, y1, periodic); hit {
+			return nil, nil, fmt.Errorf("layer %d of %d (height %.3g, %.3g from the wall) runs into the grid near (%g, %g): its cell at i = %d would overlap the one at i = %d, across a gap or cavity narrower than the grid is deep; lower the outer distance or the number of layers, or mesh that region by blocks or with the unstructured mesher",
+				k+1, nk-1, ds, sum(heights[:k+1]), px, py, i, j)
 		}
 	}
 	return xs, ys, nil

@@ -1,7 +1,9 @@
 package structured
 
 import (
+	"fmt"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/paulmach/orb"
@@ -247,7 +249,9 @@ func TestMarchBadInput(t *testing.T) {
 	wantErr(t, err, "no tag for the outer boundary")
 
 	// A deep slot narrower than the march distance: the fronts from its two
-	// walls must meet, and the march cannot go on without folding.
+	// walls meet on its centre line (x = 0) once the grid is deeper than
+	// half the slot's width, 0.05, which the 4th layer is (0.0537), before
+	// any cell folds; the march stops there.
 	var p []orb.Point
 	for k := 0; k <= 20; k++ {
 		p = append(p, orb.Point{-1 + 0.95*float64(k)/20, 0})
@@ -265,7 +269,11 @@ func TestMarchBadInput(t *testing.T) {
 		p = append(p, orb.Point{0.05 + 0.95*float64(k)/20, 0})
 	}
 	_, _, err = MarchOpen(chainOf(p, "wall"), MarchOptions{Name: "slot", FirstHeight: 0.01, Growth: 1.2, Layers: 20, OuterTag: "far", StartTag: "a", EndTag: "b"})
-	wantErr(t, err, `grid "slot"`, "cannot advance without folding the cell at i =", "layer ")
+	wantErr(t, err, `grid "slot"`, "layer 4 of 20", "0.0537 from the wall", "runs into the grid near (")
+	var x float64
+	if _, e := fmt.Sscanf(err.Error()[strings.Index(err.Error(), "near (")+6:], "%g", &x); e != nil || math.Abs(x) > 1e-9 {
+		t.Errorf("the fronts should meet on the centre line x = 0: %v", err)
+	}
 	t.Log(err)
 
 	// C-grid on an open trailing edge.
@@ -353,4 +361,39 @@ func TestMarchShapes(t *testing.T) {
 		t.Fatal(err)
 	}
 	assertPositive(t, b)
+}
+
+// TestMarchFrontMeetsItself: a body with a cavity behind a narrow mouth
+// (0.06 wide) of our own. Marching outward, the lips' fronts meet across
+// the mouth once the grid is deeper than 0.03, while every cell is still
+// strictly convex (the cavity's own cells fold only some ten layers
+// later): the cell test alone would let the layers overlap. The march
+// must stop at the first layer beyond 0.03, in the mouth.
+func TestMarchFrontMeetsItself(t *testing.T) {
+	corners := []orb.Point{{0, 0}, {1, 0}, {1, 0.47}, {0.9, 0.47}, {0.9, 0.2}, {0.2, 0.2}, {0.2, 0.8}, {0.9, 0.8}, {0.9, 0.53}, {1, 0.53}, {1, 1}, {0, 1}}
+	var loop geometry.DiscreteLoop
+	for k, a := range corners {
+		b := corners[(k+1)%len(corners)]
+		steps := int(math.Ceil(math.Hypot(b[0]-a[0], b[1]-a[1]) / 0.01))
+		for s := 0; s < steps; s++ {
+			f := float64(s) / float64(steps)
+			loop.Points = append(loop.Points, orb.Point{a[0] + f*(b[0]-a[0]), a[1] + f*(b[1]-a[1])})
+			loop.Tags = append(loop.Tags, "wall")
+		}
+	}
+	opt := MarchOptions{Name: "lips", FirstHeight: 0.002, Growth: 1.15, Layers: 30, OuterTag: "far"}
+	_, _, err := MarchClosed(loop, opt)
+	wantErr(t, err, `O-grid "lips"`, "runs into the grid near (")
+	heights, _, _ := opt.heights()
+	var layer, x, y float64
+	msg := err.Error()
+	fmt.Sscanf(msg[strings.Index(msg, "layer "):], "layer %g", &layer)
+	fmt.Sscanf(msg[strings.Index(msg, "near (")+6:], "%g, %g", &x, &y)
+	k := int(layer)
+	if sum(heights[:k]) < 0.03 || sum(heights[:k-1]) >= 0.03 {
+		t.Errorf("stopped at layer %d, %g from the wall; the lips meet past 0.03: %v", k, sum(heights[:k]), err)
+	}
+	if x < 0.85 || x > 1 || math.Abs(y-0.5) > 0.03 {
+		t.Errorf("met at (%g, %g), not in the mouth: %v", x, y, err)
+	}
 }
