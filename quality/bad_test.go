@@ -278,3 +278,40 @@ func TestEmptyAndUnused(t *testing.T) {
 		t.Errorf("unused: %+v, verdict %s", ps, r.Verdict)
 	}
 }
+
+// Two unit squares of two triangles each, laid over each other with a
+// shift of half a side: every cell is positive, every face has its cells,
+// each boundary is closed and tagged, so no other check sees anything
+// wrong, yet the patches overlap by a quarter of their area. Their
+// boundaries cross at (1, 0.5) and (0.5, 1) (hand geometry), and
+// boundary_crossing must report one of those places and fail the mesh.
+func TestOverlappingPatches(t *testing.T) {
+	nodes := []orb.Point{{0, 0}, {1, 0}, {1, 1}, {0, 1}, {0.5, 0.5}, {1.5, 0.5}, {1.5, 1.5}, {0.5, 1.5}}
+	cells := [][]int32{{0, 1, 2}, {0, 2, 3}, {4, 5, 6}, {4, 6, 7}}
+	r := evaluate(t, build(t, nodes, cells, true))
+	for _, c := range r.Connectivity {
+		if c.Name != CheckCrossing && c.Count != 0 {
+			t.Errorf("check %s found %d problems: %+v", c.Name, c.Count, c.Problems)
+		}
+	}
+	ps := problems(r, CheckCrossing)
+	if len(ps) != 1 || r.Verdict != Fail {
+		t.Fatalf("boundary_crossing %+v, verdict %s", ps, r.Verdict)
+	}
+	p := ps[0]
+	if !(near(p.X, 1, 1e-15) && near(p.Y, 0.5, 1e-15) || near(p.X, 0.5, 1e-15) && near(p.Y, 1, 1e-15)) {
+		t.Errorf("crossing at (%g, %g), want (1, 0.5) or (0.5, 1): %s", p.X, p.Y, p.Message)
+	}
+	if r.CellStatus[p.Cell] != Fail {
+		t.Errorf("cell %d named but not failed", p.Cell)
+	}
+	// Moved clear of each other, the two patches are two separate, valid
+	// regions.
+	for k := 4; k < 8; k++ {
+		nodes[k][0] += 1
+	}
+	r = evaluate(t, build(t, nodes, cells, true))
+	if ps := problems(r, CheckCrossing); len(ps) != 0 {
+		t.Errorf("separate patches: %+v", ps)
+	}
+}

@@ -4,21 +4,32 @@ import (
 	"fmt"
 	"math"
 
+	"cvdeck/geometry"
 	"cvdeck/mesh"
 )
 
 // The connectivity checks, in the order the report lists them.
 const (
-	CheckFaceCells   = "face_cells"       // each face has its owner, and a neighbour exactly when interior
-	CheckCellFaces   = "cell_faces"       // each cell edge is exactly one face (a missing one is a gap)
-	CheckOrientation = "orientation"      // the two cells of a face traverse it in opposite directions
-	CheckBoundaryTag = "boundary_tag"     // each boundary face carries a tag
-	CheckWatertight  = "watertight"       // boundary loops are closed: Σ S n = 0, every node balanced
-	CheckZeroFace    = "zero_length_face" // no face of zero length
-	CheckDuplicate   = "duplicate_node"   // no two boundary nodes closer than the tolerance (see below)
-	CheckUnused      = "unused_node"      // every node belongs to a cell
-	CheckHanging     = "hanging_node"     // no node lies inside another cell's face
+	CheckFaceCells   = "face_cells"        // each face has its owner, and a neighbour exactly when interior
+	CheckCellFaces   = "cell_faces"        // each cell edge is exactly one face (a missing one is a gap)
+	CheckOrientation = "orientation"       // the two cells of a face traverse it in opposite directions
+	CheckBoundaryTag = "boundary_tag"      // each boundary face carries a tag
+	CheckWatertight  = "watertight"        // boundary loops are closed: Σ S n = 0, every node balanced
+	CheckZeroFace    = "zero_length_face"  // no face of zero length
+	CheckDuplicate   = "duplicate_node"    // no two boundary nodes closer than the tolerance (see below)
+	CheckUnused      = "unused_node"       // every node belongs to a cell
+	CheckHanging     = "hanging_node"      // no node lies inside another cell's face
+	CheckCrossing    = "boundary_crossing" // no two boundary faces cross or touch away from a shared node
 )
+
+// Why boundary_crossing rules out overlapping cells: when every cell is
+// positive and consistently oriented and the faces pair up, the cells map
+// the mesh onto the plane without folding locally, and with simple,
+// mutually disjoint boundary loops every point inside is then covered
+// exactly once (the winding number of the boundary is 1 there and the
+// cover's degree equals it). Cells that overlap without any inverted cell
+// (a grid marched into itself, two patches laid over each other) always
+// leave their mark on the boundary as a crossing.
 
 // Duplicate nodes are looked for among the boundary nodes: two copies of a
 // node that should be one leave a crack, and the faces along a crack are
@@ -28,7 +39,7 @@ const (
 // Coincident nodes of one cell show as zero-length faces or degenerate
 // cells, and unreferenced copies as unused nodes.
 var checkNames = []string{CheckFaceCells, CheckCellFaces, CheckOrientation, CheckBoundaryTag,
-	CheckWatertight, CheckZeroFace, CheckDuplicate, CheckUnused, CheckHanging}
+	CheckWatertight, CheckCrossing, CheckZeroFace, CheckDuplicate, CheckUnused, CheckHanging}
 
 // Problem is one connectivity defect, located by the cell, face and node it
 // concerns (-1 where it concerns none) and the position (X, Y) where to look.
@@ -337,6 +348,28 @@ func nodeCells(m *mesh.Mesh) []int32 {
 		}
 	}
 	return first
+}
+
+// checkCrossing runs boundary_crossing: the first two boundary faces that
+// cross or touch, other than at a node they share (the same node, or two
+// copies of one at the same place, which duplicate_node reports).
+func checkCrossing(m *mesh.Mesh, cn *connectivity) {
+	nb := m.NumBoundary()
+	pieces := make([]geometry.Piece, nb)
+	for k := range pieces {
+		fn := m.FaceNodes[m.NumInterior+k]
+		pieces[k] = geometry.Piece{A: m.Nodes[fn[0]], B: m.Nodes[fn[1]]}
+	}
+	a, b, p, hit := geometry.FirstCrossing(pieces, func(i, j int) bool {
+		pi, pj := pieces[i], pieces[j]
+		return pi.A == pj.A || pi.A == pj.B || pi.B == pj.A || pi.B == pj.B
+	})
+	if !hit {
+		return
+	}
+	fa, fb := m.NumInterior+min(a, b), m.NumInterior+max(a, b)
+	cn.add(Problem{Check: CheckCrossing, Cell: int(m.Owner[fa]), Face: fa, Node: -1, X: p[0], Y: p[1],
+		Message: fmt.Sprintf("boundary faces %d and %d (of cells %d and %d) meet at (%.9g, %.9g): the mesh lies over itself there, or two of its boundaries run into each other (the first such place found)", fa, fb, m.Owner[fa], m.Owner[fb], p[0], p[1])})
 }
 
 // checkNodes runs unused_node and the node balance of watertight: on a

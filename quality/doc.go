@@ -12,7 +12,8 @@
 //     Green–Gauss gradient error of a linear field per cell, and the closure
 //     of the median-dual control volume of each node;
 //   - connectivity checks (faces and their cells, tags, a watertight
-//     boundary, duplicate, unused and hanging nodes, orientation);
+//     boundary whose faces do not cross, duplicate, unused and hanging
+//     nodes, orientation);
 //   - a pass / warn / fail status per cell and metric and a verdict that is
 //     fail if any cell fails.
 //

@@ -186,6 +186,7 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 		checkFaces(m, cf, cn)
 		bclosure = boundaryClosure(m)
 		checkNodes(m, first, bclosure, lim.Closure.Fail, cn)
+		checkCrossing(m, cn)
 		if hmin := ff.shortest(); !math.IsInf(hmin, 0) {
 			r.DuplicateDistance = lim.DuplicateTolerance * hmin
 		}
