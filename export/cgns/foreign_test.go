@@ -2,6 +2,7 @@ package cgns
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"os/exec"
@@ -96,7 +97,7 @@ func TestReadForeignUnstructured(t *testing.T) {
 
 func TestReadForeignStructured(t *testing.T) {
 	dir := foreignFiles(t)
-	for _, file := range []string{"twozone.cgns", "onesided.cgns"} {
+	for _, file := range []string{"twozone.cgns", "onesided.cgns", "twozone3d.cgns"} {
 		t.Run(file, func(t *testing.T) {
 			m, err := Read(filepath.Join(dir, file))
 			if err != nil {
@@ -198,5 +199,103 @@ func TestReadRejects(t *testing.T) {
 
 	if _, err := Read(filepath.Join(dir, "missing.cgns")); err == nil || !errors.Is(err, os.ErrNotExist) {
 		t.Errorf("missing file: got %v, want a not-exist error", err)
+	}
+}
+
+// plot3dAnnulus writes a half annulus of our own (radii 1 to 2, 21 × 11
+// nodes, nk node planes at z = 0 and 0.05) as a formatted whole-grid
+// PLOT3D file, with the x of the second plane moved by shift, and converts
+// it with the CGNS library's plot3d_to_cgns (Debian cgns-convert), which
+// writes a 3D base with one structured zone. It returns the CGNS file and
+// the k = 1 plane's nodes.
+func plot3dAnnulus(t *testing.T, nk int, shift float64) (string, []orb.Point) {
+	t.Helper()
+	const ni, nj = 21, 11
+	var pts []orb.Point
+	for j := 0; j < nj; j++ {
+		for i := 0; i < ni; i++ {
+			r, a := 1+0.1*float64(j), math.Pi*float64(i)/(ni-1)
+			pts = append(pts, orb.Point{r * math.Cos(a), r * math.Sin(a)})
+		}
+	}
+	var b strings.Builder
+	fmt.Fprintf(&b, "%d %d %d\n", ni, nj, nk)
+	for axis := 0; axis < 3; axis++ {
+		for k := 0; k < nk; k++ {
+			for _, p := range pts {
+				v := 0.05 * float64(k)
+				if axis < 2 {
+					v = p[axis]
+					if axis == 0 && k == 1 {
+						v += shift
+					}
+				}
+				fmt.Fprintf(&b, "%.17g\n", v)
+			}
+		}
+	}
+	dir := t.TempDir()
+	src, dst := filepath.Join(dir, "annulus.p3d"), filepath.Join(dir, "annulus.cgns")
+	if err := os.WriteFile(src, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if out, err := exec.Command(tool(t, "plot3d_to_cgns"), "-s", "-f", "-d", src, dst).CombinedOutput(); err != nil {
+		t.Fatalf("plot3d_to_cgns: %v\n%s", err, out)
+	}
+	return dst, pts
+}
+
+// TestReadPlot3dConverted: a grid converted by another program into a 3D
+// base, one node plane thick and one cell thick, reads as the 2D mesh of
+// its k = 1 plane: the same nodes, 200 quadrilaterals, and a total area
+// equal to the shoelace area of the grid's boundary loop (Green's theorem).
+// A second plane that is not the first moved in z is refused.
+func TestReadPlot3dConverted(t *testing.T) {
+	for _, nk := range []int{1, 2} {
+		path, pts := plot3dAnnulus(t, nk, 0)
+		m, err := Read(path)
+		if err != nil {
+			t.Fatalf("nk = %d: %v", nk, err)
+		}
+		if m.NumCells() != 200 || len(m.Nodes) != len(pts) {
+			t.Fatalf("nk = %d: %d cells, %d nodes; want 200, %d", nk, m.NumCells(), len(m.Nodes), len(pts))
+		}
+		for k, p := range pts {
+			if m.Nodes[k] != p {
+				t.Fatalf("nk = %d: node %d at %v, want %v", nk, k, m.Nodes[k], p)
+			}
+		}
+		// Boundary loop: j = 0 row, i = ni−1 column, j = nj−1 row back,
+		// i = 0 column back.
+		const ni, nj = 21, 11
+		var loop []orb.Point
+		for i := 0; i < ni; i++ {
+			loop = append(loop, pts[i])
+		}
+		for j := 1; j < nj; j++ {
+			loop = append(loop, pts[j*ni+ni-1])
+		}
+		for i := ni - 2; i >= 0; i-- {
+			loop = append(loop, pts[(nj-1)*ni+i])
+		}
+		for j := nj - 2; j > 0; j-- {
+			loop = append(loop, pts[j*ni])
+		}
+		want := 0.0
+		for k, p := range loop {
+			q := loop[(k+1)%len(loop)]
+			want += 0.5 * (p[0]*q[1] - q[0]*p[1])
+		}
+		got := 0.0
+		for _, a := range m.Geo.CellArea {
+			got += a
+		}
+		if math.Abs(got-math.Abs(want)) > 1e-13 {
+			t.Errorf("nk = %d: total area %.16g, boundary loop %.16g", nk, got, math.Abs(want))
+		}
+	}
+	path, _ := plot3dAnnulus(t, 2, 1e-3)
+	if _, err := Read(path); err == nil || !strings.Contains(err.Error(), "moved in z") {
+		t.Errorf("a skewed second plane read without complaint: %v", err)
 	}
 }

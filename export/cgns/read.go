@@ -23,7 +23,9 @@ import (
 //
 // The file's first base must have cell dimension 2 (physical dimension 2,
 // or 3 with a constant CoordinateZ) and hold either one unstructured zone
-// or one or more structured zones:
+// or one or more structured zones; or it is a 3D base holding a 2D case
+// the way 3D solvers take one, structured zones one node plane or one cell
+// thick in k (see structured below):
 //
 //   - unstructured: sections of TRI_3, QUAD_4, MIXED (of those) and NGON_n
 //     (polygons) are the cells, in element-number order whatever the order
@@ -48,6 +50,13 @@ import (
 //     left-handed zone's cells are turned counter-clockwise. BCs are
 //     Vertex point ranges or lists, or face ranges (EdgeCenter, the 2D
 //     face location, or IFaceCenter/JFaceCenter).
+//   - structured zones of a 3D base: each zone has one node plane in k,
+//     or two that differ only in z (one cell thick), and its k = 1 plane,
+//     at constant z, is read as above; joins must keep k along k
+//     (Transform ±3 third) and are read on the (i, j) plane, BCs on
+//     i- or j-faces likewise (FaceCenter, IFaceCenter, JFaceCenter or
+//     Vertex), and BCs on the k = const planes (the front and back of the
+//     slab) are left out.
 //
 // Tags are the base's Family_t nodes that have a FamilyBC or are used by a
 // BC, in file order, then the other BC tags in the order BCs first use
@@ -126,6 +135,10 @@ type reader struct {
 	b    C.int
 	base string
 	pdim int
+	// thin marks a 3D base (cell and physical dimension 3) read as a 2D
+	// case stored in 3D: structured zones one node plane or one cell thick
+	// in k, whose k = 1 plane is the mesh (see structured).
+	thin bool
 	// families are the Family_t names of the base, in file order, and
 	// bcFamily marks those with a FamilyBC: boundary families, kept as
 	// tags even when no face uses them.
@@ -158,8 +171,9 @@ func (r *reader) read() (*mesh.Mesh, error) {
 	r.base = C.GoString(&name[0])
 	r.pdim = int(pdim)
 	bp := "/" + r.base
-	if cdim != 2 || pdim < 2 || pdim > 3 {
-		return nil, fmt.Errorf("%s: cell dimension %d, physical dimension %d; cvdeck reads 2D meshes (cell dimension 2, physical dimension 2 or 3)", bp, cdim, pdim)
+	r.thin = cdim == 3 && pdim == 3
+	if !r.thin && (cdim != 2 || pdim < 2 || pdim > 3) {
+		return nil, fmt.Errorf("%s: cell dimension %d, physical dimension %d; cvdeck reads 2D meshes (cell dimension 2, physical dimension 2 or 3), or 2D cases stored as 3D structured zones one plane or one cell thick", bp, cdim, pdim)
 	}
 	var nf C.int
 	if err := libError(C.cg_nfamilies(r.fn, r.b, &nf), "count families of "+bp); err != nil {
@@ -204,6 +218,8 @@ func (r *reader) read() (*mesh.Mesh, error) {
 	switch {
 	case nstruct == int(nz):
 		return r.structured(int(nz))
+	case r.thin:
+		return nil, fmt.Errorf("%s is a 3D base with unstructured zones; cvdeck reads a 3D base only as structured zones one node plane or one cell thick in k (a 2D case stored in 3D)", bp)
 	case nstruct == 0 && nz == 1:
 		return r.unstructured(1)
 	case nstruct == 0:

@@ -7,7 +7,9 @@ import "C"
 
 import (
 	"fmt"
+	"math"
 	"slices"
+	"unsafe"
 
 	"github.com/paulmach/orb"
 
@@ -19,6 +21,7 @@ type szone struct {
 	name   string
 	path   string
 	ni, nj int
+	nk     int // node planes in k, in a 3D base (1 or 2); 0 in a 2D one
 	first  int32 // global id of node (1, 1): nodes are first + j*ni + i
 	nodes  []orb.Point
 }
@@ -70,10 +73,16 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 		}
 		s := &zones[zi]
 		s.name, s.path = name, "/"+r.base+"/"+name
-		if idim != 2 {
-			return nil, fmt.Errorf("%s is a structured zone of index dimension %d; cvdeck reads 2D zones", s.path, idim)
+		if want := r.indexDim(); int(idim) != want {
+			return nil, fmt.Errorf("%s is a structured zone of index dimension %d in a base of cell dimension %d; cvdeck reads zones of index dimension %d there", s.path, idim, want, want)
 		}
 		s.ni, s.nj = int(size[0]), int(size[1])
+		if r.thin {
+			s.nk = int(size[2])
+			if s.nk != 1 && s.nk != 2 {
+				return nil, fmt.Errorf("%s is %d×%d×%d nodes; in a 3D base cvdeck reads zones one node plane or one cell thick in k (nk = 1 or 2)", s.path, s.ni, s.nj, s.nk)
+			}
+		}
 		if s.ni < 2 || s.nj < 2 {
 			return nil, fmt.Errorf("%s is %d×%d nodes; a structured zone needs at least 2×2", s.path, s.ni, s.nj)
 		}
@@ -82,8 +91,17 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 		}
 		s.first = total
 		total += int32(s.ni * s.nj)
-		if s.nodes, err = r.coords(z, s.path, size[:2], s.ni*s.nj); err != nil {
+		rmax := []int32{int32(s.ni), int32(s.nj)}
+		if r.thin {
+			rmax = append(rmax, 1) // the k = 1 plane
+		}
+		if s.nodes, err = r.coords(z, s.path, rmax, s.ni*s.nj); err != nil {
 			return nil, err
+		}
+		if s.nk == 2 {
+			if err := r.sameSecondPlane(z, s); err != nil {
+				return nil, err
+			}
 		}
 		byName[name] = zi
 	}
@@ -211,9 +229,14 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 	}
 	for zi := range zones {
 		s := &zones[zi]
-		bcs, err := r.bocos(C.int(zi+1), s.path, 2)
+		bcs, err := r.bocos(C.int(zi+1), s.path, r.indexDim())
 		if err != nil {
 			return nil, err
+		}
+		if r.thin {
+			if bcs, err = s.planeBCs(bcs); err != nil {
+				return nil, err
+			}
 		}
 		for _, b := range bcs {
 			edges, err := s.bcEdges(b)
@@ -274,12 +297,29 @@ func (r *reader) joins(z C.int, s *szone, zones []szone, byName map[string]int) 
 	out := make([]join, 0, n)
 	for k := C.int(1); k <= n; k++ {
 		var jn join
-		var tr [2]C.int
-		if err := libError(C.cg_1to1_read(r.fn, r.b, z, k, &name[0], &donor[0], ip(jn.rng[:]), ip(jn.drng[:]), &tr[0]), fmt.Sprintf("read 1-to-1 join %d of %s", k, s.path)); err != nil {
+		var rng, drng [6]int32
+		var tr [3]C.int
+		if err := libError(C.cg_1to1_read(r.fn, r.b, z, k, &name[0], &donor[0], ip(rng[:]), ip(drng[:]), &tr[0]), fmt.Sprintf("read 1-to-1 join %d of %s", k, s.path)); err != nil {
 			return nil, err
 		}
 		jn.path = s.path + "/ZoneGridConnectivity/" + C.GoString(&name[0])
 		jn.transform = [2]int32{int32(tr[0]), int32(tr[1])}
+		if r.thin {
+			// Read on the (i, j) plane: k must map to k.
+			if abs(int32(tr[2])) != 3 {
+				return nil, fmt.Errorf("%s: Transform %v does not keep k along k; cvdeck reads joins of 2D cases stored one plane thick", jn.path, tr)
+			}
+			for _, kk := range []int32{rng[2], rng[5]} {
+				if kk < 1 || int(kk) > s.nk {
+					return nil, fmt.Errorf("%s: PointRange %v reaches k = %d, outside the zone (%d×%d×%d)", jn.path, rng, kk, s.ni, s.nj, s.nk)
+				}
+			}
+			jn.rng = [4]int32{rng[0], rng[1], rng[3], rng[4]}
+			jn.drng = [4]int32{drng[0], drng[1], drng[3], drng[4]}
+		} else {
+			copy(jn.rng[:], rng[:4])
+			copy(jn.drng[:], drng[:4])
+		}
 		jn.a = int(z - 1)
 		d, ok := byName[C.GoString(&donor[0])]
 		if !ok {
@@ -476,4 +516,82 @@ func (s *szone) bcEdges(b bcInfo) ([][2]int32, error) {
 			b.path, C.GoString(C.cg_PointSetTypeName(b.set)), C.GoString(C.cg_GridLocationName(b.loc)))
 	}
 	return edges, nil
+}
+
+// indexDim is the index dimension of the base's structured zones.
+func (r *reader) indexDim() int {
+	if r.thin {
+		return 3
+	}
+	return 2
+}
+
+// sameSecondPlane checks that the k = 2 plane of a one-cell-thick zone
+// has the nodes of its k = 1 plane, moved in z only (to within 1e-12 of
+// the zone's extent), as a 2D case extruded for a 3D solver has.
+func (r *reader) sameSecondPlane(z C.int, s *szone) error {
+	n := s.ni * s.nj
+	rmin, rmax := []int32{1, 1, 2}, []int32{int32(s.ni), int32(s.nj), 2}
+	extent := 0.0
+	for _, p := range s.nodes {
+		extent = max(extent, math.Abs(p[0]), math.Abs(p[1]))
+	}
+	for axis, name := range []string{"CoordinateX", "CoordinateY"} {
+		v := make([]float64, n)
+		a := cstr(name)
+		err := libError(C.cg_coord_read(r.fn, r.b, z, a, C.RealDouble, ip(rmin), ip(rmax), unsafe.Pointer(&v[0])), "read "+s.path+"/GridCoordinates/"+name)
+		free(a)
+		if err != nil {
+			return err
+		}
+		for k, x := range v {
+			if math.Abs(x-s.nodes[k][axis]) > 1e-12*extent {
+				return fmt.Errorf("%s: node (%d, %d, 2) is not node (%d, %d, 1) moved in z (%s %g against %g); cvdeck reads a one-cell-thick zone as a 2D case only when its two planes match", s.path, k%s.ni+1, k/s.ni+1, k%s.ni+1, k/s.ni+1, name, x, s.nodes[k][axis])
+			}
+		}
+	}
+	return nil
+}
+
+// planeBCs turns the BCs of a zone of a 3D base into BCs of its (i, j)
+// plane: ranges and lists lose their k index, FaceCenter ranges become
+// IFaceCenter or JFaceCenter by the index they hold constant, and BCs on a
+// k = const plane (the front and back of the slab) are left out.
+func (s *szone) planeBCs(bcs []bcInfo) ([]bcInfo, error) {
+	out := bcs[:0]
+	for _, b := range bcs {
+		switch {
+		case b.set == C.PointRange:
+			if len(b.pts) != 6 {
+				return nil, fmt.Errorf("%s: a PointRange needs 2 points of 3 indices, got %d values", b.path, len(b.pts))
+			}
+			i0, j0, k0, i1, j1, k1 := b.pts[0], b.pts[1], b.pts[2], b.pts[3], b.pts[4], b.pts[5]
+			if b.loc == C.KFaceCenter || k0 == k1 && i0 != i1 && j0 != j1 {
+				continue // the front or back of the slab
+			}
+			if b.loc == C.FaceCenter {
+				b.loc = C.JFaceCenter
+				if i0 == i1 {
+					b.loc = C.IFaceCenter
+				}
+			}
+			if b.loc != C.Vertex && b.loc != C.IFaceCenter && b.loc != C.JFaceCenter {
+				return nil, fmt.Errorf("%s: a range at %s; in a 3D base cvdeck reads structured BCs at Vertex, FaceCenter, IFaceCenter or JFaceCenter", b.path, C.GoString(C.cg_GridLocationName(b.loc)))
+			}
+			b.pts = []int32{i0, j0, i1, j1}
+		case b.set == C.PointList && b.loc == C.Vertex:
+			var pts []int32
+			for k := 0; k+2 < len(b.pts); k += 3 {
+				if b.pts[k+2] == 1 {
+					pts = append(pts, b.pts[k], b.pts[k+1])
+				}
+			}
+			if len(pts) == 0 {
+				continue // points on the back plane only
+			}
+			b.pts = pts
+		}
+		out = append(out, b)
+	}
+	return out, nil
 }

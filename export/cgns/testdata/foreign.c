@@ -12,6 +12,12 @@
  *   twozone.cgns    - two structured zones, the second left-handed (i along
  *                     y), joined 1-to-1 with Transform [2, 1]; BCs as
  *                     IFaceCenter, JFaceCenter and Vertex ranges.
+ *   twozone3d.cgns  - twozone.cgns as a 3D solver takes a 2D case: a base of
+ *                     cell dimension 3, each zone one cell thick in k (z = 0
+ *                     and 0.1), joined with Transform [2, 1, 3]; BCs as
+ *                     FaceCenter, IFaceCenter, JFaceCenter and Vertex
+ *                     ranges, and symmetry BCs on the front (KFaceCenter)
+ *                     and back (Vertex, k = 2) planes.
  *   highorder.cgns  - a TRI_6 section, which cvdeck does not read.
  *   onesided.cgns   - twozone.cgns with the join recorded on the second
  *                     zone only.
@@ -149,6 +155,51 @@ static void twozone(enum join join) {
     ck(cg_close(fn), "close");
 }
 
+static void twozone3d(void) {
+    int fn = open_file("twozone3d.cgns"), B, Z1, Z2, C, BC, I;
+    cgsize_t size[9] = {3, 3, 2, 2, 2, 1, 0, 0, 0};
+    double x[18], y[18], z[18];
+    ck(cg_base_write(fn, "Slab", 3, 3, &B), "base");
+    for (int zone = 0; zone < 2; zone++) {
+        for (int k = 0; k < 2; k++)
+            for (int j = 0; j < 3; j++)
+                for (int i = 0; i < 3; i++) {
+                    int n = 9 * k + 3 * j + i;
+                    /* left: x = (i-1)/2, y = (j-1)/2; right: x = 1 + (j-1)/2,
+                     * y = (i-1)/2 (left-handed in the plane). */
+                    x[n] = zone == 0 ? 0.5 * i : 1 + 0.5 * j;
+                    y[n] = zone == 0 ? 0.5 * j : 0.5 * i;
+                    z[n] = 0.1 * k;
+                }
+        int *Z = zone == 0 ? &Z1 : &Z2;
+        ck(cg_zone_write(fn, B, zone == 0 ? "left" : "right", size, Structured, Z), "zone");
+        ck(cg_coord_write(fn, B, *Z, RealDouble, "CoordinateX", x, &C), "x");
+        ck(cg_coord_write(fn, B, *Z, RealDouble, "CoordinateY", y, &C), "y");
+        ck(cg_coord_write(fn, B, *Z, RealDouble, "CoordinateZ", z, &C), "z");
+    }
+    cgsize_t r1[6] = {3, 1, 1, 3, 3, 2}, d1[6] = {1, 1, 1, 3, 1, 2};
+    int t[3] = {2, 1, 3};
+    ck(cg_1to1_write(fn, B, Z1, "toright", "right", r1, d1, t, &I), "join left");
+    ck(cg_1to1_write(fn, B, Z2, "toleft", "left", d1, r1, t, &I), "join right");
+    cgsize_t inlet[6] = {1, 1, 1, 1, 2, 1};
+    ck(cg_boco_write(fn, B, Z1, "inlet", BCInflow, PointRange, 2, inlet, &BC), "inlet");
+    ck(cg_boco_gridlocation_write(fn, B, Z1, BC, FaceCenter), "inlet location");
+    cgsize_t wl[6] = {1, 1, 1, 3, 1, 2};
+    ck(cg_boco_write(fn, B, Z1, "walls", BCWall, PointRange, 2, wl, &BC), "walls left");
+    cgsize_t front[6] = {1, 1, 1, 2, 2, 1};
+    ck(cg_boco_write(fn, B, Z1, "front", BCSymmetryPlane, PointRange, 2, front, &BC), "front");
+    ck(cg_boco_gridlocation_write(fn, B, Z1, BC, KFaceCenter), "front location");
+    cgsize_t back[6] = {1, 1, 2, 3, 3, 2};
+    ck(cg_boco_write(fn, B, Z1, "back", BCSymmetryPlane, PointRange, 2, back, &BC), "back");
+    cgsize_t outlet[6] = {1, 3, 1, 2, 3, 1};
+    ck(cg_boco_write(fn, B, Z2, "outlet", BCOutflow, PointRange, 2, outlet, &BC), "outlet");
+    ck(cg_boco_gridlocation_write(fn, B, Z2, BC, JFaceCenter), "outlet location");
+    cgsize_t wr[6] = {1, 1, 1, 1, 2, 1};
+    ck(cg_boco_write(fn, B, Z2, "walls", BCWall, PointRange, 2, wr, &BC), "walls right");
+    ck(cg_boco_gridlocation_write(fn, B, Z2, BC, IFaceCenter), "walls right location");
+    ck(cg_close(fn), "close");
+}
+
 static void highorder(void) {
     int fn = open_file("highorder.cgns"), B, Z, S, C;
     cgsize_t size[3] = {6, 1, 0};
@@ -173,6 +224,7 @@ int main(int argc, char **argv) {
     twozone(BOTH_SIDES);
     twozone(ONE_SIDE);
     twozone(POINT_LISTS);
+    twozone3d();
     highorder();
     return 0;
 }
