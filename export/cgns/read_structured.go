@@ -21,7 +21,7 @@ type szone struct {
 	name   string
 	path   string
 	ni, nj int
-	nk     int // node planes in k, in a 3D base (1 or 2); 0 in a 2D one
+	nk     int   // node planes in k, in a 3D base (1 or 2); 0 in a 2D one
 	first  int32 // global id of node (1, 1): nodes are first + j*ni + i
 	nodes  []orb.Point
 }
