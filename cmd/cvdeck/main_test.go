@@ -323,17 +323,25 @@ func TestMaxCellsRefusesBeforeMeshing(t *testing.T) {
 	}
 }
 
+// sampleDeck writes sample name into a new folder and meshes it into the
+// deck folder "deck" there, returning both folders.
+func sampleDeck(t *testing.T, name string) (dir, deckDir string) {
+	t.Helper()
+	dir = t.TempDir()
+	_, out, _ := cvdeck(t, "init", name, dir)
+	deckDir = filepath.Join(dir, "deck")
+	if code, _, errs := cvdeck(t, "mesh", strings.TrimSpace(out), "-o", deckDir, "--quiet"); code != 0 {
+		t.Fatalf("mesh %s: %s", name, errs)
+	}
+	return dir, deckDir
+}
+
 // TestCheckOwnDeck: `cvdeck check` on a deck's mesh.vtu takes the boundary
 // tags from the boundary.vtp beside it, so the deck checks as it was
 // written; without that file the boundary goes into one tag, with a
 // warning. The same mesh read from mesh.cgns checks alike.
 func TestCheckOwnDeck(t *testing.T) {
-	dir := t.TempDir()
-	_, out, _ := cvdeck(t, "init", "bump-channel", dir)
-	deckDir := filepath.Join(dir, "deck")
-	if code, _, errs := cvdeck(t, "mesh", strings.TrimSpace(out), "-o", deckDir, "--quiet"); code != 0 {
-		t.Fatalf("mesh: %s", errs)
-	}
+	_, deckDir := sampleDeck(t, "bump-channel")
 	type result struct {
 		Warnings []string `json:"warnings"`
 		Quality  struct {
@@ -373,12 +381,7 @@ func TestCheckOwnDeck(t *testing.T) {
 // --profile starts afresh, and an unreadable quality.json falls back to
 // the default profile with a warning.
 func TestCheckUsesDeckLimits(t *testing.T) {
-	dir := t.TempDir()
-	_, out, _ := cvdeck(t, "init", "naca-ogrid", dir)
-	deckDir := filepath.Join(dir, "deck")
-	if code, _, errs := cvdeck(t, "mesh", strings.TrimSpace(out), "-o", deckDir, "--quiet"); code != 0 {
-		t.Fatalf("mesh: %s", errs)
-	}
+	dir, deckDir := sampleDeck(t, "naca-ogrid")
 	type report struct {
 		Verdict     string `json:"verdict"`
 		FailedCells int    `json:"failed_cells"`
