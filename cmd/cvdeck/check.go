@@ -18,9 +18,11 @@ func newCheckCommand(g *globals) *cobra.Command {
 		Short: "Check an existing mesh (.vtu, .vtk or .cgns), made by cvdeck or not",
 		Long: `check reads a mesh file — a VTK XML (.vtu) or legacy (.vtk) unstructured grid
 with triangles, quads or polygons (line cells are boundary faces, tagged by a
-"boundary_tag" or "tag" cell array), or a CGNS file (2D, or a 2D case stored
-as 3D structured zones one node plane or one cell thick) — and runs every
-quality metric, the connectivity checks and the conservation audit on it.
+"boundary_tag" or "tag" cell array), or a CGNS file — and runs every quality
+metric, the connectivity checks and the conservation audit on it. A 2D case
+stored the way 3D solvers take one is read as its lower plane: in VTK a slab
+one cell thick of hexahedra, voxels or wedges (side quads are its boundary
+faces), in CGNS structured zones one node plane or one cell thick.
 
 A mesh inside a deck (a quality.json beside it) is graded with the limits the
 deck records, so the check gives the deck's verdict; --limits applies on top of

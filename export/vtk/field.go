@@ -24,6 +24,9 @@ const (
 	cellPolygon  = 7
 	cellPixel    = 8
 	cellQuad     = 9
+	cellVoxel    = 11
+	cellHex      = 12
+	cellWedge    = 13
 )
 
 // cellType returns the VTK type of a cell with n nodes.

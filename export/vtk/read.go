@@ -28,6 +28,16 @@ var tagArrayNames = []string{"boundary_tag", TagArray}
 // that leave part of the boundary out) stay untagged: see
 // mesh.Mesh.UntaggedRange. Node z coordinates must all be equal (a plane
 // mesh); they are dropped.
+//
+// A 2D case stored the way 3D solvers take one, a slab one cell thick, is
+// read too: points on two planes z = z0 < z1, cells that are hexahedra,
+// voxels or wedges standing between the planes (each top node straight
+// above its bottom node). The mesh is the lower plane: each cell becomes
+// its face there, oriented counter-clockwise seen from +z when the 3D
+// cell has positive volume. Quads and pixels spanning the planes are the
+// side boundary faces (tagged like lines), lines on the lower plane are
+// boundary faces too, and cells lying in either plane (the front and back
+// patches) and lines on the upper plane are left out.
 func ReadFile(path string) (*mesh.Mesh, error) {
 	data, err := os.ReadFile(path)
 	if err != nil {
@@ -109,52 +119,35 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 	if len(g.offsets) != nc {
 		return nil, fmt.Errorf("%s: %d cell offsets for %d cell types; they must match", g.file, len(g.offsets), nc)
 	}
-	in := mesh.Input{Nodes: make([]orb.Point, np), CellStart: []int32{0}}
 	if np > math.MaxInt32 {
 		return nil, fmt.Errorf("%s: %d points; cvdeck meshes hold at most %d", g.file, np, math.MaxInt32)
 	}
+	if np == 0 {
+		return nil, fmt.Errorf("%s: no points; nothing to check", g.file)
+	}
+	if err := g.checkCells(); err != nil {
+		return nil, err
+	}
+	if sl, ok, err := g.slab(); err != nil || ok {
+		if err != nil {
+			return nil, err
+		}
+		return g.slabMesh(sl)
+	}
+	in := mesh.Input{Nodes: make([]orb.Point, np), CellStart: []int32{0}}
 	for i := range in.Nodes {
 		x, y, z := g.points[3*i], g.points[3*i+1], g.points[3*i+2]
 		if z != g.points[2] {
-			return nil, fmt.Errorf("%s: point %d has z = %g but point 0 has z = %g; cvdeck reads plane 2D meshes (all z equal)", g.file, i, z, g.points[2])
+			return nil, fmt.Errorf("%s: point %d has z = %g but point 0 has z = %g; cvdeck reads plane 2D meshes (all z equal), or slabs one cell thick of hexahedra, voxels or wedges", g.file, i, z, g.points[2])
 		}
 		in.Nodes[i] = orb.Point{x, y}
 	}
-	tagOf, err := g.lineTags()
+	tags, err := g.newEdgeTagger(&in)
 	if err != nil {
 		return nil, err
 	}
-	tagIndex := map[string]int16{}
-	addEdge := func(c int, a, b int64) error {
-		name := tagOf(c)
-		if name == "" {
-			return nil
-		}
-		t, ok := tagIndex[name]
-		if !ok {
-			if len(in.Tags) == math.MaxInt16 {
-				return fmt.Errorf("%s: cell %d: more than %d boundary tags", g.file, c, math.MaxInt16)
-			}
-			t = int16(len(in.Tags))
-			tagIndex[name] = t
-			in.Tags = append(in.Tags, name)
-		}
-		in.Edges = append(in.Edges, mesh.TaggedEdge{A: int32(a), B: int32(b), Tag: t})
-		return nil
-	}
-	start := int64(0)
 	for c := 0; c < nc; c++ {
-		end := g.offsets[c]
-		if end < start || end > int64(len(g.conn)) {
-			return nil, fmt.Errorf("%s: cell %d: offset %d is out of order or past the %d connectivity entries", g.file, c, end, len(g.conn))
-		}
-		nodes := g.conn[start:end]
-		start = end
-		for _, v := range nodes {
-			if v < 0 || v >= int64(np) {
-				return nil, fmt.Errorf("%s: cell %d refers to point %d; points run from 0 to %d", g.file, c, v, np-1)
-			}
-		}
+		nodes := g.cell(c)
 		t := g.types[c]
 		want := map[int64]int{cellTriangle: 3, cellQuad: 4, cellPixel: 4, cellLine: 2}[t]
 		if want > 0 && len(nodes) != want || (t == cellPolygon && len(nodes) < 3) || (t == cellPolyLine && len(nodes) < 2) {
@@ -171,18 +164,12 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 			// of linear cell types).
 			in.CellNodes = append(in.CellNodes, int32(nodes[0]), int32(nodes[1]), int32(nodes[3]), int32(nodes[2]))
 		case cellLine, cellPolyLine:
-			for k := 1; k < len(nodes); k++ {
-				if err := addEdge(c, nodes[k-1], nodes[k]); err != nil {
-					return nil, err
-				}
+			if err := tags.chain(c, nodes, func(v int64) int32 { return int32(v) }); err != nil {
+				return nil, err
 			}
 			continue
 		default:
-			name := cellTypeName[t]
-			if name == "" {
-				name = "unknown"
-			}
-			return nil, fmt.Errorf("%s: cell %d has VTK type %d (%s); cvdeck reads triangles (5), quads (9), pixels (8), polygons (7) and boundary lines (3, 4)", g.file, c, t, name)
+			return nil, fmt.Errorf("%s: cell %d has VTK type %d (%s); cvdeck reads triangles (5), quads (9), pixels (8), polygons (7) and boundary lines (3, 4)", g.file, c, t, typeName(t))
 		}
 		if len(in.CellNodes) > math.MaxInt32 {
 			return nil, fmt.Errorf("%s: more than %d cell nodes", g.file, math.MaxInt32)
@@ -197,6 +184,90 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 		return nil, fmt.Errorf("%s: %w", g.file, err)
 	}
 	return m, nil
+}
+
+// checkCells checks that the cell offsets run in order within the
+// connectivity and that every point number is a point of the grid.
+func (g *grid) checkCells() error {
+	np := int64(len(g.points) / 3)
+	start := int64(0)
+	for c, end := range g.offsets {
+		if end < start || end > int64(len(g.conn)) {
+			return fmt.Errorf("%s: cell %d: offset %d is out of order or past the %d connectivity entries", g.file, c, end, len(g.conn))
+		}
+		for _, v := range g.conn[start:end] {
+			if v < 0 || v >= np {
+				return fmt.Errorf("%s: cell %d refers to point %d; points run from 0 to %d", g.file, c, v, np-1)
+			}
+		}
+		start = end
+	}
+	return nil
+}
+
+// cell returns the point numbers of cell c (after checkCells).
+func (g *grid) cell(c int) []int64 {
+	start := int64(0)
+	if c > 0 {
+		start = g.offsets[c-1]
+	}
+	return g.conn[start:g.offsets[c]]
+}
+
+// edgeTagger adds tagged boundary edges to a mesh input, numbering the tag
+// names in the order they first appear.
+type edgeTagger struct {
+	file  string
+	in    *mesh.Input
+	tagOf func(c int) string
+	index map[string]int16
+}
+
+func (g *grid) newEdgeTagger(in *mesh.Input) (*edgeTagger, error) {
+	tagOf, err := g.lineTags()
+	if err != nil {
+		return nil, err
+	}
+	return &edgeTagger{file: g.file, in: in, tagOf: tagOf, index: map[string]int16{}}, nil
+}
+
+// add records the edge a–b (mesh node numbers) of file cell c with the
+// cell's tag; an untagged cell adds nothing.
+func (e *edgeTagger) add(c int, a, b int32) error {
+	name := e.tagOf(c)
+	if name == "" {
+		return nil
+	}
+	t, ok := e.index[name]
+	if !ok {
+		if len(e.in.Tags) == math.MaxInt16 {
+			return fmt.Errorf("%s: cell %d: more than %d boundary tags", e.file, c, math.MaxInt16)
+		}
+		t = int16(len(e.in.Tags))
+		e.index[name] = t
+		e.in.Tags = append(e.in.Tags, name)
+	}
+	e.in.Edges = append(e.in.Edges, mesh.TaggedEdge{A: a, B: b, Tag: t})
+	return nil
+}
+
+// chain adds the edges between consecutive points of file cell c (a line
+// or polyline), numbered in the mesh by num.
+func (e *edgeTagger) chain(c int, nodes []int64, num func(int64) int32) error {
+	for k := 1; k < len(nodes); k++ {
+		if err := e.add(c, num(nodes[k-1]), num(nodes[k])); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// typeName names VTK cell type t, "unknown" if it is not a linear type.
+func typeName(t int64) string {
+	if name, ok := cellTypeName[t]; ok {
+		return name
+	}
+	return "unknown"
 }
 
 // lineTags returns the function that gives the tag name of file cell c, ""

@@ -1,0 +1,162 @@
+package vtk
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/paulmach/orb"
+
+	"cvdeck/mesh"
+)
+
+// slabPlanes are the two planes of a slab one cell thick: z = lo is the
+// mesh, z = hi its copy.
+type slabPlanes struct{ lo, hi float64 }
+
+// slab reports whether the grid is a slab one cell thick (see ReadFile):
+// points on exactly two z values and at least one hexahedron, voxel or
+// wedge. A grid with points on two planes but no such cell, or on more
+// than two, is an error only if it holds 3D cells; otherwise toMesh's
+// plane test speaks.
+func (g *grid) slab() (slabPlanes, bool, error) {
+	has3D := slices.ContainsFunc(g.types, func(t int64) bool { return t == cellHex || t == cellVoxel || t == cellWedge })
+	if !has3D {
+		return slabPlanes{}, false, nil
+	}
+	z0, z1, two := g.points[2], 0.0, false
+	for i := 2; i < len(g.points); i += 3 {
+		switch z := g.points[i]; {
+		case z == z0:
+		case !two:
+			z1, two = z, true
+		case z != z1:
+			return slabPlanes{}, false, fmt.Errorf("%s: points lie on z = %g, %g and %g; cvdeck reads a 3D grid only as a slab one cell thick, its points on two planes", g.file, z0, z1, z)
+		}
+	}
+	if !two {
+		return slabPlanes{}, false, fmt.Errorf("%s: the grid has 3D cells but all its points lie on z = %g; they have no thickness", g.file, z0)
+	}
+	return slabPlanes{min(z0, z1), max(z0, z1)}, true, nil
+}
+
+// slabMesh builds the mesh of the lower plane of a slab.
+func (g *grid) slabMesh(sl slabPlanes) (*mesh.Mesh, error) {
+	np := len(g.points) / 3
+	z := func(v int64) float64 { return g.points[3*v+2] }
+	// The lower plane's points, renumbered in file order.
+	index := make([]int32, np)
+	in := mesh.Input{CellStart: []int32{0}}
+	extent := 0.0
+	for i := range index {
+		index[i] = -1
+		if g.points[3*i+2] == sl.lo {
+			index[i] = int32(len(in.Nodes))
+			p := orb.Point{g.points[3*i], g.points[3*i+1]}
+			in.Nodes = append(in.Nodes, p)
+			extent = max(extent, math.Abs(p[0]), math.Abs(p[1]))
+		}
+	}
+	tags, err := g.newEdgeTagger(&in)
+	if err != nil {
+		return nil, err
+	}
+	onPlane := func(nodes []int64, zp float64) bool {
+		for _, v := range nodes {
+			if z(v) != zp {
+				return false
+			}
+		}
+		return true
+	}
+	for c := range g.types {
+		nodes := g.cell(c)
+		t := g.types[c]
+		var bottom, top []int64
+		switch t {
+		case cellHex, cellWedge, cellVoxel:
+			want := map[int64]int{cellHex: 8, cellVoxel: 8, cellWedge: 6}[t]
+			if len(nodes) != want {
+				return nil, fmt.Errorf("%s: cell %d is a %s with %d points", g.file, c, cellTypeName[t], len(nodes))
+			}
+			h := want / 2
+			bottom, top = nodes[:h], nodes[h:]
+			if t == cellVoxel {
+				// A voxel's points run in (i, j, k) order (VTK file-format
+				// document, figure of linear cell types).
+				bottom = []int64{nodes[0], nodes[1], nodes[3], nodes[2]}
+				top = []int64{nodes[4], nodes[5], nodes[7], nodes[6]}
+			}
+		case cellTriangle, cellQuad, cellPixel, cellPolygon:
+			if onPlane(nodes, sl.lo) || onPlane(nodes, sl.hi) {
+				continue // a front or back patch
+			}
+			var low []int64
+			for _, v := range nodes {
+				if z(v) == sl.lo {
+					low = append(low, v)
+				}
+			}
+			if len(nodes) != 4 || len(low) != 2 {
+				return nil, fmt.Errorf("%s: cell %d, a %s, neither lies in a plane of the slab nor spans it as a side face", g.file, c, cellTypeName[t])
+			}
+			if err := tags.add(c, index[low[0]], index[low[1]]); err != nil {
+				return nil, err
+			}
+			continue
+		case cellLine, cellPolyLine:
+			switch {
+			case onPlane(nodes, sl.hi):
+				continue
+			case !onPlane(nodes, sl.lo):
+				return nil, fmt.Errorf("%s: cell %d, a %s, runs between the planes of the slab; boundary lines must lie in a plane", g.file, c, cellTypeName[t])
+			}
+			if err := tags.chain(c, nodes, func(v int64) int32 { return index[v] }); err != nil {
+				return nil, err
+			}
+			continue
+		default:
+			return nil, fmt.Errorf("%s: cell %d has VTK type %d (%s); in a slab cvdeck reads hexahedra (12), voxels (11) and wedges (13), with quads, pixels and lines as boundary faces", g.file, c, t, typeName(t))
+		}
+		// The face on the lower plane, counter-clockwise from +z when the
+		// cell has positive volume. By the VTK file-format document's
+		// conventions the right-hand normal of a hexahedron's or voxel's
+		// first face points towards the second face, and a wedge's points
+		// away from it; so the lower face keeps its order when it is a
+		// hexahedron's first face or a wedge's second, and is reversed
+		// otherwise.
+		var face []int64
+		switch {
+		case onPlane(bottom, sl.lo) && onPlane(top, sl.hi):
+			face = slices.Clone(bottom)
+			if t == cellWedge {
+				slices.Reverse(face)
+			}
+		case onPlane(bottom, sl.hi) && onPlane(top, sl.lo):
+			face = slices.Clone(top)
+			if t != cellWedge {
+				slices.Reverse(face)
+			}
+		default:
+			return nil, fmt.Errorf("%s: cell %d, a %s, does not stand between the planes z = %g and %g with one face on each", g.file, c, cellTypeName[t], sl.lo, sl.hi)
+		}
+		for k := range bottom {
+			a, b := bottom[k], top[k]
+			if math.Abs(g.points[3*a]-g.points[3*b]) > 1e-12*extent || math.Abs(g.points[3*a+1]-g.points[3*b+1]) > 1e-12*extent {
+				return nil, fmt.Errorf("%s: cell %d, a %s: its points %d and %d are not straight above each other; cvdeck reads slabs extruded along z", g.file, c, cellTypeName[t], a, b)
+			}
+		}
+		for _, v := range face {
+			in.CellNodes = append(in.CellNodes, index[v])
+		}
+		if len(in.CellNodes) > math.MaxInt32 {
+			return nil, fmt.Errorf("%s: more than %d cell nodes", g.file, math.MaxInt32)
+		}
+		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", g.file, err)
+	}
+	return m, nil
+}
