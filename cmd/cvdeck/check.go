@@ -22,7 +22,8 @@ with triangles, quads or polygons (line cells are boundary faces, tagged by a
 metric, the connectivity checks and the conservation audit on it. A 2D case
 stored the way 3D solvers take one is read as its lower plane: in VTK a slab
 one cell thick of hexahedra, voxels or wedges (side quads are its boundary
-faces), in CGNS structured zones one node plane or one cell thick.
+faces), in CGNS structured zones one node plane or one cell thick or an
+unstructured zone of HEXA_8 and PENTA_6 one cell thick.
 
 A mesh inside a deck (a quality.json beside it) is graded with the limits the
 deck records, so the check gives the deck's verdict; --limits applies on top of

@@ -116,19 +116,7 @@ func checkTwoZone(t *testing.T, m *mesh.Mesh) {
 	if len(m.Nodes) != 15 || m.NumCells() != 8 || m.NumInterior != 10 || m.NumBoundary() != 12 {
 		t.Fatalf("read %d nodes, %d cells, %d interior and %d boundary faces; want 15, 8, 10, 12", len(m.Nodes), m.NumCells(), m.NumInterior, m.NumBoundary())
 	}
-	area := 0.0
-	for c, a := range m.Geo.CellArea {
-		if a <= 0 {
-			t.Errorf("cell %d has area %g; the left-handed zone was not turned counter-clockwise", c, a)
-		}
-		area += a
-	}
-	if math.Abs(area-2) > 1e-14 {
-		t.Errorf("total area %g, want 2", area)
-	}
-	if !slices.Equal(m.Tags, []string{"inlet", "walls", "outlet"}) {
-		t.Fatalf("tags %v, want [inlet walls outlet]", m.Tags)
-	}
+	positiveAreaAndTags(t, m, 2, "the left-handed zone was not turned counter-clockwise")
 	// Each tag's faces lie on its side: inlet x = 0, walls y = 0, outlet
 	// x = 2; the 4 faces on y = 1 carry no BC.
 	check := func(tag string, n int, on func(p orb.Point) bool) {
@@ -297,5 +285,46 @@ func TestReadPlot3dConverted(t *testing.T) {
 	path, _ := plot3dAnnulus(t, 2, 1e-3)
 	if _, err := Read(path); err == nil || !strings.Contains(err.Error(), "moved in z") {
 		t.Errorf("a skewed second plane read without complaint: %v", err)
+	}
+}
+
+// TestReadForeignSlab: an unstructured 2D case stored one cell thick in a
+// 3D base (slab3d.cgns of foreign.c) reads as its lower plane: 3 cells of
+// total area 2, all counter-clockwise (the upside-down HEXA_8 included),
+// 6 nodes, the side faces tagged as written and the front and back faces
+// (with their symmetry BC) left out.
+func TestReadForeignSlab(t *testing.T) {
+	m, err := Read(filepath.Join(foreignFiles(t), "slab3d.cgns"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if m.NumCells() != 3 || len(m.Nodes) != 6 || m.NumInterior != 2 || m.NumBoundary() != 6 {
+		t.Fatalf("%d cells, %d nodes, %d interior and %d boundary faces; want 3, 6, 2, 6", m.NumCells(), len(m.Nodes), m.NumInterior, m.NumBoundary())
+	}
+	positiveAreaAndTags(t, m, 2, "a cell is turned the wrong way")
+	for tag, n := range map[string]int{"inlet": 1, "walls": 4, "outlet": 1} {
+		if lo, hi, _ := m.TagRange(tag); hi-lo != n {
+			t.Errorf("tag %s has %d faces, want %d", tag, hi-lo, n)
+		}
+	}
+}
+
+// positiveAreaAndTags checks that every cell of m has positive area (else the
+// reason is why) and that they add up to want, and that the tags are
+// foreign.c's inlet, walls and outlet.
+func positiveAreaAndTags(t *testing.T, m *mesh.Mesh, want float64, why string) {
+	t.Helper()
+	area := 0.0
+	for c, a := range m.Geo.CellArea {
+		if a <= 0 {
+			t.Errorf("cell %d has area %g; %s", c, a, why)
+		}
+		area += a
+	}
+	if math.Abs(area-want) > 1e-14 {
+		t.Errorf("total area %g, want %g", area, want)
+	}
+	if !slices.Equal(m.Tags, []string{"inlet", "walls", "outlet"}) {
+		t.Fatalf("tags %v, want [inlet walls outlet]", m.Tags)
 	}
 }

@@ -24,8 +24,12 @@ import (
 // The file's first base must have cell dimension 2 (physical dimension 2,
 // or 3 with a constant CoordinateZ) and hold either one unstructured zone
 // or one or more structured zones; or it is a 3D base holding a 2D case
-// the way 3D solvers take one, structured zones one node plane or one cell
-// thick in k (see structured below):
+// the way 3D solvers take one: structured zones one node plane or one cell
+// thick in k (see structured below), or one unstructured zone one cell
+// thick (HEXA_8 and PENTA_6 between two planes z = z0 < z1, read as the
+// lower plane: see slab.cells; QUAD_4 across the slab are its boundary
+// faces, TRI_3 and QUAD_4 in its planes its front and back, left out with
+// their BCs):
 //
 //   - unstructured: sections of TRI_3, QUAD_4, MIXED (of those) and NGON_n
 //     (polygons) are the cells, in element-number order whatever the order
@@ -218,8 +222,8 @@ func (r *reader) read() (*mesh.Mesh, error) {
 	switch {
 	case nstruct == int(nz):
 		return r.structured(int(nz))
-	case r.thin:
-		return nil, fmt.Errorf("%s is a 3D base with unstructured zones; cvdeck reads a 3D base only as structured zones one node plane or one cell thick in k (a 2D case stored in 3D)", bp)
+	case r.thin && nz > 1:
+		return nil, fmt.Errorf("%s is a 3D base with %d unstructured zones; cvdeck reads one unstructured zone", bp, nz)
 	case nstruct == 0 && nz == 1:
 		return r.unstructured(1)
 	case nstruct == 0:
@@ -239,23 +243,25 @@ func (r *reader) zoneName(z C.int, size []int32) (string, error) {
 }
 
 // coords reads the n Cartesian node positions of a zone, over the index
-// range [1, rmax] (one entry per index dimension).
-func (r *reader) coords(z C.int, zp string, rmax []int32, n int) ([]orb.Point, error) {
+// range [1, rmax] (one entry per index dimension). CoordinateZ, when the
+// physical dimension is 3, must be constant, unless slab is true: then it
+// is required, and returned.
+func (r *reader) coords(z C.int, zp string, rmax []int32, n int, slab bool) ([]orb.Point, []float64, error) {
 	var nc C.int
 	if err := libError(C.cg_ncoords(r.fn, r.b, z, &nc), "count coordinates of "+zp); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	have := map[string]bool{}
 	var name [maxNameLen + 1]C.char
 	for c := C.int(1); c <= nc; c++ {
 		var dt C.DataType_t
 		if err := libError(C.cg_coord_info(r.fn, r.b, z, c, &dt, &name[0]), fmt.Sprintf("read coordinate %d of %s", c, zp)); err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 		have[C.GoString(&name[0])] = true
 	}
 	if !have["CoordinateX"] || !have["CoordinateY"] {
-		return nil, fmt.Errorf("%s/GridCoordinates has no CoordinateX and CoordinateY; cvdeck reads Cartesian coordinates", zp)
+		return nil, nil, fmt.Errorf("%s/GridCoordinates has no CoordinateX and CoordinateY; cvdeck reads Cartesian coordinates", zp)
 	}
 	rmin := make([]int32, len(rmax))
 	for i := range rmin {
@@ -270,20 +276,23 @@ func (r *reader) coords(z C.int, zp string, rmax []int32, n int) ([]orb.Point, e
 	}
 	x, err := read("CoordinateX")
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	y, err := read("CoordinateY")
 	if err != nil {
-		return nil, err
+		return nil, nil, err
+	}
+	var zc []float64
+	if slab && !have["CoordinateZ"] {
+		return nil, nil, fmt.Errorf("%s/GridCoordinates has no CoordinateZ; a 3D zone needs one", zp)
 	}
 	if r.pdim == 3 && have["CoordinateZ"] {
-		zc, err := read("CoordinateZ")
-		if err != nil {
-			return nil, err
+		if zc, err = read("CoordinateZ"); err != nil {
+			return nil, nil, err
 		}
 		for i, v := range zc {
-			if v != zc[0] {
-				return nil, fmt.Errorf("%s/GridCoordinates/CoordinateZ varies (node %d has z = %g, node 1 has %g); cvdeck reads planar meshes", zp, i+1, v, zc[0])
+			if v != zc[0] && !slab {
+				return nil, nil, fmt.Errorf("%s/GridCoordinates/CoordinateZ varies (node %d has z = %g, node 1 has %g); cvdeck reads planar meshes", zp, i+1, v, zc[0])
 			}
 		}
 	}
@@ -291,7 +300,7 @@ func (r *reader) coords(z C.int, zp string, rmax []int32, n int) ([]orb.Point, e
 	for i := range pts {
 		pts[i] = orb.Point{x[i], y[i]}
 	}
-	return pts, nil
+	return pts, zc, nil
 }
 
 // bcInfo is one BC_t as read: its point set expanded to a list.

@@ -95,7 +95,7 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 		if r.thin {
 			rmax = append(rmax, 1) // the k = 1 plane
 		}
-		if s.nodes, err = r.coords(z, s.path, rmax, s.ni*s.nj); err != nil {
+		if s.nodes, _, err = r.coords(z, s.path, rmax, s.ni*s.nj, false); err != nil {
 			return nil, err
 		}
 		if s.nk == 2 {

@@ -9,6 +9,8 @@ import (
 	"fmt"
 	"sort"
 
+	"github.com/paulmach/orb"
+
 	"cvdeck/mesh"
 )
 
@@ -48,7 +50,7 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 	if nn < 3 {
 		return nil, fmt.Errorf("%s has %d nodes; a mesh needs at least 3", zp, nn)
 	}
-	nodes, err := r.coords(z, zp, size[:1], nn)
+	nodes, zc, err := r.coords(z, zp, size[:1], nn, r.thin)
 	if err != nil {
 		return nil, err
 	}
@@ -64,53 +66,28 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 		}
 	}
 
-	// Two passes: check and count, then fill the cell arrays at their size.
-	ncell, ncn := 0, 0
-	for si := range secs {
-		s := &secs[si]
-		for e := 0; e <= int(s.end-s.start); e++ {
-			typ, vs := s.element(e)
-			for _, v := range vs {
-				if v < 1 || int(v) > nn {
-					return nil, fmt.Errorf("%s: element %d refers to node %d; the zone's nodes run from 1 to %d", s.path, int(s.start)+e, v, nn)
-				}
-			}
-			switch typ {
-			case C.TRI_3, C.QUAD_4, C.NGON_n:
-				ncell++
-				ncn += len(vs)
-			case C.BAR_2, C.NODE:
-			default:
-				return nil, fmt.Errorf("%s: element %d is %s; cvdeck reads TRI_3, QUAD_4, MIXED of those, NGON_n polygons and BAR_2 faces", s.path, int(s.start)+e, elementTypeName(typ))
-			}
+	// node maps a file node number (1-based) to the mesh's, −1 for a node
+	// the mesh leaves out; barOf gives the mesh nodes of a face element.
+	var in mesh.Input
+	var barOf func(id int32) ([2]int32, bool)
+	node := func(v int32) int32 { return v - 1 }
+	patch := func(id int32) bool { return false } // a slab's front or back face
+	if r.thin {
+		sl, err := newSlab(zp, nodes, zc)
+		if err != nil {
+			return nil, err
 		}
-	}
-	if ncell == 0 {
-		return nil, fmt.Errorf("%s has no 2D elements (TRI_3, QUAD_4, MIXED, NGON_n)", zp)
-	}
-	in := mesh.Input{Nodes: nodes, CellStart: make([]int32, 1, ncell+1), CellNodes: make([]int32, 0, ncn)}
-	for si := range secs {
-		s := &secs[si]
-		for e := 0; e <= int(s.end-s.start); e++ {
-			if typ, vs := s.element(e); typ == C.TRI_3 || typ == C.QUAD_4 || typ == C.NGON_n {
-				for _, v := range vs {
-					in.CellNodes = append(in.CellNodes, v-1)
-				}
-				in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
-			}
+		if in, err = sl.cells(secs); err != nil {
+			return nil, err
 		}
-	}
-	// barOf returns the 0-based nodes of BAR_2 element id.
-	barOf := func(id int32) ([2]int32, bool) {
-		k := sort.Search(len(secs), func(i int) bool { return secs[i].end >= id })
-		if k == len(secs) || id < secs[k].start {
-			return [2]int32{}, false
+		barOf = sl.faceEdge(secs)
+		node = func(v int32) int32 { return sl.index[v-1] }
+		patch = sl.patch(secs)
+	} else {
+		if in, err = planarCells(zp, secs, nodes); err != nil {
+			return nil, err
 		}
-		typ, vs := secs[k].element(int(id - secs[k].start))
-		if typ != C.BAR_2 {
-			return [2]int32{}, false
-		}
-		return [2]int32{vs[0] - 1, vs[1] - 1}, true
+		barOf = planarBarOf(secs)
 	}
 
 	bcs, err := r.bocos(z, zp, 1)
@@ -144,12 +121,17 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 		t.edges = make([][2]int32, 0, len(ids))
 		for i, id := range ids {
 			e, ok := barOf(id)
-			if !ok {
-				return nil, fmt.Errorf("%s: point %d is element %d, which is not a BAR_2 element of the zone", b.path, i+1, id)
+			switch {
+			case !ok && patch(id):
+				continue // a front or back face of a slab
+			case !ok:
+				return nil, fmt.Errorf("%s: point %d is element %d, which is not a boundary face element of the zone (BAR_2; in a slab, QUAD_4 across it)", b.path, i+1, id)
 			}
 			t.edges = append(t.edges, e)
 		}
-		found = append(found, t)
+		if len(t.edges) > 0 || len(ids) == 0 {
+			found = append(found, t)
+		}
 	}
 	if len(vertexBCs) > 0 {
 		// Vertex BCs tag the boundary edges whose two nodes they list, so
@@ -164,7 +146,9 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 				if v < 1 || int(v) > nn {
 					return nil, fmt.Errorf("%s: point %d is node %d; the zone's nodes run from 1 to %d", b.path, i+1, v, nn)
 				}
-				in[v-1] = true
+				if n := node(v); n >= 0 {
+					in[n] = true
+				}
 			}
 			t := taggedEdges{tag: b.tag}
 			for f := plain.NumInterior; f < plain.NumFaces(); f++ {
@@ -266,4 +250,71 @@ func (r *reader) sections(z C.int, zp string) ([]elemSection, error) {
 		out = append(out, s)
 	}
 	return out, nil
+}
+
+// planarCells reads the cells of a 2D zone: its TRI_3, QUAD_4 and NGON_n
+// elements, in element-number order (secs is sorted), checking every
+// element's nodes and type first.
+func planarCells(zp string, secs []elemSection, nodes []orb.Point) (in mesh.Input, err error) {
+	nn := len(nodes)
+	// Two passes: check and count, then fill the cell arrays at their size.
+	ncell, ncn := 0, 0
+	for si := range secs {
+		s := &secs[si]
+		for e := 0; e <= int(s.end-s.start); e++ {
+			typ, vs := s.element(e)
+			for _, v := range vs {
+				if v < 1 || int(v) > nn {
+					return in, fmt.Errorf("%s: element %d refers to node %d; the zone's nodes run from 1 to %d", s.path, int(s.start)+e, v, nn)
+				}
+			}
+			switch typ {
+			case C.TRI_3, C.QUAD_4, C.NGON_n:
+				ncell++
+				ncn += len(vs)
+			case C.BAR_2, C.NODE:
+			default:
+				return in, fmt.Errorf("%s: element %d is %s; cvdeck reads TRI_3, QUAD_4, MIXED of those, NGON_n polygons and BAR_2 faces", s.path, int(s.start)+e, elementTypeName(typ))
+			}
+		}
+	}
+	if ncell == 0 {
+		return in, fmt.Errorf("%s has no 2D elements (TRI_3, QUAD_4, MIXED, NGON_n)", zp)
+	}
+	in = mesh.Input{Nodes: nodes, CellStart: make([]int32, 1, ncell+1), CellNodes: make([]int32, 0, ncn)}
+	for si := range secs {
+		s := &secs[si]
+		for e := 0; e <= int(s.end-s.start); e++ {
+			if typ, vs := s.element(e); typ == C.TRI_3 || typ == C.QUAD_4 || typ == C.NGON_n {
+				for _, v := range vs {
+					in.CellNodes = append(in.CellNodes, v-1)
+				}
+				in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+			}
+		}
+	}
+	return in, nil
+}
+
+// planarBarOf returns the function giving the 0-based nodes of BAR_2
+// element id of a 2D zone (secs sorted by element number).
+func planarBarOf(secs []elemSection) func(id int32) ([2]int32, bool) {
+	return func(id int32) ([2]int32, bool) {
+		typ, vs, ok := findElement(secs, id)
+		if !ok || typ != C.BAR_2 {
+			return [2]int32{}, false
+		}
+		return [2]int32{vs[0] - 1, vs[1] - 1}, true
+	}
+}
+
+// findElement returns the type and 1-based nodes of element id, from
+// sections sorted by element number.
+func findElement(secs []elemSection, id int32) (C.ElementType_t, []int32, bool) {
+	k := sort.Search(len(secs), func(i int) bool { return secs[i].end >= id })
+	if k == len(secs) || id < secs[k].start {
+		return 0, nil, false
+	}
+	typ, vs := secs[k].element(int(id - secs[k].start))
+	return typ, vs, true
 }

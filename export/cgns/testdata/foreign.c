@@ -18,6 +18,12 @@
  *                     FaceCenter, IFaceCenter, JFaceCenter and Vertex
  *                     ranges, and symmetry BCs on the front (KFaceCenter)
  *                     and back (Vertex, k = 2) planes.
+ *   slab3d.cgns     - an unstructured 2D case stored one cell thick in a 3D
+ *                     base: a HEXA_8 written upside down (first face on the
+ *                     upper plane) and two PENTA_6 over [0, 2] x [0, 1],
+ *                     z = 0.5 to 0.75; QUAD_4 side faces tagged by
+ *                     ElementList and ElementRange, front and back faces
+ *                     (QUAD_4, TRI_3) under a symmetry BC.
  *   highorder.cgns  - a TRI_6 section, which cvdeck does not read.
  *   onesided.cgns   - twozone.cgns with the join recorded on the second
  *                     zone only.
@@ -200,6 +206,45 @@ static void twozone3d(void) {
     ck(cg_close(fn), "close");
 }
 
+static void slab3d(void) {
+    int fn = open_file("slab3d.cgns"), B, Z, S, C, BC;
+    cgsize_t size[3] = {12, 3, 0};
+    double x[12], y[12], z[12];
+    /* Node 1 + i + 3 j + 6 k at (i, j, 0.5 + 0.25 k). */
+    for (int k = 0; k < 2; k++)
+        for (int j = 0; j < 2; j++)
+            for (int i = 0; i < 3; i++) {
+                int n = 6 * k + 3 * j + i;
+                x[n] = i;
+                y[n] = j;
+                z[n] = 0.5 + 0.25 * k;
+            }
+    ck(cg_base_write(fn, "Slab", 3, 3, &B), "base");
+    ck(cg_zone_write(fn, B, "dom", size, Unstructured, &Z), "zone");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateX", x, &C), "x");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateY", y, &C), "y");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateZ", z, &C), "z");
+    cgsize_t hexa[8] = {7, 10, 11, 8, 1, 4, 5, 2}; /* upside down, positive volume */
+    ck(cg_section_write(fn, B, Z, "hexa", HEXA_8, 1, 1, 0, hexa, &S), "hexa");
+    cgsize_t penta[12] = {2, 3, 6, 8, 9, 12, 2, 6, 5, 8, 12, 11};
+    ck(cg_section_write(fn, B, Z, "penta", PENTA_6, 2, 3, 0, penta, &S), "penta");
+    /* Side faces 4..9: left (inlet), bottom and top (walls), right (outlet). */
+    cgsize_t sides[24] = {4, 1, 7, 10, 1, 2, 8, 7, 2, 3, 9, 8, 6, 5, 11, 12, 5, 4, 10, 11, 3, 6, 12, 9};
+    ck(cg_section_write(fn, B, Z, "sides", QUAD_4, 4, 9, 0, sides, &S), "sides");
+    /* Front and back faces 10..13. */
+    cgsize_t fq[8] = {1, 4, 5, 2, 7, 8, 11, 10};
+    ck(cg_section_write(fn, B, Z, "frontback", QUAD_4, 10, 11, 0, fq, &S), "front quads");
+    cgsize_t ft[6] = {2, 6, 3, 8, 9, 12};
+    ck(cg_section_write(fn, B, Z, "fronttri", TRI_3, 12, 13, 0, ft, &S), "front tris");
+    cgsize_t inlet[1] = {4}, walls[2] = {5, 8}, outlet[1] = {9}, sym[2] = {10, 13};
+    ck(cg_boco_write(fn, B, Z, "inlet", BCInflow, ElementList, 1, inlet, &BC), "inlet");
+    ck(cg_boco_write(fn, B, Z, "walls", BCWall, ElementRange, 2, walls, &BC), "walls");
+    ck(cg_boco_write(fn, B, Z, "outlet", BCOutflow, PointList, 1, outlet, &BC), "outlet");
+    ck(cg_boco_gridlocation_write(fn, B, Z, BC, FaceCenter), "outlet location");
+    ck(cg_boco_write(fn, B, Z, "symmetry", BCSymmetryPlane, ElementRange, 2, sym, &BC), "symmetry");
+    ck(cg_close(fn), "close");
+}
+
 static void highorder(void) {
     int fn = open_file("highorder.cgns"), B, Z, S, C;
     cgsize_t size[3] = {6, 1, 0};
@@ -225,6 +270,7 @@ int main(int argc, char **argv) {
     twozone(ONE_SIDE);
     twozone(POINT_LISTS);
     twozone3d();
+    slab3d();
     highorder();
     return 0;
 }
