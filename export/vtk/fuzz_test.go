@@ -52,6 +52,12 @@ func FuzzReadLegacy(f *testing.F) {
 	}
 	// The VTK library's 5.1 layout, from its output.
 	f.Add([]byte("# vtk DataFile Version 5.1\nvtk output\nASCII\nDATASET UNSTRUCTURED_GRID\nFIELD FieldData 1\nnames 1 2 string\nx\nyz\n\nPOINTS 4 float\n0 0 0 1 0 0 1 1 0 \n0 1 0 \nMETADATA\nINFORMATION 1\nNAME L2_NORM_RANGE LOCATION vtkDataArray\nDATA 2 0 1.41421 \n\nCELLS 3 5\nOFFSETS vtktypeint64\n0 3 5 \nCONNECTIVITY vtktypeint64\n0 1 2 0 1 \nCELL_TYPES 2\n5\n3\n\nCELL_DATA 2\nFIELD FieldData 1\ntag 1 2 string\nab\nwall\n\n"))
+	// A slab one cell thick: a hexahedron, a wedge, a tagged side quad, a
+	// front patch and an upper line.
+	f.Add([]byte("# vtk DataFile Version 3.0\nslab\nASCII\nDATASET UNSTRUCTURED_GRID\nPOINTS 12 double\n" +
+		"0 0 0 1 0 0 2 0 0 0 1 0 1 1 0 2 1 0 0 0 1 1 0 1 2 0 1 0 1 1 1 1 1 2 1 1\n" +
+		"CELLS 5 29\n8 0 1 4 3 6 7 10 9\n6 1 4 5 7 10 11\n4 0 1 7 6\n4 0 1 4 3\n2 6 7\n" +
+		"CELL_TYPES 5\n12\n13\n9\n9\n3\nCELL_DATA 5\nSCALARS tag int 1\nLOOKUP_TABLE default\n-1 -1 0 1 0\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		ReadLegacy(data, "fuzz.vtk")
 	})
