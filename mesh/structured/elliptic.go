@@ -240,7 +240,6 @@ type smoother struct {
 	// the west and east columns (by j), and the linear weights across.
 	phiS, dPhi, psiW, dPsi []float64
 	eta, xi                []float64
-	zero                   []float64 // zeros, the spacing terms while untangling
 	anyControl             bool
 	// phiRow and psiRow hold φ and ψ along the row being swept.
 	phiRow, psiRow []float64
@@ -263,7 +262,6 @@ func newSmoother(b *Block, opt SmoothOptions) *smoother {
 	s := &smoother{b: b, ni: ni, nj: nj, x: b.X, y: b.Y, omega: opt.Omega, gain: opt.Gain, sides: opt.Sides}
 	s.phiS, s.dPhi = make([]float64, ni), make([]float64, ni)
 	s.psiW, s.dPsi = make([]float64, nj), make([]float64, nj)
-	s.zero = make([]float64, max(ni, nj))
 	s.eta, s.xi = make([]float64, nj), make([]float64, ni)
 	s.phiRow, s.psiRow = make([]float64, ni), make([]float64, ni)
 	s.held = make([]heldMove, (ni+1)/2)
