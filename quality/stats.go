@@ -36,12 +36,15 @@ func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status
 	case len(p.worst) == k:
 		cut = sign * float64(p.worst[k-1].Value)
 	}
-	mn, mx, sum, sumsq := p.min, p.max, p.sum, p.sumsq
+	// The running values are kept in locals: the loop then touches memory
+	// only for the values themselves, and the rare graded or worst ones.
+	mn, mx, sum, sumsq, count := p.min, p.max, p.sum, p.sumsq, p.count
+	positive, full := d.positive, len(p.worst) == k
 	for i, x := range v {
 		if x != x {
 			continue
 		}
-		p.count++
+		count++
 		if x < mn {
 			mn = x
 		}
@@ -51,9 +54,9 @@ func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status
 		sum += x
 		sumsq += x * x
 		y := sign * x
-		if y > warn || (d.positive && x <= 0) {
+		if y > warn || (positive && x <= 0) {
 			st := Warn
-			if y > fail || (d.positive && x <= 0) {
+			if y > fail || (positive && x <= 0) {
 				st = Fail
 				p.failed++
 			} else {
@@ -61,14 +64,14 @@ func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status
 			}
 			status[lo+i] = max(status[lo+i], st)
 		}
-		if y > cut || (len(p.worst) < k && y >= cut) {
+		if y > cut || (!full && y >= cut) {
 			p.worst = keepWorst(d, p.worst, k, lo+i, x)
-			if len(p.worst) == k {
+			if full = len(p.worst) == k; full {
 				cut = sign * float64(p.worst[k-1].Value)
 			}
 		}
 	}
-	p.min, p.max, p.sum, p.sumsq = mn, mx, sum, sumsq
+	p.min, p.max, p.sum, p.sumsq, p.count = mn, mx, sum, sumsq, count
 }
 
 // summary merges the chunk summaries of metric d, in chunk order, into
