@@ -2,7 +2,6 @@ package cgns
 
 import (
 	"errors"
-	"fmt"
 	"math"
 	"os"
 	"os/exec"
@@ -190,67 +189,42 @@ func TestReadRejects(t *testing.T) {
 	}
 }
 
-// plot3dAnnulus writes a half annulus of our own (radii 1 to 2, 21 × 11
-// nodes, nk node planes at z = 0 and 0.05) as a formatted whole-grid
-// PLOT3D file, with the x of the second plane moved by shift, and converts
-// it with the CGNS library's plot3d_to_cgns (Debian cgns-convert), which
-// writes a 3D base with one structured zone. It returns the CGNS file and
-// the k = 1 plane's nodes.
-func plot3dAnnulus(t *testing.T, nk int, shift float64) (string, []orb.Point) {
-	t.Helper()
+// sheetNodes are the k = 1 plane of foreign.c's sheet files: 21 × 11
+// nodes, x = 0.1 j + 0.002 i (20 − i), y = 0.1 i + 0.02 j² (i along y, so
+// the zone is left-handed), computed by the same IEEE operations as there.
+func sheetNodes() []orb.Point {
 	const ni, nj = 21, 11
 	var pts []orb.Point
 	for j := 0; j < nj; j++ {
 		for i := 0; i < ni; i++ {
-			r, a := 1+0.1*float64(j), math.Pi*float64(i)/(ni-1)
-			pts = append(pts, orb.Point{r * math.Cos(a), r * math.Sin(a)})
+			fi, fj := float64(i), float64(j)
+			pts = append(pts, orb.Point{0.1*fj + 0.002*fi*(20-fi), 0.1*fi + 0.02*fj*fj})
 		}
 	}
-	var b strings.Builder
-	fmt.Fprintf(&b, "%d %d %d\n", ni, nj, nk)
-	for axis := 0; axis < 3; axis++ {
-		for k := 0; k < nk; k++ {
-			for _, p := range pts {
-				v := 0.05 * float64(k)
-				if axis < 2 {
-					v = p[axis]
-					if axis == 0 && k == 1 {
-						v += shift
-					}
-				}
-				fmt.Fprintf(&b, "%.17g\n", v)
-			}
-		}
-	}
-	dir := t.TempDir()
-	src, dst := filepath.Join(dir, "annulus.p3d"), filepath.Join(dir, "annulus.cgns")
-	if err := os.WriteFile(src, []byte(b.String()), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	if out, err := exec.Command(tool(t, "plot3d_to_cgns"), "-s", "-f", "-d", src, dst).CombinedOutput(); err != nil {
-		t.Fatalf("plot3d_to_cgns: %v\n%s", err, out)
-	}
-	return dst, pts
+	return pts
 }
 
-// TestReadPlot3dConverted: a grid converted by another program into a 3D
-// base, one node plane thick and one cell thick, reads as the 2D mesh of
-// its k = 1 plane: the same nodes, 200 quadrilaterals, and a total area
-// equal to the shoelace area of the grid's boundary loop (Green's theorem).
-// A second plane that is not the first moved in z is refused.
-func TestReadPlot3dConverted(t *testing.T) {
-	for _, nk := range []int{1, 2} {
-		path, pts := plot3dAnnulus(t, nk, 0)
-		m, err := Read(path)
+// TestReadOnePlaneAndSlabZones: structured zones of a 3D base written
+// through the CGNS library's own calls (foreign.c), one node plane thick
+// (sheet1.cgns) and one cell thick (sheet2.cgns), read as the 2D mesh of
+// their k = 1 plane: the same nodes, 200 quadrilaterals, and a total area
+// equal to the shoelace area of the grid's boundary loop (Green's
+// theorem). A second plane that is not the first moved in z
+// (sheet2-skewed.cgns) is refused.
+func TestReadOnePlaneAndSlabZones(t *testing.T) {
+	dir := foreignFiles(t)
+	pts := sheetNodes()
+	for _, name := range []string{"sheet1.cgns", "sheet2.cgns"} {
+		m, err := Read(filepath.Join(dir, name))
 		if err != nil {
-			t.Fatalf("nk = %d: %v", nk, err)
+			t.Fatalf("%s: %v", name, err)
 		}
 		if m.NumCells() != 200 || len(m.Nodes) != len(pts) {
-			t.Fatalf("nk = %d: %d cells, %d nodes; want 200, %d", nk, m.NumCells(), len(m.Nodes), len(pts))
+			t.Fatalf("%s: %d cells, %d nodes; want 200, %d", name, m.NumCells(), len(m.Nodes), len(pts))
 		}
 		for k, p := range pts {
 			if m.Nodes[k] != p {
-				t.Fatalf("nk = %d: node %d at %v, want %v", nk, k, m.Nodes[k], p)
+				t.Fatalf("%s: node %d at %v, want %v", name, k, m.Nodes[k], p)
 			}
 		}
 		// Boundary loop: j = 0 row, i = ni−1 column, j = nj−1 row back,
@@ -279,11 +253,10 @@ func TestReadPlot3dConverted(t *testing.T) {
 			got += a
 		}
 		if math.Abs(got-math.Abs(want)) > 1e-13 {
-			t.Errorf("nk = %d: total area %.16g, boundary loop %.16g", nk, got, math.Abs(want))
+			t.Errorf("%s: total area %.16g, boundary loop %.16g", name, got, math.Abs(want))
 		}
 	}
-	path, _ := plot3dAnnulus(t, 2, 1e-3)
-	if _, err := Read(path); err == nil || !strings.Contains(err.Error(), "moved in z") {
+	if _, err := Read(filepath.Join(dir, "sheet2-skewed.cgns")); err == nil || !strings.Contains(err.Error(), "moved in z") {
 		t.Errorf("a skewed second plane read without complaint: %v", err)
 	}
 }

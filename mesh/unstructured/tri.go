@@ -10,8 +10,8 @@ import (
 // ghost is the vertex index of the point at infinity. Every edge of the
 // convex hull carries a ghost triangle (b, a, ghost) outside it, so every
 // half-edge has a twin and point location, insertion and flips need no
-// special cases at the hull (the construction of Bowyer–Watson with an
-// infinite vertex, as in Shewchuk's and CGAL's triangulators).
+// special cases at the hull (Bowyer–Watson insertion with a vertex at
+// infinity, common practice).
 const ghost int32 = -1
 
 // noSeg marks a half-edge that is not part of a boundary segment.

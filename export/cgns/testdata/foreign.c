@@ -18,6 +18,12 @@
  *                     FaceCenter, IFaceCenter, JFaceCenter and Vertex
  *                     ranges, and symmetry BCs on the front (KFaceCenter)
  *                     and back (Vertex, k = 2) planes.
+ *   sheet1.cgns     - a 3D base with one structured zone of 21 x 11 x 1 nodes
+ *                     (x = 0.1 j + 0.002 i (20 - i), y = 0.1 i + 0.02 j^2,
+ *                     z = 0), coordinates only.
+ *   sheet2.cgns     - the same zone one cell thick (k = 2 at z = 0.05).
+ *   sheet2-skewed.cgns - sheet2.cgns with the second plane's x moved by
+ *                     0.001, which is not a 2D case.
  *   slab3d.cgns     - an unstructured 2D case stored one cell thick in a 3D
  *                     base: a HEXA_8 written upside down (first face on the
  *                     upper plane) and two PENTA_6 over [0, 2] x [0, 1],
@@ -206,6 +212,27 @@ static void twozone3d(void) {
     ck(cg_close(fn), "close");
 }
 
+static void sheet(const char *name, int nk, double shift) {
+    int fn = open_file(name), B, Z, C;
+    cgsize_t size[9] = {21, 11, nk, 20, 10, nk - 1, 0, 0, 0};
+    double x[2 * 231], y[2 * 231], z[2 * 231];
+    for (int k = 0; k < nk; k++)
+        for (int j = 0; j < 11; j++)
+            for (int i = 0; i < 21; i++) {
+                int n = 231 * k + 21 * j + i;
+                double fi = i, fj = j;
+                x[n] = 0.1 * fj + 0.002 * fi * (20 - fi) + (k == 1 ? shift : 0);
+                y[n] = 0.1 * fi + 0.02 * fj * fj;
+                z[n] = 0.05 * k;
+            }
+    ck(cg_base_write(fn, "Sheet", 3, 3, &B), "base");
+    ck(cg_zone_write(fn, B, "sheet", size, Structured, &Z), "zone");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateX", x, &C), "x");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateY", y, &C), "y");
+    ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateZ", z, &C), "z");
+    ck(cg_close(fn), "close");
+}
+
 static void slab3d(void) {
     int fn = open_file("slab3d.cgns"), B, Z, S, C, BC;
     cgsize_t size[3] = {12, 3, 0};
@@ -270,6 +297,9 @@ int main(int argc, char **argv) {
     twozone(ONE_SIDE);
     twozone(POINT_LISTS);
     twozone3d();
+    sheet("sheet1.cgns", 1, 0);
+    sheet("sheet2.cgns", 2, 0);
+    sheet("sheet2-skewed.cgns", 2, 0.001);
     slab3d();
     highorder();
     return 0;
