@@ -275,20 +275,32 @@ func (p *Polyline) At(f float64) orb.Point {
 	return orb.Point{a[0] + t*(b[0]-a[0]), a[1] + t*(b[1]-a[1])}
 }
 
-func (p *Polyline) Reversed() Segment {
-	q := make([]orb.Point, len(p.pts))
-	for i, v := range p.pts {
+// reversedPoints returns a copy of pts in the opposite order.
+func reversedPoints(pts []orb.Point) []orb.Point {
+	q := make([]orb.Point, len(pts))
+	for i, v := range pts {
 		q[len(q)-1-i] = v
 	}
+	return q
+}
+
+// scaledPoints returns a copy of pts with every coordinate times f.
+func scaledPoints(pts []orb.Point, f float64) []orb.Point {
+	q := make([]orb.Point, len(pts))
+	for i, v := range pts {
+		q[i] = scalePt(v, f)
+	}
+	return q
+}
+
+func (p *Polyline) Reversed() Segment {
+	q := reversedPoints(p.pts)
 	r, _ := NewPolyline(q, Attr{p.attr.Tag, p.attr.Spacing.Reversed()})
 	return r
 }
 
 func (p *Polyline) Scaled(f float64) Segment {
-	q := make([]orb.Point, len(p.pts))
-	for i, v := range p.pts {
-		q[i] = scalePt(v, f)
-	}
+	q := scaledPoints(p.pts, f)
 	c := make([]float64, len(p.cum))
 	for i, v := range p.cum {
 		c[i] = v * f

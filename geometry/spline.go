@@ -198,19 +198,13 @@ func (s *Spline) At(f float64) orb.Point {
 }
 
 func (s *Spline) Reversed() Segment {
-	q := make([]orb.Point, len(s.pts))
-	for i, v := range s.pts {
-		q[len(q)-1-i] = v
-	}
+	q := reversedPoints(s.pts)
 	r, _ := NewSpline(q, Attr{s.attr.Tag, s.attr.Spacing.Reversed()})
 	return r
 }
 
 func (s *Spline) Scaled(f float64) Segment {
-	q := make([]orb.Point, len(s.pts))
-	for i, v := range s.pts {
-		q[i] = scalePt(v, f)
-	}
+	q := scaledPoints(s.pts, f)
 	r, _ := NewSpline(q, scaleAttr(s.attr, f))
 	return r
 }

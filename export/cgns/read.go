@@ -303,6 +303,29 @@ func (r *reader) coords(z C.int, zp string, rmax []int32, n int, slab bool) ([]o
 	return pts, zc, nil
 }
 
+// buildTagged orders the tags of the boundary edges found (see
+// orderTags), adds the edges to in with their tag numbers and builds the
+// mesh; where names the base or zone in errors.
+func (r *reader) buildTagged(in mesh.Input, found []taggedEdges, where string) (*mesh.Mesh, error) {
+	used := make([]string, len(found))
+	for i, t := range found {
+		used[i] = t.tag
+	}
+	r.orderTags(used)
+	in.Tags = r.tags
+	for _, t := range found {
+		ti := r.tag(t.tag)
+		for _, e := range t.edges {
+			in.Edges = append(in.Edges, mesh.TaggedEdge{A: e[0], B: e[1], Tag: ti})
+		}
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", where, err)
+	}
+	return m, nil
+}
+
 // bcInfo is one BC_t as read: its point set expanded to a list.
 type bcInfo struct {
 	path string

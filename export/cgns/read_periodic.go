@@ -34,6 +34,30 @@ type periodicFound struct {
 	unsupported string
 }
 
+// connInfo is what cg_conn_info says of one GridConnectivity_t.
+type connInfo struct {
+	name, donor string
+	loc         C.GridLocation_t
+	typ         C.GridConnectivityType_t
+	set, dset   C.PointSetType_t
+	npnts, nd   C.int
+}
+
+// connInfo reads the description of GridConnectivity_t i of zone z.
+func (r *reader) connInfo(z, i C.int, zp string) (connInfo, error) {
+	var (
+		ci          connInfo
+		name, donor [maxNameLen + 1]C.char
+		dzt         C.ZoneType_t
+		ddt         C.DataType_t
+	)
+	if err := libError(C.cg_conn_info(r.fn, r.b, z, i, &name[0], &ci.loc, &ci.typ, &ci.set, &ci.npnts, &donor[0], &dzt, &ci.dset, &ddt, &ci.nd), fmt.Sprintf("read GridConnectivity_t %d of %s", i, zp)); err != nil {
+		return ci, err
+	}
+	ci.name, ci.donor = C.GoString(&name[0]), C.GoString(&donor[0])
+	return ci, nil
+}
+
 // periodicOf reads the Periodic_t of a connection with read
 // (cg_conn_periodic_read or cg_1to1_periodic_read bound to it); ok is
 // false if the connection is not periodic. A rotation is kept as the
@@ -91,19 +115,11 @@ func (r *reader) unstructuredConns(z C.int, zp, zone string, barOf func(int32) (
 	}
 	var out []taggedEdges
 	for i := C.int(1); i <= n; i++ {
-		var (
-			name, donor [maxNameLen + 1]C.char
-			loc         C.GridLocation_t
-			typ         C.GridConnectivityType_t
-			set, dset   C.PointSetType_t
-			npnts, nd   C.int
-			dzt         C.ZoneType_t
-			ddt         C.DataType_t
-		)
-		if err := libError(C.cg_conn_info(r.fn, r.b, z, i, &name[0], &loc, &typ, &set, &npnts, &donor[0], &dzt, &dset, &ddt, &nd), fmt.Sprintf("read GridConnectivity_t %d of %s", i, zp)); err != nil {
+		ci, err := r.connInfo(z, i, zp)
+		if err != nil {
 			return nil, err
 		}
-		path := zp + "/ZoneGridConnectivity/" + C.GoString(&name[0])
+		path := zp + "/ZoneGridConnectivity/" + ci.name
 		pf, ok, err := periodicOf(path, func(c, a, t *C.float) C.int { return C.cg_conn_periodic_read(r.fn, r.b, z, i, c, a, t) })
 		if err != nil {
 			return nil, err
@@ -112,26 +128,26 @@ func (r *reader) unstructuredConns(z C.int, zp, zone string, barOf func(int32) (
 			continue
 		}
 		switch {
-		case loc != C.FaceCenter && loc != C.EdgeCenter:
-			pf.unsupported = "a periodic connection at " + C.GoString(C.cg_GridLocationName(loc)) + "; cvdeck reads periodic faces at FaceCenter or EdgeCenter"
-		case typ != C.Abutting1to1:
-			pf.unsupported = "a periodic connection of type " + C.GoString(C.cg_GridConnectivityTypeName(typ)) + "; cvdeck reads Abutting1to1 periodic faces"
-		case set != C.PointList && set != C.PointRange || dset != C.PointListDonor:
-			pf.unsupported = "a periodic connection by " + C.GoString(C.cg_PointSetTypeName(set)) + " and " + C.GoString(C.cg_PointSetTypeName(dset)) + "; cvdeck reads a PointList or PointRange with a PointListDonor"
-		case C.GoString(&donor[0]) != zone:
-			pf.unsupported = fmt.Sprintf("donor zone %q is not this zone", C.GoString(&donor[0]))
+		case ci.loc != C.FaceCenter && ci.loc != C.EdgeCenter:
+			pf.unsupported = "a periodic connection at " + C.GoString(C.cg_GridLocationName(ci.loc)) + "; cvdeck reads periodic faces at FaceCenter or EdgeCenter"
+		case ci.typ != C.Abutting1to1:
+			pf.unsupported = "a periodic connection of type " + C.GoString(C.cg_GridConnectivityTypeName(ci.typ)) + "; cvdeck reads Abutting1to1 periodic faces"
+		case ci.set != C.PointList && ci.set != C.PointRange || ci.dset != C.PointListDonor:
+			pf.unsupported = "a periodic connection by " + C.GoString(C.cg_PointSetTypeName(ci.set)) + " and " + C.GoString(C.cg_PointSetTypeName(ci.dset)) + "; cvdeck reads a PointList or PointRange with a PointListDonor"
+		case ci.donor != zone:
+			pf.unsupported = fmt.Sprintf("donor zone %q is not this zone", ci.donor)
 		}
 		if pf.unsupported != "" {
 			r.periodic = append(r.periodic, pf)
 			continue
 		}
-		pts := make([]int32, max(int(npnts), 1))
-		dpts := make([]int32, max(int(nd), 1))
+		pts := make([]int32, max(int(ci.npnts), 1))
+		dpts := make([]int32, max(int(ci.nd), 1))
 		if err := libError(C.cg_conn_read(r.fn, r.b, z, i, ip(pts), C.Integer, ip(dpts)), "read "+path); err != nil {
 			return nil, err
 		}
-		pts, dpts = pts[:npnts], dpts[:nd]
-		if set == C.PointRange {
+		pts, dpts = pts[:ci.npnts], dpts[:ci.nd]
+		if ci.set == C.PointRange {
 			if len(pts) != 2 || pts[1] < pts[0] {
 				return nil, fmt.Errorf("%s: range %v is not a range [first, last]", path, pts)
 			}
@@ -144,7 +160,7 @@ func (r *reader) unstructuredConns(z C.int, zp, zone string, barOf func(int32) (
 		if len(pts) != len(dpts) {
 			return nil, fmt.Errorf("%s lists %d faces and %d donor faces; a one-to-one interface pairs them one to one", path, len(pts), len(dpts))
 		}
-		tag, err := r.connTag(path, C.GoString(&name[0]))
+		tag, err := r.connTag(path, ci.name)
 		if err != nil {
 			return nil, err
 		}

@@ -250,23 +250,7 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 			found = append(found, t)
 		}
 	}
-	used := make([]string, len(found))
-	for i, t := range found {
-		used[i] = t.tag
-	}
-	r.orderTags(used)
-	in.Tags = r.tags
-	for _, t := range found {
-		ti := r.tag(t.tag)
-		for _, e := range t.edges {
-			in.Edges = append(in.Edges, mesh.TaggedEdge{A: e[0], B: e[1], Tag: ti})
-		}
-	}
-	m, err := mesh.Build(in)
-	if err != nil {
-		return nil, fmt.Errorf("/%s: %w", r.base, err)
-	}
-	return m, nil
+	return r.buildTagged(in, found, "/"+r.base)
 }
 
 func step(a, b int32) int32 {
@@ -361,20 +345,12 @@ func (r *reader) noGeneralConns(z C.int, zp string) error {
 	if n == 0 {
 		return nil
 	}
-	var (
-		name, donor [maxNameLen + 1]C.char
-		loc         C.GridLocation_t
-		typ         C.GridConnectivityType_t
-		set, dset   C.PointSetType_t
-		npnts, nd   C.int
-		dzt         C.ZoneType_t
-		ddt         C.DataType_t
-	)
-	if err := libError(C.cg_conn_info(r.fn, r.b, z, 1, &name[0], &loc, &typ, &set, &npnts, &donor[0], &dzt, &dset, &ddt, &nd), "read GridConnectivity_t 1 of "+zp); err != nil {
+	ci, err := r.connInfo(z, 1, zp)
+	if err != nil {
 		return err
 	}
 	return fmt.Errorf("%s/ZoneGridConnectivity/%s is a GridConnectivity_t (%s); cvdeck merges structured zones joined by GridConnectivity1to1_t only",
-		zp, C.GoString(&name[0]), C.GoString(C.cg_GridConnectivityTypeName(typ)))
+		zp, ci.name, C.GoString(C.cg_GridConnectivityTypeName(ci.typ)))
 }
 
 func abs(v int32) int32 {

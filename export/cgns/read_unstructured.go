@@ -164,23 +164,7 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 		return nil, err
 	}
 	found = append(found, conns...)
-	used := make([]string, len(found))
-	for i, t := range found {
-		used[i] = t.tag
-	}
-	r.orderTags(used)
-	in.Tags = r.tags
-	for _, t := range found {
-		ti := r.tag(t.tag)
-		for _, e := range t.edges {
-			in.Edges = append(in.Edges, mesh.TaggedEdge{A: e[0], B: e[1], Tag: ti})
-		}
-	}
-	m, err := mesh.Build(in)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", zp, err)
-	}
-	return m, nil
+	return r.buildTagged(in, found, zp)
 }
 
 // sections reads every Elements_t node of zone z.
