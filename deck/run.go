@@ -29,6 +29,10 @@ type RunOptions struct {
 	// Stage, if set, is told the name of each pipeline stage as it starts
 	// (for progress display).
 	Stage func(name string)
+	// Evaluator, if set, runs the quality checks in memory kept from its
+	// earlier runs (see quality.Evaluator); the Result's Report then lasts
+	// until its next use. Nil checks in fresh memory.
+	Evaluator *quality.Evaluator
 }
 
 // Result is what a run made.
@@ -96,7 +100,11 @@ func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	rep, err := quality.Evaluate(m, lim)
+	ev := opts.Evaluator
+	if ev == nil {
+		ev = new(quality.Evaluator)
+	}
+	rep, err := ev.Evaluate(m, lim)
 	if err != nil {
 		return nil, fmt.Errorf("quality checks: %w", err)
 	}

@@ -23,16 +23,15 @@ import (
 //
 // The cells are split into two fixed halves scattered into separate sums
 // (the second half followed by the boundary faces), added at the end, so
-// the result does not depend on scheduling.
-func computeDualClosure(m *mesh.Mesh) []float64 {
+// the result does not depend on scheduling. The three sums of a node lie
+// together, in one cache line or two.
+func computeDualClosure(m *mesh.Mesh, d *dualSums) []float64 {
 	nn, nc := len(m.Nodes), m.NumCells()
-	type sums struct{ x, y, s []float64 }
-	var acc [2]sums
 	var wg sync.WaitGroup
-	for h := range acc {
-		acc[h] = sums{make([]float64, nn), make([]float64, nn), make([]float64, nn)}
+	for h := range d.half {
+		acc := zeroed(&d.half[h], nn)
 		wg.Add(1)
-		go func(a sums, lo, hi int, boundary bool) {
+		go func(lo, hi int, boundary bool) {
 			defer wg.Done()
 			for c := lo; c < hi; c++ {
 				idx := m.CellNodes[m.CellStart[c]:m.CellStart[c+1]]
@@ -48,12 +47,13 @@ func computeDualClosure(m *mesh.Mesh) []float64 {
 					q := m.Nodes[w]
 					dx, dy := cc[0]-0.5*(p[0]+q[0]), cc[1]-0.5*(p[1]+q[1])
 					l := math.Sqrt(dx*dx + dy*dy)
-					a.x[v] += dy
-					a.y[v] -= dx
-					a.s[v] += l
-					a.x[w] -= dy
-					a.y[w] += dx
-					a.s[w] += l
+					a, b := &acc[v], &acc[w]
+					a.x += dy
+					a.y -= dx
+					a.s += l
+					b.x -= dy
+					b.y += dx
+					b.s += l
 					v, p = w, q
 				}
 			}
@@ -65,22 +65,25 @@ func computeDualClosure(m *mesh.Mesh) []float64 {
 				pa, pb := m.Nodes[fn[0]], m.Nodes[fn[1]]
 				mid := m.Geo.FaceMid[f]
 				// Half a→mid bounds node a, half mid→b node b.
+				a, b := &acc[fn[0]], &acc[fn[1]]
 				dx, dy := mid[0]-pa[0], mid[1]-pa[1]
-				a.x[fn[0]] += dy
-				a.y[fn[0]] -= dx
-				a.s[fn[0]] += math.Sqrt(dx*dx + dy*dy)
+				a.x += dy
+				a.y -= dx
+				a.s += math.Sqrt(dx*dx + dy*dy)
 				dx, dy = pb[0]-mid[0], pb[1]-mid[1]
-				a.x[fn[1]] += dy
-				a.y[fn[1]] -= dx
-				a.s[fn[1]] += math.Sqrt(dx*dx + dy*dy)
+				b.x += dy
+				b.y -= dx
+				b.s += math.Sqrt(dx*dx + dy*dy)
 			}
-		}(acc[h], h*nc/2, (h+1)*nc/2, h == 1)
+		}(h*nc/2, (h+1)*nc/2, h == 1)
 	}
 	wg.Wait()
-	out := acc[0].s // reused for the result
+	out := resize(&d.out, nn)
+	h0, h1 := d.half[0], d.half[1]
 	forChunks(nn, func(lo, hi int) {
 		for v := lo; v < hi; v++ {
-			x, y, s := acc[0].x[v]+acc[1].x[v], acc[0].y[v]+acc[1].y[v], acc[0].s[v]+acc[1].s[v]
+			a, b := h0[v], h1[v]
+			x, y, s := a.x+b.x, a.y+b.y, a.s+b.s
 			if s == 0 {
 				out[v] = math.NaN()
 				continue
@@ -90,6 +93,16 @@ func computeDualClosure(m *mesh.Mesh) []float64 {
 	})
 	return out
 }
+
+// dualSums holds computeDualClosure's accumulators, one per half of the
+// cells, and its result, kept for reuse.
+type dualSums struct {
+	half [2][]dualSum
+	out  []float64
+}
+
+// dualSum is the running Σ S n (x, y) and Σ |S| (s) of one node's dual.
+type dualSum struct{ x, y, s float64 }
 
 // boundaryClosure returns |Σ S_f n_f| / Σ S_f over the boundary faces: zero
 // when the boundary is watertight (a closed set of loops), since the sum of

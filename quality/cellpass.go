@@ -32,14 +32,16 @@ const (
 // the conservation audit (auditCell). It grades each value, raising
 // status, and returns the arrays in metric order with their per-chunk
 // summaries, so that every array is summarised while it is still in cache.
-func cellPass(m *mesh.Mesh, cf cellFaces, ff *faceFields, lim *Limits, status []Status) ([numCellMetrics][]float64, [numCellMetrics][]partial) {
+// buf holds the arrays (all but area, which is the mesh's own), kept for
+// reuse.
+func cellPass(m *mesh.Mesh, cf *cellFaces, ff *faceFields, lim *Limits, status []Status, buf *[numCellMetrics][]float64) ([numCellMetrics][]float64, [numCellMetrics][]partial) {
 	nc := m.NumCells()
 	var vals [numCellMetrics][]float64
 	var parts [numCellMetrics][]partial
 	vals[mArea] = m.Geo.CellArea
 	for k := range vals {
 		if k != mArea {
-			vals[k] = make([]float64, nc)
+			vals[k] = resize(&buf[k], nc)
 		}
 		parts[k] = make([]partial, (nc+chunk-1)/chunk)
 	}
@@ -97,7 +99,7 @@ type faceArrays struct {
 	area                   []float64
 }
 
-func newFaceArrays(m *mesh.Mesh, cf cellFaces, ff *faceFields) *faceArrays {
+func newFaceArrays(m *mesh.Mesh, cf *cellFaces, ff *faceFields) *faceArrays {
 	return &faceArrays{
 		start: cf.start, faces: cf.faces,
 		length: ff.length, nonOrth: ff.nonOrth, cross: ff.cross,

@@ -336,9 +336,9 @@ func cellHasFace(m *mesh.Mesh, cf cellFaces, c int, a, b int32) bool {
 }
 
 // nodeCells returns, for each node, the lowest-numbered cell that uses it,
-// or -1 for an unused node.
-func nodeCells(m *mesh.Mesh) []int32 {
-	first := make([]int32, len(m.Nodes))
+// or -1 for an unused node. buf holds the array, kept for reuse.
+func nodeCells(m *mesh.Mesh, buf *[]int32) []int32 {
+	first := resize(buf, len(m.Nodes))
 	for i := range first {
 		first[i] = -1
 	}
@@ -374,7 +374,8 @@ func checkCrossing(m *mesh.Mesh, cn *connectivity) {
 
 // checkNodes runs unused_node and the node balance of watertight: on a
 // closed boundary every node starts as many boundary faces as it ends.
-func checkNodes(m *mesh.Mesh, first []int32, bclosure, tol float64, cn *connectivity) {
+// buf holds the balance array, kept for reuse.
+func checkNodes(m *mesh.Mesh, first []int32, buf *[]int32, bclosure, tol float64, cn *connectivity) {
 	for v, c := range first {
 		if c < 0 {
 			p := m.Nodes[v]
@@ -382,7 +383,7 @@ func checkNodes(m *mesh.Mesh, first []int32, bclosure, tol float64, cn *connecti
 				Message: fmt.Sprintf("node %d at (%.9g, %.9g) belongs to no cell", v, p[0], p[1])})
 		}
 	}
-	balance := make([]int32, len(m.Nodes))
+	balance := zeroed(buf, len(m.Nodes))
 	for f := m.NumInterior; f < m.NumFaces(); f++ {
 		fn := m.FaceNodes[f]
 		balance[fn[0]]++

@@ -56,15 +56,13 @@ func (ff *faceFields) shortest() float64 {
 //
 // Growth, the area ratio of the two cells of a face, is taken per cell in
 // faceSummary.gather.
-func computeFaces(m *mesh.Mesh) faceFields {
+func computeFaces(m *mesh.Mesh, ff *faceFields) {
 	nf := m.NumFaces()
 	g := &m.Geo
-	ff := faceFields{
-		length:       make([]float64, nf),
-		nonOrth:      make([]float64, nf),
-		cross:        make([]float64, nf),
-		shortestPart: make([]float64, (nf+chunk-1)/chunk),
-	}
+	resize(&ff.length, nf)
+	resize(&ff.nonOrth, nf)
+	resize(&ff.cross, nf)
+	resize(&ff.shortestPart, (nf+chunk-1)/chunk)
 	forChunks(nf, func(lo, hi int) {
 		short := math.Inf(1)
 		for f := lo; f < hi; f++ {
@@ -101,7 +99,6 @@ func computeFaces(m *mesh.Mesh) faceFields {
 		}
 		ff.shortestPart[lo/chunk] = short
 	})
-	return ff
 }
 
 // skewness turns cross into the skewness |t| of every face, in place (so
@@ -117,37 +114,38 @@ func (ff *faceFields) skewness() []float64 {
 }
 
 // cellFaces is the list of faces of each cell in CSR form, each list in
-// face order.
+// face order: the faces of cell c are faces[start[c]:start[c+1]].
 type cellFaces struct {
 	start []int32
 	faces []int32
 }
 
 // buildCellFaces lists the faces of each cell (as owner or neighbour), in
-// increasing face index, by a counting sort over the faces.
-func buildCellFaces(m *mesh.Mesh) cellFaces {
+// increasing face index, by a counting sort over the faces. The counts go
+// two places up, so that after the prefix sum next[c+1] is where cell c's
+// list begins; filling advances it to where the list ends, which is where
+// cell c+1's begins, and next[:nc+1] is then the start array itself.
+func buildCellFaces(m *mesh.Mesh, cf *cellFaces) {
 	nc, nf := m.NumCells(), m.NumFaces()
-	cf := cellFaces{start: make([]int32, nc+1)}
+	next := zeroed(&cf.start, nc+2)
 	for f := 0; f < nf; f++ {
-		cf.start[m.Owner[f]+1]++
+		next[m.Owner[f]+2]++
 		if nb := m.Neighbour[f]; nb >= 0 {
-			cf.start[nb+1]++
+			next[nb+2]++
 		}
 	}
-	for c := 0; c < nc; c++ {
-		cf.start[c+1] += cf.start[c]
+	for c := 2; c < nc+2; c++ {
+		next[c] += next[c-1]
 	}
-	cf.faces = make([]int32, cf.start[nc])
-	fill := make([]int32, nc)
-	copy(fill, cf.start[:nc])
+	faces := resize(&cf.faces, int(next[nc+1]))
 	for f := 0; f < nf; f++ {
-		o := m.Owner[f]
-		cf.faces[fill[o]] = int32(f)
-		fill[o]++
+		o := m.Owner[f] + 1
+		faces[next[o]] = int32(f)
+		next[o]++
 		if nb := m.Neighbour[f]; nb >= 0 {
-			cf.faces[fill[nb]] = int32(f)
-			fill[nb]++
+			faces[next[nb+1]] = int32(f)
+			next[nb+1]++
 		}
 	}
-	return cf
+	cf.start = next[:nc+1]
 }

@@ -124,12 +124,8 @@ func (r *Report) Metric(name string) (MetricSummary, bool) {
 	return MetricSummary{}, false
 }
 
-// Evaluate computes every metric, the conservation audit and the
-// connectivity checks of m, grades them against lim and returns the
-// report. It returns an error only when the mesh arrays are inconsistent
-// (lengths or indices out of range), so that nothing can be computed; every
-// defect of a well-formed mesh is a finding in the report.
-func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
+// Evaluate is the package's Evaluate in e's memory; see Evaluator.
+func (e *Evaluator) Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 	if lim == (Limits{}) {
 		return nil, errNoLimits
 	}
@@ -140,29 +136,29 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 
 	// The face metrics, the cell-to-face lists and the node-to-cell map
 	// are independent; build them side by side.
-	var cf cellFaces
 	var first []int32
 	var wg sync.WaitGroup
 	wg.Add(1)
 	go func() {
 		defer wg.Done()
-		cf = buildCellFaces(m)
-		first = nodeCells(m)
+		buildCellFaces(m, &e.cellFaces)
+		first = nodeCells(m, &e.first)
 	}()
-	ff := computeFaces(m)
+	ff := &e.faces
+	computeFaces(m, ff)
 	wg.Wait()
 
 	r := &Report{
 		Profile: lim.Profile, Cells: nc, Faces: m.NumFaces(), BoundaryFaces: m.NumBoundary(), Nodes: nn,
 		DuplicateTolerance: lim.DuplicateTolerance, HangingTolerance: lim.HangingTolerance,
-		CellStatus: make([]Status, nc),
+		CellStatus: zeroed(&e.cellStatus, nc),
 	}
 	// Three independent sweeps run side by side: the cell metrics, the node
 	// metric and the connectivity checks. Each writes only its own results.
 	var vals [numCellMetrics][]float64
 	var parts [numCellMetrics][]partial
 	var dual []float64
-	nodeStatus := make([]Status, nn)
+	nodeStatus := zeroed(&e.nodeStatus, nn)
 	dd := &metricDefs[numCellMetrics]
 	nodeParts := make([]partial, (nn+chunk-1)/chunk)
 	cn := newConnectivity(lim.MaxProblems)
@@ -170,11 +166,11 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 	wg.Add(3)
 	go func() {
 		defer wg.Done()
-		vals, parts = cellPass(m, cf, &ff, &lim, r.CellStatus)
+		vals, parts = cellPass(m, &e.cellFaces, ff, &lim, r.CellStatus, &e.vals)
 	}()
 	go func() {
 		defer wg.Done()
-		dual = computeDualClosure(m)
+		dual = computeDualClosure(m, &e.dual)
 		forChunks(nn, func(lo, hi int) {
 			p := &nodeParts[lo/chunk]
 			p.start()
@@ -183,9 +179,9 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 	}()
 	go func() {
 		defer wg.Done()
-		checkFaces(m, cf, cn)
+		checkFaces(m, e.cellFaces, cn)
 		bclosure = boundaryClosure(m)
-		checkNodes(m, first, bclosure, lim.Closure.Fail, cn)
+		checkNodes(m, first, &e.balance, bclosure, lim.Closure.Fail, cn)
 		checkCrossing(m, cn)
 		if hmin := ff.shortest(); !math.IsInf(hmin, 0) {
 			r.DuplicateDistance = lim.DuplicateTolerance * hmin
@@ -211,12 +207,12 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 	r.NodeFields = []Field{{dd.name, dual}}
 	r.Connectivity = cn.results
 
-	defects := make([]float64, nc)
+	defects := zeroed(&e.defects, nc)
 	for _, c := range cn.cells {
 		defects[c]++
 		r.CellStatus[c] = Fail
 	}
-	status := make([]float64, nc)
+	status := resize(&e.status, nc)
 	for c, s := range r.CellStatus {
 		status[c] = float64(s)
 		switch s {

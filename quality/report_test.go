@@ -60,22 +60,41 @@ func TestFieldsDeterministic(t *testing.T) {
 		defer runtime.GOMAXPROCS(old)
 		return evaluate(t, m)
 	}
-	r1, r3 := run(1), run(3)
-	for i, list := range [][2][]Field{{r1.CellFields, r3.CellFields}, {r1.FaceFields, r3.FaceFields}, {r1.NodeFields, r3.NodeFields}} {
+	sameReport(t, "on one goroutine and on three", run(1), run(3))
+}
+
+// sameReport fails t unless a and b give the same JSON report and the same
+// float64 bits in every field and the same cell status.
+func sameReport(t *testing.T, what string, a, b *Report) {
+	t.Helper()
+	var ja, jb bytes.Buffer
+	if err := WriteJSON(&ja, a); err != nil {
+		t.Fatal(err)
+	}
+	if err := WriteJSON(&jb, b); err != nil {
+		t.Fatal(err)
+	}
+	if ja.String() != jb.String() {
+		t.Fatalf("JSON reports differ %s", what)
+	}
+	for i, list := range [][2][]Field{{a.CellFields, b.CellFields}, {a.FaceFields, b.FaceFields}, {a.NodeFields, b.NodeFields}} {
 		if len(list[0]) != len(list[1]) {
-			t.Fatalf("field list %d: %d fields on one goroutine, %d on three", i, len(list[0]), len(list[1]))
+			t.Fatalf("field list %d: %d fields and %d %s", i, len(list[0]), len(list[1]), what)
 		}
 		for k, f := range list[0] {
 			g := list[1][k]
+			if len(f.Values) != len(g.Values) {
+				t.Fatalf("%s: %d values and %d %s", f.Name, len(f.Values), len(g.Values), what)
+			}
 			for j, x := range f.Values {
 				if math.Float64bits(x) != math.Float64bits(g.Values[j]) {
-					t.Fatalf("%s[%d] = %v on one goroutine, %v on three", f.Name, j, x, g.Values[j])
+					t.Fatalf("%s[%d] = %v and %v %s", f.Name, j, x, g.Values[j], what)
 				}
 			}
 		}
 	}
-	if !slices.Equal(r1.CellStatus, r3.CellStatus) {
-		t.Error("cell status differs between one goroutine and three")
+	if !slices.Equal(a.CellStatus, b.CellStatus) {
+		t.Errorf("cell status differs %s", what)
 	}
 }
 

@@ -15,11 +15,13 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 
 	"gopkg.in/yaml.v3"
 
 	"cvdeck/deck"
 	"cvdeck/export/manifest"
+	"cvdeck/quality"
 )
 
 // Pipeline is the Runner of the real cvdeck pipeline: deck.Load of the
@@ -40,6 +42,31 @@ type Pipeline struct {
 	Exe string
 	// Threads is the GOMAXPROCS of each child process (0: the Go default).
 	Threads int
+
+	// spare holds the quality evaluators of finished in-process builds,
+	// one taken per build so that each worker checks its variants in
+	// memory it has used before rather than in fresh pages.
+	spareMu sync.Mutex
+	spare   []*quality.Evaluator
+}
+
+// evaluator takes a spare quality evaluator, or a new one.
+func (p *Pipeline) evaluator() *quality.Evaluator {
+	p.spareMu.Lock()
+	defer p.spareMu.Unlock()
+	if n := len(p.spare); n > 0 {
+		e := p.spare[n-1]
+		p.spare = p.spare[:n-1]
+		return e
+	}
+	return new(quality.Evaluator)
+}
+
+// release gives e back for the next build.
+func (p *Pipeline) release(e *quality.Evaluator) {
+	p.spareMu.Lock()
+	defer p.spareMu.Unlock()
+	p.spare = append(p.spare, e)
 }
 
 // NewPipeline returns the pipeline runner of a sweep file.
@@ -143,7 +170,10 @@ func (j *pipelineJob) Build(ctx context.Context, dir string) (Outcome, error) {
 			return Outcome{}, err
 		}
 	} else {
-		_, err := deck.Run(j.c, dir, j.p.Options)
+		opts := j.p.Options
+		opts.Evaluator = j.p.evaluator()
+		_, err := deck.Run(j.c, dir, opts)
+		j.p.release(opts.Evaluator)
 		var checks *deck.CheckFailure
 		if err != nil && !errors.As(err, &checks) {
 			return Outcome{}, err
