@@ -20,27 +20,14 @@ func (p *partial) start() {
 // value. NaN (not applicable) is skipped. A chunk may be scanned in
 // consecutive pieces, in index order: the sums then run in the same order
 // as one scan of the whole chunk, so the result is the same.
+//
+// The statistics come first, in a loop with nothing else live so that the
+// compiler keeps them in registers; the worst value of v then tells
+// whether any value can be graded or join the worst list, and only then
+// does a second loop look for them. On a sound mesh most pieces need none.
 func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status []Status) {
-	// Flip the sign of lower-is-worse metrics so that one loop serves both:
-	// larger y = sign·x is always worse.
-	sign := 1.0
-	if d.lower {
-		sign = -1
-	}
-	warn, fail := sign*b.Warn, sign*b.Fail
-	// cut is the value an entry must beat to join a full worst list.
-	cut := math.Inf(-1)
-	switch {
-	case k == 0:
-		cut = math.Inf(1)
-	case len(p.worst) == k:
-		cut = sign * float64(p.worst[k-1].Value)
-	}
-	// The running values are kept in locals: the loop then touches memory
-	// only for the values themselves, and the rare graded or worst ones.
-	mn, mx, sum, sumsq, count := p.min, p.max, p.sum, p.sumsq, p.count
-	positive, full := d.positive, len(p.worst) == k
-	for i, x := range v {
+	mn, mx, sum, sumsq, count := math.Inf(1), math.Inf(-1), p.sum, p.sumsq, p.count
+	for _, x := range v {
 		if x != x {
 			continue
 		}
@@ -53,6 +40,37 @@ func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status
 		}
 		sum += x
 		sumsq += x * x
+	}
+	if count == p.count {
+		return // every value NaN
+	}
+	p.min, p.max = min(p.min, mn), max(p.max, mx)
+	p.sum, p.sumsq, p.count = sum, sumsq, count
+
+	// Flip the sign of lower-is-worse metrics so that one loop serves both:
+	// larger y = sign·x is always worse.
+	sign, worst := 1.0, mx
+	if d.lower {
+		sign, worst = -1, -mn
+	}
+	warn, fail := sign*b.Warn, sign*b.Fail
+	positive := d.positive
+	// cut is the value an entry must beat to join a full worst list.
+	full := len(p.worst) == k
+	cut := math.Inf(-1)
+	if full {
+		cut = math.Inf(1)
+		if k > 0 {
+			cut = sign * float64(p.worst[k-1].Value)
+		}
+	}
+	if !(worst > warn || (positive && mn <= 0) || worst > cut || !full) {
+		return
+	}
+	for i, x := range v {
+		if x != x {
+			continue
+		}
 		y := sign * x
 		if y > warn || (positive && x <= 0) {
 			st := Warn
@@ -71,7 +89,6 @@ func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status
 			}
 		}
 	}
-	p.min, p.max, p.sum, p.sumsq, p.count = mn, mx, sum, sumsq, count
 }
 
 // summary merges the chunk summaries of metric d, in chunk order, into
