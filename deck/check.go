@@ -2,8 +2,10 @@ package deck
 
 import (
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"cvdeck/export/cgns"
@@ -149,9 +151,26 @@ func tagFromLines(m *mesh.Mesh, lines []vtk.BoundaryLine) (*mesh.Mesh, string, e
 	return tagged, fmt.Sprintf("%d tagged lines, %d tags", used, len(rt.in.Tags)), nil
 }
 
-// tagUntagged rebuilds m with its untagged boundary faces under DefaultTag
+// tagUntagged returns m with its untagged boundary faces under DefaultTag
 // (a new tag, or the existing one of that name).
+//
+// Build puts the untagged faces last, in the order a new last tag would
+// give them, so when DefaultTag is new the faces stay where they are and
+// only their tag is set: m's arrays are shared with the result, FaceTag
+// changed in place. Otherwise the mesh is built again with the faces
+// joining the existing tag.
 func tagUntagged(m *mesh.Mesh) (*mesh.Mesh, error) {
+	if _, _, exists := m.TagRange(DefaultTag); !exists && len(m.Tags) < math.MaxInt16 {
+		out := *m
+		t := int16(len(m.Tags))
+		out.Tags = append(slices.Clip(m.Tags), DefaultTag)
+		out.TagStart = append(slices.Clip(m.TagStart), int32(m.NumFaces()))
+		lo, hi := m.UntaggedRange()
+		for f := lo; f < hi; f++ {
+			out.FaceTag[f] = t
+		}
+		return &out, nil
+	}
 	rt := newRetag(m)
 	lo, hi := m.UntaggedRange()
 	for f := lo; f < hi; f++ {

@@ -2,6 +2,8 @@ package mesh
 
 import (
 	"math"
+	"runtime"
+	"sync"
 
 	"github.com/paulmach/orb"
 )
@@ -25,6 +27,8 @@ type Geometry struct {
 }
 
 // ComputeGeometry derives face and cell geometry from the mesh topology.
+// Each value depends on its own face or cell alone, so the work is split
+// over the processors without changing any result.
 func ComputeGeometry(m *Mesh) Geometry {
 	nf, nc := m.NumFaces(), m.NumCells()
 	g := Geometry{
@@ -34,21 +38,46 @@ func ComputeGeometry(m *Mesh) Geometry {
 		CellArea:     make([]float64, nc),
 		CellCentroid: make([]orb.Point, nc),
 	}
-	for f, fn := range m.FaceNodes {
-		a, b := m.Nodes[fn[0]], m.Nodes[fn[1]]
-		dx, dy := b[0]-a[0], b[1]-a[1]
-		l := math.Hypot(dx, dy)
-		g.FaceLength[f] = l
-		if l > 0 {
-			g.FaceNormal[f] = orb.Point{dy / l, -dx / l}
+	inParallel(nf, func(lo, hi int) {
+		for f := lo; f < hi; f++ {
+			fn := m.FaceNodes[f]
+			a, b := m.Nodes[fn[0]], m.Nodes[fn[1]]
+			dx, dy := b[0]-a[0], b[1]-a[1]
+			l := math.Hypot(dx, dy)
+			g.FaceLength[f] = l
+			if l > 0 {
+				g.FaceNormal[f] = orb.Point{dy / l, -dx / l}
+			}
+			g.FaceMid[f] = orb.Point{0.5 * (a[0] + b[0]), 0.5 * (a[1] + b[1])}
 		}
-		g.FaceMid[f] = orb.Point{0.5 * (a[0] + b[0]), 0.5 * (a[1] + b[1])}
-	}
-	for c := 0; c < nc; c++ {
-		g.CellArea[c], g.CellCentroid[c] = PolygonAreaCentroid(m.Nodes, m.Cell(c))
-	}
+	})
+	inParallel(nc, func(lo, hi int) {
+		for c := lo; c < hi; c++ {
+			g.CellArea[c], g.CellCentroid[c] = PolygonAreaCentroid(m.Nodes, m.Cell(c))
+		}
+	})
 	return g
 }
+
+// inParallel calls fn on GOMAXPROCS consecutive ranges [lo, hi) covering
+// [0, n), side by side, and waits for them; below minParallel items it
+// calls fn(0, n) alone, where starting goroutines would cost more than it
+// saves.
+func inParallel(n int, fn func(lo, hi int)) {
+	parts := min(runtime.GOMAXPROCS(0), n/minParallel)
+	if parts <= 1 {
+		fn(0, n)
+		return
+	}
+	var wg sync.WaitGroup
+	for k := range parts {
+		wg.Go(func() { fn(k*n/parts, (k+1)*n/parts) })
+	}
+	wg.Wait()
+}
+
+// minParallel is the fewest items inParallel splits.
+const minParallel = 1 << 14
 
 // PolygonAreaCentroid returns the signed area and the area centroid of the
 // polygon whose vertices are nodes[idx[0]], nodes[idx[1]], ...

@@ -134,7 +134,7 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 		}
 		return g.slabMesh(sl)
 	}
-	in := mesh.Input{Nodes: make([]orb.Point, np), CellStart: []int32{0}}
+	in := mesh.Input{Nodes: make([]orb.Point, np), CellStart: make([]int32, 1, nc+1), CellNodes: make([]int32, 0, len(g.conn))}
 	for i := range in.Nodes {
 		x, y, z := g.points[3*i], g.points[3*i+1], g.points[3*i+2]
 		if z != g.points[2] {
@@ -149,7 +149,7 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 	for c := 0; c < nc; c++ {
 		nodes := g.cell(c)
 		t := g.types[c]
-		want := map[int64]int{cellTriangle: 3, cellQuad: 4, cellPixel: 4, cellLine: 2}[t]
+		want := fixedPoints(t)
 		if want > 0 && len(nodes) != want || (t == cellPolygon && len(nodes) < 3) || (t == cellPolyLine && len(nodes) < 2) {
 			return nil, fmt.Errorf("%s: cell %d is a %s with %d points", g.file, c, cellTypeName[t], len(nodes))
 		}
@@ -184,6 +184,24 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 		return nil, fmt.Errorf("%s: %w", g.file, err)
 	}
 	return m, nil
+}
+
+// fixedPoints is the number of points a cell of VTK type t has when that
+// number is fixed, among the types cvdeck reads, and 0 otherwise.
+func fixedPoints(t int64) int {
+	switch t {
+	case cellLine:
+		return 2
+	case cellTriangle:
+		return 3
+	case cellQuad, cellPixel:
+		return 4
+	case cellWedge:
+		return 6
+	case cellHex, cellVoxel:
+		return 8
+	}
+	return 0
 }
 
 // checkCells checks that the cell offsets run in order within the

@@ -75,7 +75,7 @@ func (g *grid) slabMesh(sl slabPlanes) (*mesh.Mesh, error) {
 		var bottom, top []int64
 		switch t {
 		case cellHex, cellWedge, cellVoxel:
-			want := map[int64]int{cellHex: 8, cellVoxel: 8, cellWedge: 6}[t]
+			want := fixedPoints(t)
 			if len(nodes) != want {
 				return nil, fmt.Errorf("%s: cell %d is a %s with %d points", g.file, c, cellTypeName[t], len(nodes))
 			}
