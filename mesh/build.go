@@ -57,7 +57,10 @@ func Build(in Input) (*Mesh, error) {
 		return nil, fmt.Errorf("mesh: CellStart must run from 0 to len(CellNodes)=%d, got %d..%d", len(in.CellNodes), in.CellStart[0], in.CellStart[nc])
 	}
 	nh := len(in.CellNodes)
+	// Half-edge h runs from node CellNodes[h] to node nextOf[h], in cell
+	// halfCell[h].
 	halfCell := make([]int32, nh)
+	nextOf := make([]int32, nh)
 	for c := 0; c < nc; c++ {
 		s, e := in.CellStart[c], in.CellStart[c+1]
 		if e-s < 3 {
@@ -68,25 +71,21 @@ func Build(in Input) (*Mesh, error) {
 				return nil, fmt.Errorf("mesh: cell %d refers to node %d; nodes run from 0 to %d", c, v, nn-1)
 			}
 			halfCell[h] = int32(c)
+			if h+1 < e {
+				nextOf[h] = in.CellNodes[h+1]
+			} else {
+				nextOf[h] = in.CellNodes[s]
+			}
 		}
-	}
-	// next returns the node after position h in its cell.
-	next := func(h int32) int32 {
-		c := halfCell[h]
-		if h+1 == in.CellStart[c+1] {
-			return in.CellNodes[in.CellStart[c]]
-		}
-		return in.CellNodes[h+1]
 	}
 	lohi := func(h int32) (int32, int32) {
-		a, b := in.CellNodes[h], next(h)
-		if a > b {
-			a, b = b, a
-		}
-		return a, b
+		a, b := in.CellNodes[h], nextOf[h]
+		return min(a, b), max(a, b)
 	}
 
-	// Bucket half-edges by their lower node (counting sort, stable in h).
+	// Bucket half-edges by their lower node (counting sort, stable in h),
+	// each entry with its upper node, so that matching reads the buckets
+	// alone.
 	start := make([]int32, nn+1)
 	for h := int32(0); h < int32(nh); h++ {
 		lo, _ := lohi(h)
@@ -95,12 +94,12 @@ func Build(in Input) (*Mesh, error) {
 	for i := int32(0); i < nn; i++ {
 		start[i+1] += start[i]
 	}
-	bucket := make([]int32, nh)
+	bucket := make([]halfEdge, nh)
 	fill := make([]int32, nn)
 	copy(fill, start[:nn])
 	for h := int32(0); h < int32(nh); h++ {
-		lo, _ := lohi(h)
-		bucket[fill[lo]] = h
+		lo, hi := lohi(h)
+		bucket[fill[lo]] = halfEdge{h, hi}
 		fill[lo]++
 	}
 	fill = nil
@@ -111,19 +110,16 @@ func Build(in Input) (*Mesh, error) {
 	isOwner := make([]bool, nh)
 	for lo := int32(0); lo < nn; lo++ {
 		b := bucket[start[lo]:start[lo+1]]
-		for x, h := range b {
+		for x, e := range b {
+			h, hi := e.h, e.hi
 			if h < 0 {
 				continue
 			}
-			_, hi := lohi(h)
 			twin[h] = -1
 			isOwner[h] = true
 			for y := x + 1; y < len(b); y++ {
-				g := b[y]
-				if g < 0 {
-					continue
-				}
-				if _, ghi := lohi(g); ghi != hi {
+				g := b[y].h
+				if g < 0 || b[y].hi != hi {
 					continue
 				}
 				if twin[h] >= 0 {
@@ -132,7 +128,7 @@ func Build(in Input) (*Mesh, error) {
 				}
 				twin[h] = g
 				twin[g] = h
-				b[y] = -1
+				b[y].h = -1
 			}
 		}
 	}
@@ -152,11 +148,12 @@ func Build(in Input) (*Mesh, error) {
 			}
 			lo, hi := min(e.A, e.B), max(e.A, e.B)
 			found := false
-			for _, h := range bucket[start[lo]:start[lo+1]] {
+			for _, be := range bucket[start[lo]:start[lo+1]] {
+				h := be.h
 				if h < 0 {
 					continue
 				}
-				if _, hhi := lohi(h); hhi == hi {
+				if be.hi == hi {
 					if twin[h] >= 0 {
 						return nil, fmt.Errorf("mesh: edge %d-%d tagged %q is an interior face (cells %d and %d), not a boundary face",
 							e.A, e.B, in.Tags[e.Tag], halfCell[h], halfCell[twin[h]])
@@ -221,7 +218,7 @@ func Build(in Input) (*Mesh, error) {
 		gi := group(h)
 		f := pos[gi]
 		pos[gi]++
-		m.FaceNodes[f] = [2]int32{in.CellNodes[h], next(h)}
+		m.FaceNodes[f] = [2]int32{in.CellNodes[h], nextOf[h]}
 		m.Owner[f] = halfCell[h]
 		if t := twin[h]; t >= 0 {
 			m.Neighbour[f] = halfCell[t]
@@ -233,3 +230,7 @@ func Build(in Input) (*Mesh, error) {
 	m.Geo = ComputeGeometry(m)
 	return m, nil
 }
+
+// halfEdge is a bucket entry of Build: half-edge h and its upper node. A
+// matched entry gets h = −1.
+type halfEdge struct{ h, hi int32 }
