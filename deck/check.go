@@ -35,7 +35,8 @@ type CheckResult struct {
 // of the patches, applied in order (none: the default profile). Boundary
 // faces that carry no tag go into DefaultTag with a warning, so that only
 // geometry and connectivity decide the verdict. A failed check is a
-// *CheckFailure together with the result.
+// *CheckFailure together with the result. The report carries no per-cell
+// arrays (see quality.Evaluator.NoFields): a check prints its summary.
 //
 // A mesh inside a deck is checked with the deck's own limits, as recorded
 // in the quality.json beside it, so that the check gives the deck's
@@ -89,7 +90,8 @@ func Check(path string, patches ...quality.Patch) (*CheckResult, error) {
 	if err != nil {
 		return nil, fmt.Errorf("%w: limits: %w", ErrInput, err)
 	}
-	if res.Report, err = quality.Evaluate(m, lim); err != nil {
+	ev := quality.Evaluator{NoFields: true}
+	if res.Report, err = ev.Evaluate(m, lim); err != nil {
 		return nil, fmt.Errorf("%w: %s: %w", ErrInput, path, err)
 	}
 	if res.Report.Verdict == quality.Fail {

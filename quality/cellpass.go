@@ -29,21 +29,24 @@ const (
 
 // cellPass computes every cell metric in one sweep over the cells: the
 // shape (cellShape), the worst face values of the cell (computeFaces) and
-// the conservation audit (auditCell). It grades each value, raising
-// status, and returns the arrays in metric order with their per-chunk
-// summaries, so that every array is summarised while it is still in cache.
-// buf holds the arrays (all but area, which is the mesh's own), kept for
-// reuse.
-func cellPass(m *mesh.Mesh, cf *cellFaces, ff *faceFields, lim *Limits, status []Status, buf *[numCellMetrics][]float64) ([numCellMetrics][]float64, [numCellMetrics][]partial) {
+// the conservation audit (auditCell). The cells go in tiles: each tile's
+// values are computed into a small buffer, graded (raising status) and
+// summarised while they are in the first-level cache, then copied into
+// the per-cell arrays in buf when keep is set. It returns the arrays in
+// metric order (area is the mesh's own; nil all when keep is not set) and
+// the per-chunk summaries.
+func cellPass(m *mesh.Mesh, cf *cellFaces, ff *faceFields, lim *Limits, status []Status, keep bool, buf *[numCellMetrics][]float64) ([numCellMetrics][]float64, [numCellMetrics][]partial) {
 	nc := m.NumCells()
 	var vals [numCellMetrics][]float64
 	var parts [numCellMetrics][]partial
-	vals[mArea] = m.Geo.CellArea
 	for k := range vals {
-		if k != mArea {
+		if keep && k != mArea {
 			vals[k] = resize(&buf[k], nc)
 		}
 		parts[k] = make([]partial, (nc+chunk-1)/chunk)
+	}
+	if keep {
+		vals[mArea] = m.Geo.CellArea
 	}
 	bounds := make([]Bound, numCellMetrics)
 	for k := range bounds {
@@ -56,29 +59,35 @@ func cellPass(m *mesh.Mesh, cf *cellFaces, ff *faceFields, lim *Limits, status [
 		}
 		var buf []float64
 		var sh cellShape
-		// The chunk goes in tiles small enough that the values of every
-		// metric are still in the first-level cache when they are scanned.
+		var tv [numCellMetrics][tile]float64
 		for b := lo; b < hi; b += tile {
 			e := min(b+tile, hi)
 			for c := b; c < e; c++ {
+				i := c - b
 				buf = sh.compute(m.Nodes, m.Cell(c), m.Geo.CellArea[c], buf)
-				vals[mAspect][c] = sh.aspect
-				vals[mMinAngle][c] = sh.minAngle
-				vals[mMaxAngle][c] = sh.maxAngle
-				vals[mEquiangle][c] = sh.equiangle
-				vals[mJacobian][c] = sh.jacobian
+				tv[mAspect][i] = sh.aspect
+				tv[mMinAngle][i] = sh.minAngle
+				tv[mMaxAngle][i] = sh.maxAngle
+				tv[mEquiangle][i] = sh.equiangle
+				tv[mJacobian][i] = sh.jacobian
 				var fc faceSummary
 				fc.gather(fa, c)
-				vals[mFaceLength][c] = fc.minLength
-				vals[mNonOrth][c] = fc.maxNonOrth
-				vals[mSkewness][c] = fc.maxSkew
-				vals[mGrowth][c] = fc.maxGrowth
-				vals[mClosure][c] = fc.closure
-				vals[mFreeStream][c] = fc.freeStream
-				vals[mGradient][c] = fc.gradient
+				tv[mFaceLength][i] = fc.minLength
+				tv[mNonOrth][i] = fc.maxNonOrth
+				tv[mSkewness][i] = fc.maxSkew
+				tv[mGrowth][i] = fc.maxGrowth
+				tv[mClosure][i] = fc.closure
+				tv[mFreeStream][i] = fc.freeStream
+				tv[mGradient][i] = fc.gradient
 			}
-			for k := range vals {
-				parts[k][lo/chunk].scan(&metricDefs[k], bounds[k], lim.WorstCells, vals[k][b:e], b, status)
+			for k := range tv {
+				v := tv[k][:e-b]
+				if k == mArea {
+					v = m.Geo.CellArea[b:e]
+				} else if keep {
+					copy(vals[k][b:e], v)
+				}
+				parts[k][lo/chunk].scan(&metricDefs[k], bounds[k], lim.WorstCells, v, b, status)
 			}
 		}
 	})

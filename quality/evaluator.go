@@ -13,6 +13,14 @@ import "cvdeck/mesh"
 // until the next call of Evaluate on the same Evaluator. An Evaluator is
 // not safe for concurrent use; the zero value is ready to use.
 type Evaluator struct {
+	// NoFields leaves the per-cell, per-face and per-node arrays out of
+	// the report (CellFields, FaceFields, NodeFields), for a caller that
+	// wants the report alone, such as a check that prints it: every
+	// metric is still computed for every cell, graded and summarised,
+	// and CellStatus is kept, but 112 bytes per cell of memory are
+	// neither taken nor written.
+	NoFields bool
+
 	faces      faceFields
 	cellFaces  cellFaces
 	first      []int32 // nodeCells

@@ -10,7 +10,8 @@ import (
 
 // One Evaluator, reused on meshes that grow, shrink and carry defects,
 // gives each time the same report as a fresh Evaluate: nothing of an
-// earlier mesh leaks into a later report through the reused memory.
+// earlier mesh leaks into a later report through the reused memory. One
+// with NoFields gives the same report and cell status without the arrays.
 func TestEvaluatorReuse(t *testing.T) {
 	folded := gridNodes(3, 3, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0)
 	folded[5] = orb.Point{2.2, 2.2}
@@ -31,11 +32,24 @@ func TestEvaluatorReuse(t *testing.T) {
 		{"folded quads again", build(t, folded, quadCells(3, 3, false), true)},
 	}
 	var e Evaluator
+	bare := Evaluator{NoFields: true}
 	for _, c := range meshes {
 		got, err := e.Evaluate(c.m, everyday(t))
 		if err != nil {
 			t.Fatal(err)
 		}
-		sameReport(t, "for "+c.name+" from a reused Evaluator and a fresh one", got, evaluate(t, c.m))
+		fresh := evaluate(t, c.m)
+		sameReport(t, "for "+c.name+" from a reused Evaluator and a fresh one", got, fresh)
+
+		// Without fields: the same report, the same cell status, no arrays.
+		noFields, err := bare.Evaluate(c.m, everyday(t))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if noFields.CellFields != nil || noFields.FaceFields != nil || noFields.NodeFields != nil {
+			t.Errorf("%s: NoFields report has fields", c.name)
+		}
+		noFields.CellFields, noFields.FaceFields, noFields.NodeFields = fresh.CellFields, fresh.FaceFields, fresh.NodeFields
+		sameReport(t, "for "+c.name+" without fields and with", noFields, fresh)
 	}
 }

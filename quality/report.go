@@ -166,7 +166,7 @@ func (e *Evaluator) Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 	wg.Add(3)
 	go func() {
 		defer wg.Done()
-		vals, parts = cellPass(m, &e.cellFaces, ff, &lim, r.CellStatus, &e.vals)
+		vals, parts = cellPass(m, &e.cellFaces, ff, &lim, r.CellStatus, !e.NoFields, &e.vals)
 	}()
 	go func() {
 		defer wg.Done()
@@ -198,23 +198,20 @@ func (e *Evaluator) Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 		if s := summary(d, *d.bound(&lim), lim.WorstCells, parts[k], cellPos); s.Count > 0 {
 			r.Metrics = append(r.Metrics, s)
 		}
-		r.CellFields = append(r.CellFields, Field{d.name, vals[k]})
+		if !e.NoFields {
+			r.CellFields = append(r.CellFields, Field{d.name, vals[k]})
+		}
 	}
 	nodePos := func(i int) (float64, float64) { return m.Nodes[i][0], m.Nodes[i][1] }
 	if s := summary(dd, lim.DualClosure, lim.WorstCells, nodeParts, nodePos); s.Count > 0 {
 		r.Metrics = append(r.Metrics, s)
 	}
-	r.NodeFields = []Field{{dd.name, dual}}
 	r.Connectivity = cn.results
 
-	defects := zeroed(&e.defects, nc)
 	for _, c := range cn.cells {
-		defects[c]++
 		r.CellStatus[c] = Fail
 	}
-	status := resize(&e.status, nc)
-	for c, s := range r.CellStatus {
-		status[c] = float64(s)
+	for _, s := range r.CellStatus {
 		switch s {
 		case Fail:
 			r.FailedCells++
@@ -223,8 +220,19 @@ func (e *Evaluator) Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 		}
 		r.Verdict = max(r.Verdict, s)
 	}
-	r.CellFields = append(r.CellFields, Field{"status", status}, Field{"defects", defects})
-	r.FaceFields = []Field{{"face_length", ff.length}, {"non_orthogonality", ff.nonOrth}, {"skewness", ff.skewness()}}
+	if !e.NoFields {
+		defects := zeroed(&e.defects, nc)
+		for _, c := range cn.cells {
+			defects[c]++
+		}
+		status := resize(&e.status, nc)
+		for c, s := range r.CellStatus {
+			status[c] = float64(s)
+		}
+		r.CellFields = append(r.CellFields, Field{"status", status}, Field{"defects", defects})
+		r.FaceFields = []Field{{"face_length", ff.length}, {"non_orthogonality", ff.nonOrth}, {"skewness", ff.skewness()}}
+		r.NodeFields = []Field{{dd.name, dual}}
+	}
 	for _, s := range nodeStatus {
 		if s == Fail {
 			r.FailedNodes++
