@@ -8,6 +8,7 @@ import (
 	"github.com/paulmach/orb"
 
 	"cvdeck/geometry"
+	"cvdeck/mesh"
 )
 
 // bumpSides is a 1000 × 1000 node channel of our own with a circular-arc
@@ -57,15 +58,15 @@ func BenchmarkTFIMesh1000(b *testing.B) {
 }
 
 // BenchmarkSmooth1000 runs 200 elliptic SOR sweeps on a 1000 × 1000 node
-// block (TFI start, all sides fixed, Thomas–Middlecoff terms on) and reports
-// interior node updates per second.
+// block (TFI start, all sides fixed, Thomas–Middlecoff terms on, one grid
+// level) and reports interior node updates per second.
 func BenchmarkSmooth1000(b *testing.B) {
 	blk0, err := TFI(bumpSides(1000))
 	if err != nil {
 		b.Fatal(err)
 	}
 	const iters = 200
-	opt := SmoothOptions{MaxIterations: iters, Tolerance: -1}
+	opt := SmoothOptions{MaxIterations: iters, Tolerance: -1, SingleLevel: true}
 	var updates float64
 	var cpu time.Duration
 	for b.Loop() {
@@ -86,6 +87,43 @@ func BenchmarkSmooth1000(b *testing.B) {
 	// On a shared machine wall time undercounts; CPU time of the process
 	// is the per-core figure.
 	b.ReportMetric(updates/cpu.Seconds()/1e6, "Mupdates/cpu-s")
+}
+
+// BenchmarkSmoothToTolerance smooths the 257 × 257 node block round a
+// cylinder (cylinderBlock, first-height and orthogonality control at the
+// wall) to the default tolerance, on one grid level and with grid
+// sequencing (129, 65, 33 and 17 nodes a side first), and reports the
+// sweeps of the fine grid and the CPU seconds per smoothing.
+func BenchmarkSmoothToTolerance(b *testing.B) {
+	start, err := TFI(cylinderBlock(257, 0.001))
+	if err != nil {
+		b.Fatal(err)
+	}
+	for _, single := range []bool{true, false} {
+		name := "sequenced"
+		if single {
+			name = "one-level"
+		}
+		b.Run(name, func(b *testing.B) {
+			var opt SmoothOptions
+			opt.Sides[mesh.South] = SideControl{FirstHeight: 0.001 * 1.65, Orthogonal: true}
+			opt.MaxIterations, opt.SingleLevel = 20000, single
+			var sweeps int
+			var cpu time.Duration
+			for b.Loop() {
+				blk := start.Clone()
+				c0 := cpuTime()
+				res, err := Smooth(blk, opt)
+				cpu += cpuTime() - c0
+				if err != nil || !res.Converged {
+					b.Fatalf("%+v %v", res, err)
+				}
+				sweeps = res.Iterations
+			}
+			b.ReportMetric(float64(sweeps), "fine-sweeps")
+			b.ReportMetric(cpu.Seconds()/float64(b.N), "cpu-s/op")
+		})
+	}
 }
 
 // cpuTime returns the user CPU time of the process so far.

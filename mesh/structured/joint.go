@@ -19,7 +19,9 @@ import (
 // The blocks are swept together until every block and every interface has
 // settled to its tolerance (the smallest Tolerance for the interfaces), or
 // for at most the largest MaxIterations sweeps. Damped updates at an
-// interface are counted in the result of its first block.
+// interface are counted in the result of its first block. Large blocks
+// start from a grid smoothed on every other node (see presmooth); the
+// result counts the sweeps on the given blocks only.
 func SmoothBlocks(blocks []*Block, opts []SmoothOptions) ([]SmoothResult, error) {
 	if len(blocks) == 0 {
 		return nil, fmt.Errorf("structured: no blocks to smooth")
@@ -56,9 +58,12 @@ func SmoothBlocks(blocks []*Block, opts []SmoothOptions) ([]SmoothResult, error)
 	}
 
 	res := make([]SmoothResult, len(blocks))
-	sm := make([]*smoother, len(blocks))
 	for b, blk := range blocks {
 		res[b].FoldedAtStart, _, _ = inverted(blk)
+	}
+	presmooth(blocks, opts)
+	sm := make([]*smoother, len(blocks))
+	for b, blk := range blocks {
 		sm[b] = newSmoother(blk, opts[b])
 	}
 	joins := make([]*join, len(ifaces))
