@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -33,9 +34,10 @@ func ReadVTU(data []byte, name string) (*mesh.Mesh, error) {
 
 // readPiece reads the one piece of an XML file of the given dataset type
 // into a grid: its points, the integer arrays named in want of its cell
-// element (connectivity, offsets and, for unstructured grids, types), its
-// cell data and the dataset's field data. It returns the grid and the
-// piece's cell count (the attribute countAttr).
+// element (connectivity, offsets and, for unstructured grids, types), and
+// the cell-data and field-data arrays that carry boundary tags and their
+// names. It returns the grid and the piece's cell count (the attribute
+// countAttr).
 func readPiece(data []byte, name, dataset, countAttr, cellsElem string, want ...string) (*grid, int, error) {
 	x, err := parseXML(data, name)
 	if err != nil {
@@ -112,22 +114,25 @@ func readPiece(data []byte, name, dataset, countAttr, cellsElem string, want ...
 			g.types = a.ints
 		}
 	}
-	if cd := p.child("CellData"); cd != nil {
-		for _, el := range cd.arrays() {
-			a, err := x.read(el, "CellData/"+el.attr["Name"])
-			if err != nil {
-				return nil, 0, err
-			}
-			g.cellData = append(g.cellData, a)
+	// Of the cell and field data only the boundary tags are used; other
+	// arrays (a deck's quality fields, say) are not decoded at all.
+	for _, from := range []struct {
+		el    *element
+		names []string
+		to    *[]*array
+	}{{p.child("CellData"), tagArrayNames, &g.cellData}, {ds.child("FieldData"), []string{TagNamesArray}, &g.fieldData}} {
+		if from.el == nil {
+			continue
 		}
-	}
-	if fd := ds.child("FieldData"); fd != nil {
-		for _, el := range fd.arrays() {
-			a, err := x.read(el, "FieldData/"+el.attr["Name"])
+		for _, el := range from.el.arrays() {
+			if !slices.Contains(from.names, el.attr["Name"]) {
+				continue
+			}
+			a, err := x.read(el, from.el.name+"/"+el.attr["Name"])
 			if err != nil {
 				return nil, 0, err
 			}
-			g.fieldData = append(g.fieldData, a)
+			*from.to = append(*from.to, a)
 		}
 	}
 	return g, nc, nil
