@@ -204,14 +204,23 @@ func (r *reader) sections(z C.int, zp string) ([]elemSection, error) {
 			if s.off[0] != 0 || s.off[ne] != int32(dsize) {
 				return nil, fmt.Errorf("%s: ElementStartOffset runs from %d to %d; it must run from 0 to the connectivity size %d", s.path, s.off[0], s.off[ne], dsize)
 			}
+			// The library's node count of each element type, asked once
+			// per type rather than once per element.
+			npes := map[C.ElementType_t]C.int{}
 			for e := 0; e < ne; e++ {
 				if s.off[e+1] <= s.off[e] {
 					return nil, fmt.Errorf("%s: element %d has an empty or negative offset range", s.path, int(s.start)+e)
 				}
 				if s.typ == C.MIXED {
-					var npe C.int
 					t := C.ElementType_t(s.conn[s.off[e]])
-					if C.cg_npe(t, &npe) != 0 || npe <= 0 || int(npe) != int(s.off[e+1]-s.off[e])-1 {
+					npe, known := npes[t]
+					if !known {
+						if C.cg_npe(t, &npe) != 0 {
+							npe = -1
+						}
+						npes[t] = npe
+					}
+					if npe <= 0 || int(npe) != int(s.off[e+1]-s.off[e])-1 {
 						return nil, fmt.Errorf("%s: element %d has type code %d and %d nodes, which do not match", s.path, int(s.start)+e, t, s.off[e+1]-s.off[e]-1)
 					}
 				}
