@@ -29,7 +29,7 @@ const (
 
 // cellPass computes every cell metric in one sweep over the cells: the
 // shape (cellShape), the worst face values of the cell (computeFaces) and
-// the conservation audit (auditCell). The cells go in tiles: each tile's
+// the conservation audit (both faceSummary.gather). The cells go in tiles: each tile's
 // values are computed into a small buffer, graded (raising status) and
 // summarised while they are in the first-level cache, then copied into
 // the per-cell arrays in buf when keep is set. It returns the arrays in

@@ -14,18 +14,18 @@ const minCoarse = 17
 const coarseSweeps = 300
 
 // presmooth gives the blocks a better starting grid by grid sequencing
-// (nested iteration): when every block has an even number of cells both
+// (nested iteration). When every block has an even number of cells both
 // ways and at least 2·(minCoarse − 1) of them, no side slides and no block
-// asks for SingleLevel, the
-// blocks are coarsened by taking every other node, the coarse blocks are
-// smoothed together by SmoothBlocks (sequenced again in turn), and each
-// fine node moves by the coarse correction (smoothed minus starting
-// position) interpolated bilinearly onto it. Point SOR removes error on
-// the scale of a few cells in a few sweeps but the smooth part slowly; on
-// the coarse grid that part is removed at a quarter of the cost per sweep
-// and in fewer sweeps (common practice for iterative grid generation and
-// the first step of full multigrid; Brandt, Math. Comp. 31, 1977, from
-// memory). The fine smoothing then converges from there to the same grid.
+// asks for SingleLevel, the blocks are coarsened by taking every other
+// node, the coarse blocks are smoothed together by SmoothBlocks (sequenced
+// again in turn), and each fine node moves by the coarse correction
+// (smoothed minus starting position) interpolated bilinearly onto it.
+// Point SOR removes error on the scale of a few cells in a few sweeps but
+// the smooth part slowly; on the coarse grid that part is removed at a
+// quarter of the cost per sweep and in fewer sweeps (common practice for
+// iterative grid generation and the first step of full multigrid; Brandt,
+// Math. Comp. 31, 1977, from memory). The fine smoothing then converges
+// from there to the same grid.
 //
 // The coarse blocks keep the fine blocks' options, but a coarse cell
 // spans two fine ones: the control decay doubles, and a first-cell
@@ -37,10 +37,12 @@ const coarseSweeps = 300
 // grid size, which a coarse grid cannot shorten, it then costs little
 // (BenchmarkSmoothToTolerance: on a 257 × 257 channel with a bump,
 // sequenced smoothing takes about 6% longer than one level; round a
-// cylinder, about a third of the time). Sliding sides are left out because their nodes must stay
-// on the fine side's polyline. Sequencing only ever helps: if the coarse
-// blocks cannot be smoothed, or the corrected grid has more inverted cells
-// than the starting one, the blocks are left as they were.
+// cylinder, about a third of the time). Sliding sides are left out
+// because their nodes must stay on the fine side's polyline.
+//
+// Sequencing cannot make smoothing fail: if the coarse blocks cannot be
+// smoothed, or the corrected grid has more inverted cells than the
+// starting one, the blocks are left as they were.
 func presmooth(blocks []*Block, opts []SmoothOptions) {
 	for b, blk := range blocks {
 		if opts[b].SingleLevel || (blk.NI-1)%2 != 0 || (blk.NJ-1)%2 != 0 || (blk.NI+1)/2 < minCoarse || (blk.NJ+1)/2 < minCoarse {
