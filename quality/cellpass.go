@@ -28,11 +28,11 @@ const (
 )
 
 // cellPass computes every cell metric in one sweep over the cells: the
-// shape (cellShape), the worst face values of the cell (computeFaces) and
-// the conservation audit (both faceSummary.gather). The cells go in tiles: each tile's
-// values are computed into a small buffer, graded (raising status) and
-// summarised while they are in the first-level cache, then copied into
-// the per-cell arrays in buf when keep is set. It returns the arrays in
+// shape (cellShape), and the worst face values of the cell (computeFaces)
+// with the conservation audit (both faceSummary.gather). The cells go in
+// tiles: each tile's values are computed into a small buffer, graded
+// (raising status) and summarised while they are in the first-level
+// cache, then copied into the per-cell arrays in buf when keep is set. It returns the arrays in
 // metric order (area is the mesh's own; nil all when keep is not set) and
 // the per-chunk summaries.
 func cellPass(m *mesh.Mesh, cf *cellFaces, ff *faceFields, lim *Limits, status []Status, keep bool, buf *[numCellMetrics][]float64) ([numCellMetrics][]float64, [numCellMetrics][]partial) {
