@@ -21,8 +21,10 @@ const (
 	// fanTurn: wall corners turning away from the domain by more than this
 	// get a fan of rays instead of one averaged normal.
 	fanTurn = 40 * math.Pi / 180
-	// fanStep is the largest angle between two rays of a fan.
-	fanStep = 25 * math.Pi / 180
+	// fanMaxStep is the largest angle between two rays of a fan.
+	fanMaxStep = 25 * math.Pi / 180
+	// fanMinStep is the least angle between two rays of a fan.
+	fanMinStep = 2 * math.Pi / 180
 	// slideCos: a layer whose wall ends beside a non-wall edge at most
 	// acos(slideCos) from the layer normal grows along that edge.
 	slideCos = 0.64 // cos 50°
@@ -92,7 +94,7 @@ func heights(l Layers) []float64 {
 //   - every wall point gets a ray along the averaged normal of its two
 //     wall edges, lengthened by 1/cos of the half-turn so each layer keeps
 //     its height from both edges; corners turning away from the domain by
-//     more than fanTurn get a fan of rays, at most fanStep apart, whose
+//     more than fanTurn get a fan of rays, fanStep apart, whose
 //     innermost cells are triangles;
 //   - at the end of a wall beside a non-wall edge the ray runs along that
 //     edge when it lies within 50° of the normal (layers slide along
@@ -155,7 +157,7 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 			}
 			turn := math.Atan2(d1[0]*d2[1]-d1[1]*d2[0], d1[0]*d2[0]+d1[1]*d2[1])
 			if turn < -fanTurn {
-				m := int(math.Ceil(-turn / fanStep))
+				m := int(math.Ceil(-turn / fanStep(hs[spec], pp, pa, pb)))
 				for r := 0; r <= m; r++ {
 					rays = append(rays, ray{base: p, dir: rotate(n1, turn*float64(r)/float64(m)), scale: 1, spec: spec, slide: -1})
 				}
@@ -292,6 +294,32 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 			return nil, fmt.Errorf("boundary layers at %s: cells are inverted even with no layers there (internal error)", g.where(rays[bad[0]].base))
 		}
 	}
+}
+
+// fanStep returns the angle between the rays of the fan at wall point p,
+// between wall points a before and b after it, for layers whose tops lie
+// at heights s (s[0] = 0, see heights).
+// Beside the fan, the wall columns are Δ wide (the shorter wall edge at
+// p); a fan of step θ has innermost triangles of area about s₁²θ/2 next to
+// first-layer cells of area s₁Δ, and top cells about s_nθ wide next to
+// columns Δ wide. Their area ratios, 2Δ/(s₁θ) and s_nθ/Δ, multiply to
+// 2s_n/s₁ whatever θ is, so the step that makes them equal,
+// θ = Δ √(2/(s₁ s_n)), keeps the larger one least, √(2s_n/s₁) (our own
+// estimate; growth across faces is a quality metric, see the quality
+// package). It is held within [fanMinStep, fanMaxStep]: on the usual
+// coarse walls the step is fanMaxStep, and where refinement makes the
+// wall spacing tiny beside a thick stack of layers (the cosine-clustered
+// trailing edge of an aerofoil) the fan gets more rays.
+func fanStep(s []float64, p, a, b orb.Point) float64 {
+	if len(s) < 2 {
+		return fanMaxStep // no layers
+	}
+	d := math.Min(math.Hypot(p[0]-a[0], p[1]-a[1]), math.Hypot(b[0]-p[0], b[1]-p[1]))
+	s1, sn := s[1], s[len(s)-1]
+	if !(d > 0 && s1 > 0) {
+		return fanMaxStep
+	}
+	return math.Min(fanMaxStep, math.Max(fanMinStep, d*math.Sqrt(2/(s1*sn))))
 }
 
 // edgeGrid buckets the input edges in a uniform grid by their bounding

@@ -248,3 +248,43 @@ func maxAngleDeg(m *mesh.Mesh) float64 {
 	}
 	return worst
 }
+
+// A sharp trailing edge whose wall spacing is far below the height of the
+// layer stack (cosine spacing clusters the points there, and refinement
+// shrinks them quadratically): the fan's step balances its innermost and
+// its top cells against the wall columns beside it (see fanStep), so the
+// area ratio across any face near the trailing edge stays within twice
+// the estimate √(2 s_n/s₁) ≈ 30, where with a fixed 25° between rays the
+// fan cells at the top of the layers were 107 times the wall cells beside
+// them. Large growth across a face spoils a finite-volume scheme's
+// accuracy (common practice).
+func TestFanFollowsWallSpacing(t *testing.T) {
+	out := geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{
+		polyLoop([]orb.Point{{-2, -2}, {4, -2}, {4, 2}, {-2, 2}}, 0.3, "farfield"),
+		nacaLoop(orb.Point{0, 0}, 1, 0, 0.12, 400, "wing"),
+	}}
+	layers := Layers{Tags: []string{"wing"}, FirstHeight: 1e-5, Growth: 1.1, Count: 40}
+	m, err := Mesh(out, Options{Layers: []Layers{layers}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	basicChecks(t, m, out)
+	worst, at := 0.0, orb.Point{}
+	for f := 0; f < m.NumInterior; f++ {
+		o, n := m.Owner[f], m.Neighbour[f]
+		c := m.Geo.CellCentroid[o]
+		if math.Hypot(c[0]-1, c[1]) > 0.02 {
+			continue // not near the trailing edge at (1, 0)
+		}
+		a, b := math.Abs(m.Geo.CellArea[o]), math.Abs(m.Geo.CellArea[n])
+		if r := max(a, b) / min(a, b); r > worst {
+			worst, at = r, c
+		}
+	}
+	s := heights(layers)
+	bound := 2 * math.Sqrt(2*s[len(s)-1]/s[1])
+	t.Logf("largest area ratio across a face within 0.02 of the trailing edge: %.3g at %v (bound %.3g)", worst, at, bound)
+	if worst > bound {
+		t.Errorf("area ratio %.3g across a face at %v; want at most %.3g", worst, at, bound)
+	}
+}
