@@ -392,7 +392,8 @@ func checkPoints(p []orb.Point, closed bool) error {
 //	x_ξ x_η + y_ξ y_η = 0,   x_ξ y_η − y_ξ x_η = ΔV,
 //
 // which in delta form, with r_η⁰ = Δs n the step along the left normal n
-// and ΔV = Δs |r_ξ⁰|, read
+// (at an inner node the bisector of its two edges' normals, whatever their
+// lengths) and ΔV = Δs |r_ξ⁰|, read
 //
 //	(I + C δ_ξ − ε_i δ_ξξ) Δr = Δs n + ε_e δ_ξξ r⁰,   C = B⁻¹A,
 //	A = [x_η⁰ y_η⁰; y_η⁰ −x_η⁰],   B = [x_ξ⁰ y_ξ⁰; −y_ξ⁰ x_ξ⁰],
@@ -512,6 +513,20 @@ func march(pts []orb.Point, periodic bool, heights []float64, opt MarchOptions, 
 				L2 := xx*xx + yx*yx
 				L := math.Sqrt(L2)
 				nx, ny := -yx/L, xx/L
+				if periodic || (i > 0 && i < n-1) {
+					// The step's direction bisects the normals of the two
+					// edges at the node, whatever their lengths: the
+					// central difference leans towards the longer edge's
+					// normal, which at a corner between a long and a short
+					// edge (a blunt trailing edge, finely spaced) points
+					// along the short one and folds its cell.
+					u := unit(x0[i]-at(x0, i-1), y0[i]-at(y0, i-1))
+					v := unit(at(x0, i+1)-x0[i], at(y0, i+1)-y0[i])
+					if bx, by := -u[1]-v[1], u[0]+v[0]; bx != 0 || by != 0 {
+						l := math.Hypot(bx, by)
+						nx, ny = bx/l, by/l
+					}
+				}
 				if !periodic && (i == 0 || i == n-1) {
 					// Free end: the end node takes its neighbour's step.
 					b[i] = mat2{1, 0, 0, 1}
