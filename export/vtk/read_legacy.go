@@ -5,6 +5,7 @@ import (
 	"encoding/binary"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -57,6 +58,11 @@ func (r *legacyReader) line() string {
 
 // word returns the next whitespace-separated word, "" at the end.
 func (r *legacyReader) word() string {
+	return string(r.token())
+}
+
+// token is word without the copy: a view of the file's bytes.
+func (r *legacyReader) token() []byte {
 	for r.pos < len(r.data) && isSpace(r.data[r.pos]) {
 		r.pos++
 	}
@@ -64,7 +70,7 @@ func (r *legacyReader) word() string {
 	for r.pos < len(r.data) && !isSpace(r.data[r.pos]) {
 		r.pos++
 	}
-	return string(r.data[s:r.pos])
+	return r.data[s:r.pos]
 }
 
 func isSpace(c byte) bool { return c == ' ' || c == '\n' || c == '\r' || c == '\t' }
@@ -178,6 +184,30 @@ func (r *legacyReader) values(n int, typ, what string) (*array, error) {
 		a.ints[i] = v
 	}
 	return a, nil
+}
+
+// skipValues moves past n values of type typ without converting them, for
+// arrays that are not used (any but the boundary tags): in binary past
+// their bytes, in ASCII past n words.
+func (r *legacyReader) skipValues(n int, typ, what string) error {
+	size, ok := legacySize[typ]
+	if !ok || size == 0 {
+		return r.errorf("%s: data type %q is not supported; want one of char, short, int, long, vtktypeint64, float, double (signed or unsigned)", what, typ)
+	}
+	if !r.binary {
+		for i := 0; i < n; i++ {
+			if len(r.token()) == 0 {
+				return r.errorf("%s: the file ends after %d of %d values", what, i, n)
+			}
+		}
+		return nil
+	}
+	r.startData()
+	if n*size > len(r.data)-r.pos {
+		return r.errorf("%s: %d values of %s need %d bytes, the file has %d left", what, n, typ, n*size, len(r.data)-r.pos)
+	}
+	r.pos += n * size
+	return nil
 }
 
 // strings reads n strings: one a line in ASCII (%XX-encoded); in binary,
@@ -322,7 +352,8 @@ func (r *legacyReader) read() (*grid, error) {
 		case "FIELD":
 			// A FIELD before any CELL_DATA/POINT_DATA is dataset field data.
 			var arrays []*array
-			if arrays, err = r.field(); err == nil && section == "" {
+			keep := func(name string) bool { return section == "" && name == TagNamesArray }
+			if arrays, err = r.field(keep); err == nil {
 				g.fieldData = append(g.fieldData, arrays...)
 			}
 		case "METADATA":
@@ -393,8 +424,11 @@ func (r *legacyReader) cells(g *grid) error {
 }
 
 // attributes reads the arrays of a CELL_DATA or POINT_DATA section of n
-// tuples until the next section keyword; cell arrays are kept.
+// tuples until the next section keyword. Only cell arrays that can carry
+// boundary tags (tagArrayNames) are decoded and kept; the others are
+// skipped.
 func (r *legacyReader) attributes(g *grid, section string, n int) error {
+	keep := func(name string) bool { return section == "CELL_DATA" && slices.Contains(tagArrayNames, name) }
 	for {
 		save := r.pos
 		kw := r.word()
@@ -418,31 +452,27 @@ func (r *legacyReader) attributes(g *grid, section string, n int) error {
 			} else {
 				r.pos = save2
 			}
-			if a, err = r.values(n*comps, typ, "SCALARS "+name); err == nil {
+			if !keep(name) {
+				err = r.skipValues(n*comps, typ, "SCALARS "+name)
+			} else if a, err = r.values(n*comps, typ, "SCALARS "+name); err == nil {
 				a.name, a.comps = name, comps
 			}
 		case "VECTORS", "NORMALS", "TENSORS":
 			name := decodeName(r.word())
 			k := map[string]int{"VECTORS": 3, "NORMALS": 3, "TENSORS": 9}[kw]
-			if a, err = r.values(n*k, r.word(), kw+" "+name); err == nil {
-				a.name, a.comps = name, k
-			}
+			err = r.skipValues(n*k, r.word(), kw+" "+name)
 		case "TEXTURE_COORDINATES":
 			name := decodeName(r.word())
 			var k int
 			if k, err = r.count(kw); err == nil {
-				if a, err = r.values(n*k, r.word(), kw+" "+name); err == nil {
-					a.name, a.comps = name, k
-				}
+				err = r.skipValues(n*k, r.word(), kw+" "+name)
 			}
 		case "GLOBAL_IDS", "PEDIGREE_IDS":
 			name := decodeName(r.word())
-			if a, err = r.values(n, r.word(), kw+" "+name); err == nil {
-				a.name = name
-			}
+			err = r.skipValues(n, r.word(), kw+" "+name)
 		case "FIELD":
 			var arrays []*array
-			if arrays, err = r.field(); err == nil && section == "CELL_DATA" {
+			if arrays, err = r.field(keep); err == nil {
 				g.cellData = append(g.cellData, arrays...)
 			}
 		case "METADATA":
@@ -457,7 +487,7 @@ func (r *legacyReader) attributes(g *grid, section string, n int) error {
 			return err
 		}
 		r.skipMetadata()
-		if a != nil && section == "CELL_DATA" {
+		if a != nil {
 			g.cellData = append(g.cellData, a)
 		}
 	}
@@ -474,7 +504,7 @@ func (r *legacyReader) peekLine() string {
 
 // field reads a FIELD block: "FIELD name k", then k arrays, each
 // "name components tuples type" and its values.
-func (r *legacyReader) field() ([]*array, error) {
+func (r *legacyReader) field(keep func(name string) bool) ([]*array, error) {
 	r.word() // the field's name
 	k, err := r.count("FIELD")
 	if err != nil {
@@ -493,11 +523,17 @@ func (r *legacyReader) field() ([]*array, error) {
 		}
 		typ := r.word()
 		a := &array{name: name, comps: comps}
-		if typ == "string" {
+		switch {
+		case typ == "string":
 			if a.strs, err = r.strings(comps*tuples, "FIELD array "+name); err != nil {
 				return nil, err
 			}
-		} else {
+		case !keep(name):
+			if err := r.skipValues(comps*tuples, typ, "FIELD array "+name); err != nil {
+				return nil, err
+			}
+			a = nil
+		default:
 			var v *array
 			if v, err = r.values(comps*tuples, typ, "FIELD array "+name); err != nil {
 				return nil, err
@@ -505,7 +541,9 @@ func (r *legacyReader) field() ([]*array, error) {
 			a.ints, a.floats = v.ints, v.floats
 		}
 		r.skipMetadata()
-		out = append(out, a)
+		if a != nil && keep(name) {
+			out = append(out, a)
+		}
 	}
 	return out, nil
 }
