@@ -503,7 +503,8 @@ func (r *legacyReader) peekLine() string {
 }
 
 // field reads a FIELD block: "FIELD name k", then k arrays, each
-// "name components tuples type" and its values.
+// "name components tuples type" and its values. It returns the arrays keep
+// accepts by name; the numeric values of the others are skipped.
 func (r *legacyReader) field(keep func(name string) bool) ([]*array, error) {
 	r.word() // the field's name
 	k, err := r.count("FIELD")
@@ -532,7 +533,6 @@ func (r *legacyReader) field(keep func(name string) bool) ([]*array, error) {
 			if err := r.skipValues(comps*tuples, typ, "FIELD array "+name); err != nil {
 				return nil, err
 			}
-			a = nil
 		default:
 			var v *array
 			if v, err = r.values(comps*tuples, typ, "FIELD array "+name); err != nil {
@@ -541,7 +541,7 @@ func (r *legacyReader) field(keep func(name string) bool) ([]*array, error) {
 			a.ints, a.floats = v.ints, v.floats
 		}
 		r.skipMetadata()
-		if a != nil && keep(name) {
+		if keep(name) {
 			out = append(out, a)
 		}
 	}
