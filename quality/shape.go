@@ -155,7 +155,7 @@ func (s *cellShape) triangle(p0, p1, p2 orb.Point, area float64) {
 	kmin += (2 - kmin) * b2i(q2 < q[kmin])
 	kmax := b2i(q1 > q0)
 	kmax += (2 - kmax) * b2i(q2 > q[kmax])
-	qmin, qmax := q[kmin], q[kmax]
+	qmin := q[kmin]
 	a, b := cornerAngle(corners[kmin]), cornerAngle(corners[kmax])
 	if qmin == 0 {
 		a = 0 // a zero-length edge: a 0° corner
@@ -166,8 +166,10 @@ func (s *cellShape) triangle(p0, p1, p2 orb.Point, area float64) {
 	if area <= 0 || qmin == 0 {
 		s.aspect = math.Inf(1)
 	} else {
+		// √ is monotone and correctly rounded, so the longest edge is
+		// exactly √qmax: max(l0, l1, l2) gives it without a fourth root.
 		l0, l1, l2 := math.Sqrt(q0), math.Sqrt(q1), math.Sqrt(q2)
-		s.aspect = math.Sqrt(qmax) * (l0 + l1 + l2) / (4 * math.Sqrt(3) * area)
+		s.aspect = max(l0, l1, l2) * (l0 + l1 + l2) / (4 * math.Sqrt(3) * area)
 	}
 }
 
