@@ -104,9 +104,10 @@ func naturalSecondDerivs(t, y []float64) []float64 {
 }
 
 // periodicSecondDerivs solves the cyclic tridiagonal system of a periodic
-// spline (y[n−1] = y[0], M[n−1] = M[0]) by the Thomas algorithm with the
-// Sherman–Morrison correction for the two corner entries (Sherman and
-// Morrison 1950; common practice for cyclic tridiagonal systems).
+// spline (y[n−1] = y[0], M[n−1] = M[0]) by tridiagonal elimination and back
+// substitution, with a rank-one correction for the two corner entries
+// (the matrix inversion lemma; common practice for cyclic tridiagonal
+// systems).
 func periodicSecondDerivs(t, y []float64) []float64 {
 	n := len(t) - 1 // unknowns M₀ … Mₙ₋₁, the last knot repeating the first
 	h := func(i int) float64 { i = ((i % n) + n) % n; return t[i+1] - t[i] }

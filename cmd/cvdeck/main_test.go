@@ -23,19 +23,26 @@ func cvdeck(t *testing.T, args ...string) (int, string, string) {
 	return code, out.String(), errb.String()
 }
 
+// initSample writes sample name's case file into a fresh folder, as
+// "cvdeck init" does for a user, and returns its path and the deck folder
+// to mesh it into.
+func initSample(t *testing.T, name string) (casePath, deckDir string) {
+	t.Helper()
+	dir := t.TempDir()
+	code, out, errs := cvdeck(t, "init", name, dir)
+	if code != 0 {
+		t.Fatalf("init: exit %d: %s", code, errs)
+	}
+	return strings.TrimSpace(out), filepath.Join(dir, "deck")
+}
+
 // TestSamplesMeshAndPass meshes every sample case as a user would (init,
 // then mesh) and expects a complete deck and exit code 0.
 func TestSamplesMeshAndPass(t *testing.T) {
 	for _, s := range samples.List() {
 		t.Run(s.Name, func(t *testing.T) {
-			dir := t.TempDir()
-			code, out, errs := cvdeck(t, "init", s.Name, dir)
-			if code != 0 {
-				t.Fatalf("init: exit %d: %s", code, errs)
-			}
-			casePath := strings.TrimSpace(out)
-			deckDir := filepath.Join(dir, "deck")
-			code, out, errs = cvdeck(t, "mesh", casePath, "-o", deckDir)
+			casePath, deckDir := initSample(t, s.Name)
+			code, out, errs := cvdeck(t, "mesh", casePath, "-o", deckDir)
 			if code != 0 {
 				t.Fatalf("mesh: exit %d\nstdout:\n%s\nstderr:\n%s", code, out, errs)
 			}
@@ -82,13 +89,8 @@ func TestSamplesRefinedPass(t *testing.T) {
 	}
 	for _, s := range samples.List() {
 		t.Run(s.Name, func(t *testing.T) {
-			dir := t.TempDir()
-			code, out, errs := cvdeck(t, "init", s.Name, dir)
-			if code != 0 {
-				t.Fatalf("init: exit %d: %s", code, errs)
-			}
-			deckDir := filepath.Join(dir, "deck")
-			code, out, errs = cvdeck(t, "mesh", strings.TrimSpace(out), "-o", deckDir, "--refine", "8", "--format", "manifest", "--quiet")
+			casePath, deckDir := initSample(t, s.Name)
+			code, out, errs := cvdeck(t, "mesh", casePath, "-o", deckDir, "--refine", "8", "--format", "manifest", "--quiet")
 			if code != 0 {
 				t.Fatalf("mesh --refine 8: exit %d\nstdout:\n%s\nstderr:\n%s", code, out, errs)
 			}

@@ -116,26 +116,33 @@ func readPiece(data []byte, name, dataset, countAttr, cellsElem string, want ...
 	}
 	// Of the cell and field data only the boundary tags are used; other
 	// arrays (a deck's quality fields, say) are not decoded at all.
-	for _, from := range []struct {
-		el    *element
-		names []string
-		to    *[]*array
-	}{{p.child("CellData"), tagArrayNames, &g.cellData}, {ds.child("FieldData"), []string{TagNamesArray}, &g.fieldData}} {
-		if from.el == nil {
-			continue
-		}
-		for _, el := range from.el.arrays() {
-			if !slices.Contains(from.names, el.attr["Name"]) {
-				continue
-			}
-			a, err := x.read(el, from.el.name+"/"+el.attr["Name"])
-			if err != nil {
-				return nil, 0, err
-			}
-			*from.to = append(*from.to, a)
-		}
+	if g.cellData, err = x.readNamed(p.child("CellData"), tagArrayNames); err != nil {
+		return nil, 0, err
+	}
+	if g.fieldData, err = x.readNamed(ds.child("FieldData"), []string{TagNamesArray}); err != nil {
+		return nil, 0, err
 	}
 	return g, nc, nil
+}
+
+// readNamed decodes the DataArrays of el (which may be nil) whose Name is
+// one of names.
+func (x *xmlFile) readNamed(el *element, names []string) ([]*array, error) {
+	if el == nil {
+		return nil, nil
+	}
+	var out []*array
+	for _, a := range el.arrays() {
+		if !slices.Contains(names, a.attr["Name"]) {
+			continue
+		}
+		v, err := x.read(a, el.name+"/"+a.attr["Name"])
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, v)
+	}
+	return out, nil
 }
 
 // element is an XML element of a VTK file's head.

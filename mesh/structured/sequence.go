@@ -58,7 +58,8 @@ func presmooth(blocks []*Block, opts []SmoothOptions) {
 	start := make([]*Block, len(blocks))
 	copts := make([]SmoothOptions, len(blocks))
 	for b, blk := range blocks {
-		coarse[b], start[b] = coarsen(blk), coarsen(blk)
+		coarse[b] = coarsen(blk)
+		start[b] = coarse[b].Clone()
 		copts[b] = opts[b]
 		copts[b].Omega = 0 // chosen afresh for the coarse size
 		copts[b].Decay *= 2
