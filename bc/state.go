@@ -28,7 +28,7 @@ type State struct {
 // positive checks that v is a finite number above zero.
 func positive(name, unit string, v float64) error {
 	if !(v > 0) || math.IsInf(v, 0) {
-		return fmt.Errorf("%s = %g %s; it must be a positive finite number: %w", name, v, unit, ErrInput)
+		return fmt.Errorf("%s = %s; it must be a positive finite number: %w", name, withUnit(v, unit), ErrInput)
 	}
 	return nil
 }
@@ -36,9 +36,17 @@ func positive(name, unit string, v float64) error {
 // nonNegative checks that v is a finite number at or above zero.
 func nonNegative(name, unit string, v float64) error {
 	if !(v >= 0) || math.IsInf(v, 0) {
-		return fmt.Errorf("%s = %g %s; it must be a finite number not below zero: %w", name, v, unit, ErrInput)
+		return fmt.Errorf("%s = %s; it must be a finite number not below zero: %w", name, withUnit(v, unit), ErrInput)
 	}
 	return nil
+}
+
+// withUnit formats v followed by its unit, if it has one.
+func withUnit(v float64, unit string) string {
+	if unit == "" {
+		return fmt.Sprintf("%g", v)
+	}
+	return fmt.Sprintf("%g %s", v, unit)
 }
 
 // StateFromMach builds the state with Mach number mach, static pressure p

@@ -4,10 +4,13 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
+	"slices"
 	"strings"
 	"testing"
 	"time"
 
+	"cvdeck/mesh"
 	"cvdeck/samples"
 )
 
@@ -109,6 +112,42 @@ func TestSpacingRefinementIsConsistent(t *testing.T) {
 		if m.NumCells() != want {
 			t.Fatalf("refine %g: %d cells, want %d", r, m.NumCells(), want)
 		}
+	}
+}
+
+// The blocks that the tube-row sample smooths apart (six, at refinement 2)
+// run side by side and give the mesh and the smoothing notes of smoothing
+// them one after another.
+func TestBlocksSmoothedApartSideBySide(t *testing.T) {
+	data, err := samples.Case("tube-row")
+	if err != nil {
+		t.Fatal(err)
+	}
+	build := func(procs int) (*mesh.Mesh, []string) {
+		defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(procs))
+		c, err := Parse("tube-row.yaml", data, LoadOptions{Refine: 2})
+		if err != nil {
+			t.Fatal(err)
+		}
+		m, _, notes, err := c.buildMesh()
+		if err != nil {
+			t.Fatal(err)
+		}
+		return m, notes
+	}
+	ms, ns := build(1)
+	mp, np := build(2)
+	if !slices.Equal(ms.Nodes, mp.Nodes) || !slices.Equal(ms.CellNodes, mp.CellNodes) {
+		t.Error("the meshes differ")
+	}
+	smoothed := 0
+	for _, n := range ns {
+		if strings.Contains(n, "smoothed") {
+			smoothed++
+		}
+	}
+	if smoothed < 2 || !slices.Equal(ns, np) {
+		t.Errorf("%d blocks smoothed; notes one after another %q, side by side %q", smoothed, ns, np)
 	}
 }
 

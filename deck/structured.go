@@ -3,6 +3,9 @@ package deck
 import (
 	"fmt"
 	"math"
+	"runtime"
+	"sort"
+	"sync"
 
 	"cvdeck/geometry"
 	"cvdeck/mesh"
@@ -389,13 +392,39 @@ func (ms *meshSpec) smoothBlocks(blocks []*structured.Block, notes *[]string) er
 		}
 		results = r
 	} else {
-		for k, blk := range smoothed {
-			r, err := structured.Smooth(blk, opts[k])
+		// Blocks smoothed apart are independent: each moves only its own
+		// nodes, its shared sides held. They run side by side, the largest
+		// first so that the last to finish is a small one, and the first
+		// error in block order is reported, as one after another.
+		results = make([]structured.SmoothResult, len(smoothed))
+		errs := make([]error, len(smoothed))
+		order := make([]int, len(smoothed))
+		for k := range order {
+			order[k] = k
+		}
+		size := func(k int) int { return smoothed[k].NI * smoothed[k].NJ }
+		sort.SliceStable(order, func(a, b int) bool { return size(order[a]) > size(order[b]) })
+		next := make(chan int, len(smoothed))
+		for _, k := range order {
+			next <- k
+		}
+		close(next)
+		var wg sync.WaitGroup
+		for range min(runtime.GOMAXPROCS(0), len(smoothed)) {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				for k := range next {
+					results[k], errs[k] = structured.Smooth(smoothed[k], opts[k])
+				}
+			}()
+		}
+		wg.Wait()
+		for k, err := range errs {
 			if err != nil {
 				bs := ms.blocks[which[k]]
 				return bs.smooth.at.wrap(fmt.Errorf("block %q: %w", bs.name, err))
 			}
-			results = append(results, r)
 		}
 	}
 	for k, r := range results {

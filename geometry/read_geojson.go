@@ -92,7 +92,7 @@ func readGeoJSONObject(doc, raw []byte, where string, tags PolygonTags, outs *[]
 		if err != nil {
 			return err
 		}
-		o, err := polygonOutline(p, tags, 0, where+" (Polygon)")
+		o, err := polygonOutline(p, tags, 0, where+" (Polygon)", geojsonRingRule)
 		if err != nil {
 			return err
 		}
@@ -107,7 +107,7 @@ func readGeoJSONObject(doc, raw []byte, where string, tags PolygonTags, outs *[]
 			if err != nil {
 				return err
 			}
-			o, err := polygonOutline(p, tags, i, fmt.Sprintf("%s (MultiPolygon) polygon %d", where, i))
+			o, err := polygonOutline(p, tags, i, fmt.Sprintf("%s (MultiPolygon) polygon %d", where, i), geojsonRingRule)
 			if err != nil {
 				return err
 			}

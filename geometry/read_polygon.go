@@ -33,17 +33,24 @@ type PolygonTags struct {
 	Edges []EdgeTag
 }
 
+// The rules that make a ring closed, cited in errors by the format read.
+const (
+	geojsonRingRule = "RFC 7946 §3.1.6"
+	wktRingRule     = "OGC Simple Features: a LinearRing is a closed LineString"
+)
+
 // polygonOutline turns one polygon (closed rings, exterior first) into an
 // outline of one line segment per ring edge, tagged by tags, then
-// validates and orients it. where names the polygon in errors.
-func polygonOutline(p orb.Polygon, tags PolygonTags, polygon int, where string) (Outline, error) {
+// validates and orients it. where names the polygon in errors, rule the
+// format's rule for closed rings.
+func polygonOutline(p orb.Polygon, tags PolygonTags, polygon int, where, rule string) (Outline, error) {
 	if len(p) == 0 {
 		return Outline{}, fmt.Errorf("%s has no rings: %w", where, ErrFormat)
 	}
 	edgeTags := make([][]string, len(p))
 	for ri, r := range p {
 		if len(r) < 4 || r[0] != r[len(r)-1] {
-			return Outline{}, fmt.Errorf("%s ring %d: a ring must be closed (last position equal to the first) with at least 4 positions (RFC 7946 §3.1.6), got %d positions: %w", where, ri, len(r), ErrFormat)
+			return Outline{}, fmt.Errorf("%s ring %d: a ring must be closed (last position equal to the first) with at least 4 positions (%s), got %d positions: %w", where, ri, rule, len(r), ErrFormat)
 		}
 		edgeTags[ri] = make([]string, len(r)-1)
 	}

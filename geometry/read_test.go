@@ -145,6 +145,7 @@ func TestReadWKT(t *testing.T) {
 		{"LINESTRING (0 0, 1 1)", "a LineString bounds no area"},
 		{"POLYGON ((0 0, 1 0, 1 1", "WKT:"},
 		{"POLYGON ((0 0, 1 0, 1 1, 0 0))", "names polygon 3"},
+		{"POLYGON ((0 0, 1 0, 1 1, 0 1))", "ring 0: a ring must be closed (last position equal to the first) with at least 4 positions (OGC Simple Features"},
 	} {
 		tags := PolygonTags{}
 		if strings.Contains(b.says, "polygon 3") {

@@ -51,7 +51,7 @@ func ReadWKT(text string, tags PolygonTags) ([]Outline, error) {
 	}
 	outs := make([]Outline, len(polys))
 	for i, p := range polys {
-		o, err := polygonOutline(p, tags, i, fmt.Sprintf("WKT polygon %d", i))
+		o, err := polygonOutline(p, tags, i, fmt.Sprintf("WKT polygon %d", i), wktRingRule)
 		if err != nil {
 			return nil, err
 		}

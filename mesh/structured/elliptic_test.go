@@ -2,6 +2,8 @@ package structured
 
 import (
 	"math"
+	"runtime"
+	"slices"
 	"testing"
 
 	"github.com/paulmach/orb"
@@ -392,4 +394,68 @@ func TestSmoothSlidingCurvedSide(t *testing.T) {
 		prev = p[0]
 	}
 	assertPositive(t, slid)
+}
+
+// Stepping the blocks on several goroutines gives the grid of stepping
+// them one after another, bit for bit: each step moves only its own
+// block's nodes, and the joins still sweep in order after the blocks.
+func TestSmoothBlocksParallelSameGrid(t *testing.T) {
+	opts := make([]SmoothOptions, 3)
+	for b := range opts {
+		opts[b].Sides[mesh.North] = SideControl{FirstHeight: 2e-3, Orthogonal: true}
+	}
+	smooth := func(procs int) ([]*Block, []SmoothResult) {
+		defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(procs))
+		blocks := nozzleBlocks(t, 81, 41, 0)
+		if g := len(workGroups(blocks)); g != procs {
+			t.Fatalf("GOMAXPROCS %d: %d work groups", procs, g)
+		}
+		res, err := SmoothBlocks(blocks, opts)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return blocks, res
+	}
+	serial, rs := smooth(1)
+	parallel, rp := smooth(2)
+	for b := range serial {
+		if !slices.Equal(serial[b].X, parallel[b].X) || !slices.Equal(serial[b].Y, parallel[b].Y) {
+			t.Errorf("block %d: the grids differ", b)
+		}
+		if rs[b] != rp[b] {
+			t.Errorf("block %d: results %+v one after another, %+v side by side", b, rs[b], rp[b])
+		}
+	}
+}
+
+// workGroups deals the blocks out largest first to the least loaded group
+// (worked by hand: sizes 10, 7, 5, 4 and 3 thousand nodes on two
+// goroutines give loads 14 and 15 thousand), each block once.
+func TestWorkGroups(t *testing.T) {
+	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(2))
+	var blocks []*Block
+	for _, n := range []int{5, 10, 3, 7, 4} {
+		blocks = append(blocks, &Block{NI: 1000, NJ: n})
+	}
+	groups := workGroups(blocks)
+	var loads []int
+	var all []int
+	for _, g := range groups {
+		load := 0
+		for _, b := range g {
+			load += blocks[b].NI * blocks[b].NJ
+			all = append(all, b)
+		}
+		loads = append(loads, load)
+	}
+	slices.Sort(all)
+	if !slices.Equal(loads, []int{14000, 15000}) || !slices.Equal(all, []int{0, 1, 2, 3, 4}) {
+		t.Errorf("groups %v, loads %v", groups, loads)
+	}
+	if g := workGroups(blocks[:1]); len(g) != 1 {
+		t.Errorf("one block in %d groups", len(g))
+	}
+	if g := workGroups([]*Block{{NI: 10, NJ: 10}, {NI: 10, NJ: 10}}); len(g) != 1 {
+		t.Errorf("200 nodes in %d groups", len(g))
+	}
 }
