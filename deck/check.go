@@ -23,8 +23,9 @@ type CheckResult struct {
 	File   string
 	Mesh   *mesh.Mesh
 	Report *quality.Report
-	// Notes say how the file was read (for example where its tags came
-	// from); Warnings say what was assumed (untagged boundary faces put
+	// Notes say how the file was read (a slab taken as its lower plane and
+	// what was left out of it, where its tags came from, whose limits
+	// graded it); Warnings say what was assumed (untagged boundary faces put
 	// into DefaultTag).
 	Notes    []string
 	Warnings []string
@@ -46,19 +47,20 @@ type CheckResult struct {
 // default profile.
 func Check(path string, patches ...quality.Patch) (*CheckResult, error) {
 	var m *mesh.Mesh
+	var read []string
 	var err error
 	switch strings.ToLower(filepath.Ext(path)) {
 	case ".vtu", ".vtk":
-		m, err = vtk.ReadFile(path)
+		m, read, err = vtk.ReadFileNotes(path)
 	case ".cgns":
-		m, err = cgns.Read(path)
+		m, read, err = cgns.ReadNotes(path)
 	default:
 		return nil, fmt.Errorf("%w: %s: cvdeck checks .vtu, .vtk and .cgns meshes, not %q", ErrInput, path, filepath.Ext(path))
 	}
 	if err != nil {
 		return nil, fmt.Errorf("%w: %w", ErrInput, err)
 	}
-	res := &CheckResult{File: path}
+	res := &CheckResult{File: path, Notes: read}
 	if lo, hi := m.UntaggedRange(); hi > lo && strings.EqualFold(filepath.Ext(path), ".vtu") {
 		// A cvdeck deck keeps its boundary tags in boundary.vtp beside
 		// mesh.vtu: take them from there when the file is present.

@@ -60,6 +60,39 @@ type Audit struct {
 	DualClosureMax  Number `json:"dual_closure_max"`
 }
 
+// BoundaryTag sums up the boundary faces of one tag.
+type BoundaryTag struct {
+	// Tag is the tag's name, "" for the faces that carry none.
+	Tag   string `json:"tag"`
+	Faces int    `json:"faces"`
+	// Length is the faces' total length in metres (their area per unit
+	// depth).
+	Length Number `json:"length"`
+}
+
+// boundaryTags sums up the boundary faces of m by their FaceTag: every
+// tag, with no faces too, then the untagged faces if there are any. It
+// reads FaceTag rather than TagStart, which validateArrays does not check.
+func boundaryTags(m *mesh.Mesh) []BoundaryTag {
+	out := make([]BoundaryTag, len(m.Tags)+1)
+	for t, name := range m.Tags {
+		out[t].Tag = name
+	}
+	untagged := &out[len(m.Tags)]
+	for f := m.NumInterior; f < m.NumFaces(); f++ {
+		b := untagged
+		if t := m.FaceTag[f]; t >= 0 {
+			b = &out[t]
+		}
+		b.Faces++
+		b.Length += Number(m.Geo.FaceLength[f])
+	}
+	if untagged.Faces == 0 {
+		out = out[:len(m.Tags)]
+	}
+	return out
+}
+
 // Report is the result of Evaluate.
 type Report struct {
 	// Verdict is fail if any cell or node fails a metric or any
@@ -86,6 +119,10 @@ type Report struct {
 	Metrics            []MetricSummary `json:"metrics"`
 	Audit              Audit           `json:"audit"`
 	Connectivity       []CheckResult   `json:"connectivity"`
+	// Boundary lists the boundary faces by tag, in the mesh's tag order,
+	// the untagged ones last, so that a reader can see which conditions
+	// a mesh from elsewhere brought with it.
+	Boundary []BoundaryTag `json:"boundary"`
 
 	// CellStatus is the worst status of each cell.
 	CellStatus []Status `json:"-"`
@@ -152,6 +189,7 @@ func (e *Evaluator) Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 		Profile: lim.Profile, Cells: nc, Faces: m.NumFaces(), BoundaryFaces: m.NumBoundary(), Nodes: nn,
 		DuplicateTolerance: lim.DuplicateTolerance, HangingTolerance: lim.HangingTolerance,
 		CellStatus: zeroed(&e.cellStatus, nc),
+		Boundary:   boundaryTags(m),
 	}
 	// Three independent sweeps run side by side: the cell metrics, the node
 	// metric and the connectivity checks. Each writes only its own results.

@@ -10,6 +10,8 @@ import (
 	"testing"
 
 	"github.com/paulmach/orb"
+
+	"cvdeck/mesh"
 )
 
 // The JSON and text reports are the same bytes whether the loops run on one
@@ -166,3 +168,40 @@ func TestNumberJSON(t *testing.T) {
 }
 
 func posInf() float64 { x := 0.0; return 1 / x }
+
+// The report sums up the boundary faces by tag, in the mesh's tag order, a
+// tag with no faces included and the untagged faces last: on a 4 × 2 grid
+// of squares of side 0.5 on [0, 2] × [0, 1] with the bottom tagged floor
+// and the top lid, each has 4 faces of total length 2, and the two sides,
+// untagged, 4 faces of length 2 (the perimeter, 6, is elementary
+// geometry).
+func TestReportBoundaryTags(t *testing.T) {
+	const nx, ny = 4, 2
+	in := mesh.Input{Nodes: gridNodes(nx, ny, orb.Point{0, 0}, orb.Point{0.5, 0}, orb.Point{0, 0.5}, 0), Tags: []string{"floor", "lid", "spare"}, CellStart: []int32{0}}
+	for _, c := range quadCells(nx, ny, false) {
+		in.CellNodes = append(in.CellNodes, c...)
+		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+	}
+	id := func(i, j int) int32 { return int32(j*(nx+1) + i) }
+	for i := 0; i < nx; i++ {
+		in.Edges = append(in.Edges, mesh.TaggedEdge{A: id(i, 0), B: id(i+1, 0), Tag: 0}, mesh.TaggedEdge{A: id(i, ny), B: id(i+1, ny), Tag: 1})
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := evaluate(t, m)
+	want := []BoundaryTag{{"floor", 4, 2}, {"lid", 4, 2}, {"spare", 0, 0}, {"", 4, 2}}
+	if !slices.Equal(r.Boundary, want) {
+		t.Errorf("boundary %+v, want %+v", r.Boundary, want)
+	}
+	var x bytes.Buffer
+	if err := WriteText(&x, r); err != nil {
+		t.Fatal(err)
+	}
+	for _, line := range []string{"  floor                     4 faces, length 2 m", "  spare                     0 faces, length 0 m", "  (no tag)                  4 faces, length 2 m"} {
+		if !strings.Contains(x.String(), line+"\n") {
+			t.Errorf("text report lacks %q:\n%s", line, x.String())
+		}
+	}
+}

@@ -12,8 +12,8 @@ import (
 // WriteText writes the report as a plain-text table for a terminal: a
 // verdict line, one row per metric (min, mean, max, the warn and fail
 // thresholds, and how many cells pass each), the audit, the connectivity
-// checks with the defects they found, and the worst cells of every metric
-// that has any past its warn threshold.
+// checks with the defects they found, the boundary faces of each tag, and
+// the worst cells of every metric that has any past its warn threshold.
 func WriteText(w io.Writer, r *Report) error {
 	b := bufio.NewWriter(w)
 	verdict := map[Status]string{Pass: "PASS", Warn: "PASS with warnings", Fail: "FAIL"}[r.Verdict]
@@ -54,6 +54,15 @@ func WriteText(w io.Writer, r *Report) error {
 		if c.Count > len(c.Problems) {
 			fmt.Fprintf(b, "      ... and %d more\n", c.Count-len(c.Problems))
 		}
+	}
+
+	fmt.Fprintf(b, "\nboundary tags\n")
+	for _, t := range r.Boundary {
+		name := t.Tag
+		if name == "" {
+			name = "(no tag)"
+		}
+		fmt.Fprintf(b, "  %-18s %8d faces, length %s m\n", name, t.Faces, num(float64(t.Length)))
 	}
 
 	header := false

@@ -98,11 +98,22 @@ func TestReadForeignStructured(t *testing.T) {
 	dir := foreignFiles(t)
 	for _, file := range []string{"twozone.cgns", "onesided.cgns", "twozone3d.cgns"} {
 		t.Run(file, func(t *testing.T) {
-			m, err := Read(filepath.Join(dir, file))
+			m, notes, err := ReadNotes(filepath.Join(dir, file))
 			if err != nil {
 				t.Fatal(err)
 			}
 			checkTwoZone(t, m)
+			// The front and back BCs are left out, and the note says so:
+			// kept, the front by its nodes would tag the right zone's
+			// every boundary edge.
+			want := []string(nil)
+			if file == "twozone3d.cgns" {
+				want = []string{"a 3D base read as 2D: the k = 1 plane of each structured zone; BCs on the front and back left out: " +
+					"left/front (tag front), left/back (tag back), right/frontnodes (tag frontnodes)"}
+			}
+			if !slices.Equal(notes, want) {
+				t.Errorf("notes %q, want %q", notes, want)
+			}
 		})
 	}
 }
@@ -265,11 +276,17 @@ func TestReadOnePlaneAndSlabZones(t *testing.T) {
 // 3D base (slab3d.cgns of foreign.c) reads as its lower plane: 3 cells of
 // total area 2, all counter-clockwise (the upside-down HEXA_8 included),
 // 6 nodes, the side faces tagged as written and the front and back faces
-// (with their symmetry BC) left out.
+// (with their symmetry BC, and a BC listing the front plane's nodes, which
+// lie on the boundary but on one plane only) left out, which a note says.
 func TestReadForeignSlab(t *testing.T) {
-	m, err := Read(filepath.Join(foreignFiles(t), "slab3d.cgns"))
+	m, notes, err := ReadNotes(filepath.Join(foreignFiles(t), "slab3d.cgns"))
 	if err != nil {
 		t.Fatal(err)
+	}
+	want := []string{"a 3D base read as 2D: zone dom, a slab one cell thick between z = 0.5 and z = 0.75, read as its lower plane; " +
+		"BCs on the front and back left out: symmetry (tag symmetry, 4 of its 4 faces), frontnodes (tag frontnodes, by its nodes)"}
+	if !slices.Equal(notes, want) {
+		t.Errorf("notes %q, want %q", notes, want)
 	}
 	if m.NumCells() != 3 || len(m.Nodes) != 6 || m.NumInterior != 2 || m.NumBoundary() != 6 {
 		t.Fatalf("%d cells, %d nodes, %d interior and %d boundary faces; want 3, 6, 2, 6", m.NumCells(), len(m.Nodes), m.NumInterior, m.NumBoundary())

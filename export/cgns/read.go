@@ -11,6 +11,7 @@ import (
 	"fmt"
 	"os"
 	"slices"
+	"strings"
 	"unsafe"
 
 	"github.com/paulmach/orb"
@@ -66,8 +67,20 @@ import (
 // BC, in file order, then the other BC tags in the order BCs first use
 // them. Errors name the node path that could not be read.
 func Read(path string) (*mesh.Mesh, error) {
-	_, m, err := open(path)
+	m, _, err := ReadNotes(path)
 	return m, err
+}
+
+// ReadNotes is Read that also returns notes on how the file was read
+// where the mesh does not show it, for a user who did not write the file:
+// a 3D base read as a 2D plane, and the BCs on the front and back of the
+// slab that were left out with it.
+func ReadNotes(path string) (*mesh.Mesh, []string, error) {
+	r, m, err := open(path)
+	if err != nil {
+		return nil, nil, err
+	}
+	return m, r.notes, nil
 }
 
 // ReadDeck reads a CGNS file like Read and also returns the base name,
@@ -157,6 +170,19 @@ type reader struct {
 	tagIx map[string]int16
 	// periodic are the periodic connections found, in file order.
 	periodic []periodicFound
+	// notes say how the file was read where the mesh does not show it.
+	notes []string
+}
+
+// planeNote is the note on a 3D base read as a 2D plane (what is the
+// plane, as a phrase) and the BCs left out with the front and back of the
+// slab, each as "name (tag t)" or with a count of faces.
+func planeNote(what string, left []string) string {
+	note := "a 3D base read as 2D: " + what
+	if len(left) > 0 {
+		note += "; BCs on the front and back left out: " + strings.Join(left, ", ")
+	}
+	return note
 }
 
 func (r *reader) read() (*mesh.Mesh, error) {

@@ -227,6 +227,7 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 		}
 		r.periodic = append(r.periodic, pf)
 	}
+	var left []string // the BCs on the front and back of the slab
 	for zi := range zones {
 		s := &zones[zi]
 		bcs, err := r.bocos(C.int(zi+1), s.path, r.indexDim())
@@ -234,8 +235,12 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 			return nil, err
 		}
 		if r.thin {
-			if bcs, err = s.planeBCs(bcs); err != nil {
+			var out []bcInfo
+			if bcs, out, err = s.planeBCs(bcs); err != nil {
 				return nil, err
+			}
+			for _, b := range out {
+				left = append(left, fmt.Sprintf("%s/%s (tag %s)", s.name, b.name, b.tag))
 			}
 		}
 		for _, b := range bcs {
@@ -249,6 +254,9 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 			}
 			found = append(found, t)
 		}
+	}
+	if r.thin {
+		r.notes = append(r.notes, planeNote("the k = 1 plane of each structured zone", left))
 	}
 	return r.buildTagged(in, found, "/"+r.base)
 }
@@ -530,20 +538,25 @@ func (r *reader) sameSecondPlane(z C.int, s *szone) error {
 }
 
 // planeBCs turns the BCs of a zone of a 3D base into BCs of its (i, j)
-// plane: ranges and lists lose their k index, FaceCenter ranges become
-// IFaceCenter or JFaceCenter by the index they hold constant, and BCs on a
-// k = const plane (the front and back of the slab) are left out.
-func (s *szone) planeBCs(bcs []bcInfo) ([]bcInfo, error) {
-	out := bcs[:0]
+// plane: ranges and lists lose their k index, and FaceCenter ranges become
+// IFaceCenter or JFaceCenter by the index they hold constant. BCs on a
+// k = const plane (the front and back of the slab) are returned apart, as
+// left out: ranges at KFaceCenter or spanning i and j at one k, and vertex
+// lists on one plane only of a zone one cell thick (a side of the slab has
+// nodes on both), on the back plane only, or holding a node inside the
+// (i, j) plane (a side's nodes lie on its edges, i or j at its first or
+// last value). Kept, such a list would tag every boundary edge it covers.
+func (s *szone) planeBCs(bcs []bcInfo) (kept, left []bcInfo, err error) {
 	for _, b := range bcs {
 		switch {
 		case b.set == C.PointRange:
 			if len(b.pts) != 6 {
-				return nil, fmt.Errorf("%s: a PointRange needs 2 points of 3 indices, got %d values", b.path, len(b.pts))
+				return nil, nil, fmt.Errorf("%s: a PointRange needs 2 points of 3 indices, got %d values", b.path, len(b.pts))
 			}
 			i0, j0, k0, i1, j1, k1 := b.pts[0], b.pts[1], b.pts[2], b.pts[3], b.pts[4], b.pts[5]
 			if b.loc == C.KFaceCenter || k0 == k1 && i0 != i1 && j0 != j1 {
-				continue // the front or back of the slab
+				left = append(left, b)
+				continue
 			}
 			if b.loc == C.FaceCenter {
 				b.loc = C.JFaceCenter
@@ -552,22 +565,28 @@ func (s *szone) planeBCs(bcs []bcInfo) ([]bcInfo, error) {
 				}
 			}
 			if b.loc != C.Vertex && b.loc != C.IFaceCenter && b.loc != C.JFaceCenter {
-				return nil, fmt.Errorf("%s: a range at %s; in a 3D base cvdeck reads structured BCs at Vertex, FaceCenter, IFaceCenter or JFaceCenter", b.path, C.GoString(C.cg_GridLocationName(b.loc)))
+				return nil, nil, fmt.Errorf("%s: a range at %s; in a 3D base cvdeck reads structured BCs at Vertex, FaceCenter, IFaceCenter or JFaceCenter", b.path, C.GoString(C.cg_GridLocationName(b.loc)))
 			}
 			b.pts = []int32{i0, j0, i1, j1}
 		case b.set == C.PointList && b.loc == C.Vertex:
 			var pts []int32
+			inside, back := false, false
 			for k := 0; k+2 < len(b.pts); k += 3 {
+				i, j := b.pts[k], b.pts[k+1]
+				inside = inside || i > 1 && i < int32(s.ni) && j > 1 && j < int32(s.nj)
 				if b.pts[k+2] == 1 {
-					pts = append(pts, b.pts[k], b.pts[k+1])
+					pts = append(pts, i, j)
+				} else {
+					back = true
 				}
 			}
-			if len(pts) == 0 {
-				continue // points on the back plane only
+			if len(pts) == 0 || inside || s.nk == 2 && !back {
+				left = append(left, b)
+				continue
 			}
 			b.pts = pts
 		}
-		out = append(out, b)
+		kept = append(kept, b)
 	}
-	return out, nil
+	return kept, left, nil
 }

@@ -72,6 +72,7 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 	var barOf func(id int32) ([2]int32, bool)
 	node := func(v int32) int32 { return v - 1 }
 	patch := func(id int32) bool { return false } // a slab's front or back face
+	var slabLo, slabHi float64
 	if r.thin {
 		sl, err := newSlab(zp, nodes, zc)
 		if err != nil {
@@ -83,6 +84,7 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 		barOf = sl.faceEdge(secs)
 		node = func(v int32) int32 { return sl.index[v-1] }
 		patch = sl.patch(secs)
+		slabLo, slabHi = sl.lo, sl.hi
 	} else {
 		if in, err = planarCells(zp, secs, nodes); err != nil {
 			return nil, err
@@ -96,6 +98,7 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 	}
 	var found []taggedEdges
 	var vertexBCs []bcInfo
+	var left []string // the BCs on the front and back of a slab
 	for _, b := range bcs {
 		ids := b.pts
 		if b.set == C.PointRange || b.set == C.ElementRange {
@@ -110,7 +113,7 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 		byElement := b.set == C.ElementRange || b.set == C.ElementList
 		switch {
 		case !byElement && b.loc == C.Vertex:
-			vertexBCs = append(vertexBCs, bcInfo{path: b.path, tag: b.tag, pts: ids})
+			vertexBCs = append(vertexBCs, bcInfo{path: b.path, name: b.name, tag: b.tag, pts: ids})
 			continue
 		case byElement || b.loc == C.EdgeCenter || b.loc == C.FaceCenter:
 		default:
@@ -119,15 +122,20 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 		}
 		t := taggedEdges{tag: b.tag}
 		t.edges = make([][2]int32, 0, len(ids))
+		patches := 0
 		for i, id := range ids {
 			e, ok := barOf(id)
 			switch {
 			case !ok && patch(id):
-				continue // a front or back face of a slab
+				patches++ // a front or back face of a slab
+				continue
 			case !ok:
 				return nil, fmt.Errorf("%s: point %d is element %d, which is not a boundary face element of the zone (BAR_2; in a slab, QUAD_4 across it)", b.path, i+1, id)
 			}
 			t.edges = append(t.edges, e)
+		}
+		if patches > 0 {
+			left = append(left, fmt.Sprintf("%s (tag %s, %d of its %d faces)", b.name, b.tag, patches, len(ids)))
 		}
 		if len(t.edges) > 0 || len(ids) == 0 {
 			found = append(found, t)
@@ -140,15 +148,30 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 		if err != nil {
 			return nil, fmt.Errorf("%s: %w", zp, err)
 		}
+		onBoundary := make([]bool, len(in.Nodes))
+		for _, fn := range plain.FaceNodes[plain.NumInterior:] {
+			onBoundary[fn[0]], onBoundary[fn[1]] = true, true
+		}
 		for _, b := range vertexBCs {
 			in := make(map[int32]bool, len(b.pts))
+			inside, upper := false, false
 			for i, v := range b.pts {
 				if v < 1 || int(v) > nn {
 					return nil, fmt.Errorf("%s: point %d is node %d; the zone's nodes run from 1 to %d", b.path, i+1, v, nn)
 				}
 				if n := node(v); n >= 0 {
 					in[n] = true
+					inside = inside || !onBoundary[n]
+				} else {
+					upper = true
 				}
+			}
+			if r.thin && (len(in) == 0 || !upper || inside) {
+				// Nodes on one plane only (a side of the slab has nodes
+				// on both), or a node inside the lower plane: the front
+				// or back, which would tag every boundary edge it covers.
+				left = append(left, fmt.Sprintf("%s (tag %s, by its nodes)", b.name, b.tag))
+				continue
 			}
 			t := taggedEdges{tag: b.tag}
 			for f := plain.NumInterior; f < plain.NumFaces(); f++ {
@@ -164,6 +187,10 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 		return nil, err
 	}
 	found = append(found, conns...)
+	if r.thin {
+		what := fmt.Sprintf("zone %s, a slab one cell thick between z = %g and z = %g, read as its lower plane", zn, slabLo, slabHi)
+		r.notes = append(r.notes, planeNote(what, left))
+	}
 	return r.buildTagged(in, found, zp)
 }
 

@@ -39,17 +39,37 @@ var tagArrayNames = []string{"boundary_tag", TagArray}
 // boundary faces too, and cells lying in either plane (the front and back
 // patches) and lines on the upper plane are left out.
 func ReadFile(path string) (*mesh.Mesh, error) {
+	m, _, err := ReadFileNotes(path)
+	return m, err
+}
+
+// ReadFileNotes is ReadFile that also returns notes on how the file was
+// read where the mesh does not show it, for a user who did not write the
+// file: the z of a plane mesh that does not lie on z = 0, and for a slab
+// its planes and what was left out (front and back patches and lines on
+// the upper plane, with their tags).
+func ReadFileNotes(path string) (*mesh.Mesh, []string, error) {
 	data, err := os.ReadFile(path)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
+	var g *grid
 	switch strings.ToLower(filepath.Ext(path)) {
 	case ".vtu":
-		return ReadVTU(data, path)
+		g, err = parseVTU(data, path)
 	case ".vtk":
-		return ReadLegacy(data, path)
+		g, err = (&legacyReader{data: data, file: path}).read()
+	default:
+		return nil, nil, fmt.Errorf("%s: unknown extension %q; cvdeck reads VTK unstructured grids as .vtu or .vtk", path, filepath.Ext(path))
 	}
-	return nil, fmt.Errorf("%s: unknown extension %q; cvdeck reads VTK unstructured grids as .vtu or .vtk", path, filepath.Ext(path))
+	if err != nil {
+		return nil, nil, err
+	}
+	m, err := g.toMesh()
+	if err != nil {
+		return nil, nil, err
+	}
+	return m, g.notes, nil
 }
 
 // array is one data array as read from a file, before interpretation.
@@ -94,6 +114,8 @@ type grid struct {
 	types     []int64
 	cellData  []*array
 	fieldData []*array
+	// notes say how the grid was read where the mesh does not show it.
+	notes []string
 }
 
 // find returns the array called name, or nil.
@@ -141,6 +163,9 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 			return nil, fmt.Errorf("%s: point %d has z = %g but point 0 has z = %g; cvdeck reads plane 2D meshes (all z equal), or slabs one cell thick of hexahedra, voxels or wedges", g.file, i, z, g.points[2])
 		}
 		in.Nodes[i] = orb.Point{x, y}
+	}
+	if z := g.points[2]; z != 0 {
+		g.notes = append(g.notes, fmt.Sprintf("a plane mesh on z = %g, read as 2D (z dropped)", z))
 	}
 	tags, err := g.newEdgeTagger(&in)
 	if err != nil {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"github.com/paulmach/orb"
 
@@ -69,6 +70,7 @@ func (g *grid) slabMesh(sl slabPlanes) (*mesh.Mesh, error) {
 		}
 		return true
 	}
+	var patches, upper leftOut
 	for c := range g.types {
 		nodes := g.cell(c)
 		t := g.types[c]
@@ -89,7 +91,8 @@ func (g *grid) slabMesh(sl slabPlanes) (*mesh.Mesh, error) {
 			}
 		case cellTriangle, cellQuad, cellPixel, cellPolygon:
 			if onPlane(nodes, sl.lo) || onPlane(nodes, sl.hi) {
-				continue // a front or back patch
+				patches.add(tags.tagOf(c)) // a front or back patch
+				continue
 			}
 			var low []int64
 			for _, v := range nodes {
@@ -107,6 +110,7 @@ func (g *grid) slabMesh(sl slabPlanes) (*mesh.Mesh, error) {
 		case cellLine, cellPolyLine:
 			switch {
 			case onPlane(nodes, sl.hi):
+				upper.add(tags.tagOf(c))
 				continue
 			case !onPlane(nodes, sl.lo):
 				return nil, fmt.Errorf("%s: cell %d, a %s, runs between the planes of the slab; boundary lines must lie in a plane", g.file, c, cellTypeName[t])
@@ -158,5 +162,48 @@ func (g *grid) slabMesh(sl slabPlanes) (*mesh.Mesh, error) {
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", g.file, err)
 	}
+	note := fmt.Sprintf("a slab one cell thick between z = %g and z = %g, read as its lower plane", sl.lo, sl.hi)
+	var out []string
+	if patches.count > 0 {
+		out = append(out, patches.String("cell", "in the front and back planes"))
+	}
+	if upper.count > 0 {
+		out = append(out, upper.String("line", "on the upper plane"))
+	}
+	if len(out) > 0 {
+		note += "; left out: " + strings.Join(out, " and ")
+	}
+	g.notes = append(g.notes, note)
 	return m, nil
+}
+
+// leftOut counts the cells of a slab that are not part of its 2D mesh,
+// and the tags they carried.
+type leftOut struct {
+	count int
+	tags  []string
+}
+
+func (l *leftOut) add(tag string) {
+	l.count++
+	if tag != "" && !slices.Contains(l.tags, tag) {
+		l.tags = append(l.tags, tag)
+	}
+}
+
+// String says "24 cells in the front and back planes (tag symmetry)".
+func (l *leftOut) String(what, where string) string {
+	s := fmt.Sprintf("%d %s", l.count, what)
+	if l.count != 1 {
+		s += "s"
+	}
+	s += " " + where
+	switch len(l.tags) {
+	case 0:
+	case 1:
+		s += fmt.Sprintf(" (tag %s)", l.tags[0])
+	default:
+		s += fmt.Sprintf(" (tags %s)", strings.Join(l.tags, ", "))
+	}
+	return s
 }

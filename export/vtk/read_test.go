@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 	"testing"
@@ -254,5 +255,25 @@ func TestReadLinesWithoutTags(t *testing.T) {
 	}
 	if lo, hi := m.UntaggedRange(); len(m.Tags) != 0 || hi-lo != 4 {
 		t.Fatalf("tags %v, %d untagged faces; want none and 4", m.Tags, hi-lo)
+	}
+}
+
+// A plane mesh off z = 0 reads as 2D with a note giving its z; one on
+// z = 0 reads without notes.
+func TestReadPlaneNotes(t *testing.T) {
+	dir := t.TempDir()
+	for z, want := range map[string][]string{"0": nil, "-3.5": {"a plane mesh on z = -3.5, read as 2D (z dropped)"}} {
+		path := filepath.Join(dir, "plane"+z+".vtk")
+		file := "# vtk DataFile Version 4.2\nt\nASCII\nDATASET UNSTRUCTURED_GRID\nPOINTS 3 double\n0 0 Z 1 0 Z 0 1 Z\nCELLS 1 4\n3 0 1 2\nCELL_TYPES 1\n5\n"
+		if err := os.WriteFile(path, []byte(strings.ReplaceAll(file, "Z", z)), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		m, notes, err := ReadFileNotes(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if m.NumCells() != 1 || !slices.Equal(notes, want) {
+			t.Errorf("z = %s: %d cells, notes %q; want 1 and %q", z, m.NumCells(), notes, want)
+		}
 	}
 }

@@ -22,6 +22,15 @@ import (
 // base64), uncompressed or zlib-compressed (vtkZLibDataCompressor),
 // header_type UInt32 or UInt64, either byte order, one piece.
 func ReadVTU(data []byte, name string) (*mesh.Mesh, error) {
+	g, err := parseVTU(data, name)
+	if err != nil {
+		return nil, err
+	}
+	return g.toMesh()
+}
+
+// parseVTU reads the grid of an XML UnstructuredGrid file.
+func parseVTU(data []byte, name string) (*grid, error) {
 	g, nc, err := readPiece(data, name, "UnstructuredGrid", "NumberOfCells", "Cells", "connectivity", "offsets", "types")
 	if err != nil {
 		return nil, err
@@ -29,7 +38,7 @@ func ReadVTU(data []byte, name string) (*mesh.Mesh, error) {
 	if len(g.types) != nc {
 		return nil, fmt.Errorf("%s: Cells/types has %d values for NumberOfCells=%d", name, len(g.types), nc)
 	}
-	return g.toMesh()
+	return g, nil
 }
 
 // readPiece reads the one piece of an XML file of the given dataset type

@@ -87,7 +87,7 @@ print(json.dumps({'files': res, 'cells': cells3d, 'nodes': n2, 'sides': sides}))
 // 1e-12), every cell counter-clockwise (the upside-down hexahedron
 // included), the lower plane's points only, the side faces as boundary
 // faces with their tags, and the front and back patches and upper lines
-// left out.
+// left out, which a note says.
 func TestReadSlabWrittenByVTK(t *testing.T) {
 	dir := t.TempDir()
 	var got struct {
@@ -100,10 +100,17 @@ func TestReadSlabWrittenByVTK(t *testing.T) {
 	}
 	runPython(t, vtkSlabScript, &got, dir)
 	for name, ref := range got.Files {
-		m, err := ReadFile(filepath.Join(dir, name))
+		m, notes, err := ReadFileNotes(filepath.Join(dir, name))
 		if err != nil {
 			t.Errorf("%s: %v", name, err)
 			continue
+		}
+		// The script writes a quad below and a triangle above each of the
+		// 4 × 3 squares, and one line on the upper plane.
+		want := "a slab one cell thick between z = 2 and z = 2.25, read as its lower plane; left out: " +
+			"24 cells in the front and back planes (tag symmetry) and 1 line on the upper plane (tag walls)"
+		if len(notes) != 1 || notes[0] != want {
+			t.Errorf("%s: notes %q, want %q", name, notes, want)
 		}
 		if m.NumCells() != got.Cells || len(m.Nodes) != got.Nodes || len(ref.Area) != got.Cells {
 			t.Errorf("%s: %d cells, %d nodes; want %d, %d", name, m.NumCells(), len(m.Nodes), got.Cells, got.Nodes)

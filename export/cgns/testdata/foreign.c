@@ -16,8 +16,9 @@
  *                     cell dimension 3, each zone one cell thick in k (z = 0
  *                     and 0.1), joined with Transform [2, 1, 3]; BCs as
  *                     FaceCenter, IFaceCenter, JFaceCenter and Vertex
- *                     ranges, and symmetry BCs on the front (KFaceCenter)
- *                     and back (Vertex, k = 2) planes.
+ *                     ranges, and symmetry BCs on the front (KFaceCenter;
+ *                     and the right zone's as a Vertex PointList) and back
+ *                     (Vertex, k = 2) planes.
  *   sheet1.cgns     - a 3D base with one structured zone of 21 x 11 x 1 nodes
  *                     (x = 0.1 j + 0.002 i (20 - i), y = 0.1 i + 0.02 j^2,
  *                     z = 0), coordinates only.
@@ -29,7 +30,8 @@
  *                     upper plane) and two PENTA_6 over [0, 2] x [0, 1],
  *                     z = 0.5 to 0.75; QUAD_4 side faces tagged by
  *                     ElementList and ElementRange, front and back faces
- *                     (QUAD_4, TRI_3) under a symmetry BC.
+ *                     (QUAD_4, TRI_3) under a symmetry BC, and the front
+ *                     plane's nodes as a Vertex PointList BC.
  *   highorder.cgns  - a TRI_6 section, which cvdeck does not read.
  *   onesided.cgns   - twozone.cgns with the join recorded on the second
  *                     zone only.
@@ -203,6 +205,14 @@ static void twozone3d(void) {
     ck(cg_boco_gridlocation_write(fn, B, Z1, BC, KFaceCenter), "front location");
     cgsize_t back[6] = {1, 1, 2, 3, 3, 2};
     ck(cg_boco_write(fn, B, Z1, "back", BCSymmetryPlane, PointRange, 2, back, &BC), "back");
+    /* The right zone's front plane by its nodes, which a side BC is not. */
+    cgsize_t fnodes[27];
+    for (int n = 0; n < 9; n++) {
+        fnodes[3 * n] = n % 3 + 1;
+        fnodes[3 * n + 1] = n / 3 + 1;
+        fnodes[3 * n + 2] = 1;
+    }
+    ck(cg_boco_write(fn, B, Z2, "frontnodes", BCSymmetryPlane, PointList, 9, fnodes, &BC), "front nodes");
     cgsize_t outlet[6] = {1, 3, 1, 2, 3, 1};
     ck(cg_boco_write(fn, B, Z2, "outlet", BCOutflow, PointRange, 2, outlet, &BC), "outlet");
     ck(cg_boco_gridlocation_write(fn, B, Z2, BC, JFaceCenter), "outlet location");
@@ -269,6 +279,9 @@ static void slab3d(void) {
     ck(cg_boco_write(fn, B, Z, "outlet", BCOutflow, PointList, 1, outlet, &BC), "outlet");
     ck(cg_boco_gridlocation_write(fn, B, Z, BC, FaceCenter), "outlet location");
     ck(cg_boco_write(fn, B, Z, "symmetry", BCSymmetryPlane, ElementRange, 2, sym, &BC), "symmetry");
+    /* The front plane by its nodes, every one of them on the boundary. */
+    cgsize_t fnodes[6] = {1, 2, 3, 4, 5, 6};
+    ck(cg_boco_write(fn, B, Z, "frontnodes", BCSymmetryPlane, PointList, 6, fnodes, &BC), "front nodes");
     ck(cg_close(fn), "close");
 }
 
