@@ -24,9 +24,10 @@ stored the way 3D solvers take one is read as its lower plane: in VTK a slab
 one cell thick of hexahedra, voxels or wedges (side quads are its boundary
 faces), in CGNS structured zones one node plane or one cell thick or an
 unstructured zone of HEXA_8 and PENTA_6 one cell thick; a note says what was
-left out with the front and back (patches, BCs and their tags). The report
-ends with the boundary faces of each tag, so that you can see which tags the
-file brought.
+left out with the front and back (patches, BCs and their tags), and for CGNS
+another gives the BC type the file records for each tag. The report ends with
+the boundary faces of each tag, so that you can see which tags the file
+brought.
 
 A mesh inside a deck (a quality.json beside it) is graded with the limits the
 deck records, so the check gives the deck's verdict; --limits applies on top of

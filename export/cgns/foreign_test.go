@@ -103,13 +103,21 @@ func TestReadForeignStructured(t *testing.T) {
 				t.Fatal(err)
 			}
 			checkTwoZone(t, m)
-			// The front and back BCs are left out, and the note says so:
-			// kept, the front by its nodes would tag the right zone's
-			// every boundary edge.
-			want := []string(nil)
-			if file == "twozone3d.cgns" {
+			// The front and back BCs are left out, and a note says so
+			// (kept, the front by its nodes would tag the right zone's
+			// every boundary edge); another gives each tag's BC type as
+			// foreign.c writes it.
+			types := "boundary condition types in the file: inlet BCInflow, walls BCWall, outlet BCOutflow"
+			want := []string{types}
+			switch file {
+			case "onesided.cgns":
+				want = []string{strings.Replace(types, "BCWall", "BCWall or BCWallViscous", 1)}
+				if _, err := ReadDeck(filepath.Join(dir, file)); err == nil || !strings.Contains(err.Error(), "one tag takes one boundary condition") {
+					t.Errorf("ReadDeck of walls BCs of two types: %v", err)
+				}
+			case "twozone3d.cgns":
 				want = []string{"a 3D base read as 2D: the k = 1 plane of each structured zone; BCs on the front and back left out: " +
-					"left/front (tag front), left/back (tag back), right/frontnodes (tag frontnodes)"}
+					"left/front (tag front), left/back (tag back), right/frontnodes (tag frontnodes)", types}
 			}
 			if !slices.Equal(notes, want) {
 				t.Errorf("notes %q, want %q", notes, want)
@@ -284,7 +292,8 @@ func TestReadForeignSlab(t *testing.T) {
 		t.Fatal(err)
 	}
 	want := []string{"a 3D base read as 2D: zone dom, a slab one cell thick between z = 0.5 and z = 0.75, read as its lower plane; " +
-		"BCs on the front and back left out: symmetry (tag symmetry, 4 of its 4 faces), frontnodes (tag frontnodes, by its nodes)"}
+		"BCs on the front and back left out: symmetry (tag symmetry, 4 of its 4 faces), frontnodes (tag frontnodes, by its nodes)",
+		"boundary condition types in the file: inlet BCInflow, walls BCWall, outlet BCOutflow"}
 	if !slices.Equal(notes, want) {
 		t.Errorf("notes %q, want %q", notes, want)
 	}

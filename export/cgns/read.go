@@ -73,14 +73,43 @@ func Read(path string) (*mesh.Mesh, error) {
 
 // ReadNotes is Read that also returns notes on how the file was read
 // where the mesh does not show it, for a user who did not write the file:
-// a 3D base read as a 2D plane, and the BCs on the front and back of the
-// slab that were left out with it.
+// a 3D base read as a 2D plane, the BCs on the front and back of the slab
+// that were left out with it, and the BC types the file gives each tag
+// (all of them where its BCs disagree, which ReadDeck refuses).
 func ReadNotes(path string) (*mesh.Mesh, []string, error) {
 	r, m, err := open(path)
 	if err != nil {
 		return nil, nil, err
 	}
+	var types []string
+	for _, tag := range m.Tags {
+		ts := r.tagTypes(tag)
+		if len(ts) == 0 {
+			continue
+		}
+		names := make([]string, len(ts))
+		for i, t := range ts {
+			names[i] = bcTypeName(t)
+		}
+		types = append(types, tag+" "+strings.Join(names, " or "))
+	}
+	if len(types) > 0 {
+		r.notes = append(r.notes, "boundary condition types in the file: "+strings.Join(types, ", "))
+	}
 	return m, r.notes, nil
+}
+
+// tagTypes returns the distinct BC types the file gives tag: the BCType of
+// its BCs, or the FamilyBC of its family when no BC names a type (see
+// ReadDeck); none for a tag without either, such as a periodic one.
+func (r *reader) tagTypes(tag string) []C.BCType_t {
+	if ts, ok := r.bcTypes[tag]; ok {
+		return ts
+	}
+	if ft, ok := r.famBC[tag]; ok {
+		return []C.BCType_t{ft}
+	}
+	return nil
 }
 
 // ReadDeck reads a CGNS file like Read and also returns the base name,
@@ -97,13 +126,9 @@ func ReadDeck(path string) (*Deck, error) {
 	}
 	d := &Deck{Mesh: m, Name: r.base}
 	for _, tag := range m.Tags {
-		ts, ok := r.bcTypes[tag]
-		if !ok {
-			ft, fam := r.famBC[tag]
-			if !fam {
-				continue
-			}
-			ts = []C.BCType_t{ft}
+		ts := r.tagTypes(tag)
+		if len(ts) == 0 {
+			continue
 		}
 		if len(ts) > 1 {
 			names := make([]string, len(ts))

@@ -34,7 +34,8 @@
  *                     plane's nodes as a Vertex PointList BC.
  *   highorder.cgns  - a TRI_6 section, which cvdeck does not read.
  *   onesided.cgns   - twozone.cgns with the join recorded on the second
- *                     zone only.
+ *                     zone only, and its walls BCs of two types (BCWall,
+ *                     BCWallViscous).
  *   pointjoin.cgns  - twozone.cgns's zones joined by a GridConnectivity_t
  *                     (point lists) instead, which cvdeck does not merge.
  *
@@ -165,7 +166,8 @@ static void twozone(enum join join) {
     ck(cg_boco_write(fn, B, Z2, "outlet", BCOutflow, PointRange, 2, outlet, &BC), "outlet");
     ck(cg_boco_gridlocation_write(fn, B, Z2, BC, EdgeCenter), "outlet location");
     cgsize_t wr[4] = {1, 1, 1, 3};
-    ck(cg_boco_write(fn, B, Z2, "walls", BCWall, PointRange, 2, wr, &BC), "walls right");
+    /* The one-sided file also gives the two walls BCs different types. */
+    ck(cg_boco_write(fn, B, Z2, "walls", join == ONE_SIDE ? BCWallViscous : BCWall, PointRange, 2, wr, &BC), "walls right");
     ck(cg_close(fn), "close");
 }
 
