@@ -73,7 +73,11 @@ func (sl *slab) on(vs []int32, zp float64) bool {
 // right-hand normal of an element's first face, nodes 1–4 of HEXA_8 or
 // 1–3 of PENTA_6, points towards its opposite face; so the lower face
 // keeps its order when it is the first face and is reversed when it is
-// the opposite one. Each element's other nodes must stand straight above
+// the opposite one. (For PENTA_6 this is the opposite of the VTK wedge,
+// whose first face's normal points away from its second; VTK 9.1's CGNS
+// reader and the CGNS tools' cgns_to_vtk copy PENTA_6 nodes onto VTK
+// wedges unchanged, and so report negative volumes for prisms read here
+// as positive.) Each element's other nodes must stand straight above
 // (within 1e-12 of the extent). TRI_3 and QUAD_4 elements lying in a plane
 // are the front and back patches, QUAD_4 spanning the planes are side
 // faces, and BAR_2 are lines; none of them is a cell.
