@@ -32,7 +32,7 @@ type CheckResult struct {
 }
 
 // Check reads a mesh that cvdeck may not have made (VTK .vtu or legacy
-// .vtk unstructured grid, or CGNS .cgns) and checks it against the limits
+// .vtk unstructured grid, VTK .vtp polygon mesh, or CGNS .cgns) and checks it against the limits
 // of the patches, applied in order (none: the default profile). Boundary
 // faces that carry no tag go into DefaultTag with a warning, so that only
 // geometry and connectivity decide the verdict. A failed check is a
@@ -50,12 +50,12 @@ func Check(path string, patches ...quality.Patch) (*CheckResult, error) {
 	var read []string
 	var err error
 	switch strings.ToLower(filepath.Ext(path)) {
-	case ".vtu", ".vtk":
+	case ".vtu", ".vtk", ".vtp":
 		m, read, err = vtk.ReadFileNotes(path)
 	case ".cgns":
 		m, read, err = cgns.ReadNotes(path)
 	default:
-		return nil, fmt.Errorf("%w: %s: cvdeck checks .vtu, .vtk and .cgns meshes, not %q", ErrInput, path, filepath.Ext(path))
+		return nil, fmt.Errorf("%w: %s: cvdeck checks .vtu, .vtk, .vtp and .cgns meshes, not %q", ErrInput, path, filepath.Ext(path))
 	}
 	if err != nil {
 		return nil, fmt.Errorf("%w: %w", ErrInput, err)

@@ -3,10 +3,12 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 
@@ -374,15 +376,30 @@ func sampleDeck(t *testing.T, name string) (dir, deckDir string) {
 // TestCheckOwnDeck: `cvdeck check` on a deck's mesh.vtu takes the boundary
 // tags from the boundary.vtp beside it, so the deck checks as it was
 // written; without that file the boundary goes into one tag, with a
-// warning. The same mesh read from mesh.cgns checks alike.
+// warning. The same mesh read from mesh.cgns checks alike, with a note
+// on the BC types the file gives its tags. The report lists each tag's
+// faces.
 func TestCheckOwnDeck(t *testing.T) {
 	_, deckDir := sampleDeck(t, "bump-channel")
 	type result struct {
+		Notes    []string `json:"notes"`
 		Warnings []string `json:"warnings"`
 		Quality  struct {
 			BoundaryFaces int `json:"boundary_faces"`
 			FailedCells   int `json:"failed_cells"`
+			Boundary      []struct {
+				Tag   string `json:"tag"`
+				Faces int    `json:"faces"`
+			} `json:"boundary"`
 		} `json:"quality"`
+	}
+	// tags gives the report's boundary list as "tag:faces" words.
+	tags := func(r result) string {
+		var w []string
+		for _, b := range r.Quality.Boundary {
+			w = append(w, fmt.Sprintf("%s:%d", b.Tag, b.Faces))
+		}
+		return strings.Join(w, " ")
 	}
 	check := func(path string) result {
 		code, stdout, errs := cvdeck(t, "check", path, "--json")
@@ -395,16 +412,29 @@ func TestCheckOwnDeck(t *testing.T) {
 		}
 		return r
 	}
-	if r := check(filepath.Join(deckDir, "mesh.vtu")); len(r.Warnings) != 0 || r.Quality.BoundaryFaces != 256 {
+	// The sample's counts: 96 cells along the floor, 32 of them on the
+	// bump's third of it, and 32 floor to ceiling.
+	const want = "floor:64 bump:32 outlet:32 ceiling:96 inlet:32"
+	if r := check(filepath.Join(deckDir, "mesh.vtu")); len(r.Warnings) != 0 || r.Quality.BoundaryFaces != 256 || tags(r) != want {
 		t.Fatalf("mesh.vtu with boundary.vtp: %+v", r)
 	}
-	if r := check(filepath.Join(deckDir, "mesh.cgns")); len(r.Warnings) != 0 || r.Quality.BoundaryFaces != 256 {
+	r := check(filepath.Join(deckDir, "mesh.cgns"))
+	if len(r.Warnings) != 0 || r.Quality.BoundaryFaces != 256 || tags(r) != want {
 		t.Fatalf("mesh.cgns: %+v", r)
+	}
+	if !slices.ContainsFunc(r.Notes, func(n string) bool {
+		return strings.HasPrefix(n, "boundary condition types in the file: floor BCWall")
+	}) {
+		t.Errorf("mesh.cgns notes %q give no BC types", r.Notes)
+	}
+	// boundary.vtp holds lines only: no mesh to check.
+	if code, _, errs := cvdeck(t, "check", filepath.Join(deckDir, "boundary.vtp")); code != 2 || !strings.Contains(errs, "no triangle, quad, pixel or polygon cells") {
+		t.Errorf("check boundary.vtp: exit %d: %s", code, errs)
 	}
 	if err := os.Remove(filepath.Join(deckDir, "boundary.vtp")); err != nil {
 		t.Fatal(err)
 	}
-	if r := check(filepath.Join(deckDir, "mesh.vtu")); len(r.Warnings) != 1 || !strings.Contains(r.Warnings[0], "carry no tag") {
+	if r := check(filepath.Join(deckDir, "mesh.vtu")); len(r.Warnings) != 1 || !strings.Contains(r.Warnings[0], "carry no tag") || tags(r) != "boundary:256" {
 		t.Fatalf("mesh.vtu alone: %+v", r)
 	}
 }

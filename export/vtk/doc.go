@@ -17,7 +17,8 @@
 //   - WriteVTS and WriteVTM: one XML StructuredGrid per structured block
 //     and the multiblock index that lists them.
 //
-// Readers (ReadFile, ReadVTU, ReadLegacy) accept what the VTK library
-// writes, including its defaults (zlib-compressed, base64 appended data),
-// and return a mesh.Mesh whose line cells became tagged boundary faces.
+// Readers (ReadFile, ReadVTU, ReadLegacy, ReadVTP) accept what the VTK
+// library writes, including its defaults (zlib-compressed, base64 appended
+// data), and return a mesh.Mesh whose line cells became tagged boundary
+// faces.
 package vtk

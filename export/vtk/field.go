@@ -18,15 +18,18 @@ const AreaName = "area"
 
 // VTK cell type codes (vtkCellType.h, VTK file-format document).
 const (
-	cellLine     = 3
-	cellPolyLine = 4
-	cellTriangle = 5
-	cellPolygon  = 7
-	cellPixel    = 8
-	cellQuad     = 9
-	cellVoxel    = 11
-	cellHex      = 12
-	cellWedge    = 13
+	cellVertex     = 1
+	cellPolyVertex = 2
+	cellLine       = 3
+	cellPolyLine   = 4
+	cellTriangle   = 5
+	cellStrip      = 6
+	cellPolygon    = 7
+	cellPixel      = 8
+	cellQuad       = 9
+	cellVoxel      = 11
+	cellHex        = 12
+	cellWedge      = 13
 )
 
 // cellType returns the VTK type of a cell with n nodes.

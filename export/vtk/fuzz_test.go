@@ -62,3 +62,21 @@ func FuzzReadLegacy(f *testing.F) {
 		ReadLegacy(data, "fuzz.vtk")
 	})
 }
+
+func FuzzReadVTP(f *testing.F) {
+	// A vertex, a tagged line and two polys (a triangle and a quad), as
+	// the VTK library numbers PolyData cells.
+	f.Add([]byte(`<VTKFile type="PolyData"><PolyData><Piece NumberOfPoints="5" NumberOfVerts="1" NumberOfLines="1" NumberOfPolys="2"><Points><DataArray type="Float64" NumberOfComponents="3" format="ascii">0 0 0 1 0 0 1 1 0 0 1 0 2 0 0</DataArray></Points>` +
+		`<Verts><DataArray type="Int32" Name="connectivity" format="ascii">0</DataArray><DataArray type="Int32" Name="offsets" format="ascii">1</DataArray></Verts>` +
+		`<Lines><DataArray type="Int32" Name="connectivity" format="ascii">0 1</DataArray><DataArray type="Int32" Name="offsets" format="ascii">2</DataArray></Lines>` +
+		`<Polys><DataArray type="Int32" Name="connectivity" format="ascii">1 4 2 0 1 2 3</DataArray><DataArray type="Int32" Name="offsets" format="ascii">3 7</DataArray></Polys>` +
+		`<CellData><Array type="String" Name="tag" format="ascii">0 119 97 108 108 0 0 0</Array></CellData></Piece></PolyData></VTKFile>`))
+	var b bytes.Buffer
+	if err := WriteBoundaryVTP(&b, mixedMesh(f, 2, 3, 0), nil); err != nil {
+		f.Fatal(err)
+	}
+	f.Add(b.Bytes())
+	f.Fuzz(func(t *testing.T, data []byte) {
+		ReadVTP(data, "fuzz.vtp")
+	})
+}

@@ -21,10 +21,11 @@ import (
 var tagArrayNames = []string{"boundary_tag", TagArray}
 
 // ReadFile reads an unstructured grid from a .vtu (XML) or .vtk (legacy)
-// file, chosen by the extension, and builds a mesh from it: triangles,
-// quads, pixels and polygons become cells; lines and polylines become
-// boundary faces tagged from the cell-data array named as tagArrayNames
-// says. Boundary faces without a tag (no tag array, no lines, or lines
+// file, or a polygon mesh from a .vtp (XML PolyData, see ReadVTP), chosen
+// by the extension, and builds a mesh from it: triangles, quads, pixels
+// and polygons become cells; lines and polylines become boundary faces
+// tagged from the cell-data array named as tagArrayNames says; vertex
+// cells are skipped, with a note. Boundary faces without a tag (no tag array, no lines, or lines
 // that leave part of the boundary out) stay untagged: see
 // mesh.Mesh.UntaggedRange. Node z coordinates must all be equal (a plane
 // mesh); they are dropped.
@@ -59,8 +60,10 @@ func ReadFileNotes(path string) (*mesh.Mesh, []string, error) {
 		g, err = parseVTU(data, path)
 	case ".vtk":
 		g, err = (&legacyReader{data: data, file: path}).read()
+	case ".vtp":
+		g, err = parseVTP(data, path)
 	default:
-		return nil, nil, fmt.Errorf("%s: unknown extension %q; cvdeck reads VTK unstructured grids as .vtu or .vtk", path, filepath.Ext(path))
+		return nil, nil, fmt.Errorf("%s: unknown extension %q; cvdeck reads VTK unstructured grids as .vtu or .vtk, and polygon meshes as .vtp", path, filepath.Ext(path))
 	}
 	if err != nil {
 		return nil, nil, err
@@ -171,6 +174,7 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 	if err != nil {
 		return nil, err
 	}
+	vertices := 0
 	for c := 0; c < nc; c++ {
 		nodes := g.cell(c)
 		t := g.types[c]
@@ -179,6 +183,9 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 			return nil, fmt.Errorf("%s: cell %d is a %s with %d points", g.file, c, cellTypeName[t], len(nodes))
 		}
 		switch t {
+		case cellVertex, cellPolyVertex:
+			vertices++
+			continue
 		case cellTriangle, cellQuad, cellPolygon:
 			for _, v := range nodes {
 				in.CellNodes = append(in.CellNodes, int32(v))
@@ -203,6 +210,13 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 	}
 	if len(in.CellStart) == 1 {
 		return nil, fmt.Errorf("%s: no triangle, quad, pixel or polygon cells; nothing to check", g.file)
+	}
+	if vertices > 0 {
+		what := "vertex cells"
+		if vertices == 1 {
+			what = "vertex cell"
+		}
+		g.notes = append(g.notes, fmt.Sprintf("%d %s skipped", vertices, what))
 	}
 	m, err := mesh.Build(in)
 	if err != nil {

@@ -4,6 +4,8 @@ import (
 	"fmt"
 
 	"github.com/paulmach/orb"
+
+	"cvdeck/mesh"
 )
 
 // BoundaryLine is one line cell of a boundary polydata file: its two end
@@ -56,4 +58,92 @@ func ReadBoundaryVTP(data []byte, name string) ([]BoundaryLine, error) {
 		start = end
 	}
 	return out, nil
+}
+
+// ReadVTP builds a mesh from the bytes of an XML PolyData (.vtp) file, the
+// form the VTK library gives a 2D triangulation (name is used in errors);
+// see ReadFile. Polys are the cells (triangles, quads, polygons); lines
+// and polylines are boundary faces, tagged as in an unstructured grid;
+// vertices are skipped with a note. Cell numbers, and so the tag arrays,
+// run as the VTK library numbers a PolyData's cells: verts, lines, polys,
+// then strips. Triangle strips are refused: split them into triangles
+// first.
+func ReadVTP(data []byte, name string) (*mesh.Mesh, error) {
+	g, err := parseVTP(data, name)
+	if err != nil {
+		return nil, err
+	}
+	return g.toMesh()
+}
+
+// vtpSections are the cell elements of a PolyData piece in cell-number
+// order, with the attribute giving each one's count.
+var vtpSections = []struct{ elem, count string }{
+	{"Verts", "NumberOfVerts"}, {"Lines", "NumberOfLines"}, {"Polys", "NumberOfPolys"}, {"Strips", "NumberOfStrips"},
+}
+
+// parseVTP reads the grid of an XML PolyData file: its sections one after
+// another as one cell list, each cell typed by its section and size.
+func parseVTP(data []byte, name string) (*grid, error) {
+	x, p, g, err := readHead(data, name, "PolyData")
+	if err != nil {
+		return nil, err
+	}
+	for _, sec := range vtpSections {
+		n := 0
+		if p.attr[sec.count] != "" {
+			if n, err = x.count(p, sec.count); err != nil {
+				return nil, err
+			}
+		}
+		if n == 0 {
+			continue
+		}
+		if sec.elem == "Strips" {
+			return nil, fmt.Errorf("%s: %d triangle strips; cvdeck reads polys (triangles, quads, polygons), so split the strips into triangles first", name, n)
+		}
+		cells := p.child(sec.elem)
+		if cells == nil {
+			return nil, fmt.Errorf("%s: %s=%d but the Piece has no %s element", name, sec.count, n, sec.elem)
+		}
+		arrays, err := x.cellArrays(cells, []string{"connectivity", "offsets"})
+		if err != nil {
+			return nil, err
+		}
+		conn, offsets := arrays["connectivity"], arrays["offsets"]
+		if len(offsets) != n {
+			return nil, fmt.Errorf("%s: %s/offsets has %d values for %s=%d", name, sec.elem, len(offsets), sec.count, n)
+		}
+		base := int64(len(g.conn))
+		start := int64(0)
+		for c, end := range offsets {
+			if end < start || end > int64(len(conn)) {
+				return nil, fmt.Errorf("%s: %s cell %d: offset %d is out of order or past the %d connectivity entries", name, sec.elem, c, end, len(conn))
+			}
+			g.offsets = append(g.offsets, base+end)
+			g.types = append(g.types, polyDataType(sec.elem, end-start))
+			start = end
+		}
+		g.conn = append(g.conn, conn...)
+	}
+	return g, nil
+}
+
+// polyDataType is the cell type of an n-point cell of a PolyData section.
+func polyDataType(elem string, n int64) int64 {
+	switch {
+	case elem == "Verts" && n == 1:
+		return cellVertex
+	case elem == "Verts":
+		return cellPolyVertex
+	case elem == "Lines" && n == 2:
+		return cellLine
+	case elem == "Lines":
+		return cellPolyLine
+	case n == 3:
+		return cellTriangle
+	case n == 4:
+		return cellQuad
+	}
+	return cellPolygon
 }

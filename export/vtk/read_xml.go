@@ -48,16 +48,43 @@ func parseVTU(data []byte, name string) (*grid, error) {
 // names. It returns the grid and the piece's cell count (the attribute
 // countAttr).
 func readPiece(data []byte, name, dataset, countAttr, cellsElem string, want ...string) (*grid, int, error) {
-	x, err := parseXML(data, name)
+	x, p, g, err := readHead(data, name, dataset)
 	if err != nil {
 		return nil, 0, err
 	}
+	nc, err := x.count(p, countAttr)
+	if err != nil {
+		return nil, 0, err
+	}
+	cells := p.child(cellsElem)
+	if cells == nil {
+		return nil, 0, fmt.Errorf("%s: Piece has no %s element", name, cellsElem)
+	}
+	arrays, err := x.cellArrays(cells, want)
+	if err != nil {
+		return nil, 0, err
+	}
+	g.conn, g.offsets = arrays["connectivity"], arrays["offsets"]
+	if slices.Contains(want, "types") {
+		g.types = arrays["types"]
+	}
+	return g, nc, nil
+}
+
+// readHead reads the one piece of an XML file of the given dataset type
+// into a grid with its points, cell-data tag arrays and field-data tag
+// names but no cells, and returns the file and the piece for reading them.
+func readHead(data []byte, name, dataset string) (*xmlFile, *element, *grid, error) {
+	x, err := parseXML(data, name)
+	if err != nil {
+		return nil, nil, nil, err
+	}
 	if t := x.root.attr["type"]; t != dataset {
-		return nil, 0, fmt.Errorf("%s: VTKFile type is %q; cvdeck reads %s files here", name, t, dataset)
+		return nil, nil, nil, fmt.Errorf("%s: VTKFile type is %q; cvdeck reads %s files here", name, t, dataset)
 	}
 	ds := x.root.child(dataset)
 	if ds == nil {
-		return nil, 0, fmt.Errorf("%s: no %s element", name, dataset)
+		return nil, nil, nil, fmt.Errorf("%s: no %s element", name, dataset)
 	}
 	var pieces []*element
 	for _, c := range ds.children {
@@ -66,37 +93,44 @@ func readPiece(data []byte, name, dataset, countAttr, cellsElem string, want ...
 		}
 	}
 	if len(pieces) != 1 {
-		return nil, 0, fmt.Errorf("%s: %d pieces; cvdeck reads single-piece files", name, len(pieces))
+		return nil, nil, nil, fmt.Errorf("%s: %d pieces; cvdeck reads single-piece files", name, len(pieces))
 	}
 	p := pieces[0]
 	np, err := x.count(p, "NumberOfPoints")
 	if err != nil {
-		return nil, 0, err
-	}
-	nc, err := x.count(p, countAttr)
-	if err != nil {
-		return nil, 0, err
+		return nil, nil, nil, err
 	}
 	g := &grid{file: name}
 	pts := p.child("Points")
 	if pts == nil || len(pts.arrays()) != 1 {
-		return nil, 0, fmt.Errorf("%s: Piece needs a Points element with one DataArray", name)
+		return nil, nil, nil, fmt.Errorf("%s: Piece needs a Points element with one DataArray", name)
 	}
 	pa, err := x.read(pts.arrays()[0], "Points")
 	if err != nil {
-		return nil, 0, err
+		return nil, nil, nil, err
 	}
 	if pa.strs != nil {
-		return nil, 0, fmt.Errorf("%s: Points is a String array; it must be numeric", name)
+		return nil, nil, nil, fmt.Errorf("%s: Points is a String array; it must be numeric", name)
 	}
 	if pa.comps != 3 || pa.length() != 3*np {
-		return nil, 0, fmt.Errorf("%s: Points has %d values in %d components; want 3 components for %d points", name, pa.length(), pa.comps, np)
+		return nil, nil, nil, fmt.Errorf("%s: Points has %d values in %d components; want 3 components for %d points", name, pa.length(), pa.comps, np)
 	}
 	g.points = pa.asFloats()
-	cells := p.child(cellsElem)
-	if cells == nil {
-		return nil, 0, fmt.Errorf("%s: Piece has no %s element", name, cellsElem)
+	// Of the cell and field data only the boundary tags are used; other
+	// arrays (a deck's quality fields, say) are not decoded at all.
+	if g.cellData, err = x.readNamed(p.child("CellData"), tagArrayNames); err != nil {
+		return nil, nil, nil, err
 	}
+	if g.fieldData, err = x.readNamed(ds.child("FieldData"), []string{TagNamesArray}); err != nil {
+		return nil, nil, nil, err
+	}
+	return x, p, g, nil
+}
+
+// cellArrays decodes the integer DataArrays named in want of the cell
+// element cells (Cells, or Lines, Polys and so on), by name.
+func (x *xmlFile) cellArrays(cells *element, want []string) (map[string][]int64, error) {
+	out := make(map[string][]int64, len(want))
 	for _, w := range want {
 		var el *element
 		for _, a := range cells.arrays() {
@@ -105,33 +139,18 @@ func readPiece(data []byte, name, dataset, countAttr, cellsElem string, want ...
 			}
 		}
 		if el == nil {
-			return nil, 0, fmt.Errorf("%s: %s has no %q DataArray", name, cellsElem, w)
+			return nil, fmt.Errorf("%s: %s has no %q DataArray", x.name, cells.name, w)
 		}
-		a, err := x.read(el, cellsElem+"/"+w)
+		a, err := x.read(el, cells.name+"/"+w)
 		if err != nil {
-			return nil, 0, err
+			return nil, err
 		}
 		if a.ints == nil {
-			return nil, 0, fmt.Errorf("%s: %s/%s is of type %s; it must be an integer array", name, cellsElem, w, el.attr["type"])
+			return nil, fmt.Errorf("%s: %s/%s is of type %s; it must be an integer array", x.name, cells.name, w, el.attr["type"])
 		}
-		switch w {
-		case "connectivity":
-			g.conn = a.ints
-		case "offsets":
-			g.offsets = a.ints
-		case "types":
-			g.types = a.ints
-		}
+		out[w] = a.ints
 	}
-	// Of the cell and field data only the boundary tags are used; other
-	// arrays (a deck's quality fields, say) are not decoded at all.
-	if g.cellData, err = x.readNamed(p.child("CellData"), tagArrayNames); err != nil {
-		return nil, 0, err
-	}
-	if g.fieldData, err = x.readNamed(ds.child("FieldData"), []string{TagNamesArray}); err != nil {
-		return nil, 0, err
-	}
-	return g, nc, nil
+	return out, nil
 }
 
 // readNamed decodes the DataArrays of el (which may be nil) whose Name is
