@@ -17,7 +17,7 @@ func newCheckCommand(g *globals) *cobra.Command {
 		Use:   "check FILE",
 		Short: "Check an existing mesh (.vtu, .vtk, .vtp or .cgns), made by cvdeck or not",
 		Long: `check reads a mesh file — a VTK XML (.vtu) or legacy (.vtk) unstructured grid
-or an XML polygon mesh (.vtp), with triangles, quads or polygons (line cells are
+or polygon mesh (XML .vtp, legacy POLYDATA .vtk), with triangles, quads or polygons (line cells are
 boundary faces, tagged by a "boundary_tag" or "tag" cell array; vertex cells are
 skipped), or a CGNS file — and runs every quality metric, the connectivity
 checks and the conservation audit on it. A 2D case stored the way 3D solvers

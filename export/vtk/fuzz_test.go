@@ -58,6 +58,9 @@ func FuzzReadLegacy(f *testing.F) {
 		"0 0 0 1 0 0 2 0 0 0 1 0 1 1 0 2 1 0 0 0 1 1 0 1 2 0 1 0 1 1 1 1 1 2 1 1\n" +
 		"CELLS 5 29\n8 0 1 4 3 6 7 10 9\n6 1 4 5 7 10 11\n4 0 1 7 6\n4 0 1 4 3\n2 6 7\n" +
 		"CELL_TYPES 5\n12\n13\n9\n9\n3\nCELL_DATA 5\nSCALARS tag int 1\nLOOKUP_TABLE default\n-1 -1 0 1 0\n"))
+	// A POLYDATA in the 4.2 layout, its sections out of order.
+	f.Add([]byte("# vtk DataFile Version 4.2\nt\nASCII\nDATASET POLYDATA\nPOINTS 3 float\n0 0 0 1 0 0 0 1 0\n" +
+		"POLYGONS 1 4\n3 0 1 2\nLINES 1 3\n2 0 1\nVERTICES 1 2\n1 2\nCELL_DATA 3\nSCALARS tag int 1\nLOOKUP_TABLE default\n-1 0 -1\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		ReadLegacy(data, "fuzz.vtk")
 	})

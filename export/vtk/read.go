@@ -21,8 +21,8 @@ import (
 var tagArrayNames = []string{"boundary_tag", TagArray}
 
 // ReadFile reads an unstructured grid from a .vtu (XML) or .vtk (legacy)
-// file, or a polygon mesh from a .vtp (XML PolyData, see ReadVTP), chosen
-// by the extension, and builds a mesh from it: triangles, quads, pixels
+// file, or a polygon mesh from a .vtp (XML PolyData, see ReadVTP) or a
+// legacy POLYDATA .vtk, chosen by the extension, and builds a mesh from it: triangles, quads, pixels
 // and polygons become cells; lines and polylines become boundary faces
 // tagged from the cell-data array named as tagArrayNames says; vertex
 // cells are skipped, with a note. Boundary faces without a tag (no tag array, no lines, or lines

@@ -13,11 +13,13 @@ import (
 )
 
 // ReadLegacy builds a mesh from the bytes of a legacy .vtk
-// UNSTRUCTURED_GRID file (name is used in errors); see ReadFile. It reads
-// ASCII and binary (big-endian) files in both cell layouts: version ≤ 4.2
-// (CELLS as count-prefixed lists) and 5.1 (OFFSETS and CONNECTIVITY, the
-// VTK library's default since VTK 9), with CELL_DATA as SCALARS or FIELD
-// arrays ("Simple Legacy Formats", VTK file-format document).
+// UNSTRUCTURED_GRID or POLYDATA file (name is used in errors); see ReadFile
+// and, for the cells of a POLYDATA, ReadVTP. It reads ASCII and binary
+// (big-endian) files in both cell layouts: version ≤ 4.2 (CELLS, or
+// VERTICES, LINES and POLYGONS, as count-prefixed lists) and 5.1 (OFFSETS
+// and CONNECTIVITY, the VTK library's default since VTK 9), with CELL_DATA
+// as SCALARS or FIELD arrays ("Simple Legacy Formats", VTK file-format
+// document).
 func ReadLegacy(data []byte, name string) (*mesh.Mesh, error) {
 	r := &legacyReader{data: data, file: name}
 	g, err := r.read()
@@ -303,11 +305,23 @@ func (r *legacyReader) read() (*grid, error) {
 	if w := r.word(); w != "DATASET" {
 		return nil, r.errorf("want DATASET, found %q", w)
 	}
-	if t := r.word(); t != "UNSTRUCTURED_GRID" {
-		return nil, r.errorf("dataset type %s; cvdeck reads UNSTRUCTURED_GRID", t)
+	poly := false
+	switch t := r.word(); t {
+	case "UNSTRUCTURED_GRID":
+	case "POLYDATA":
+		poly = true
+	default:
+		return nil, r.errorf("dataset type %s; cvdeck reads UNSTRUCTURED_GRID and POLYDATA", t)
 	}
 	section := "" // "" (geometry), CELL_DATA or POINT_DATA
 	nc := -1
+	// The cell sections of a POLYDATA file, numbered in this order as the
+	// VTK library numbers a PolyData's cells, whatever their order in the
+	// file.
+	polySections := map[string]*grid{}
+	if poly {
+		nc = 0
+	}
 	for {
 		kw := r.word()
 		if kw == "" {
@@ -327,7 +341,25 @@ func (r *legacyReader) read() (*grid, error) {
 			g.points = a.asFloats()
 			r.skipMetadata()
 		case "CELLS":
-			err = r.cells(g)
+			if poly {
+				return nil, r.errorf("CELLS in a POLYDATA file; its cells are VERTICES, LINES, POLYGONS and TRIANGLE_STRIPS")
+			}
+			err = r.cells(g, kw)
+		case "VERTICES", "LINES", "POLYGONS", "TRIANGLE_STRIPS":
+			if !poly {
+				return nil, r.errorf("%s in an UNSTRUCTURED_GRID file; its cells are CELLS and CELL_TYPES", kw)
+			}
+			if kw == "TRIANGLE_STRIPS" {
+				return nil, r.errorf("TRIANGLE_STRIPS; cvdeck reads polygons (triangles, quads, polygons), so split the strips into triangles first")
+			}
+			if polySections[kw] != nil {
+				return nil, r.errorf("a second %s section", kw)
+			}
+			sec := &grid{}
+			if err = r.cells(sec, kw); err == nil {
+				polySections[kw] = sec
+				nc += len(sec.offsets)
+			}
 		case "CELL_TYPES":
 			var n int
 			if n, err = r.count("CELL_TYPES"); err != nil {
@@ -366,19 +398,36 @@ func (r *legacyReader) read() (*grid, error) {
 			return nil, err
 		}
 	}
-	if g.types == nil {
+	if poly {
+		for _, kw := range []string{"VERTICES", "LINES", "POLYGONS"} {
+			sec := polySections[kw]
+			if sec == nil {
+				continue
+			}
+			elem := map[string]string{"VERTICES": "Verts", "LINES": "Lines", "POLYGONS": "Polys"}[kw]
+			base, start := int64(len(g.conn)), int64(0)
+			for _, end := range sec.offsets {
+				g.offsets = append(g.offsets, base+end)
+				g.types = append(g.types, polyDataType(elem, end-start))
+				start = end
+			}
+			g.conn = append(g.conn, sec.conn...)
+		}
+	}
+	if g.types == nil && !poly {
 		return nil, r.errorf("no CELL_TYPES section")
 	}
 	return g, nil
 }
 
-// cells reads a CELLS section in either layout.
-func (r *legacyReader) cells(g *grid) error {
-	n, err := r.count("CELLS")
+// cells reads a CELLS section (or, in POLYDATA, the section named kw) in
+// either layout.
+func (r *legacyReader) cells(g *grid, kw string) error {
+	n, err := r.count(kw)
 	if err != nil {
 		return err
 	}
-	size, err := r.count("CELLS")
+	size, err := r.count(kw)
 	if err != nil {
 		return err
 	}
@@ -405,7 +454,7 @@ func (r *legacyReader) cells(g *grid) error {
 		return nil
 	}
 	r.pos = save
-	a, err := r.values(size, "int", "CELLS")
+	a, err := r.values(size, "int", kw)
 	if err != nil {
 		return err
 	}
@@ -413,7 +462,7 @@ func (r *legacyReader) cells(g *grid) error {
 	g.conn = make([]int64, 0, max(size-n, 0))
 	for i, c := 0, 0; c < n; c++ {
 		if i >= len(a.ints) || a.ints[i] < 0 || int64(i)+1+a.ints[i] > int64(len(a.ints)) {
-			return r.errorf("CELLS: cell %d's node count at entry %d runs past the %d entries", c, i, size)
+			return r.errorf("%s: cell %d's node count at entry %d runs past the %d entries", kw, c, i, size)
 		}
 		k := int(a.ints[i])
 		g.conn = append(g.conn, a.ints[i+1:i+1+k]...)

@@ -2,6 +2,7 @@ package vtk
 
 import (
 	"math"
+	"os"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -16,8 +17,9 @@ import (
 // cell marking a probe point, and a String cell array boundary_tag in the
 // library's cell order (verts, lines, polys). It writes the PolyData with
 // vtkXMLPolyDataWriter in its default (appended, zlib-compressed) and
-// ASCII forms and prints, for each, the triangle areas vtkCellSizeFilter
-// gives the file as read back, and the line count per tag.
+// ASCII forms and with vtkPolyDataWriter as legacy ASCII and binary, and
+// prints, for each, the triangle areas vtkCellSizeFilter gives the file as
+// read back, and the line count per tag.
 const vtkTriangulationScript = `
 import sys, json, math, vtk
 from vtk.util.numpy_support import vtk_to_numpy
@@ -61,11 +63,15 @@ for p in polys:
 mesh.SetVerts(verts); mesh.SetLines(lines); mesh.SetPolys(cells)
 mesh.GetCellData().AddArray(tag)
 res = {}
-for name, ascii in (('tri.vtp', False), ('tri-ascii.vtp', True)):
-    w = vtk.vtkXMLPolyDataWriter(); w.SetInputData(mesh); w.SetFileName(out + '/' + name)
-    if ascii: w.SetDataModeToAscii()
+for name, ascii in (('tri.vtp', False), ('tri-ascii.vtp', True), ('tri.vtk', True), ('tri-binary.vtk', False)):
+    xml = name.endswith('.vtp')
+    w = vtk.vtkXMLPolyDataWriter() if xml else vtk.vtkPolyDataWriter()
+    w.SetInputData(mesh); w.SetFileName(out + '/' + name)
+    if xml and ascii: w.SetDataModeToAscii()
+    if not xml and not ascii: w.SetFileTypeToBinary()
     if not w.Write(): raise SystemExit('write failed: ' + name)
-    r = vtk.vtkXMLPolyDataReader(); r.SetFileName(out + '/' + name); r.Update()
+    r = vtk.vtkXMLPolyDataReader() if xml else vtk.vtkPolyDataReader()
+    r.SetFileName(out + '/' + name); r.Update()
     f = vtk.vtkCellSizeFilter(); f.SetInputData(r.GetOutput()); f.ComputeAreaOn(); f.Update()
     area = vtk_to_numpy(f.GetOutput().GetCellData().GetArray('Area')).tolist()
     g = r.GetOutput()
@@ -74,7 +80,7 @@ print(json.dumps({'files': res, 'sides': sides, 'nodes': mesh.GetNumberOfPoints(
 `
 
 // TestReadVTPWrittenByVTK: a triangulation the VTK library made and wrote
-// as PolyData reads as a mesh of its triangles, each with the area
+// as PolyData, XML or legacy, reads as a mesh of its triangles, each with the area
 // vtkCellSizeFilter gives it (to 1e-12 relative), counter-clockwise, the
 // boundary lines tagged as written and the vertex cell skipped with a
 // note.
@@ -86,7 +92,7 @@ func TestReadVTPWrittenByVTK(t *testing.T) {
 		Nodes int                  `json:"nodes"`
 	}
 	runPython(t, vtkTriangulationScript, &got, dir)
-	if len(got.Files) != 2 {
+	if len(got.Files) != 4 {
 		t.Fatalf("the script wrote %d files", len(got.Files))
 	}
 	for name, ref := range got.Files {
@@ -144,5 +150,29 @@ func TestReadVTPErrors(t *testing.T) {
 		if err == nil || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("%s: %v, want an error saying %q", c.name, err, c.want)
 		}
+	}
+}
+
+// A legacy POLYDATA file in the count-prefixed layout, its sections out of
+// the usual order: the cells still number verts, lines, polys, as the VTK
+// library numbers a PolyData's cells whatever the file order, so the tag
+// array's second value (0) tags the line.
+func TestReadLegacyPolyDataOrder(t *testing.T) {
+	file := "# vtk DataFile Version 4.2\nt\nASCII\nDATASET POLYDATA\nPOINTS 3 float\n0 0 0 1 0 0 0 1 0\n" +
+		"POLYGONS 1 4\n3 0 1 2\nLINES 1 3\n2 0 1\nVERTICES 1 2\n1 2\n" +
+		"CELL_DATA 3\nSCALARS tag int 1\nLOOKUP_TABLE default\n-1 0 -1\n"
+	path := filepath.Join(t.TempDir(), "order.vtk")
+	if err := os.WriteFile(path, []byte(file), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	m, notes, err := ReadFileNotes(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if lo, hi, ok := m.TagRange("0"); !ok || hi-lo != 1 || m.NumCells() != 1 || !slices.Equal(notes, []string{"1 vertex cell skipped"}) {
+		t.Errorf("tags %v, %d cells, notes %q; want the line tagged 0, 1 cell, the vertex skipped", m.Tags, m.NumCells(), notes)
+	}
+	if f := m.NumInterior; m.FaceNodes[f] != [2]int32{0, 1} {
+		t.Errorf("tagged face joins %v, want 0-1", m.FaceNodes[f])
 	}
 }
