@@ -22,11 +22,12 @@ var tagArrayNames = []string{"boundary_tag", TagArray}
 
 // ReadFile reads an unstructured grid from a .vtu (XML) or .vtk (legacy)
 // file, or a polygon mesh from a .vtp (XML PolyData, see ReadVTP) or a
-// legacy POLYDATA .vtk, chosen by the extension, and builds a mesh from it: triangles, quads, pixels
-// and polygons become cells; lines and polylines become boundary faces
-// tagged from the cell-data array named as tagArrayNames says; vertex
-// cells are skipped, with a note. Boundary faces without a tag (no tag array, no lines, or lines
-// that leave part of the boundary out) stay untagged: see
+// legacy POLYDATA .vtk, chosen by the extension, and builds a mesh from
+// it: triangles, quads, pixels and polygons become cells; lines and
+// polylines become boundary faces tagged from the cell-data array named
+// as tagArrayNames says; vertex cells are skipped, with a note (see
+// ReadFileNotes). Boundary faces without a tag (no tag array, no lines,
+// or lines that leave part of the boundary out) stay untagged: see
 // mesh.Mesh.UntaggedRange. Node z coordinates must all be equal (a plane
 // mesh); they are dropped.
 //
@@ -46,9 +47,9 @@ func ReadFile(path string) (*mesh.Mesh, error) {
 
 // ReadFileNotes is ReadFile that also returns notes on how the file was
 // read where the mesh does not show it, for a user who did not write the
-// file: the z of a plane mesh that does not lie on z = 0, and for a slab
-// its planes and what was left out (front and back patches and lines on
-// the upper plane, with their tags).
+// file: the z of a plane mesh that does not lie on z = 0, the vertex cells
+// skipped, and for a slab its planes and what was left out (front and back
+// patches and lines on the upper plane, with their tags).
 func ReadFileNotes(path string) (*mesh.Mesh, []string, error) {
 	data, err := os.ReadFile(path)
 	if err != nil {

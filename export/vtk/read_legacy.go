@@ -406,7 +406,10 @@ func (r *legacyReader) read() (*grid, error) {
 			}
 			elem := map[string]string{"VERTICES": "Verts", "LINES": "Lines", "POLYGONS": "Polys"}[kw]
 			base, start := int64(len(g.conn)), int64(0)
-			for _, end := range sec.offsets {
+			for c, end := range sec.offsets {
+				if end < start || end > int64(len(sec.conn)) {
+					return nil, fmt.Errorf("%s: %s cell %d: offset %d is out of order or past the section's %d connectivity entries", r.file, kw, c, end, len(sec.conn))
+				}
 				g.offsets = append(g.offsets, base+end)
 				g.types = append(g.types, polyDataType(elem, end-start))
 				start = end

@@ -230,6 +230,7 @@ func TestReadErrors(t *testing.T) {
 		{"# vtk DataFile Version 4.2\nt\nASCII\nDATASET UNSTRUCTURED_GRID\nPOINTS 3 float\n0 0 0 1 0 0 0 1 0\nPOLYGONS 1 4\n3 0 1 2\n", "POLYGONS in an UNSTRUCTURED_GRID file"},
 		{"# vtk DataFile Version 4.2\nt\nASCII\nDATASET POLYDATA\nPOINTS 3 float\n0 0 0 1 0 0 0 1 0\nPOLYGONS 1 4\n3 0 1 2\nPOLYGONS 1 4\n3 0 1 2\n", "a second POLYGONS section"},
 		{"# vtk DataFile Version 4.2\nt\nASCII\nDATASET POLYDATA\nPOINTS 3 float\n0 0 0 1 0 0 0 1 0\nPOLYGONS 1 4\n3 0 1 2\nCELL_DATA 2\n", "CELL_DATA 2 for 1 cells"},
+		{"# vtk DataFile Version 5.1\nt\nASCII\nDATASET POLYDATA\nPOINTS 3 float\n0 0 0 1 0 0 0 1 0\nLINES 2 2\nOFFSETS vtktypeint64\n0 3\nCONNECTIVITY vtktypeint64\n0 1\nPOLYGONS 2 3\nOFFSETS vtktypeint64\n0 3\nCONNECTIVITY vtktypeint64\n0 1 2\n", "LINES cell 0: offset 3 is out of order or past the section's 2 connectivity entries"},
 		{"# vtk DataFile Version 4.2\nt\nASCII\nDATASET UNSTRUCTURED_GRID\nPOINTS 3 double\n0 0 0 1 0 0 1 x 0\n", "bad.vtk:6: POINTS: value 7 of 9: \"x\""},
 		{"# vtk DataFile Version 4.2\nt\nBINARY\nDATASET UNSTRUCTURED_GRID\nPOINTS 3 double\n\x00\x00", "need 72 bytes"},
 		{"# vtk DataFile Version 4.2\nt\nASCII\nDATASET UNSTRUCTURED_GRID\nPOINTS 3 double\n0 0 0 1 0 0 1 1 0\nCELLS 1 5\n4 0 1 2\n", "CELLS: the file ends after 4 of 5 values"},
