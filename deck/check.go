@@ -2,13 +2,16 @@ package deck
 
 import (
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
 	"slices"
 	"strings"
 
+	"cvdeck/export/atomic"
 	"cvdeck/export/cgns"
+	"cvdeck/export/preview"
 	"cvdeck/export/vtk"
 	"cvdeck/mesh"
 	"cvdeck/quality"
@@ -46,6 +49,26 @@ type CheckResult struct {
 // quality.json that cannot be read as a report gives a warning and the
 // default profile.
 func Check(path string, patches ...quality.Patch) (*CheckResult, error) {
+	return CheckAndWrite(path, "", patches...)
+}
+
+// CheckAndWrite is Check that also writes, when dir is not "", the folder
+// dir as a whole (replacing it, as a deck folder is replaced) so that the
+// cells can be seen: CheckFiles, the mesh as read with every per-cell
+// metric, its status and defects as cell data, its boundary tags, the
+// report and a preview picture zoomed on the worst cells. It is written
+// whatever the verdict, and refused if the mesh file lies inside dir.
+// Checking dir's mesh.vtu again gives the same report: its tags and limits
+// come from the files beside it.
+func CheckAndWrite(path, dir string, patches ...quality.Patch) (*CheckResult, error) {
+	if dir != "" {
+		if inside, err := within(path, dir); err != nil || inside {
+			if err == nil {
+				err = fmt.Errorf("%s lies inside %s, which the check would replace; write the check elsewhere", path, dir)
+			}
+			return nil, fmt.Errorf("%w: %w", ErrInput, err)
+		}
+	}
 	var m *mesh.Mesh
 	var read []string
 	var err error
@@ -92,14 +115,69 @@ func Check(path string, patches ...quality.Patch) (*CheckResult, error) {
 	if err != nil {
 		return nil, fmt.Errorf("%w: limits: %w", ErrInput, err)
 	}
-	ev := quality.Evaluator{NoFields: true}
+	ev := quality.Evaluator{NoFields: dir == ""}
 	if res.Report, err = ev.Evaluate(m, lim); err != nil {
 		return nil, fmt.Errorf("%w: %s: %w", ErrInput, path, err)
+	}
+	if dir != "" {
+		if err := atomic.ReplaceDir(dir, func(tmp string) error { return writeCheck(tmp, filepath.Base(path), m, res.Report) }); err != nil {
+			return nil, fmt.Errorf("writing the check: %w", err)
+		}
+		res.Notes = append(res.Notes, fmt.Sprintf("the mesh with its per-cell metrics is in %s (%s)", dir, strings.Join(CheckFiles, ", ")))
 	}
 	if res.Report.Verdict == quality.Fail {
 		return res, &CheckFailure{Failed: res.Report.FailedCells}
 	}
 	return res, nil
+}
+
+// CheckFiles are the files CheckAndWrite writes.
+var CheckFiles = []string{"mesh.vtu", "boundary.vtp", "quality.json", "preview.svg"}
+
+// writeCheck writes CheckFiles into dir for the mesh m read from the file
+// called name.
+func writeCheck(dir, name string, m *mesh.Mesh, rep *quality.Report) error {
+	writers := map[string]func(w io.Writer) error{
+		"mesh.vtu":     func(w io.Writer) error { return vtk.WriteVTU(w, m, cellFields(rep)) },
+		"boundary.vtp": func(w io.Writer) error { return vtk.WriteBoundaryVTP(w, m, nil) },
+		"quality.json": func(w io.Writer) error { return quality.WriteJSON(w, rep) },
+		"preview.svg":  func(w io.Writer) error { return preview.SVG(w, previewInput(name, m, nil, rep)) },
+	}
+	for _, f := range CheckFiles {
+		if err := atomic.WriteFile(filepath.Join(dir, f), writers[f]); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// within reports whether the file path lies inside the folder dir (or is
+// dir), comparing absolute paths with symbolic links resolved as far as
+// they exist.
+func within(path, dir string) (bool, error) {
+	abs := func(p string) (string, error) {
+		a, err := filepath.Abs(p)
+		if err != nil {
+			return "", err
+		}
+		if r, err := filepath.EvalSymlinks(a); err == nil {
+			return r, nil
+		}
+		return a, nil
+	}
+	p, err := abs(path)
+	if err != nil {
+		return false, err
+	}
+	d, err := abs(dir)
+	if err != nil {
+		return false, err
+	}
+	rel, err := filepath.Rel(d, p)
+	if err != nil {
+		return false, nil
+	}
+	return rel == "." || rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)), nil
 }
 
 // withDeckLimits puts the limits of the quality.json beside path before

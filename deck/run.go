@@ -172,7 +172,7 @@ func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *qu
 		outs = append(outs, output{"mesh-binary.vtk", "vtk-legacy-binary", func(w io.Writer) error { return vtk.WriteLegacy(w, m, fields, true) }})
 	}
 	if hasFormat(formats, "preview") || hasFormat(formats, "png") {
-		pin := previewInput(c, m, conds, rep)
+		pin := previewInput(c.Name, m, conds, rep)
 		if hasFormat(formats, "preview") {
 			outs = append(outs, output{"preview.svg", "svg", func(w io.Writer) error { return preview.SVG(w, pin) }})
 		}
@@ -226,12 +226,13 @@ func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *qu
 	return nil
 }
 
-// previewInput gathers what the preview pictures show: the mesh, the
-// boundary coloured by condition, cells by their worst status, and a
-// histogram of each cell metric with its limits.
-func previewInput(c *Case, m *mesh.Mesh, conds []string, rep *quality.Report) preview.Input {
+// previewInput gathers what the preview pictures of the mesh called name
+// show: the mesh, the boundary coloured by condition (by tag when conds
+// is nil), cells by their worst status, and a histogram of each cell
+// metric with its limits.
+func previewInput(name string, m *mesh.Mesh, conds []string, rep *quality.Report) preview.Input {
 	in := preview.Input{
-		Title:      fmt.Sprintf("%s: %d cells, checks %s", c.Name, m.NumCells(), rep.Verdict),
+		Title:      fmt.Sprintf("%s: %d cells, checks %s", name, m.NumCells(), rep.Verdict),
 		Mesh:       m,
 		Conditions: conds,
 		Status:     make([]preview.Status, len(rep.CellStatus)),

@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"strings"
 
 	"github.com/spf13/cobra"
 
@@ -12,7 +13,7 @@ import (
 )
 
 func newCheckCommand(g *globals) *cobra.Command {
-	var limits, profile string
+	var limits, profile, out string
 	cmd := &cobra.Command{
 		Use:   "check FILE",
 		Short: "Check an existing mesh (.vtu, .vtk, .vtp or .cgns), made by cvdeck or not",
@@ -33,6 +34,12 @@ A mesh inside a deck (a quality.json beside it) is graded with the limits the
 deck records, so the check gives the deck's verdict; --limits applies on top of
 them and --profile starts afresh from a named profile. Boundary faces with no
 tag are checked as one tag "boundary", with a warning.
+
+With -o DIR the check also writes the folder DIR (replacing it as a whole, as
+mesh -o does; not the folder the mesh file is in) so that bad cells can be
+seen: mesh.vtu with every per-cell metric, the cells' status and defects as
+cell data, boundary.vtp with the tags, quality.json and preview.svg zoomed on
+the worst cells. Checking DIR/mesh.vtu again gives the same report.
 Exit codes: 0 the mesh passes; 1 a cell fails a limit; 2 the file cannot be read.`,
 		Args: func(cmd *cobra.Command, args []string) error {
 			if len(args) != 1 {
@@ -52,7 +59,7 @@ Exit codes: 0 the mesh passes; 1 a cell fails a limit; 2 the file cannot be read
 				}
 				patches = append(patches, p)
 			}
-			res, err := deck.Check(args[0], patches...)
+			res, err := deck.CheckAndWrite(args[0], out, patches...)
 			var failed *deck.CheckFailure
 			if err != nil && !errors.As(err, &failed) {
 				return err
@@ -91,5 +98,6 @@ Exit codes: 0 the mesh passes; 1 a cell fails a limit; 2 the file cannot be read
 	}
 	cmd.Flags().StringVar(&limits, "limits", "", "a limits file overriding the profile's limits")
 	cmd.Flags().StringVar(&profile, "profile", "", "the limit profile to start from: "+fmt.Sprint(quality.ProfileNames()))
+	cmd.Flags().StringVarP(&out, "out", "o", "", "also write this folder, as a whole: the mesh with its per-cell metrics ("+strings.Join(deck.CheckFiles, ", ")+")")
 	return cmd
 }

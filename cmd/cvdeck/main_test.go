@@ -12,7 +12,9 @@ import (
 	"strings"
 	"testing"
 
+	"cvdeck/deck"
 	"cvdeck/export/vtk"
+	"cvdeck/quality"
 	"cvdeck/samples"
 )
 
@@ -495,5 +497,58 @@ func TestCheckUsesDeckLimits(t *testing.T) {
 	}
 	if r := check(1); len(r.Warnings) != 1 || !strings.Contains(r.Warnings[0], "not a cvdeck quality report") {
 		t.Fatalf("broken quality.json: %+v", r)
+	}
+}
+
+// TestCheckWritesFolder: check -o DIR writes the mesh as read with its
+// per-cell metrics as cell data, its tags, the report and a preview, also
+// when the mesh fails; checking DIR/mesh.vtu again gives the same report,
+// since its tags and limits come from the files beside it; and a folder
+// holding the mesh being checked is refused, so that nothing is lost.
+func TestCheckWritesFolder(t *testing.T) {
+	dir, deckDir := sampleDeck(t, "bump-channel")
+	out := filepath.Join(dir, "checked")
+	report := func(want int, args ...string) string {
+		t.Helper()
+		code, stdout, errs := cvdeck(t, append(args, "--json")...)
+		if code != want {
+			t.Fatalf("%v: exit %d, want %d: %s", args, code, want, errs)
+		}
+		var r struct {
+			Quality json.RawMessage `json:"quality"`
+		}
+		if err := json.Unmarshal([]byte(stdout), &r); err != nil {
+			t.Fatal(err)
+		}
+		return string(r.Quality)
+	}
+	// Skewness past 0.5 fails: the sample's bump corners (0.76) do.
+	strict := filepath.Join(dir, "strict.yaml")
+	if err := os.WriteFile(strict, []byte("skewness: {warn: 0.3, fail: 0.5}\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	first := report(1, "check", filepath.Join(deckDir, "mesh.cgns"), "--limits", strict, "-o", out)
+	for _, f := range deck.CheckFiles {
+		if st, err := os.Stat(filepath.Join(out, f)); err != nil || st.Size() == 0 {
+			t.Errorf("%s: %v", f, err)
+		}
+	}
+	vtu, err := os.ReadFile(filepath.Join(out, "mesh.vtu"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, name := range append(quality.MetricNames(), "status", "defects") {
+		if name != "dual_closure" && !bytes.Contains(vtu, []byte(`Name="`+name+`"`)) {
+			t.Errorf("mesh.vtu has no cell array %q", name)
+		}
+	}
+	if again := report(1, "check", filepath.Join(out, "mesh.vtu")); again != first {
+		t.Errorf("checking the written mesh.vtu gave another report:\n%s\nfirst:\n%s", again, first)
+	}
+	if code, _, errs := cvdeck(t, "check", filepath.Join(out, "mesh.vtu"), "-o", out); code != 2 || !strings.Contains(errs, "lies inside") {
+		t.Errorf("check into the mesh's own folder: exit %d: %s", code, errs)
+	}
+	if _, err := os.Stat(filepath.Join(out, "mesh.vtu")); err != nil {
+		t.Errorf("the refused check lost the mesh: %v", err)
 	}
 }
