@@ -34,13 +34,14 @@ type CheckResult struct {
 	Warnings []string
 }
 
-// Check reads a mesh that cvdeck may not have made (VTK .vtu or legacy
-// .vtk unstructured grid, VTK .vtp polygon mesh, or CGNS .cgns) and checks it against the limits
-// of the patches, applied in order (none: the default profile). Boundary
-// faces that carry no tag go into DefaultTag with a warning, so that only
-// geometry and connectivity decide the verdict. A failed check is a
-// *CheckFailure together with the result. The report carries no per-cell
-// arrays (see quality.Evaluator.NoFields): a check prints its summary.
+// Check reads a mesh that cvdeck may not have made (a VTK unstructured
+// grid, .vtu or legacy .vtk, a VTK polygon mesh, .vtp or legacy POLYDATA
+// .vtk, or CGNS .cgns) and checks it against the limits of the patches,
+// applied in order (none: the default profile). Boundary faces that carry
+// no tag go into DefaultTag with a warning, so that only geometry and
+// connectivity decide the verdict. A failed check is a *CheckFailure
+// together with the result. The report carries no per-cell arrays (see
+// quality.Evaluator.NoFields): a check prints its summary.
 //
 // A mesh inside a deck is checked with the deck's own limits, as recorded
 // in the quality.json beside it, so that the check gives the deck's

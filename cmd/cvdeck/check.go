@@ -17,18 +17,19 @@ func newCheckCommand(g *globals) *cobra.Command {
 	cmd := &cobra.Command{
 		Use:   "check FILE",
 		Short: "Check an existing mesh (.vtu, .vtk, .vtp or .cgns), made by cvdeck or not",
-		Long: `check reads a mesh file — a VTK XML (.vtu) or legacy (.vtk) unstructured grid
-or polygon mesh (XML .vtp, legacy POLYDATA .vtk), with triangles, quads or polygons (line cells are
-boundary faces, tagged by a "boundary_tag" or "tag" cell array; vertex cells are
-skipped), or a CGNS file — and runs every quality metric, the connectivity
-checks and the conservation audit on it. A 2D case stored the way 3D solvers
-take one is read as its lower plane: in VTK a slab one cell thick of
-hexahedra, voxels or wedges (side quads are its boundary faces), in CGNS
-structured zones one node plane or one cell thick or an unstructured zone of
-HEXA_8 and PENTA_6 one cell thick; a note says what was left out with the
-front and back (patches, BCs and their tags), and for CGNS another gives the
-BC type the file records for each tag. The report ends with the boundary
-faces of each tag, so that you can see which tags the file brought.
+		Long: `check reads a mesh file — a VTK unstructured grid (XML .vtu or legacy .vtk)
+or polygon mesh (XML .vtp or legacy POLYDATA .vtk) with triangles, quads or
+polygons (line cells are boundary faces, tagged by a "boundary_tag" or "tag"
+cell array; vertex cells are skipped), or a CGNS file — and runs every quality
+metric, the connectivity checks and the conservation audit on it. A 2D case
+stored the way 3D solvers take one is read as its lower plane: in VTK a slab
+one cell thick of hexahedra, voxels or wedges (side quads are its boundary
+faces), in CGNS structured zones one node plane or one cell thick or an
+unstructured zone of HEXA_8 and PENTA_6 one cell thick; a note says what was
+left out with the front and back (patches, BCs and their tags), and for CGNS
+another gives the BC type the file records for each tag. The report ends with
+the boundary faces of each tag, so that you can see which tags the file
+brought.
 
 A mesh inside a deck (a quality.json beside it) is graded with the limits the
 deck records, so the check gives the deck's verdict; --limits applies on top of
