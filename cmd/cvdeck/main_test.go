@@ -552,3 +552,49 @@ func TestCheckWritesFolder(t *testing.T) {
 		t.Errorf("the refused check lost the mesh: %v", err)
 	}
 }
+
+// TestCheckMany: several files are checked in turn into one table (or one
+// JSON object listing each report); a file that cannot be read is listed
+// and does not stop the others, and the exit code is the worst outcome:
+// 2 for an unreadable file, else 1 for a failed check.
+func TestCheckMany(t *testing.T) {
+	dir, deckDir := sampleDeck(t, "bump-channel")
+	vtu, cg, missing := filepath.Join(deckDir, "mesh.vtu"), filepath.Join(deckDir, "mesh.cgns"), filepath.Join(dir, "missing.vtu")
+	code, stdout, errs := cvdeck(t, "check", vtu, missing, cg, "--json")
+	if code != 2 {
+		t.Fatalf("exit %d, want 2: %s", code, errs)
+	}
+	var got struct {
+		Files []struct {
+			File    string `json:"file"`
+			Verdict string `json:"verdict"`
+			Error   string `json:"error"`
+			Quality *struct {
+				Cells int `json:"cells"`
+			} `json:"quality"`
+		} `json:"files"`
+	}
+	if err := json.Unmarshal([]byte(stdout), &got); err != nil {
+		t.Fatal(err)
+	}
+	if len(got.Files) != 3 || got.Files[1].File != missing || got.Files[1].Verdict != "unreadable" || !strings.Contains(got.Files[1].Error, "no such file") {
+		t.Fatalf("entries %+v", got.Files)
+	}
+	for _, k := range []int{0, 2} {
+		if f := got.Files[k]; f.Quality == nil || f.Quality.Cells != 3072 || f.Verdict != "warn" {
+			t.Errorf("entry %d: %+v", k, f)
+		}
+	}
+	// Skewness past 0.5 fails: the sample's bump corners (0.76) do.
+	strict := filepath.Join(dir, "strict.yaml")
+	if err := os.WriteFile(strict, []byte("skewness: {warn: 0.3, fail: 0.5}\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, stdout, errs = cvdeck(t, "check", vtu, cg, "--limits", strict)
+	if code != 1 || strings.Count(stdout, "FAIL") != 2 || !strings.Contains(stdout, "skewness (") || !strings.Contains(errs, "2 failed their checks") {
+		t.Errorf("strict check: exit %d\n%s\n%s", code, stdout, errs)
+	}
+	if code, _, errs := cvdeck(t, "check", vtu, cg, "-o", filepath.Join(dir, "out")); code != 2 || !strings.Contains(errs, "-o takes one mesh file") {
+		t.Errorf("-o with two files: exit %d: %s", code, errs)
+	}
+}
