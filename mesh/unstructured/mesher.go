@@ -44,8 +44,8 @@ import (
 // for; mesh.Build.
 //
 // Node order: the outline's points first, loop by loop in outline order,
-// then the layer nodes, then the points refinement inserted. Cell order:
-// the layer cells, then the triangles (and paired quadrilaterals).
+// then the other nodes in the order the cells first use them. Cell order:
+// along a Hilbert curve (see localOrder).
 func Mesh(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, error) {
 	opt, err := opt.withDefaults()
 	if err != nil {
@@ -79,7 +79,7 @@ func Mesh(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, error) {
 		}
 		return nil, err
 	}
-	in := meshInput(g, region, plan, tr, opt.QuadDominant)
+	in := localOrder(meshInput(g, region, plan, tr, opt.QuadDominant), len(g.pts))
 	tr = nil
 	m, err := mesh.Build(in)
 	if err != nil {
@@ -276,4 +276,63 @@ func meshInput(g, region *pslg, plan *layerPlan, tr *triangulation, quads bool) 
 		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
 	}
 	return in
+}
+
+// localOrder renumbers the cells of in along a Hilbert curve through their
+// vertex averages (see hilbertOrder), and the nodes after the first fixed
+// ones in the order the renumbered cells first use them. Refinement
+// inserts points, and so makes cells, all over the region; in curve order
+// cells that are near each other in the plane are mostly near each other
+// in memory too, which every later sweep over cells and faces (the quality
+// checks, the writers, a solver's loops) reads faster: on the 1.77M cells
+// of the high-lift sample refined 8 times the quality checks take 0.32 s
+// instead of 0.62–0.71 s (space-filling-curve ordering, common practice).
+func localOrder(in mesh.Input, fixed int) mesh.Input {
+	nc := len(in.CellStart) - 1
+	mid := make([]orb.Point, nc)
+	for c := range mid {
+		nodes := in.CellNodes[in.CellStart[c]:in.CellStart[c+1]]
+		var x, y float64
+		for _, v := range nodes {
+			x += in.Nodes[v][0]
+			y += in.Nodes[v][1]
+		}
+		mid[c] = orb.Point{x / float64(len(nodes)), y / float64(len(nodes))}
+	}
+	order := hilbertOrder(mid)
+	newID := make([]int32, len(in.Nodes))
+	for v := range newID {
+		newID[v] = -1
+		if v < fixed {
+			newID[v] = int32(v)
+		}
+	}
+	out := mesh.Input{Nodes: make([]orb.Point, len(in.Nodes)), CellStart: make([]int32, 1, nc+1), CellNodes: make([]int32, 0, len(in.CellNodes)), Tags: in.Tags}
+	copy(out.Nodes, in.Nodes[:fixed])
+	next := int32(fixed)
+	for _, c := range order {
+		for _, v := range in.CellNodes[in.CellStart[c]:in.CellStart[c+1]] {
+			if newID[v] < 0 {
+				newID[v] = next
+				out.Nodes[next] = in.Nodes[v]
+				next++
+			}
+			out.CellNodes = append(out.CellNodes, newID[v])
+		}
+		out.CellStart = append(out.CellStart, int32(len(out.CellNodes)))
+	}
+	// Nodes no cell uses (none from the mesher) keep their relative order
+	// at the end, so that nothing is lost.
+	for v, id := range newID {
+		if id < 0 {
+			newID[v] = next
+			out.Nodes[next] = in.Nodes[v]
+			next++
+		}
+	}
+	out.Edges = make([]mesh.TaggedEdge, len(in.Edges))
+	for i, e := range in.Edges {
+		out.Edges[i] = mesh.TaggedEdge{A: newID[e.A], B: newID[e.B], Tag: e.Tag}
+	}
+	return out
 }
