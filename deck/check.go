@@ -1,6 +1,7 @@
 package deck
 
 import (
+	"cmp"
 	"fmt"
 	"io"
 	"math"
@@ -201,11 +202,11 @@ func withDeckLimits(path string, patches []quality.Patch) ([]quality.Patch, []st
 	return append([]quality.Patch{dp}, patches...), []string{note}, nil
 }
 
-// tagFromLines rebuilds m with the tags of boundary lines given by their
+// tagFromLines returns m with the tags of boundary lines given by their
 // end points (matched to mesh nodes by exact coordinates, as a deck's
-// boundary.vtp holds the very numbers its mesh.vtu does). Lines that are
-// not boundary faces of m are an error; boundary faces no line covers stay
-// untagged.
+// boundary.vtp holds the very numbers its mesh.vtu does); see withTags.
+// Lines that are not boundary faces of m are an error; boundary faces no
+// line covers stay untagged.
 func tagFromLines(m *mesh.Mesh, lines []vtk.BoundaryLine) (*mesh.Mesh, string, error) {
 	node := make(map[[2]float64]int32, m.NumBoundary())
 	for f := m.NumInterior; f < m.NumFaces(); f++ {
@@ -213,8 +214,7 @@ func tagFromLines(m *mesh.Mesh, lines []vtk.BoundaryLine) (*mesh.Mesh, string, e
 			node[m.Nodes[v]] = v
 		}
 	}
-	rt := newRetag(m)
-	used := 0
+	var adds []namedEdge
 	for k, l := range lines {
 		if l.Tag == "" {
 			continue
@@ -224,74 +224,139 @@ func tagFromLines(m *mesh.Mesh, lines []vtk.BoundaryLine) (*mesh.Mesh, string, e
 		if !okA || !okB {
 			return nil, "", fmt.Errorf("line %d from (%g, %g) to (%g, %g) does not join two boundary nodes of the mesh", k, l.A[0], l.A[1], l.B[0], l.B[1])
 		}
-		rt.add(a, b, l.Tag)
-		used++
+		adds = append(adds, namedEdge{a, b, l.Tag})
 	}
-	tagged, err := mesh.Build(rt.in)
+	tagged, err := withTags(m, adds)
 	if err != nil {
 		return nil, "", err
 	}
-	return tagged, fmt.Sprintf("%d tagged lines, %d tags", used, len(rt.in.Tags)), nil
+	return tagged, fmt.Sprintf("%d tagged lines, %d tags", len(adds), len(tagged.Tags)), nil
 }
 
 // tagUntagged returns m with its untagged boundary faces under DefaultTag
-// (a new tag, or the existing one of that name).
-//
-// Build puts the untagged faces last, in the order a new last tag would
-// give them, so when DefaultTag is new the faces stay where they are and
-// only their tag is set: m's arrays are shared with the result, FaceTag
-// changed in place. Otherwise the mesh is built again with the faces
-// joining the existing tag.
+// (a new tag, or the existing one of that name); see withTags.
 func tagUntagged(m *mesh.Mesh) (*mesh.Mesh, error) {
-	if _, _, exists := m.TagRange(DefaultTag); !exists && len(m.Tags) < math.MaxInt16 {
-		out := *m
-		t := int16(len(m.Tags))
-		out.Tags = append(slices.Clip(m.Tags), DefaultTag)
-		out.TagStart = append(slices.Clip(m.TagStart), int32(m.NumFaces()))
-		lo, hi := m.UntaggedRange()
-		for f := lo; f < hi; f++ {
-			out.FaceTag[f] = t
-		}
-		return &out, nil
-	}
-	rt := newRetag(m)
 	lo, hi := m.UntaggedRange()
+	adds := make([]namedEdge, 0, hi-lo)
 	for f := lo; f < hi; f++ {
-		rt.add(m.FaceNodes[f][0], m.FaceNodes[f][1], DefaultTag)
+		adds = append(adds, namedEdge{m.FaceNodes[f][0], m.FaceNodes[f][1], DefaultTag})
 	}
-	return mesh.Build(rt.in)
+	return withTags(m, adds)
 }
 
-// retag collects a mesh's builder input with its tagged boundary edges,
-// to which more tagged edges are added before the mesh is built again.
-type retag struct {
-	in    mesh.Input
-	index map[string]int16
+// boundaryEntry is a boundary face of withTags with what orders it: its
+// group (tag, or one past the last tag for none), owner and place in the
+// owner's node list.
+type boundaryEntry struct {
+	group        int16
+	owner, place int32
+	face         int32
 }
 
-func newRetag(m *mesh.Mesh) *retag {
-	rt := &retag{
-		in:    mesh.Input{Nodes: m.Nodes, CellStart: m.CellStart, CellNodes: m.CellNodes, Tags: append([]string(nil), m.Tags...), Blocks: m.Blocks, Interfaces: m.Interfaces},
-		index: map[string]int16{},
+// permuteBoundary puts a[lo+i] = a[order[i].face] for the boundary range
+// [lo, len(a)) of a per-face array.
+func permuteBoundary[T any](a []T, lo int, order []boundaryEntry) {
+	old := slices.Clone(a[lo:])
+	for i, e := range order {
+		a[lo+i] = old[int(e.face)-lo]
 	}
-	for t, name := range rt.in.Tags {
-		rt.index[name] = int16(t)
-	}
+}
+
+// namedEdge tags the boundary face between nodes a and b.
+type namedEdge struct {
+	a, b int32
+	tag  string
+}
+
+// withTags returns m with more boundary faces tagged, each of adds naming
+// a face by its two nodes (either way round) and its tag, new tags
+// appended to m's. The result is what mesh.Build gives for m's cells with
+// m's tagged edges and adds — boundary faces grouped by tag in tag order,
+// each group in the order of its faces' owners and their places in them,
+// untagged faces last — but faces and their geometry are moved within the
+// boundary range of m's arrays, which the result shares, rather than
+// derived again: m is spent. Faces given two different tags, and adds
+// that are not boundary faces, are errors, as they are to mesh.Build.
+func withTags(m *mesh.Mesh, adds []namedEdge) (*mesh.Mesh, error) {
+	nb := m.NumBoundary()
+	key := func(a, b int32) [2]int32 { return [2]int32{min(a, b), max(a, b)} }
+	faceOf := make(map[[2]int32]int32, nb)
 	for f := m.NumInterior; f < m.NumFaces(); f++ {
-		if t := m.FaceTag[f]; t >= 0 {
-			rt.in.Edges = append(rt.in.Edges, mesh.TaggedEdge{A: m.FaceNodes[f][0], B: m.FaceNodes[f][1], Tag: t})
+		faceOf[key(m.FaceNodes[f][0], m.FaceNodes[f][1])] = int32(f)
+	}
+	out := *m
+	out.Tags = slices.Clone(m.Tags)
+	index := make(map[string]int16, len(out.Tags))
+	for t, name := range out.Tags {
+		index[name] = int16(t)
+	}
+	tag := slices.Clone(m.FaceTag[m.NumInterior:])
+	for _, e := range adds {
+		f, ok := faceOf[key(e.a, e.b)]
+		if !ok {
+			return nil, fmt.Errorf("edge %d-%d tagged %q is not a boundary face of the mesh", e.a, e.b, e.tag)
+		}
+		t, ok := index[e.tag]
+		if !ok {
+			if len(out.Tags) == math.MaxInt16 {
+				return nil, fmt.Errorf("more than %d boundary tags", math.MaxInt16)
+			}
+			t = int16(len(out.Tags))
+			index[e.tag] = t
+			out.Tags = append(out.Tags, e.tag)
+		}
+		if old := tag[int(f)-m.NumInterior]; old >= 0 && old != t {
+			return nil, fmt.Errorf("boundary edge %d-%d is tagged both %q and %q", e.a, e.b, out.Tags[old], e.tag)
+		}
+		tag[int(f)-m.NumInterior] = t
+	}
+	// Build's order: by group (the tags in order, then untagged), then by
+	// owner, then by the face's place in its owner's node list.
+	place := func(f int) int {
+		cell, fn := m.Cell(int(m.Owner[f])), m.FaceNodes[f]
+		for k, v := range cell {
+			if v == fn[0] && cell[(k+1)%len(cell)] == fn[1] {
+				return k
+			}
+		}
+		return 0
+	}
+	order := make([]boundaryEntry, nb)
+	untagged := int16(len(out.Tags))
+	for i := range order {
+		f := m.NumInterior + i
+		g := tag[i]
+		if g < 0 {
+			g = untagged
+		}
+		order[i] = boundaryEntry{g, m.Owner[f], int32(place(f)), int32(f)}
+	}
+	slices.SortFunc(order, func(x, y boundaryEntry) int {
+		return cmp.Or(cmp.Compare(x.group, y.group), cmp.Compare(x.owner, y.owner), cmp.Compare(x.place, y.place))
+	})
+	lo := m.NumInterior
+	permuteBoundary(out.FaceNodes, lo, order)
+	permuteBoundary(out.Owner, lo, order)
+	permuteBoundary(out.Neighbour, lo, order)
+	permuteBoundary(out.Geo.FaceLength, lo, order)
+	permuteBoundary(out.Geo.FaceNormal, lo, order)
+	permuteBoundary(out.Geo.FaceMid, lo, order)
+	out.TagStart = make([]int32, len(out.Tags)+1)
+	for i, e := range order {
+		out.FaceTag[lo+i] = -1
+		if e.group < untagged {
+			out.FaceTag[lo+i] = e.group
 		}
 	}
-	return rt
-}
-
-// add tags the edge a–b with tag, adding the tag if it is new.
-func (rt *retag) add(a, b int32, tag string) {
-	t, ok := rt.index[tag]
-	if !ok {
-		t = int16(len(rt.in.Tags))
-		rt.index[tag] = t
-		rt.in.Tags = append(rt.in.Tags, tag)
+	// TagStart[t] is where tag t's faces begin; empty tags start where the
+	// next one does.
+	next := lo
+	for t := range out.Tags {
+		out.TagStart[t] = int32(next)
+		for next < m.NumFaces() && out.FaceTag[next] == int16(t) {
+			next++
+		}
 	}
-	rt.in.Edges = append(rt.in.Edges, mesh.TaggedEdge{A: a, B: b, Tag: t})
+	out.TagStart[len(out.Tags)] = int32(next)
+	return &out, nil
 }

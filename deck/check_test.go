@@ -2,6 +2,7 @@ package deck
 
 import (
 	"reflect"
+	"strings"
 	"testing"
 
 	"github.com/paulmach/orb"
@@ -68,5 +69,69 @@ func TestTagUntagged(t *testing.T) {
 			!reflect.DeepEqual(got.Geo, wm.Geo) {
 			t.Errorf("first tag %q: tags %v %v, built %v %v", first, got.Tags, got.TagStart, wm.Tags, wm.TagStart)
 		}
+	}
+}
+
+// withTags gives the mesh mesh.Build gives for the same cells and tagged
+// edges, whatever mix of old and new tags and untagged faces results: on
+// a 6 × 6 grid tagged "wall" along its bottom, the left side joins
+// "wall", the right side becomes "outlet", half the top "inlet" (a tag
+// added after them) and the rest stays untagged.
+func TestWithTagsAsBuilt(t *testing.T) {
+	in := squareGrid(t, 6, "wall")
+	m, err := mesh.Build(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := in
+	want.Tags = append([]string(nil), in.Tags...)
+	want.Edges = append([]mesh.TaggedEdge(nil), in.Edges...)
+	var adds []namedEdge
+	tagIndex := map[string]int16{"wall": 0}
+	for f := m.NumInterior; f < m.NumFaces(); f++ {
+		p := m.Geo.FaceMid[f]
+		var tag string
+		switch {
+		case p[0] == 0:
+			tag = "wall"
+		case p[0] == 6:
+			tag = "outlet"
+		case p[1] == 6 && p[0] < 3:
+			tag = "inlet"
+		default:
+			continue
+		}
+		if _, ok := tagIndex[tag]; !ok {
+			tagIndex[tag] = int16(len(want.Tags))
+			want.Tags = append(want.Tags, tag)
+		}
+		a, b := m.FaceNodes[f][0], m.FaceNodes[f][1]
+		adds = append(adds, namedEdge{b, a, tag})
+		want.Edges = append(want.Edges, mesh.TaggedEdge{A: a, B: b, Tag: tagIndex[tag]})
+	}
+	wm, err := mesh.Build(want)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := withTags(m, adds)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(got.Tags, wm.Tags) || !reflect.DeepEqual(got.TagStart, wm.TagStart) || !reflect.DeepEqual(got.FaceTag, wm.FaceTag) ||
+		!reflect.DeepEqual(got.FaceNodes, wm.FaceNodes) || !reflect.DeepEqual(got.Owner, wm.Owner) || !reflect.DeepEqual(got.Neighbour, wm.Neighbour) ||
+		!reflect.DeepEqual(got.Geo, wm.Geo) {
+		t.Errorf("tags %v %v, built %v %v", got.Tags, got.TagStart, wm.Tags, wm.TagStart)
+	}
+	if lo, hi := got.UntaggedRange(); hi-lo != 3 {
+		t.Errorf("%d faces untagged, want the 3 on the top's right half", hi-lo)
+	}
+	// A face given a second tag, and an edge that is no boundary face.
+	m2, _ := mesh.Build(in)
+	a, b := m2.FaceNodes[m2.NumInterior][0], m2.FaceNodes[m2.NumInterior][1]
+	if _, err := withTags(m2, []namedEdge{{a, b, "floor"}}); err == nil || !strings.Contains(err.Error(), `tagged both "wall" and "floor"`) {
+		t.Errorf("second tag: %v", err)
+	}
+	if _, err := withTags(m2, []namedEdge{{0, 8, "x"}}); err == nil || !strings.Contains(err.Error(), "not a boundary face") {
+		t.Errorf("diagonal: %v", err)
 	}
 }
