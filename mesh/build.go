@@ -2,6 +2,7 @@ package mesh
 
 import (
 	"fmt"
+	"runtime"
 
 	"github.com/paulmach/orb"
 )
@@ -58,25 +59,37 @@ func Build(in Input) (*Mesh, error) {
 	}
 	nh := len(in.CellNodes)
 	// Half-edge h runs from node CellNodes[h] to node nextOf[h], in cell
-	// halfCell[h].
+	// halfCell[h]. Every loop below runs on consecutive ranges side by
+	// side (see inParts) and gives what one pass in order gives: counts
+	// are kept per range and offset by the ranges before, and an error is
+	// the one the lowest range finds first.
 	halfCell := make([]int32, nh)
 	nextOf := make([]int32, nh)
-	for c := 0; c < nc; c++ {
-		s, e := in.CellStart[c], in.CellStart[c+1]
-		if e-s < 3 {
-			return nil, fmt.Errorf("mesh: cell %d has %d nodes; a cell needs at least 3", c, e-s)
-		}
-		for h := s; h < e; h++ {
-			if v := in.CellNodes[h]; v < 0 || v >= nn {
-				return nil, fmt.Errorf("mesh: cell %d refers to node %d; nodes run from 0 to %d", c, v, nn-1)
+	cellParts := partBounds(nc)
+	cellErr := make([]error, len(cellParts)-1)
+	inParts(cellParts, func(k, clo, chi int) {
+		for c := clo; c < chi; c++ {
+			s, e := in.CellStart[c], in.CellStart[c+1]
+			if e-s < 3 {
+				cellErr[k] = fmt.Errorf("mesh: cell %d has %d nodes; a cell needs at least 3", c, e-s)
+				return
 			}
-			halfCell[h] = int32(c)
-			if h+1 < e {
-				nextOf[h] = in.CellNodes[h+1]
-			} else {
-				nextOf[h] = in.CellNodes[s]
+			for h := s; h < e; h++ {
+				if v := in.CellNodes[h]; v < 0 || v >= nn {
+					cellErr[k] = fmt.Errorf("mesh: cell %d refers to node %d; nodes run from 0 to %d", c, v, nn-1)
+					return
+				}
+				halfCell[h] = int32(c)
+				if h+1 < e {
+					nextOf[h] = in.CellNodes[h+1]
+				} else {
+					nextOf[h] = in.CellNodes[s]
+				}
 			}
 		}
+	})
+	if err := firstError(cellErr); err != nil {
+		return nil, err
 	}
 	lohi := func(h int32) (int32, int32) {
 		a, b := in.CellNodes[h], nextOf[h]
@@ -85,52 +98,75 @@ func Build(in Input) (*Mesh, error) {
 
 	// Bucket half-edges by their lower node (counting sort, stable in h),
 	// each entry with its upper node, so that matching reads the buckets
-	// alone.
+	// alone. Each range of half-edges counts into its own histogram; the
+	// histograms then become each range's fill positions. They take no more
+	// memory than one half-edge array: at most nh/nn ranges.
+	hParts := partBoundsUpTo(nh, min(runtime.GOMAXPROCS(0), nh/max(int(nn), 1)))
+	hist := make([][]int32, len(hParts)-1)
+	inParts(hParts, func(k, hlo, hhi int) {
+		n := make([]int32, nn)
+		for h := int32(hlo); h < int32(hhi); h++ {
+			lo, _ := lohi(h)
+			n[lo]++
+		}
+		hist[k] = n
+	})
 	start := make([]int32, nn+1)
-	for h := int32(0); h < int32(nh); h++ {
-		lo, _ := lohi(h)
-		start[lo+1]++
-	}
-	for i := int32(0); i < nn; i++ {
-		start[i+1] += start[i]
+	for lo := int32(0); lo < nn; lo++ {
+		pos := start[lo]
+		for _, n := range hist {
+			c := n[lo]
+			n[lo] = pos
+			pos += c
+		}
+		start[lo+1] = pos
 	}
 	bucket := make([]halfEdge, nh)
-	fill := make([]int32, nn)
-	copy(fill, start[:nn])
-	for h := int32(0); h < int32(nh); h++ {
-		lo, hi := lohi(h)
-		bucket[fill[lo]] = halfEdge{h, hi}
-		fill[lo]++
-	}
-	fill = nil
+	inParts(hParts, func(k, hlo, hhi int) {
+		fill := hist[k]
+		for h := int32(hlo); h < int32(hhi); h++ {
+			lo, hi := lohi(h)
+			bucket[fill[lo]] = halfEdge{h, hi}
+			fill[lo]++
+		}
+	})
+	hist = nil
 
 	// twin[h] is the other half-edge of h's face, -1 on the boundary; only
 	// the first half-edge (lowest h, so lowest cell) of each face owns it.
 	twin := make([]int32, nh)
 	isOwner := make([]bool, nh)
-	for lo := int32(0); lo < nn; lo++ {
-		b := bucket[start[lo]:start[lo+1]]
-		for x, e := range b {
-			h, hi := e.h, e.hi
-			if h < 0 {
-				continue
-			}
-			twin[h] = -1
-			isOwner[h] = true
-			for y := x + 1; y < len(b); y++ {
-				g := b[y].h
-				if g < 0 || b[y].hi != hi {
+	nodeParts := partBounds(int(nn))
+	matchErr := make([]error, len(nodeParts)-1)
+	inParts(nodeParts, func(k, nlo, nhi int) {
+		for lo := int32(nlo); lo < int32(nhi); lo++ {
+			b := bucket[start[lo]:start[lo+1]]
+			for x, e := range b {
+				h, hi := e.h, e.hi
+				if h < 0 {
 					continue
 				}
-				if twin[h] >= 0 {
-					return nil, fmt.Errorf("mesh: edge between nodes %d and %d is shared by cells %d, %d and %d; an edge may belong to at most two cells",
-						lo, hi, halfCell[h], halfCell[twin[h]], halfCell[g])
+				twin[h] = -1
+				isOwner[h] = true
+				for y := x + 1; y < len(b); y++ {
+					g := b[y].h
+					if g < 0 || b[y].hi != hi {
+						continue
+					}
+					if twin[h] >= 0 {
+						matchErr[k] = fmt.Errorf("mesh: edge between nodes %d and %d is shared by cells %d, %d and %d; an edge may belong to at most two cells",
+							lo, hi, halfCell[h], halfCell[twin[h]], halfCell[g])
+						return
+					}
+					twin[h] = g
+					twin[g] = h
+					b[y].h = -1
 				}
-				twin[h] = g
-				twin[g] = h
-				b[y].h = -1
 			}
 		}
+	})
+	if err := firstError(matchErr); err != nil {
+		return nil, err
 	}
 
 	// Tagged edges, bucketed the same way.
@@ -173,9 +209,9 @@ func Build(in Input) (*Mesh, error) {
 	}
 	bucket, start = nil, nil
 
-	// Count faces per group: interior, each tag, untagged.
+	// Count faces per group: interior, each tag, untagged; each range of
+	// half-edges counts its own, so that it can place its faces.
 	ng := len(in.Tags) + 2
-	count := make([]int32, ng+1)
 	group := func(h int32) int {
 		if twin[h] >= 0 {
 			return 0
@@ -185,13 +221,27 @@ func Build(in Input) (*Mesh, error) {
 		}
 		return ng - 1
 	}
-	for h := int32(0); h < int32(nh); h++ {
-		if isOwner[h] {
-			count[group(h)+1]++
+	counts := make([][]int32, len(hParts)-1)
+	inParts(hParts, func(k, hlo, hhi int) {
+		n := make([]int32, ng)
+		for h := int32(hlo); h < int32(hhi); h++ {
+			if isOwner[h] {
+				n[group(h)]++
+			}
 		}
-	}
-	for i := 0; i < ng; i++ {
-		count[i+1] += count[i]
+		counts[k] = n
+	})
+	// count[g] is where group g begins; counts[k][g] becomes where range k
+	// places its first face of group g.
+	count := make([]int32, ng+1)
+	for g := range ng {
+		pos := count[g]
+		for _, n := range counts {
+			c := n[g]
+			n[g] = pos
+			pos += c
+		}
+		count[g+1] = pos
 	}
 	nf := int(count[ng])
 	m := &Mesh{
@@ -209,24 +259,25 @@ func Build(in Input) (*Mesh, error) {
 		Interfaces:  in.Interfaces,
 	}
 	copy(m.TagStart, count[1:len(in.Tags)+2])
-	pos := make([]int32, ng)
-	copy(pos, count[:ng])
-	for h := int32(0); h < int32(nh); h++ {
-		if !isOwner[h] {
-			continue
+	inParts(hParts, func(k, hlo, hhi int) {
+		pos := counts[k]
+		for h := int32(hlo); h < int32(hhi); h++ {
+			if !isOwner[h] {
+				continue
+			}
+			gi := group(h)
+			f := pos[gi]
+			pos[gi]++
+			m.FaceNodes[f] = [2]int32{in.CellNodes[h], nextOf[h]}
+			m.Owner[f] = halfCell[h]
+			if t := twin[h]; t >= 0 {
+				m.Neighbour[f] = halfCell[t]
+			} else {
+				m.Neighbour[f] = -1
+			}
+			m.FaceTag[f] = tagOf[h]
 		}
-		gi := group(h)
-		f := pos[gi]
-		pos[gi]++
-		m.FaceNodes[f] = [2]int32{in.CellNodes[h], nextOf[h]}
-		m.Owner[f] = halfCell[h]
-		if t := twin[h]; t >= 0 {
-			m.Neighbour[f] = halfCell[t]
-		} else {
-			m.Neighbour[f] = -1
-		}
-		m.FaceTag[f] = tagOf[h]
-	}
+	})
 	m.Geo = ComputeGeometry(m)
 	return m, nil
 }
@@ -234,3 +285,14 @@ func Build(in Input) (*Mesh, error) {
 // halfEdge is a bucket entry of Build: half-edge h and its upper node. A
 // matched entry gets h = −1.
 type halfEdge struct{ h, hi int32 }
+
+// firstError returns the first non-nil error of the ranges, in range
+// order, or nil.
+func firstError(errs []error) error {
+	for _, err := range errs {
+		if err != nil {
+			return err
+		}
+	}
+	return nil
+}

@@ -2,6 +2,8 @@ package mesh
 
 import (
 	"math"
+	"reflect"
+	"runtime"
 	"strings"
 	"testing"
 
@@ -119,5 +121,82 @@ func TestPolygonAreaCentroidFarFromOrigin(t *testing.T) {
 	a, c := PolygonAreaCentroid(nodes, []int32{0, 1, 2, 3})
 	if a != 1 || c != (orb.Point{1e8 + 0.5, 1e8 + 0.5}) {
 		t.Fatalf("area %v centroid %v", a, c)
+	}
+}
+
+// buildOn builds in with GOMAXPROCS set to procs.
+func buildOn(procs int, in Input) (*Mesh, error) {
+	old := runtime.GOMAXPROCS(procs)
+	defer runtime.GOMAXPROCS(old)
+	return Build(in)
+}
+
+// Build gives the same mesh, and the same first error, whether its loops
+// run on one goroutine or several: on a 300 × 200 grid, large enough that
+// cells, half-edges and nodes are all split into ranges, and with two
+// cells of two nodes, or two edges of three cells, one early and one
+// late, so that several ranges meet an error and the first must win.
+func TestBuildSameOnAnyProcs(t *testing.T) {
+	in := grid(300, 200)
+	if len(in.CellNodes) < 4*minParallel || len(in.Nodes) < 2*minParallel || len(in.CellStart) < 2*minParallel {
+		t.Fatalf("grid of %d half-edges, %d nodes is too small to be split", len(in.CellNodes), len(in.Nodes))
+	}
+	one, err := buildOn(1, in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, procs := range []int{2, 3, 4} {
+		got, err := buildOn(procs, in)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !reflect.DeepEqual(got, one) {
+			t.Fatalf("GOMAXPROCS %d: another mesh", procs)
+		}
+	}
+	bad := func(edit func(in *Input)) Input {
+		b := grid(300, 200)
+		edit(&b)
+		return b
+	}
+	cases := map[string]Input{
+		// Cells 10 and 59990 lose two nodes each: the error names cell 10,
+		// which the first range meets.
+		"short cells": bad(func(in *Input) {
+			nodes, start := in.CellNodes, in.CellStart
+			in.CellNodes, in.CellStart = nil, []int32{0}
+			for c := range len(start) - 1 {
+				cell := nodes[start[c]:start[c+1]]
+				if c == 10 || c == 59990 {
+					cell = cell[:2]
+				}
+				in.CellNodes = append(in.CellNodes, cell...)
+				in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+			}
+			in.Edges = nil
+		}),
+		// Two more triangles on interior edges near the end and the middle:
+		// the error names the middle one, whose lower node comes first.
+		"three cells on an edge": bad(func(in *Input) {
+			n := int32(len(in.Nodes))
+			in.Nodes = append(in.Nodes, orb.Point{2, 2})
+			for _, c := range []int{len(in.CellStart) - 2 - 301, len(in.CellStart)/2 + 7} {
+				a, b := in.CellNodes[in.CellStart[c]+1], in.CellNodes[in.CellStart[c]+2]
+				in.CellNodes = append(in.CellNodes, b, a, n)
+				in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+			}
+		}),
+	}
+	for name, b := range cases {
+		_, e1 := buildOn(1, b)
+		if e1 == nil {
+			t.Fatalf("%s: no error", name)
+		}
+		for _, procs := range []int{2, 4} {
+			if _, e := buildOn(procs, b); e == nil || e.Error() != e1.Error() {
+				t.Errorf("%s: GOMAXPROCS %d gave %v, one gave %v", name, procs, e, e1)
+			}
+		}
+		t.Logf("%s: %v", name, e1)
 	}
 }

@@ -59,24 +59,42 @@ func ComputeGeometry(m *Mesh) Geometry {
 	return g
 }
 
-// inParallel calls fn on GOMAXPROCS consecutive ranges [lo, hi) covering
-// [0, n), side by side, and waits for them; below minParallel items it
-// calls fn(0, n) alone, where starting goroutines would cost more than it
-// saves.
+// inParallel calls fn on the ranges of partBounds(n) side by side and
+// waits for them.
 func inParallel(n int, fn func(lo, hi int)) {
-	parts := min(runtime.GOMAXPROCS(0), n/minParallel)
-	if parts <= 1 {
-		fn(0, n)
+	inParts(partBounds(n), func(_, lo, hi int) { fn(lo, hi) })
+}
+
+// partBounds splits [0, n) into GOMAXPROCS consecutive ranges, range k
+// being [b[k], b[k+1]); below minParallel items it gives the one range
+// [0, n), where starting goroutines would cost more than it saves.
+func partBounds(n int) []int { return partBoundsUpTo(n, runtime.GOMAXPROCS(0)) }
+
+// partBoundsUpTo is partBounds with at most most ranges.
+func partBoundsUpTo(n, most int) []int {
+	parts := max(1, min(most, n/minParallel))
+	b := make([]int, parts+1)
+	for k := range b {
+		b[k] = k * n / parts
+	}
+	return b
+}
+
+// inParts calls fn(k, b[k], b[k+1]) for every range of b, side by side
+// when there are several, and waits for them.
+func inParts(b []int, fn func(k, lo, hi int)) {
+	if len(b) == 2 {
+		fn(0, b[0], b[1])
 		return
 	}
 	var wg sync.WaitGroup
-	for k := range parts {
-		wg.Go(func() { fn(k*n/parts, (k+1)*n/parts) })
+	for k := range len(b) - 1 {
+		wg.Go(func() { fn(k, b[k], b[k+1]) })
 	}
 	wg.Wait()
 }
 
-// minParallel is the fewest items inParallel splits.
+// minParallel is the fewest items partBounds splits.
 const minParallel = 1 << 14
 
 // PolygonAreaCentroid returns the signed area and the area centroid of the
