@@ -111,16 +111,7 @@ func Build(in Input) (*Mesh, error) {
 		}
 		hist[k] = n
 	})
-	start := make([]int32, nn+1)
-	for lo := int32(0); lo < nn; lo++ {
-		pos := start[lo]
-		for _, n := range hist {
-			c := n[lo]
-			n[lo] = pos
-			pos += c
-		}
-		start[lo+1] = pos
-	}
+	start := rangeOffsets(hist, int(nn))
 	bucket := make([]halfEdge, nh)
 	inParts(hParts, func(k, hlo, hhi int) {
 		fill := hist[k]
@@ -233,16 +224,7 @@ func Build(in Input) (*Mesh, error) {
 	})
 	// count[g] is where group g begins; counts[k][g] becomes where range k
 	// places its first face of group g.
-	count := make([]int32, ng+1)
-	for g := range ng {
-		pos := count[g]
-		for _, n := range counts {
-			c := n[g]
-			n[g] = pos
-			pos += c
-		}
-		count[g+1] = pos
-	}
+	count := rangeOffsets(counts, ng)
 	nf := int(count[ng])
 	m := &Mesh{
 		Nodes:       in.Nodes,
@@ -285,6 +267,25 @@ func Build(in Input) (*Mesh, error) {
 // halfEdge is a bucket entry of Build: half-edge h and its upper node. A
 // matched entry gets h = −1.
 type halfEdge struct{ h, hi int32 }
+
+// rangeOffsets turns per-range counts of m slots (counts[k][i]: how many
+// items range k puts in slot i) into where each range puts its first item
+// of each slot, slots one after another and, within a slot, ranges in
+// order, as one pass in order would place them; it returns the slot
+// starts, of length m+1.
+func rangeOffsets(counts [][]int32, m int) []int32 {
+	start := make([]int32, m+1)
+	for i := range m {
+		pos := start[i]
+		for _, n := range counts {
+			c := n[i]
+			n[i] = pos
+			pos += c
+		}
+		start[i+1] = pos
+	}
+	return start
+}
 
 // firstError returns the first non-nil error of the ranges, in range
 // order, or nil.
