@@ -120,8 +120,8 @@ type Report struct {
 	Audit              Audit           `json:"audit"`
 	Connectivity       []CheckResult   `json:"connectivity"`
 	// Boundary lists the boundary faces by tag, in the mesh's tag order,
-	// the untagged ones last, so that a reader can see which conditions
-	// a mesh from elsewhere brought with it.
+	// the untagged ones last, so that a reader can see which tags a mesh
+	// from elsewhere brought with it.
 	Boundary []BoundaryTag `json:"boundary"`
 
 	// CellStatus is the worst status of each cell.
