@@ -103,11 +103,11 @@ func naturalSecondDerivs(t, y []float64) []float64 {
 	return m
 }
 
-// periodicSecondDerivs solves the cyclic tridiagonal system of a periodic
-// spline (y[n−1] = y[0], M[n−1] = M[0]) by tridiagonal elimination and back
-// substitution, with a rank-one correction for the two corner entries
-// (the matrix inversion lemma; common practice for cyclic tridiagonal
-// systems).
+// periodicSecondDerivs solves the tridiagonal system with two corner
+// entries of a periodic spline (y[n−1] = y[0], M[n−1] = M[0]) by
+// tridiagonal elimination and back substitution, with a rank-one
+// correction for the corner entries (the matrix inversion lemma; common
+// practice for periodic tridiagonal systems).
 func periodicSecondDerivs(t, y []float64) []float64 {
 	n := len(t) - 1 // unknowns M₀ … Mₙ₋₁, the last knot repeating the first
 	h := func(i int) float64 { i = ((i % n) + n) % n; return t[i+1] - t[i] }

@@ -83,7 +83,7 @@ read.`,
 			if g.json {
 				enc := json.NewEncoder(w)
 				enc.SetIndent("", "  ")
-				if e := enc.Encode(newCheckEntry(res, nil)); e != nil {
+				if e := enc.Encode(checkedEntry(res)); e != nil {
 					return e
 				}
 				return err
@@ -114,13 +114,14 @@ type checkEntry struct {
 	Error    string          `json:"error,omitempty"`
 }
 
-// newCheckEntry makes the entry of a check that gave res, or of one that
-// could not read its file (err).
-func newCheckEntry(res *deck.CheckResult, err error) checkEntry {
-	if res == nil {
-		return checkEntry{Verdict: "unreadable", Notes: []string{}, Warnings: []string{}, Error: err.Error()}
-	}
+// checkedEntry is the entry of a check that gave res.
+func checkedEntry(res *deck.CheckResult) checkEntry {
 	return checkEntry{res.File, res.Report.Verdict.String(), append([]string{}, res.Notes...), append([]string{}, res.Warnings...), res.Report, ""}
+}
+
+// unreadableEntry is the entry of a file the check could not read.
+func unreadableEntry(file string, err error) checkEntry {
+	return checkEntry{File: file, Verdict: "unreadable", Notes: []string{}, Warnings: []string{}, Error: err.Error()}
 }
 
 // printNotes writes the notes (unless quiet) and warnings of a check to
@@ -148,13 +149,12 @@ func checkMany(cmd *cobra.Command, g *globals, files []string, patches []quality
 		switch {
 		case err != nil && !errors.As(err, &fail):
 			unreadable++
-			entries[i] = newCheckEntry(nil, err)
-			entries[i].File = f
+			entries[i] = unreadableEntry(f, err)
 			continue
 		case err != nil:
 			failed++
 		}
-		entries[i] = newCheckEntry(res, nil)
+		entries[i] = checkedEntry(res)
 		if !g.json {
 			printNotes(cmd, g, f+": ", res)
 		}

@@ -405,16 +405,9 @@ func (r *legacyReader) read() (*grid, error) {
 				continue
 			}
 			elem := map[string]string{"VERTICES": "Verts", "LINES": "Lines", "POLYGONS": "Polys"}[kw]
-			base, start := int64(len(g.conn)), int64(0)
-			for c, end := range sec.offsets {
-				if end < start || end > int64(len(sec.conn)) {
-					return nil, fmt.Errorf("%s: %s cell %d: offset %d is out of order or past the section's %d connectivity entries", r.file, kw, c, end, len(sec.conn))
-				}
-				g.offsets = append(g.offsets, base+end)
-				g.types = append(g.types, polyDataType(elem, end-start))
-				start = end
+			if err := g.appendPolySection(elem, kw, sec.conn, sec.offsets); err != nil {
+				return nil, err
 			}
-			g.conn = append(g.conn, sec.conn...)
 		}
 	}
 	if g.types == nil && !poly {

@@ -114,19 +114,28 @@ func parseVTP(data []byte, name string) (*grid, error) {
 		if len(offsets) != n {
 			return nil, fmt.Errorf("%s: %s/offsets has %d values for %s=%d", name, sec.elem, len(offsets), sec.count, n)
 		}
-		base := int64(len(g.conn))
-		start := int64(0)
-		for c, end := range offsets {
-			if end < start || end > int64(len(conn)) {
-				return nil, fmt.Errorf("%s: %s cell %d: offset %d is out of order or past the %d connectivity entries", name, sec.elem, c, end, len(conn))
-			}
-			g.offsets = append(g.offsets, base+end)
-			g.types = append(g.types, polyDataType(sec.elem, end-start))
-			start = end
+		if err := g.appendPolySection(sec.elem, sec.elem, conn, offsets); err != nil {
+			return nil, err
 		}
-		g.conn = append(g.conn, conn...)
 	}
 	return g, nil
+}
+
+// appendPolySection appends to g's cells one cell section of a PolyData
+// (elem Verts, Lines or Polys; label names it in errors), its offsets
+// shifted past the cells already there and each cell typed by polyDataType.
+func (g *grid) appendPolySection(elem, label string, conn, offsets []int64) error {
+	base, start := int64(len(g.conn)), int64(0)
+	for c, end := range offsets {
+		if end < start || end > int64(len(conn)) {
+			return fmt.Errorf("%s: %s cell %d: offset %d is out of order or past the section's %d connectivity entries", g.file, label, c, end, len(conn))
+		}
+		g.offsets = append(g.offsets, base+end)
+		g.types = append(g.types, polyDataType(elem, end-start))
+		start = end
+	}
+	g.conn = append(g.conn, conn...)
+	return nil
 }
 
 // polyDataType is the cell type of an n-point cell of a PolyData section.
