@@ -30,11 +30,11 @@ const (
 // cellPass computes every cell metric in one sweep over the cells: the
 // shape (cellShape), and the worst face values of the cell (computeFaces)
 // with the conservation audit (both faceSummary.gather). The cells go in
-// tiles: each tile's values are computed into a small buffer, graded
-// (raising status) and summarised while they are in the first-level
-// cache, then copied into the per-cell arrays in buf when keep is set. It returns the arrays in
-// metric order (area is the mesh's own; nil all when keep is not set) and
-// the per-chunk summaries.
+// tiles: each tile's values are computed into the per-cell arrays in buf
+// when keep is set, else into a small buffer, then graded (raising status)
+// and summarised while they are in the first-level cache. It returns the
+// arrays in metric order (area is the mesh's own; nil all when keep is not
+// set) and the per-chunk summaries.
 func cellPass(m *mesh.Mesh, cf *cellFaces, ff *faceFields, lim *Limits, status []Status, keep bool, buf *[numCellMetrics][]float64) ([numCellMetrics][]float64, [numCellMetrics][]partial) {
 	nc := m.NumCells()
 	var vals [numCellMetrics][]float64
@@ -60,33 +60,44 @@ func cellPass(m *mesh.Mesh, cf *cellFaces, ff *faceFields, lim *Limits, status [
 		var buf []float64
 		var sh cellShape
 		var tv [numCellMetrics][tile]float64
+		var out [numCellMetrics][]float64
 		for b := lo; b < hi; b += tile {
 			e := min(b+tile, hi)
+			// The values go straight into the per-cell arrays when they
+			// are kept, else into the tile buffer; either way they are
+			// scanned from the first-level cache.
+			for k := range out {
+				switch {
+				case k == mArea:
+					out[k] = m.Geo.CellArea[b:e]
+				case keep:
+					out[k] = vals[k][b:e]
+				default:
+					out[k] = tv[k][:e-b]
+				}
+			}
+			aspect, minAngle, maxAngle, equiangle, jacobian := out[mAspect], out[mMinAngle], out[mMaxAngle], out[mEquiangle], out[mJacobian]
+			faceLength, nonOrth, skew, growth := out[mFaceLength], out[mNonOrth], out[mSkewness], out[mGrowth]
+			closure, freeStream, gradient := out[mClosure], out[mFreeStream], out[mGradient]
 			for c := b; c < e; c++ {
 				i := c - b
 				buf = sh.compute(m.Nodes, m.Cell(c), m.Geo.CellArea[c], buf)
-				tv[mAspect][i] = sh.aspect
-				tv[mMinAngle][i] = sh.minAngle
-				tv[mMaxAngle][i] = sh.maxAngle
-				tv[mEquiangle][i] = sh.equiangle
-				tv[mJacobian][i] = sh.jacobian
+				aspect[i] = sh.aspect
+				minAngle[i] = sh.minAngle
+				maxAngle[i] = sh.maxAngle
+				equiangle[i] = sh.equiangle
+				jacobian[i] = sh.jacobian
 				var fc faceSummary
 				fc.gather(fa, c)
-				tv[mFaceLength][i] = fc.minLength
-				tv[mNonOrth][i] = fc.maxNonOrth
-				tv[mSkewness][i] = fc.maxSkew
-				tv[mGrowth][i] = fc.maxGrowth
-				tv[mClosure][i] = fc.closure
-				tv[mFreeStream][i] = fc.freeStream
-				tv[mGradient][i] = fc.gradient
+				faceLength[i] = fc.minLength
+				nonOrth[i] = fc.maxNonOrth
+				skew[i] = fc.maxSkew
+				growth[i] = fc.maxGrowth
+				closure[i] = fc.closure
+				freeStream[i] = fc.freeStream
+				gradient[i] = fc.gradient
 			}
-			for k := range tv {
-				v := tv[k][:e-b]
-				if k == mArea {
-					v = m.Geo.CellArea[b:e]
-				} else if keep {
-					copy(vals[k][b:e], v)
-				}
+			for k, v := range out {
 				parts[k][lo/chunk].scan(&metricDefs[k], bounds[k], lim.WorstCells, v, b, status)
 			}
 		}
