@@ -123,6 +123,14 @@ func (c *connectivity) inChunks(n int, check func(lo, hi int, cn *connectivity))
 	}
 }
 
+// MaxCoordinate is the largest coordinate magnitude, in metres, that the
+// checks take. A cell centroid sums products of three coordinate
+// differences (mesh.PolygonAreaCentroid), each up to 2·MaxCoordinate, so
+// at 1e90 they stay below 1e272 and a polygon of any practical number of
+// nodes cannot overflow double precision (largest 1.8e308). No physical
+// mesh comes near it; a file that does is in the wrong units, or corrupt.
+const MaxCoordinate = 1e90
+
 // validateArrays checks that the mesh arrays agree in length and that every
 // index is in range, so that the metrics can be computed at all. It returns
 // an error naming the first array or index that is wrong.
@@ -134,17 +142,20 @@ func validateArrays(m *mesh.Mesh) error {
 	if int(m.CellStart[nc]) != len(m.CellNodes) || m.CellStart[0] != 0 {
 		return fmt.Errorf("quality: CellStart runs %d..%d; it must run from 0 to len(CellNodes)=%d", m.CellStart[0], m.CellStart[nc], len(m.CellNodes))
 	}
-	// x − x is zero exactly when x is finite.
+	// !(|x| <= MaxCoordinate) also holds for NaN.
 	if v := firstBad(nn, func(lo, hi int) int {
 		for v, p := range m.Nodes[lo:hi] {
-			if p[0]-p[0] != 0 || p[1]-p[1] != 0 {
+			if !(math.Abs(p[0]) <= MaxCoordinate && math.Abs(p[1]) <= MaxCoordinate) {
 				return lo + v
 			}
 		}
 		return -1
 	}); v >= 0 {
 		p := m.Nodes[v]
-		return fmt.Errorf("quality: node %d is at (%g, %g); coordinates must be finite", v, p[0], p[1])
+		if math.IsNaN(p[0]) || math.IsNaN(p[1]) || math.IsInf(p[0], 0) || math.IsInf(p[1], 0) {
+			return fmt.Errorf("quality: node %d is at (%g, %g); coordinates must be finite", v, p[0], p[1])
+		}
+		return fmt.Errorf("quality: node %d is at (%g, %g); the checks take coordinates up to %g m in magnitude, beyond which the cell centroids overflow (are the coordinates in the wrong units?)", v, p[0], p[1], MaxCoordinate)
 	}
 	start, end := m.CellStart, m.CellStart[nc]
 	if c := firstBad(nc, func(lo, hi int) int {
