@@ -2,6 +2,7 @@ package deck
 
 import (
 	"fmt"
+	"slices"
 
 	"cvdeck/bc"
 	"cvdeck/export/manifest"
@@ -11,7 +12,7 @@ import (
 
 // manifest assembles deck.yaml's content (the file list is added by
 // writeDeck as the files are written).
-func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *quality.Report) *manifest.Manifest {
+func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *quality.Report, walls []WallResolution) *manifest.Manifest {
 	man := &manifest.Manifest{
 		Schema:    manifest.Schema,
 		Caution:   manifest.Caution,
@@ -27,7 +28,16 @@ func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *q
 	}
 	man.Mesh = meshSummary(m, kind)
 	for t, tag := range m.Tags {
-		man.Tags = append(man.Tags, manifest.Tag{Tag: tag, FirstFace: int(m.TagStart[t]), Faces: int(m.TagStart[t+1] - m.TagStart[t])})
+		e := manifest.Tag{Tag: tag, FirstFace: int(m.TagStart[t]), Faces: int(m.TagStart[t+1] - m.TagStart[t])}
+		if t < len(rep.Boundary) {
+			e.FirstCellHeight = manifestSpread(rep.Boundary[t].FirstCellHeight, "m")
+		}
+		man.Tags = append(man.Tags, e)
+	}
+	for _, w := range walls {
+		if w.TargetHeight > 0 {
+			man.Tags[slices.IndexFunc(man.Tags, func(e manifest.Tag) bool { return e.Tag == w.Tag })].Yplus = manifestSpread(w.Yplus, "1")
+		}
 	}
 	if assign != nil {
 		rec := assign.Record()

@@ -42,6 +42,9 @@ type Result struct {
 	InputHash string
 	Mesh      *mesh.Mesh
 	Report    *quality.Report
+	// Walls are the first-cell heights, and y+ estimates, of the no-slip
+	// walls.
+	Walls []WallResolution
 }
 
 // CheckFailure is returned, together with a Result, when the deck was
@@ -110,14 +113,15 @@ func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
 	}
 
 	stage("export")
-	man := c.manifest(m, kind, assign, rep)
+	walls := c.wallResolution(rep, assign)
+	man := c.manifest(m, kind, assign, rep, walls)
 	man.Mesh.Notes = append(notes, man.Mesh.Notes...)
 	if err := atomic.ReplaceDir(outDir, func(tmp string) error {
 		return writeDeck(tmp, c, m, assign, rep, man, formats)
 	}); err != nil {
 		return nil, fmt.Errorf("writing the deck: %w", err)
 	}
-	res := &Result{Case: c.Name, Dir: outDir, InputHash: c.InputHash, Mesh: m, Report: rep}
+	res := &Result{Case: c.Name, Dir: outDir, InputHash: c.InputHash, Mesh: m, Report: rep, Walls: walls}
 	if rep.Verdict == quality.Fail {
 		return res, &CheckFailure{Dir: outDir, Failed: rep.FailedCells}
 	}

@@ -14,6 +14,8 @@ import (
 
 	"cvdeck/export/cgns"
 	"cvdeck/export/manifest"
+	"cvdeck/quality"
+	"cvdeck/samples"
 )
 
 // TestRunWritesAConsistentDeck runs a case twice into two folders and
@@ -155,5 +157,54 @@ func TestPeriodicPairIsVerified(t *testing.T) {
 	}
 	if _, statErr := os.Stat(dir); !os.IsNotExist(statErr) {
 		t.Fatal("a deck was written for a periodic pair that does not match")
+	}
+}
+
+// TestWallResolution meshes the naca-ogrid sample, whose O-grid is grown
+// from the wing with the first-cell height for y+ 5 and whose reference
+// asks for y+ 5: the wing's measured first cells must give y+ 5 back
+// (y+ is proportional to the wall distance in the viscous sublayer, common
+// practice), within the few per cent the grower's first height may miss
+// its request by. The farfield is no wall: it has a height, no y+.
+func TestWallResolution(t *testing.T) {
+	data, err := samples.Case("naca-ogrid")
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, err := Parse("naca-ogrid.yaml", data, LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := filepath.Join(t.TempDir(), "deck")
+	res, err := Run(c, dir, RunOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Walls) != 1 || res.Walls[0].Tag != "wing" {
+		t.Fatalf("walls %+v, want the wing alone", res.Walls)
+	}
+	w := res.Walls[0]
+	if w.TargetYplus != 5 || !(w.TargetHeight > 0) {
+		t.Fatalf("target y+ %g, height %g", w.TargetYplus, w.TargetHeight)
+	}
+	for _, y := range []quality.Number{w.Yplus.Min, w.Yplus.Mean, w.Yplus.Max} {
+		if math.Abs(float64(y)-5) > 0.05*5 {
+			t.Errorf("wing y+ spread %+v, want 5 within 5%%", w.Yplus)
+		}
+	}
+	m, err := manifest.Read(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tag := range m.Tags {
+		if tag.FirstCellHeight == nil || tag.FirstCellHeight.Unit != "m" || !(tag.FirstCellHeight.Min > 0) {
+			t.Errorf("%s: first-cell height %+v", tag.Tag, tag.FirstCellHeight)
+		}
+		if (tag.Yplus != nil) != (tag.Tag == "wing") {
+			t.Errorf("%s: y+ estimate %+v; the wing alone should have one", tag.Tag, tag.Yplus)
+		}
+	}
+	if got := m.Tags[0].Yplus; got == nil || got.Mean != float64(w.Yplus.Mean) {
+		t.Errorf("manifest wing y+ %+v, the run's %+v", got, w.Yplus)
 	}
 }

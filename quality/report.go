@@ -68,6 +68,40 @@ type BoundaryTag struct {
 	// Length is the faces' total length in metres (their area per unit
 	// depth).
 	Length Number `json:"length"`
+	// FirstCellHeight spreads, over the faces, the height of each face's
+	// cell normal to the face (cellHeight), in metres: on a wall, the
+	// first-cell height its boundary layer is resolved with.
+	FirstCellHeight Spread `json:"first_cell_height"`
+}
+
+// Spread is the smallest, mean and largest of a set of values; all three
+// are null (NaN) for an empty set.
+type Spread struct {
+	Min  Number `json:"min"`
+	Mean Number `json:"mean"`
+	Max  Number `json:"max"`
+}
+
+// spreadOf accumulates a Spread.
+type spreadOf struct {
+	n             int
+	min, max, sum float64
+}
+
+func (s *spreadOf) add(x float64) {
+	if s.n == 0 {
+		s.min, s.max = x, x
+	}
+	s.n++
+	s.min, s.max, s.sum = min(s.min, x), max(s.max, x), s.sum+x
+}
+
+func (s *spreadOf) spread() Spread {
+	if s.n == 0 {
+		nan := Number(math.NaN())
+		return Spread{nan, nan, nan}
+	}
+	return Spread{Number(s.min), Number(s.sum / float64(s.n)), Number(s.max)}
 }
 
 // boundaryTags sums up the boundary faces of m by their FaceTag: every
@@ -75,22 +109,44 @@ type BoundaryTag struct {
 // reads FaceTag rather than TagStart, which validateArrays does not check.
 func boundaryTags(m *mesh.Mesh) []BoundaryTag {
 	out := make([]BoundaryTag, len(m.Tags)+1)
+	heights := make([]spreadOf, len(out))
 	for t, name := range m.Tags {
 		out[t].Tag = name
 	}
-	untagged := &out[len(m.Tags)]
+	untagged := len(m.Tags)
 	for f := m.NumInterior; f < m.NumFaces(); f++ {
-		b := untagged
-		if t := m.FaceTag[f]; t >= 0 {
-			b = &out[t]
+		t := untagged
+		if ft := m.FaceTag[f]; ft >= 0 {
+			t = int(ft)
 		}
-		b.Faces++
-		b.Length += Number(m.Geo.FaceLength[f])
+		out[t].Faces++
+		out[t].Length += Number(m.Geo.FaceLength[f])
+		heights[t].add(cellHeight(m, f))
 	}
-	if untagged.Faces == 0 {
-		out = out[:len(m.Tags)]
+	for t := range out {
+		out[t].FirstCellHeight = heights[t].spread()
+	}
+	if out[untagged].Faces == 0 {
+		out = out[:untagged]
 	}
 	return out
+}
+
+// cellHeight returns the height of face f's owner normal to the face: the
+// largest distance of the cell's nodes from the face's line on the cell's
+// side, max_p (a − p) · n_f, with a the face's first node and n_f its
+// outward unit normal. For a quadrilateral in a layer on a wall it is the
+// layer's thickness, for a triangle its height over the face, 2A/S_f
+// (elementary geometry). A face of zero length, which has no normal,
+// gives 0.
+func cellHeight(m *mesh.Mesh, f int) float64 {
+	a, n := m.Nodes[m.FaceNodes[f][0]], m.Geo.FaceNormal[f]
+	h := 0.0
+	for _, v := range m.Cell(int(m.Owner[f])) {
+		p := m.Nodes[v]
+		h = max(h, (a[0]-p[0])*n[0]+(a[1]-p[1])*n[1])
+	}
+	return h
 }
 
 // Report is the result of Evaluate.

@@ -3,6 +3,7 @@ package quality
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"math"
 	"runtime"
 	"slices"
@@ -191,17 +192,73 @@ func TestReportBoundaryTags(t *testing.T) {
 		t.Fatal(err)
 	}
 	r := evaluate(t, m)
-	want := []BoundaryTag{{"floor", 4, 2}, {"lid", 4, 2}, {"spare", 0, 0}, {"", 4, 2}}
-	if !slices.Equal(r.Boundary, want) {
+	// Every boundary cell is a 0.5 m square: first-cell height 0.5 m.
+	half, none := Spread{0.5, 0.5, 0.5}, Number(math.NaN())
+	want := []BoundaryTag{{"floor", 4, 2, half}, {"lid", 4, 2, half}, {"spare", 0, 0, Spread{none, none, none}}, {"", 4, 2, half}}
+	if fmt.Sprint(r.Boundary) != fmt.Sprint(want) {
 		t.Errorf("boundary %+v, want %+v", r.Boundary, want)
 	}
 	var x bytes.Buffer
 	if err := WriteText(&x, r); err != nil {
 		t.Fatal(err)
 	}
-	for _, line := range []string{"  floor                     4 faces, length 2 m", "  spare                     0 faces, length 0 m", "  (no tag)                  4 faces, length 2 m"} {
+	for _, line := range []string{"  floor                     4 faces, length 2 m; first-cell height 0.5 to 0.5 m, mean 0.5", "  spare                     0 faces, length 0 m", "  (no tag)                  4 faces, length 2 m; first-cell height 0.5 to 0.5 m, mean 0.5"} {
 		if !strings.Contains(x.String(), line+"\n") {
 			t.Errorf("text report lacks %q:\n%s", line, x.String())
+		}
+	}
+}
+
+// The first-cell height of a wall is the wall-normal extent of its cells:
+// on a grid stretched away from a floor, the first row's spacing; on
+// jittered triangles, each face's triangle height 2A/S_f (elementary
+// geometry), computed here from the node positions alone.
+func TestFirstCellHeight(t *testing.T) {
+	const nx, ny = 6, 5
+	ys := []float64{0, 1e-4, 3e-4, 7e-4, 1.5e-3, 3.1e-3} // spacings 1e-4, 2e-4, 4e-4, ...
+	for _, tri := range []bool{false, true} {
+		in := mesh.Input{Tags: []string{"floor"}, CellStart: []int32{0}}
+		for j := 0; j <= ny; j++ {
+			for i := 0; i <= nx; i++ {
+				x := 0.01 * float64(i)
+				if tri && i > 0 && i < nx {
+					x += 0.003 * float64((i*7+j*3)%5-2) / 2
+				}
+				in.Nodes = append(in.Nodes, orb.Point{x, ys[j]})
+			}
+		}
+		for _, c := range quadCells(nx, ny, tri) {
+			in.CellNodes = append(in.CellNodes, c...)
+			in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+		}
+		for i := 0; i < nx; i++ {
+			in.Edges = append(in.Edges, mesh.TaggedEdge{A: int32(i), B: int32(i + 1), Tag: 0})
+		}
+		m, err := mesh.Build(in)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r := evaluate(t, m)
+		floor := r.Boundary[0]
+		lo, hi, sum := math.Inf(1), math.Inf(-1), 0.0
+		for f := int(m.TagStart[0]); f < int(m.TagStart[1]); f++ {
+			want := 1e-4 // the quads' first row
+			if tri {
+				// The floor face's triangle: height 2A/S_f.
+				idx := m.Cell(int(m.Owner[f]))
+				p, q, w := m.Nodes[idx[0]], m.Nodes[idx[1]], m.Nodes[idx[2]]
+				area := 0.5 * ((q[0]-p[0])*(w[1]-p[1]) - (w[0]-p[0])*(q[1]-p[1]))
+				a, b := m.Nodes[m.FaceNodes[f][0]], m.Nodes[m.FaceNodes[f][1]]
+				want = 2 * area / math.Hypot(b[0]-a[0], b[1]-a[1])
+			}
+			if got := cellHeight(m, f); !near(got, want, 1e-15) {
+				t.Errorf("tri %v: face %d height %g, want %g", tri, f, got, want)
+			}
+			lo, hi, sum = min(lo, want), max(hi, want), sum+want
+		}
+		h := floor.FirstCellHeight
+		if !near(float64(h.Min), lo, 1e-15) || !near(float64(h.Max), hi, 1e-15) || !near(float64(h.Mean), sum/nx, 1e-15) {
+			t.Errorf("tri %v: floor spread %+v, want %g, %g, %g", tri, h, lo, sum/nx, hi)
 		}
 	}
 }

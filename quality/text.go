@@ -62,7 +62,11 @@ func WriteText(w io.Writer, r *Report) error {
 		if name == "" {
 			name = "(no tag)"
 		}
-		fmt.Fprintf(b, "  %-18s %8d faces, length %s m\n", name, t.Faces, num(float64(t.Length)))
+		fmt.Fprintf(b, "  %-18s %8d faces, length %s m", name, t.Faces, num(float64(t.Length)))
+		if h := t.FirstCellHeight; t.Faces > 0 {
+			fmt.Fprintf(b, "; first-cell height %s to %s m, mean %s", num(float64(h.Min)), num(float64(h.Max)), num(float64(h.Mean)))
+		}
+		fmt.Fprintln(b)
 	}
 
 	header := false

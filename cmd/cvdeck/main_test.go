@@ -55,6 +55,13 @@ func TestSamplesMeshAndPass(t *testing.T) {
 					t.Errorf("deck lacks %s: %v", f, err)
 				}
 			}
+			// The two samples that grow wall layers to a target y+ show
+			// the y+ their first cells give.
+			if s.Name == "naca-ogrid" || s.Name == "high-lift" {
+				if !strings.Contains(out, "\nno-slip walls\n  target y+ 5: first-cell height ") || !strings.Contains(out, "; y+ about ") {
+					t.Errorf("no wall resolution in the output:\n%s", out)
+				}
+			}
 			// The discrete conservation form holds on every cell: closure
 			// below 1e-14 and the free-stream residual below 1e-13 relative
 			// to the cell's Σ|S_f| (round-off of sums of a few terms of

@@ -140,7 +140,8 @@ func report(w io.Writer, g *globals, res *deck.Result, runErr error) error {
 			Cells     int             `json:"cells"`
 			Faces     int             `json:"faces"`
 			Quality   *quality.Report `json:"quality"`
-		}{res.Dir, res.Case, res.Report.Verdict.String(), res.InputHash, len(res.Mesh.Nodes), res.Mesh.NumCells(), res.Mesh.NumFaces(), res.Report}
+			Walls     []wallJSON      `json:"walls"`
+		}{res.Dir, res.Case, res.Report.Verdict.String(), res.InputHash, len(res.Mesh.Nodes), res.Mesh.NumCells(), res.Mesh.NumFaces(), res.Report, wallsJSON(res.Walls)}
 		enc := json.NewEncoder(w)
 		enc.SetIndent("", "  ")
 		if err := enc.Encode(out); err != nil {
@@ -152,9 +153,53 @@ func report(w io.Writer, g *globals, res *deck.Result, runErr error) error {
 		if err := quality.WriteText(w, res.Report); err != nil {
 			return err
 		}
+		writeWalls(w, res.Walls)
 		fmt.Fprintf(w, "\ndeck: %s (%d cells, %d faces, %d nodes)\n", res.Dir, res.Mesh.NumCells(), res.Mesh.NumFaces(), len(res.Mesh.Nodes))
 	}
 	return runErr
+}
+
+// writeWalls prints the first-cell height of each no-slip wall and, when
+// the case sets a target y+, the y+ it gives.
+func writeWalls(w io.Writer, walls []deck.WallResolution) {
+	if len(walls) == 0 {
+		return
+	}
+	fmt.Fprintf(w, "\nno-slip walls\n")
+	if t := walls[0]; t.TargetHeight > 0 {
+		fmt.Fprintf(w, "  target y+ %.3g: first-cell height %.3g m by the flat-plate estimate at the reference length\n", t.TargetYplus, t.TargetHeight)
+	}
+	for _, wr := range walls {
+		h := wr.Height
+		fmt.Fprintf(w, "  %-18s first-cell height %.3g to %.3g m, mean %.3g", wr.Tag, float64(h.Min), float64(h.Max), float64(h.Mean))
+		if y := wr.Yplus; wr.TargetHeight > 0 {
+			fmt.Fprintf(w, "; y+ about %.3g to %.3g, mean %.3g", float64(y.Min), float64(y.Max), float64(y.Mean))
+		}
+		fmt.Fprintln(w)
+	}
+}
+
+// wallJSON is one no-slip wall in the --json output.
+type wallJSON struct {
+	Tag             string          `json:"tag"`
+	FirstCellHeight quality.Spread  `json:"first_cell_height"`
+	TargetYplus     *float64        `json:"target_yplus"`
+	TargetHeight    *float64        `json:"target_first_cell_height"`
+	Yplus           *quality.Spread `json:"yplus_estimate"`
+}
+
+// wallsJSON gives the walls for --json: the targets and y+ are null when
+// the case sets no target y+.
+func wallsJSON(walls []deck.WallResolution) []wallJSON {
+	out := []wallJSON{}
+	for _, w := range walls {
+		j := wallJSON{Tag: w.Tag, FirstCellHeight: w.Height}
+		if w.TargetHeight > 0 {
+			j.TargetYplus, j.TargetHeight, j.Yplus = &w.TargetYplus, &w.TargetHeight, &w.Yplus
+		}
+		out = append(out, j)
+	}
+	return out
 }
 
 // stderrIsTerminal reports whether w is the process's terminal stderr.

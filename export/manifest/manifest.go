@@ -106,6 +106,21 @@ type Tag struct {
 	Tag       string `yaml:"tag"`
 	FirstFace int    `yaml:"first_face"`
 	Faces     int    `yaml:"faces"`
+	// FirstCellHeight spreads the height of the tag's cells normal to
+	// its faces (none for a tag without faces).
+	FirstCellHeight *Spread `yaml:"first_cell_height,omitempty"`
+	// Yplus, on a no-slip wall of a case with a target y+, spreads the
+	// y+ those heights give by the estimate behind the advised height.
+	Yplus *Spread `yaml:"yplus_estimate,omitempty"`
+}
+
+// Spread is the smallest, mean and largest of a set of values, with
+// their unit.
+type Spread struct {
+	Min  float64 `yaml:"min"`
+	Mean float64 `yaml:"mean"`
+	Max  float64 `yaml:"max"`
+	Unit string  `yaml:"unit"`
 }
 
 // Checks summarises the quality report (quality.json holds all of it).

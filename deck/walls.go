@@ -1,0 +1,62 @@
+package deck
+
+import (
+	"cvdeck/bc"
+	"cvdeck/export/manifest"
+	"cvdeck/quality"
+)
+
+// WallResolution is what a deck says of one no-slip wall's first cells:
+// their height normal to the wall, from the quality report, and, when the
+// case asks for a target y+, the y+ those heights give.
+type WallResolution struct {
+	Tag    string
+	Height quality.Spread
+	// TargetYplus and TargetHeight are the case's target y+ and the
+	// first-cell height advised for it (mesh_advice); 0 when the case
+	// sets no target.
+	TargetYplus, TargetHeight float64
+	// Yplus spreads TargetYplus × h / TargetHeight over the heights h. In
+	// the viscous sublayer y+ = y u_τ / ν grows in proportion to the wall
+	// distance y (common practice), and u_τ is the flat-plate estimate's
+	// (bc.FirstCellHeight): a first guess, which the solution's own wall
+	// shear replaces.
+	Yplus quality.Spread
+}
+
+// wallResolution returns the resolution of each no-slip wall tag with
+// faces, in tag order. rep's boundary list is in the mesh's tag order.
+func (c *Case) wallResolution(rep *quality.Report, assign *bc.Assignment) []WallResolution {
+	if assign == nil {
+		return nil
+	}
+	var yplus, target float64
+	if r := c.Reference; r != nil && r.yplus > 0 {
+		if ws, err := bc.FirstCellHeight(r.state, r.length, r.yplus); err == nil {
+			yplus, target = r.yplus, ws.Height
+		}
+	}
+	var out []WallResolution
+	for t, cond := range assign.Conditions {
+		if !cond.Kind.NoSlip() || t >= len(rep.Boundary) || rep.Boundary[t].Faces == 0 {
+			continue
+		}
+		h := rep.Boundary[t].FirstCellHeight
+		w := WallResolution{Tag: cond.Tag, Height: h, TargetYplus: yplus, TargetHeight: target}
+		if target > 0 {
+			k := quality.Number(yplus / target)
+			w.Yplus = quality.Spread{Min: h.Min * k, Mean: h.Mean * k, Max: h.Max * k}
+		}
+		out = append(out, w)
+	}
+	return out
+}
+
+// manifestSpread turns a report's spread into the manifest's, nil when it
+// is empty.
+func manifestSpread(s quality.Spread, unit string) *manifest.Spread {
+	if s.Min != s.Min {
+		return nil
+	}
+	return &manifest.Spread{Min: float64(s.Min), Mean: float64(s.Mean), Max: float64(s.Max), Unit: unit}
+}
