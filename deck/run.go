@@ -1,6 +1,8 @@
 package deck
 
 import (
+	"crypto/sha256"
+	"encoding/hex"
 	"fmt"
 	"io"
 	"os"
@@ -272,13 +274,21 @@ func previewInput(name string, m *mesh.Mesh, conds []string, rep *quality.Report
 	return in
 }
 
-// fileRecord hashes a written file for the manifest.
+// fileRecord hashes a written file for the manifest, reading it in
+// pieces: a large deck's mesh files run to hundreds of megabytes, which
+// need not be held in memory at once.
 func fileRecord(dir, name, format string) (manifest.File, error) {
-	data, err := os.ReadFile(filepath.Join(dir, name))
+	f, err := os.Open(filepath.Join(dir, name))
 	if err != nil {
 		return manifest.File{}, err
 	}
-	return manifest.File{Path: name, Format: format, Bytes: int64(len(data)), SHA256: hashBytes(data)}, nil
+	defer f.Close()
+	h := sha256.New()
+	n, err := io.CopyBuffer(h, f, make([]byte, 1<<20))
+	if err != nil {
+		return manifest.File{}, err
+	}
+	return manifest.File{Path: name, Format: format, Bytes: n, SHA256: hex.EncodeToString(h.Sum(nil))}, nil
 }
 
 // cellFields are the per-cell arrays written with the mesh: the quality
