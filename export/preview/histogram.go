@@ -79,7 +79,7 @@ const axisReach = 3
 // of finite values. The axis runs over the values, widened to take in the
 // limits nearest them while the whole stays within axisReach times their
 // range; when every value is the same it is that value ± 1% (± 1e-12 at
-// zero) and the limits lie off it.
+// zero), and a limit at any other value lies off it.
 func histogramAxis(mt Metric) (axis, int) {
 	var ax axis
 	lo, hi, n := math.Inf(1), math.Inf(-1), 0
