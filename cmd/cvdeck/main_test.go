@@ -145,7 +145,7 @@ func TestBadInputIsLocatedAndWritesNothing(t *testing.T) {
 		// Structured blocks and grown grids.
 		{"shared sides differ", "{name: diag_ne, start: [c, c], segments: [{line: [a, a], spacing: {first: wall_cell, count: radial + 1}}]}",
 			"{name: diag_ne, start: [c, c], segments: [{line: [a, a], spacing: {first: wall_cell, count: radial + 3}}]}", "differ by 2", "cylinder-duct"},
-		{"first height above the outer distance", "first_yplus: 5", "first_height: 30", "larger than the outer distance", "naca-ogrid"},
+		{"first height above the outer distance", "first_yplus: yplus", "first_height: 30", "larger than the outer distance", "naca-ogrid"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

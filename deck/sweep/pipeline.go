@@ -243,6 +243,12 @@ type manifestFile struct {
 			Value float64 `yaml:"value"`
 		} `yaml:"area"`
 	} `yaml:"mesh"`
+	Tags []struct {
+		Tag   string `yaml:"tag"`
+		Yplus *struct {
+			Max float64 `yaml:"max"`
+		} `yaml:"yplus_estimate"`
+	} `yaml:"boundary_tags"`
 	Checks struct {
 		Verdict string `yaml:"verdict"`
 	} `yaml:"checks"`
@@ -284,6 +290,14 @@ func readDeck(dir string) (Outcome, []deckFile, bool, error) {
 		Area:      m.Mesh.Area.Value,
 		Verdict:   m.Checks.Verdict,
 		Passed:    m.Checks.Verdict != "fail", // pass, warn or fail
+	}
+	for _, tag := range m.Tags {
+		if tag.Yplus != nil {
+			if out.YplusMax == nil {
+				out.YplusMax = map[string]float64{}
+			}
+			out.YplusMax[tag.Tag] = tag.Yplus.Max
+		}
 	}
 	data, err := os.ReadFile(filepath.Join(dir, "quality.json"))
 	if err != nil {

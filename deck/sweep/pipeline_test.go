@@ -2,8 +2,10 @@ package sweep
 
 import (
 	"context"
+	"math"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 )
 
@@ -95,5 +97,39 @@ func TestPipelineResumeKeepsDecks(t *testing.T) {
 		if first.Rows[i].Cells != want {
 			t.Errorf("level %d: %d cells, want %d", i+1, first.Rows[i].Cells, want)
 		}
+	}
+}
+
+// TestPipelineWallResolution runs the wall-resolution study of the NACA
+// O-grid: each variant's grid is grown with the first height for its
+// target y+, so the largest y+ its wing cells give, by the same flat-plate
+// estimate (y+ proportional to the wall distance in the viscous sublayer,
+// common practice), must be the target within a few per cent. The summary
+// and its CSV carry it per variant.
+func TestPipelineWallResolution(t *testing.T) {
+	f, err := ReadFile(filepath.Join("..", "..", "samples", "sweeps", "naca-yplus.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	s, err := Run(context.Background(), f, dir, NewPipeline(f), Options{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(s.Rows) != 3 {
+		t.Fatalf("%d rows", len(s.Rows))
+	}
+	for _, r := range s.Rows {
+		target := r.Params["yplus"]
+		got, ok := r.YplusMax["wing"]
+		if !ok || math.Abs(got/target-1) > 0.05 || len(r.YplusMax) != 1 {
+			t.Errorf("%s: y+ max %v, want the wing's near %g", r.Name, r.YplusMax, target)
+		}
+		if !r.Passed {
+			t.Errorf("%s: verdict %s", r.Name, r.Verdict)
+		}
+	}
+	if head := strings.SplitN(string(s.CSV()), "\n", 2)[0]; !strings.Contains(head, ",yplus_max_wing,") {
+		t.Errorf("CSV header %q has no yplus_max_wing column", head)
 	}
 }

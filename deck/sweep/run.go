@@ -27,6 +27,10 @@ type Outcome struct {
 	Verdict string
 	// Worst holds the worst value of each quality metric.
 	Worst map[string]float64
+	// YplusMax holds, for each no-slip wall tag of a case with a target
+	// y+, the largest y+ its first cells give (deck.yaml's
+	// yplus_estimate).
+	YplusMax map[string]float64
 }
 
 // Runner builds variant decks; the real one wraps deck.Load and deck.Run,
@@ -256,4 +260,5 @@ func (r *Row) fill(o Outcome) {
 	r.Passed = o.Passed
 	r.Verdict = o.Verdict
 	r.Worst = o.Worst
+	r.YplusMax = o.YplusMax
 }

@@ -443,7 +443,8 @@ func TestSummaryCSVReadsBack(t *testing.T) {
 	}
 	s := &Summary{Parameters: []string{"a"}, Total: 2, Plan: "p", Rows: []Row{
 		{Index: 0, ID: "x", Name: "a=1-x", Params: map[string]float64{"a": 1}, Refine: 1, Status: StatusOK, Passed: true,
-			Verdict: "pass", Cells: 10, Area: 2, Worst: map[string]float64{"skewness": 0.25}, Run: RunBuilt, Seconds: 0.5},
+			Verdict: "pass", Cells: 10, Area: 2, Worst: map[string]float64{"skewness": 0.25}, YplusMax: map[string]float64{"wing": 4.5},
+			Run: RunBuilt, Seconds: 0.5},
 		{Index: 1, ID: "y", Name: "a=2-y", Params: map[string]float64{"a": 2}, Refine: 1, Status: StatusFailed,
 			Error: "loop \"outer\", segment 3:\ncrosses segment 7, at x=0.5", Run: RunFailed},
 	}}
@@ -463,7 +464,8 @@ print(json.dumps(rows))`, path).Output()
 	if err := json.Unmarshal(out, &rows); err != nil {
 		t.Fatal(err)
 	}
-	if len(rows) != 2 || rows[0]["worst_skewness"] != "0.25" || rows[0]["h"] != FormatValue(math.Sqrt(0.2)) ||
+	if len(rows) != 2 || rows[0]["worst_skewness"] != "0.25" || rows[0]["yplus_max_wing"] != "4.5" || rows[1]["yplus_max_wing"] != "" ||
+		rows[0]["h"] != FormatValue(math.Sqrt(0.2)) ||
 		rows[1]["error"] != s.Rows[1].Error || rows[1]["status"] != "failed" || rows[1]["a"] != "2" {
 		t.Errorf("Python read back %v", rows)
 	}

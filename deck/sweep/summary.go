@@ -49,6 +49,7 @@ type Row struct {
 	H         float64            `json:"h,omitempty"`     // representative cell size (A/N)^(1/2)
 	Ratio     float64            `json:"ratio,omitempty"` // h of the next coarser level over h
 	Worst     map[string]float64 `json:"worst,omitempty"`
+	YplusMax  map[string]float64 `json:"yplus_max,omitempty"` // by wall tag`
 	InputHash string             `json:"input_hash,omitempty"`
 	Error     string             `json:"error,omitempty"`
 	Run       string             `json:"run"`
@@ -184,10 +185,20 @@ func (s *Summary) JSON() ([]byte, error) {
 
 // metricNames returns the worst-metric names of all rows, sorted.
 func (s *Summary) metricNames() []string {
+	return s.keys(func(r *Row) map[string]float64 { return r.Worst })
+}
+
+// yplusTags returns the wall tags with a y+ estimate in any row, sorted.
+func (s *Summary) yplusTags() []string {
+	return s.keys(func(r *Row) map[string]float64 { return r.YplusMax })
+}
+
+// keys returns the keys of one map of every row, sorted.
+func (s *Summary) keys(of func(*Row) map[string]float64) []string {
 	seen := map[string]bool{}
 	var out []string
-	for _, r := range s.Rows {
-		for k := range r.Worst {
+	for i := range s.Rows {
+		for k := range of(&s.Rows[i]) {
 			if !seen[k] {
 				seen[k] = true
 				out = append(out, k)
@@ -201,15 +212,20 @@ func (s *Summary) metricNames() []string {
 // CSV returns the summary as CSV: one header line, then one line per
 // variant in sweep order. The columns are index, id, name, one per
 // parameter, level, refine, status, passed, verdict, cells, faces, nodes,
-// area, h, ratio, one worst_<metric> per metric, input_hash, error, and
-// last the run columns run and seconds. Empty fields mean "not known".
+// area, h, ratio, one worst_<metric> per metric, one yplus_max_<tag> per
+// wall tag with a y+ estimate, input_hash, error, and last the run
+// columns run and seconds. Empty fields mean "not known".
 func (s *Summary) CSV() []byte {
 	metrics := s.metricNames()
+	walls := s.yplusTags()
 	head := []string{"index", "id", "name"}
 	head = append(head, s.Parameters...)
 	head = append(head, "level", "refine", "status", "passed", "verdict", "cells", "faces", "nodes", "area", "h", "ratio")
 	for _, m := range metrics {
 		head = append(head, "worst_"+m)
+	}
+	for _, t := range walls {
+		head = append(head, "yplus_max_"+t)
 	}
 	head = append(head, "input_hash", "error", "run", "seconds")
 	var buf bytes.Buffer
@@ -224,6 +240,13 @@ func (s *Summary) CSV() []byte {
 			optInt(r.Cells), optInt(r.Faces), optInt(r.Nodes), optFloat(r.Area), optFloat(r.H), optFloat(r.Ratio))
 		for _, m := range metrics {
 			if v, ok := r.Worst[m]; ok {
+				rec = append(rec, FormatValue(v))
+			} else {
+				rec = append(rec, "")
+			}
+		}
+		for _, t := range walls {
+			if v, ok := r.YplusMax[t]; ok {
 				rec = append(rec, FormatValue(v))
 			} else {
 				rec = append(rec, "")
