@@ -4,10 +4,13 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
+	"hash"
 	"io"
 	"os"
 	"path/filepath"
+	"runtime"
 	"sort"
+	"sync"
 
 	"cvdeck/bc"
 	"cvdeck/export/atomic"
@@ -157,73 +160,94 @@ func (c *Case) limits(extra *quality.Patch) (quality.Limits, error) {
 }
 
 // writeDeck writes every output into the (temporary) deck folder dir, then
-// the manifest with the hashes of all of them.
+// the manifest with the hashes of all of them. The outputs are written
+// side by side, at most GOMAXPROCS at once, since each reads the mesh and
+// the report alone (the CGNS file, whose library takes one call at a time
+// within a process, is one of them); a file's bytes do not depend on what
+// else is being written. The first error in output order is returned, so
+// that the same input fails the same way.
 func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *quality.Report, man *manifest.Manifest, formats []string) error {
 	fields := cellFields(rep)
 	conds := conditionNames(m, assign)
-	type output struct {
-		name, format string
-		write        func(w io.Writer) error
+	// An output writes its files and returns their manifest records.
+	var outs []func() ([]manifest.File, error)
+	file := func(name, format string, write func(w io.Writer) error) {
+		outs = append(outs, func() ([]manifest.File, error) {
+			f, err := writeRecorded(dir, name, format, write)
+			return []manifest.File{f}, err
+		})
 	}
-	var outs []output
 	if hasFormat(formats, "vtu") {
-		outs = append(outs,
-			output{"mesh.vtu", "vtk-xml-unstructured", func(w io.Writer) error { return vtk.WriteVTU(w, m, fields) }},
-			output{"boundary.vtp", "vtk-xml-polydata", func(w io.Writer) error { return vtk.WriteBoundaryVTP(w, m, conds) }})
+		file("mesh.vtu", "vtk-xml-unstructured", func(w io.Writer) error { return vtk.WriteVTU(w, m, fields) })
+		file("boundary.vtp", "vtk-xml-polydata", func(w io.Writer) error { return vtk.WriteBoundaryVTP(w, m, conds) })
 	}
 	if hasFormat(formats, "vtk") {
-		outs = append(outs, output{"mesh.vtk", "vtk-legacy-ascii", func(w io.Writer) error { return vtk.WriteLegacy(w, m, fields, false) }})
+		file("mesh.vtk", "vtk-legacy-ascii", func(w io.Writer) error { return vtk.WriteLegacy(w, m, fields, false) })
 	}
 	if hasFormat(formats, "vtk-binary") {
-		outs = append(outs, output{"mesh-binary.vtk", "vtk-legacy-binary", func(w io.Writer) error { return vtk.WriteLegacy(w, m, fields, true) }})
+		file("mesh-binary.vtk", "vtk-legacy-binary", func(w io.Writer) error { return vtk.WriteLegacy(w, m, fields, true) })
 	}
 	if hasFormat(formats, "preview") || hasFormat(formats, "png") {
 		pin := previewInput(c.Name, m, conds, rep)
 		if hasFormat(formats, "preview") {
-			outs = append(outs, output{"preview.svg", "svg", func(w io.Writer) error { return preview.SVG(w, pin) }})
+			file("preview.svg", "svg", func(w io.Writer) error { return preview.SVG(w, pin) })
 		}
 		if hasFormat(formats, "png") {
-			outs = append(outs, output{"preview.png", "png", func(w io.Writer) error { return preview.PNG(w, pin) }})
+			file("preview.png", "png", func(w io.Writer) error { return preview.PNG(w, pin) })
 		}
 	}
-	outs = append(outs, output{"quality.json", "json", func(w io.Writer) error { return quality.WriteJSON(w, rep) }})
-	for _, o := range outs {
-		if err := atomic.WriteFile(filepath.Join(dir, o.name), o.write); err != nil {
-			return err
-		}
-		f, err := fileRecord(dir, o.name, o.format)
-		if err != nil {
-			return err
-		}
-		man.Files = append(man.Files, f)
-	}
+	file("quality.json", "json", func(w io.Writer) error { return quality.WriteJSON(w, rep) })
 	if hasFormat(formats, "vts") && len(m.Blocks) > 0 {
-		names, err := vtk.WriteStructured(dir, "blocks", m, fields)
-		if err != nil {
-			return err
-		}
-		for _, n := range names {
-			format := "vtk-xml-structured"
-			if filepath.Ext(n) == ".vtm" {
-				format = "vtk-xml-multiblock"
-			}
-			f, err := fileRecord(dir, n, format)
+		outs = append(outs, func() ([]manifest.File, error) {
+			names, err := vtk.WriteStructured(dir, "blocks", m, fields)
 			if err != nil {
-				return err
+				return nil, err
 			}
-			man.Files = append(man.Files, f)
-		}
+			var recs []manifest.File
+			for _, n := range names {
+				format := "vtk-xml-structured"
+				if filepath.Ext(n) == ".vtm" {
+					format = "vtk-xml-multiblock"
+				}
+				f, err := fileRecord(dir, n, format)
+				if err != nil {
+					return nil, err
+				}
+				recs = append(recs, f)
+			}
+			return recs, nil
+		})
 	}
 	if hasFormat(formats, "cgns") {
-		sum, err := cgns.Write(filepath.Join(dir, "mesh.cgns"), cgnsDeck(c, m, assign, fields))
-		if err != nil {
-			return err
+		outs = append(outs, func() ([]manifest.File, error) {
+			sum, err := cgns.Write(filepath.Join(dir, "mesh.cgns"), cgnsDeck(c, m, assign, fields))
+			if err != nil {
+				return nil, err
+			}
+			st, err := os.Stat(filepath.Join(dir, "mesh.cgns"))
+			if err != nil {
+				return nil, err
+			}
+			return []manifest.File{{Path: "mesh.cgns", Format: "cgns-hdf5", Bytes: st.Size(), ContentSHA256: sum}}, nil
+		})
+	}
+	recs := make([][]manifest.File, len(outs))
+	errs := make([]error, len(outs))
+	slots := make(chan struct{}, runtime.GOMAXPROCS(0))
+	var wg sync.WaitGroup
+	for i, out := range outs {
+		wg.Go(func() {
+			slots <- struct{}{}
+			defer func() { <-slots }()
+			recs[i], errs[i] = out()
+		})
+	}
+	wg.Wait()
+	for i := range outs {
+		if errs[i] != nil {
+			return errs[i]
 		}
-		st, err := os.Stat(filepath.Join(dir, "mesh.cgns"))
-		if err != nil {
-			return err
-		}
-		man.Files = append(man.Files, manifest.File{Path: "mesh.cgns", Format: "cgns-hdf5", Bytes: st.Size(), ContentSHA256: sum})
+		man.Files = append(man.Files, recs[i]...)
 	}
 	sort.Slice(man.Files, func(i, j int) bool { return man.Files[i].Path < man.Files[j].Path })
 	if hasFormat(formats, "manifest") {
@@ -274,9 +298,31 @@ func previewInput(name string, m *mesh.Mesh, conds []string, rep *quality.Report
 	return in
 }
 
-// fileRecord hashes a written file for the manifest, reading it in
-// pieces: a large deck's mesh files run to hundreds of megabytes, which
-// need not be held in memory at once.
+// writeRecorded writes the file name in dir through atomic.WriteFile and
+// returns its manifest record, hashing the bytes as they are written
+// rather than reading the file back.
+func writeRecorded(dir, name, format string, write func(w io.Writer) error) (manifest.File, error) {
+	h := &countingHash{Hash: sha256.New()}
+	if err := atomic.WriteFile(filepath.Join(dir, name), func(w io.Writer) error { return write(io.MultiWriter(w, h)) }); err != nil {
+		return manifest.File{}, err
+	}
+	return manifest.File{Path: name, Format: format, Bytes: h.n, SHA256: hex.EncodeToString(h.Sum(nil))}, nil
+}
+
+// countingHash is a hash that also counts the bytes written to it.
+type countingHash struct {
+	hash.Hash
+	n int64
+}
+
+func (c *countingHash) Write(p []byte) (int, error) {
+	c.n += int64(len(p))
+	return c.Hash.Write(p)
+}
+
+// fileRecord hashes a file written elsewhere for the manifest, reading it
+// in pieces: a large deck's files run to hundreds of megabytes, which need
+// not be held in memory at once.
 func fileRecord(dir, name, format string) (manifest.File, error) {
 	f, err := os.Open(filepath.Join(dir, name))
 	if err != nil {

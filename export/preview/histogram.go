@@ -25,11 +25,12 @@ func drawHistogram(s *scene, mt Metric, b box) {
 	}
 	lo, hi := ax.lo, ax.hi
 	var count [bins]int
+	scale := float64(bins) / (hi - lo)
 	for _, v := range mt.Values {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			continue
+		if v-v != 0 {
+			continue // NaN or infinite
 		}
-		k := int(float64(bins) * (v - lo) / (hi - lo))
+		k := int(scale * (v - lo))
 		count[min(max(k, 0), bins-1)]++
 	}
 	top := 0
@@ -84,10 +85,18 @@ func histogramAxis(mt Metric) (axis, int) {
 	var ax axis
 	lo, hi, n := math.Inf(1), math.Inf(-1), 0
 	for _, v := range mt.Values {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
+		// v − v is 0 exactly when v is finite; plain comparisons then
+		// suffice (math.Min and Max also sort out NaN and signed zeros,
+		// at several times the cost over a million values).
+		if v-v != 0 {
 			continue
 		}
-		lo, hi = math.Min(lo, v), math.Max(hi, v)
+		if v < lo {
+			lo = v
+		}
+		if v > hi {
+			hi = v
+		}
 		n++
 	}
 	if n == 0 {
