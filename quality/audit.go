@@ -29,10 +29,14 @@ func computeDualClosure(m *mesh.Mesh, d *dualSums) []float64 {
 	nn, nc := len(m.Nodes), m.NumCells()
 	var wg sync.WaitGroup
 	for h := range d.half {
-		acc := zeroed(&d.half[h], nn)
+		acc := resize(&d.half[h], nn)
 		wg.Add(1)
 		go func(lo, hi int, boundary bool) {
 			defer wg.Done()
+			// Each half is cleared here, side by side with the other, not
+			// both by the caller before they start: 1M nodes in fresh
+			// memory, 105-134 ms to 47-56 ms (reused memory unchanged).
+			clear(acc)
 			for c := lo; c < hi; c++ {
 				idx := m.CellNodes[m.CellStart[c]:m.CellStart[c+1]]
 				cc := m.Geo.CellCentroid[c]
