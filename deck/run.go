@@ -161,7 +161,7 @@ func (c *Case) limits(extra *quality.Patch) (quality.Limits, error) {
 
 // writeDeck writes every output into the (temporary) deck folder dir, then
 // the manifest with the hashes of all of them. The outputs are written
-// side by side, at most GOMAXPROCS at once, since each reads the mesh and
+// side by side, by up to GOMAXPROCS workers, since each reads the mesh and
 // the report alone (the CGNS file, whose library takes one call at a time
 // within a process, is one of them); a file's bytes do not depend on what
 // else is being written. The first error in output order is returned, so
@@ -175,6 +175,21 @@ func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *qu
 		outs = append(outs, func() ([]manifest.File, error) {
 			f, err := writeRecorded(dir, name, format, write)
 			return []manifest.File{f}, err
+		})
+	}
+	// The workers take the outputs in list order, so the largest come
+	// first: the CGNS file, then the VTK mesh.
+	if hasFormat(formats, "cgns") {
+		outs = append(outs, func() ([]manifest.File, error) {
+			sum, err := cgns.Write(filepath.Join(dir, "mesh.cgns"), cgnsDeck(c, m, assign, fields))
+			if err != nil {
+				return nil, err
+			}
+			st, err := os.Stat(filepath.Join(dir, "mesh.cgns"))
+			if err != nil {
+				return nil, err
+			}
+			return []manifest.File{{Path: "mesh.cgns", Format: "cgns-hdf5", Bytes: st.Size(), ContentSHA256: sum}}, nil
 		})
 	}
 	if hasFormat(formats, "vtu") {
@@ -218,28 +233,19 @@ func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *qu
 			return recs, nil
 		})
 	}
-	if hasFormat(formats, "cgns") {
-		outs = append(outs, func() ([]manifest.File, error) {
-			sum, err := cgns.Write(filepath.Join(dir, "mesh.cgns"), cgnsDeck(c, m, assign, fields))
-			if err != nil {
-				return nil, err
-			}
-			st, err := os.Stat(filepath.Join(dir, "mesh.cgns"))
-			if err != nil {
-				return nil, err
-			}
-			return []manifest.File{{Path: "mesh.cgns", Format: "cgns-hdf5", Bytes: st.Size(), ContentSHA256: sum}}, nil
-		})
-	}
 	recs := make([][]manifest.File, len(outs))
 	errs := make([]error, len(outs))
-	slots := make(chan struct{}, runtime.GOMAXPROCS(0))
+	next := make(chan int, len(outs))
+	for i := range outs {
+		next <- i
+	}
+	close(next)
 	var wg sync.WaitGroup
-	for i, out := range outs {
+	for range min(runtime.GOMAXPROCS(0), len(outs)) {
 		wg.Go(func() {
-			slots <- struct{}{}
-			defer func() { <-slots }()
-			recs[i], errs[i] = out()
+			for i := range next {
+				recs[i], errs[i] = outs[i]()
+			}
 		})
 	}
 	wg.Wait()
