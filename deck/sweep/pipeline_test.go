@@ -42,15 +42,7 @@ func TestPipelineSweepIsDeterministic(t *testing.T) {
 // TestPipelineResumeKeepsDecks runs the refinement family twice: the second
 // run reuses every deck and leaves every file as it was.
 func TestPipelineResumeKeepsDecks(t *testing.T) {
-	f, err := ReadFile(filepath.Join("..", "..", "samples", "sweeps", "nozzle-refine.yaml"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	dir := t.TempDir()
-	first, err := Run(context.Background(), f, dir, NewPipeline(f), Options{Workers: 2})
-	if err != nil {
-		t.Fatal(err)
-	}
+	f, dir, first := runSampleSweep(t, "nozzle-refine.yaml")
 	before := deckFiles(t, dir)
 	second, err := Run(context.Background(), f, dir, NewPipeline(f), Options{Workers: 2})
 	if err != nil {
@@ -107,15 +99,7 @@ func TestPipelineResumeKeepsDecks(t *testing.T) {
 // common practice), must be the target within a few per cent. The summary
 // and its CSV carry it per variant.
 func TestPipelineWallResolution(t *testing.T) {
-	f, err := ReadFile(filepath.Join("..", "..", "samples", "sweeps", "naca-yplus.yaml"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	dir := t.TempDir()
-	s, err := Run(context.Background(), f, dir, NewPipeline(f), Options{Workers: 2})
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, _, s := runSampleSweep(t, "naca-yplus.yaml")
 	if len(s.Rows) != 3 {
 		t.Fatalf("%d rows", len(s.Rows))
 	}
@@ -132,4 +116,21 @@ func TestPipelineWallResolution(t *testing.T) {
 	if head := strings.SplitN(string(s.CSV()), "\n", 2)[0]; !strings.Contains(head, ",yplus_max_wing,") {
 		t.Errorf("CSV header %q has no yplus_max_wing column", head)
 	}
+}
+
+// runSampleSweep runs the sample sweep file name through the real
+// pipeline on two workers into a fresh folder and returns the sweep, the
+// folder and the summary.
+func runSampleSweep(t *testing.T, name string) (*File, string, *Summary) {
+	t.Helper()
+	f, err := ReadFile(filepath.Join("..", "..", "samples", "sweeps", name))
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	s, err := Run(context.Background(), f, dir, NewPipeline(f), Options{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return f, dir, s
 }
