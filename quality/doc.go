@@ -14,8 +14,12 @@
 //   - connectivity checks (faces and their cells, tags, a watertight
 //     boundary whose faces do not cross, duplicate, unused and hanging
 //     nodes, orientation);
+//   - the boundary faces by tag: count, total length and the first-cell
+//     height (the height of the tag's cells normal to its faces);
 //   - a pass / warn / fail status per cell and metric and a verdict that is
 //     fail if any cell fails.
+//
+// Node coordinates must be finite and within MaxCoordinate.
 //
 // The report is written as a terminal table (WriteText) or JSON
 // (encoding/json, deterministic), and carries the per-cell arrays
