@@ -35,8 +35,9 @@ func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *q
 		man.Tags = append(man.Tags, e)
 	}
 	for _, w := range walls {
-		if w.TargetHeight > 0 {
-			man.Tags[slices.IndexFunc(man.Tags, func(e manifest.Tag) bool { return e.Tag == w.Tag })].Yplus = manifestSpread(w.Yplus, "1")
+		k := slices.IndexFunc(man.Tags, func(e manifest.Tag) bool { return e.Tag == w.Tag })
+		if w.TargetHeight > 0 && k >= 0 {
+			man.Tags[k].Yplus = manifestSpread(w.Yplus, "1")
 		}
 	}
 	if assign != nil {

@@ -49,7 +49,7 @@ type Row struct {
 	H         float64            `json:"h,omitempty"`     // representative cell size (A/N)^(1/2)
 	Ratio     float64            `json:"ratio,omitempty"` // h of the next coarser level over h
 	Worst     map[string]float64 `json:"worst,omitempty"`
-	YplusMax  map[string]float64 `json:"yplus_max,omitempty"` // by wall tag`
+	YplusMax  map[string]float64 `json:"yplus_max,omitempty"` // by wall tag
 	InputHash string             `json:"input_hash,omitempty"`
 	Error     string             `json:"error,omitempty"`
 	Run       string             `json:"run"`
