@@ -14,7 +14,7 @@ import (
 // on a log scale, log10(1 + count) / log10(1 + largest count), so that a
 // handful of bad cells still shows beside a million good ones; the limits
 // on the axis as dashed lines in their status colour, and those off it
-// named in a line of text beneath.
+// named in a line of text beneath for each end.
 func drawHistogram(s *scene, mt Metric, b box) {
 	s.text(b.x, b.y-8, 13, start, ink, true, mt.Name)
 	s.rect(b, &white, &panelLine, 1)
@@ -56,8 +56,8 @@ func drawHistogram(s *scene, mt Metric, b box) {
 	s.text(b.x, b.y+b.h+16, 12, start, faint, false, short(lo))
 	s.text(b.x+b.w, b.y+b.h+16, 12, end, faint, false, short(hi))
 	s.text(b.x, b.y+b.h+34, 12, start, faint, false, fmt.Sprintf("%d values; bar height: log count, tallest %d", n, top))
-	if off := ax.offText(); off != "" {
-		s.text(b.x, b.y+b.h+52, 12, start, faint, false, off)
+	for i, line := range ax.offLines() {
+		s.text(b.x, b.y+b.h+52+18*float64(i), 12, start, faint, false, line)
 	}
 }
 
@@ -137,9 +137,9 @@ func histogramAxis(mt Metric) (axis, int) {
 	return ax, n
 }
 
-// offText names the limits beyond the axis, "" when there are none.
-func (ax axis) offText() string {
-	var parts []string
+// offLines names the limits beyond each end of the axis, a line for each
+// end that has any (short enough for the column in the raster font).
+func (ax axis) offLines() []string {
 	name := func(ls []Limit) string {
 		var out []string
 		for _, l := range ls {
@@ -151,16 +151,14 @@ func (ax axis) offText() string {
 		}
 		return strings.Join(out, ", ")
 	}
+	var lines []string
 	if len(ax.below) > 0 {
-		parts = append(parts, "below the axis: "+name(ax.below))
+		lines = append(lines, "below the axis: "+name(ax.below))
 	}
 	if len(ax.above) > 0 {
-		parts = append(parts, "beyond the axis: "+name(ax.above))
+		lines = append(lines, "beyond the axis: "+name(ax.above))
 	}
-	if parts == nil {
-		return ""
-	}
-	return "off the scale, " + strings.Join(parts, "; ")
+	return lines
 }
 
 // short formats v in four significant digits.

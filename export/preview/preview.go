@@ -88,7 +88,7 @@ const (
 	columnX   = margin + viewW + 24
 	columnW   = canvasW - columnX - margin
 	histH     = 96
-	histBlock = histH + 96
+	histBlock = histH + 114
 	bins      = 40
 )
 
