@@ -99,8 +99,8 @@ var fuzzReused Evaluator
 // zero-area cells flagged"); and boundary_tag counts exactly the untagged
 // boundary faces.
 func FuzzEvaluate(f *testing.F) {
-	// A unit square as two triangles, a quad with an inverted twin, a
-	// bow-tie, and a fan with coincident nodes.
+	// Seeds: the unit square as two triangles at 1 m, one triangle at
+	// 1e3 m, and two small meshes beyond MaxCoordinate (1e160 and 1e300 m).
 	f.Add([]byte{1, 0, 0x55, 0, 0, 8, 0, 8, 8, 0, 8, 0, 0, 1, 2, 0, 2, 3, 0})
 	f.Add([]byte{5, 2, 0x99, 0, 0, 8, 0, 8, 8, 0, 8, 16, 0, 16, 8, 0, 1, 2, 3, 4, 1, 2, 7, 6, 1, 3, 5, 4})
 	f.Add([]byte{1, 4, 0xff, 0, 0, 8, 8, 8, 0, 0, 8, 1, 0, 1, 2, 3})
