@@ -99,9 +99,10 @@ func Kinds() []Kind {
 
 func (k Kind) valid() bool { return k >= WallAdiabatic && k <= Periodic }
 
-// NoSlip reports whether the kind is a no-slip wall, where a boundary
-// layer forms and the first-cell height sets y+.
-func (k Kind) NoSlip() bool { return k == WallAdiabatic || k == WallIsothermal }
+// FrictionWall reports whether the kind is a wall the flow sticks to
+// (zero velocity there), where a boundary layer forms and the first-cell
+// height sets y+.
+func (k Kind) FrictionWall() bool { return k == WallAdiabatic || k == WallIsothermal }
 
 // String returns the kind's case-file key, such as "wall-adiabatic".
 func (k Kind) String() string {

@@ -89,11 +89,9 @@ func (c *Case) advice(m *mesh.Mesh) bc.Entries {
 		out = append(out, bc.Entry{Key: "reynolds", Value: r.state.Reynolds(r.length), Unit: "1"},
 			bc.Entry{Key: "reference_length", Value: r.length, Unit: "m"})
 	}
-	if r.yplus > 0 {
-		if ws, err := bc.FirstCellHeight(r.state, r.length, r.yplus); err == nil {
-			out = append(out, bc.Entry{Key: "target_yplus", Value: r.yplus, Unit: "1"},
-				bc.Entry{Key: "first_cell_height", Value: ws.Height, Unit: "m"})
-		}
+	if yplus, h := c.targetHeight(); h > 0 {
+		out = append(out, bc.Entry{Key: "target_yplus", Value: yplus, Unit: "1"},
+			bc.Entry{Key: "first_cell_height", Value: h, Unit: "m"})
 	}
 	if r.state.Velocity > 0 {
 		u := r.direction()

@@ -30,15 +30,10 @@ func (c *Case) wallResolution(rep *quality.Report, assign *bc.Assignment) []Wall
 	if assign == nil {
 		return nil
 	}
-	var yplus, target float64
-	if r := c.Reference; r != nil && r.yplus > 0 {
-		if ws, err := bc.FirstCellHeight(r.state, r.length, r.yplus); err == nil {
-			yplus, target = r.yplus, ws.Height
-		}
-	}
+	yplus, target := c.targetHeight()
 	var out []WallResolution
 	for t, cond := range assign.Conditions {
-		if !cond.Kind.NoSlip() || t >= len(rep.Boundary) || rep.Boundary[t].Faces == 0 {
+		if !cond.Kind.FrictionWall() || t >= len(rep.Boundary) || rep.Boundary[t].Faces == 0 {
 			continue
 		}
 		h := rep.Boundary[t].FirstCellHeight
@@ -50,6 +45,21 @@ func (c *Case) wallResolution(rep *quality.Report, assign *bc.Assignment) []Wall
 		out = append(out, w)
 	}
 	return out
+}
+
+// targetHeight returns the case's target y+ and the first-cell height
+// advised for it (bc.FirstCellHeight at the reference length), both 0 when
+// the case sets no target or the estimate cannot be made.
+func (c *Case) targetHeight() (yplus, height float64) {
+	r := c.Reference
+	if r == nil || r.yplus <= 0 {
+		return 0, 0
+	}
+	ws, err := bc.FirstCellHeight(r.state, r.length, r.yplus)
+	if err != nil {
+		return 0, 0
+	}
+	return r.yplus, ws.Height
 }
 
 // manifestSpread turns a report's spread into the manifest's, nil when it

@@ -54,29 +54,20 @@ func fuzzMesh(data []byte) *mesh.Mesh {
 	}
 	// Tag boundary edges by the bits of tagging: an edge used once, in
 	// the cells' order, takes tag a, tag b or none.
-	used := map[[2]int32]int{}
-	var order [][2]int32
+	var cells [][]int32
 	for c := 0; c+1 < len(in.CellStart); c++ {
-		idx := in.CellNodes[in.CellStart[c]:in.CellStart[c+1]]
-		for k := range idx {
-			a, b := idx[k], idx[(k+1)%len(idx)]
-			key := [2]int32{min(a, b), max(a, b)}
-			if used[key] == 0 {
-				order = append(order, key)
-			}
-			used[key]++
-		}
+		cells = append(cells, in.CellNodes[in.CellStart[c]:in.CellStart[c+1]])
 	}
 	bit := 0
-	for _, e := range order {
-		if used[e] != 1 || e[0] == e[1] {
+	for _, e := range boundaryEdges(cells) {
+		if e.A == e.B {
 			continue
 		}
 		switch (tagging >> (bit % 8)) & 3 {
 		case 1:
-			in.Edges = append(in.Edges, mesh.TaggedEdge{A: e[0], B: e[1], Tag: 0})
+			in.Edges = append(in.Edges, mesh.TaggedEdge{A: e.A, B: e.B, Tag: 0})
 		case 2:
-			in.Edges = append(in.Edges, mesh.TaggedEdge{A: e[0], B: e[1], Tag: 1})
+			in.Edges = append(in.Edges, mesh.TaggedEdge{A: e.A, B: e.B, Tag: 1})
 		}
 		bit += 2
 	}
