@@ -2,7 +2,6 @@ package vtk
 
 import (
 	"bytes"
-	"compress/zlib"
 	"encoding/base64"
 	"encoding/binary"
 	"encoding/xml"
@@ -516,9 +515,19 @@ func (x *xmlFile) blob(src byteSource) ([]byte, error) {
 	if nb > 0 && (nb-1)*bs+last > maxArrayBytes {
 		return nil, fmt.Errorf("compression header declares %d blocks of %d bytes", nb, bs)
 	}
-	var out []byte
-	for k := uint64(0); k < nb; k++ {
-		cs := x.uint(h[(2+k)*hs:])
+	// The blocks are found and their sizes checked in order, then the
+	// output is taken at once and the blocks are inflated side by side:
+	// each is a zlib stream of its own. A block's size is checked against
+	// what its compressed bytes can give before anything is allocated, so
+	// the whole allocation is bounded by the data present.
+	type block struct {
+		data      []byte
+		at, bytes uint64
+	}
+	blocks := make([]block, nb)
+	var total uint64
+	for k := range blocks {
+		cs := x.uint(h[(2+uint64(k))*hs:])
 		if cs > maxArrayBytes {
 			return nil, fmt.Errorf("block %d: compressed size %d", k, cs)
 		}
@@ -527,67 +536,115 @@ func (x *xmlFile) blob(src byteSource) ([]byte, error) {
 			return nil, fmt.Errorf("block %d: %w", k, err)
 		}
 		want := bs
-		if k == nb-1 {
+		if uint64(k) == nb-1 {
 			want = last
 		}
 		// zlib cannot expand data more than about 1032 times (RFC
 		// 1950/1951: a 258-byte match per 2 bits at best), so a larger
-		// declared size is corrupt; checking first keeps a bad header
-		// from allocating.
+		// declared size is corrupt.
 		if want > 1100*cs+64 {
 			return nil, fmt.Errorf("block %d: %d bytes declared from %d compressed; zlib cannot expand that much", k, want, cs)
 		}
-		zr, err := zlib.NewReader(bytes.NewReader(c))
-		if err != nil {
-			return nil, fmt.Errorf("block %d: zlib: %w", k, err)
+		blocks[k] = block{c, total, want}
+		total += want
+	}
+	out := make([]byte, total)
+	err = inflateSideBySide(len(blocks), func(k int, zr *zlibReader) error {
+		b := blocks[k]
+		if err := zr.reset(b.data); err != nil {
+			return fmt.Errorf("block %d: zlib: %w", k, err)
 		}
-		start := len(out)
-		out = append(out, make([]byte, want)...)
-		if _, err := io.ReadFull(zr, out[start:]); err != nil {
-			return nil, fmt.Errorf("block %d: zlib: %w (want %d bytes)", k, err, want)
+		if _, err := io.ReadFull(zr.r, out[b.at:b.at+b.bytes]); err != nil {
+			return fmt.Errorf("block %d: zlib: %w (want %d bytes)", k, err, b.bytes)
 		}
+		// The stream must end there: reading on to its end is what checks
+		// its Adler-32 checksum (RFC 1950), which catches a corrupt block
+		// that still inflates to the declared size.
+		var more [1]byte
+		switch n, err := io.ReadFull(zr.r, more[:]); {
+		case n > 0:
+			return fmt.Errorf("block %d: zlib: the stream holds more than the declared %d bytes", k, b.bytes)
+		case err != io.EOF:
+			return fmt.Errorf("block %d: zlib: %w", k, err)
+		}
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
 	return out, nil
 }
 
-// decodeBinary converts raw values of the VTK type typ.
+// decodeBinary converts raw values of the VTK type typ. Each type has a
+// loop of its own (a type test per value had made this the slowest part of
+// reading a large raw file), and a large array is converted in ranges side
+// by side.
 func (a *array) decodeBinary(b []byte, typ string, o binary.ByteOrder) error {
 	n := len(b) / typeSize[typ]
 	switch typ {
 	case "Float32", "Float64":
-		a.floats = make([]float64, n)
-		for i := range a.floats {
+		f := make([]float64, n)
+		a.floats = f
+		inRanges(n, func(lo, hi int) {
 			if typ == "Float32" {
-				a.floats[i] = float64(math.Float32frombits(o.Uint32(b[4*i:])))
-			} else {
-				a.floats[i] = math.Float64frombits(o.Uint64(b[8*i:]))
+				for i := lo; i < hi; i++ {
+					f[i] = float64(math.Float32frombits(o.Uint32(b[4*i:])))
+				}
+				return
 			}
-		}
+			for i := lo; i < hi; i++ {
+				f[i] = math.Float64frombits(o.Uint64(b[8*i:]))
+			}
+		})
 		return nil
 	}
-	a.ints = make([]int64, n)
-	for i := range a.ints {
+	v := make([]int64, n)
+	a.ints = v
+	// tooLarge is the first UInt64 value beyond int64 in each range.
+	tooLarge := make([]int, len(rangeBounds(n))-1)
+	inRangesK(n, func(k, lo, hi int) {
+		tooLarge[k] = -1
 		switch typ {
 		case "Int8":
-			a.ints[i] = int64(int8(b[i]))
-		case "UInt8":
-			a.ints[i] = int64(b[i])
-		case "Int16":
-			a.ints[i] = int64(int16(o.Uint16(b[2*i:])))
-		case "UInt16":
-			a.ints[i] = int64(o.Uint16(b[2*i:]))
-		case "Int32":
-			a.ints[i] = int64(int32(o.Uint32(b[4*i:])))
-		case "UInt32":
-			a.ints[i] = int64(o.Uint32(b[4*i:]))
-		case "Int64":
-			a.ints[i] = int64(o.Uint64(b[8*i:]))
-		case "UInt64":
-			v := o.Uint64(b[8*i:])
-			if v > math.MaxInt64 {
-				return fmt.Errorf("value %d (%d) is too large", i, v)
+			for i := lo; i < hi; i++ {
+				v[i] = int64(int8(b[i]))
 			}
-			a.ints[i] = int64(v)
+		case "UInt8":
+			for i := lo; i < hi; i++ {
+				v[i] = int64(b[i])
+			}
+		case "Int16":
+			for i := lo; i < hi; i++ {
+				v[i] = int64(int16(o.Uint16(b[2*i:])))
+			}
+		case "UInt16":
+			for i := lo; i < hi; i++ {
+				v[i] = int64(o.Uint16(b[2*i:]))
+			}
+		case "Int32":
+			for i := lo; i < hi; i++ {
+				v[i] = int64(int32(o.Uint32(b[4*i:])))
+			}
+		case "UInt32":
+			for i := lo; i < hi; i++ {
+				v[i] = int64(o.Uint32(b[4*i:]))
+			}
+		case "Int64":
+			for i := lo; i < hi; i++ {
+				v[i] = int64(o.Uint64(b[8*i:]))
+			}
+		case "UInt64":
+			for i := lo; i < hi; i++ {
+				v[i] = int64(o.Uint64(b[8*i:]))
+				if v[i] < 0 && tooLarge[k] < 0 {
+					tooLarge[k] = i
+				}
+			}
+		}
+	})
+	for _, i := range tooLarge {
+		if i >= 0 {
+			return fmt.Errorf("value %d (%d) is too large", i, o.Uint64(b[8*i:]))
 		}
 	}
 	return nil
