@@ -160,58 +160,132 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 		}
 		return g.slabMesh(sl)
 	}
-	in := mesh.Input{Nodes: make([]orb.Point, np), CellStart: make([]int32, 1, nc+1), CellNodes: make([]int32, 0, len(g.conn))}
-	for i := range in.Nodes {
-		x, y, z := g.points[3*i], g.points[3*i+1], g.points[3*i+2]
-		if z != g.points[2] {
-			return nil, fmt.Errorf("%s: point %d has z = %g but point 0 has z = %g; cvdeck reads plane 2D meshes (all z equal), or slabs one cell thick of hexahedra, voxels or wedges", g.file, i, z, g.points[2])
+	in := mesh.Input{Nodes: make([]orb.Point, np)}
+	if err := firstRangeError(np, func(lo, hi int) error {
+		for i := lo; i < hi; i++ {
+			x, y, z := g.points[3*i], g.points[3*i+1], g.points[3*i+2]
+			if z != g.points[2] {
+				return fmt.Errorf("%s: point %d has z = %g but point 0 has z = %g; cvdeck reads plane 2D meshes (all z equal), or slabs one cell thick of hexahedra, voxels or wedges", g.file, i, z, g.points[2])
+			}
+			in.Nodes[i] = orb.Point{x, y}
 		}
-		in.Nodes[i] = orb.Point{x, y}
+		return nil
+	}); err != nil {
+		return nil, err
 	}
 	if z := g.points[2]; z != 0 {
 		g.notes = append(g.notes, fmt.Sprintf("a plane mesh on z = %g, read as 2D (z dropped)", z))
 	}
-	tags, err := g.newEdgeTagger(&in)
-	if err != nil {
+	if err := g.planeCells(&in); err != nil {
 		return nil, err
 	}
-	vertices := 0
-	for c := 0; c < nc; c++ {
-		nodes := g.cell(c)
-		t := g.types[c]
-		want := fixedPoints(t)
-		if want > 0 && len(nodes) != want || (t == cellPolygon && len(nodes) < 3) || (t == cellPolyLine && len(nodes) < 2) {
-			return nil, fmt.Errorf("%s: cell %d is a %s with %d points", g.file, c, cellTypeName[t], len(nodes))
-		}
-		switch t {
-		case cellVertex, cellPolyVertex:
-			vertices++
-			continue
-		case cellTriangle, cellQuad, cellPolygon:
-			for _, v := range nodes {
-				in.CellNodes = append(in.CellNodes, int32(v))
-			}
-		case cellPixel:
-			// A pixel's points run in (i, j) order; as a polygon its
-			// third and fourth swap (VTK file-format document, figure
-			// of linear cell types).
-			in.CellNodes = append(in.CellNodes, int32(nodes[0]), int32(nodes[1]), int32(nodes[3]), int32(nodes[2]))
-		case cellLine, cellPolyLine:
-			if err := tags.chain(c, nodes, func(v int64) int32 { return int32(v) }); err != nil {
-				return nil, err
-			}
-			continue
-		default:
-			return nil, fmt.Errorf("%s: cell %d has VTK type %d (%s); cvdeck reads triangles (5), quads (9), pixels (8), polygons (7) and boundary lines (3, 4)", g.file, c, t, typeName(t))
-		}
-		if len(in.CellNodes) > math.MaxInt32 {
-			return nil, fmt.Errorf("%s: more than %d cell nodes", g.file, math.MaxInt32)
-		}
-		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+	m, err := mesh.Build(in)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", g.file, err)
 	}
-	if len(in.CellStart) == 1 {
-		return nil, fmt.Errorf("%s: no triangle, quad, pixel or polygon cells; nothing to check", g.file)
+	return m, nil
+}
+
+// planeCells turns the cells of a plane grid into the cells and tagged
+// boundary edges of in: triangles, quads, pixels and polygons become
+// cells, lines and polylines tagged edges, vertex cells are skipped (with
+// a note). The cells are sized and checked in ranges side by side, then
+// copied into place side by side; the lines go through the edge tagger in
+// cell order. The first error in cell order is the one returned, as one
+// loop over the cells would return it.
+func (g *grid) planeCells(in *mesh.Input) error {
+	nc := len(g.types)
+	b := rangeBounds(nc)
+	type part struct {
+		cells, nodes, vertices int
+		lines                  []int
+		bad                    int // the first bad cell, nc when none
+		err                    error
 	}
+	parts := make([]part, len(b)-1)
+	inRangesK(nc, func(k, lo, hi int) {
+		p := &parts[k]
+		p.bad = nc
+		for c := lo; c < hi; c++ {
+			nodes := g.cell(c)
+			t := g.types[c]
+			want := fixedPoints(t)
+			if want > 0 && len(nodes) != want || (t == cellPolygon && len(nodes) < 3) || (t == cellPolyLine && len(nodes) < 2) {
+				p.bad, p.err = c, fmt.Errorf("%s: cell %d is a %s with %d points", g.file, c, cellTypeName[t], len(nodes))
+				return
+			}
+			switch t {
+			case cellVertex, cellPolyVertex:
+				p.vertices++
+			case cellTriangle, cellQuad, cellPolygon, cellPixel:
+				p.cells++
+				p.nodes += len(nodes)
+			case cellLine, cellPolyLine:
+				p.lines = append(p.lines, c)
+			default:
+				p.bad, p.err = c, fmt.Errorf("%s: cell %d has VTK type %d (%s); cvdeck reads triangles (5), quads (9), pixels (8), polygons (7) and boundary lines (3, 4)", g.file, c, t, typeName(t))
+				return
+			}
+		}
+	})
+	tags, err := g.newEdgeTagger(in)
+	if err != nil {
+		return err
+	}
+	// Where each range's cells and cell nodes go, and the first error.
+	cellAt, nodeAt := make([]int, len(parts)+1), make([]int, len(parts)+1)
+	bad, badErr, vertices := nc, error(nil), 0
+	for k, p := range parts {
+		cellAt[k+1], nodeAt[k+1] = cellAt[k]+p.cells, nodeAt[k]+p.nodes
+		vertices += p.vertices
+		if p.err != nil && bad == nc {
+			bad, badErr = p.bad, p.err
+		}
+	}
+	for _, p := range parts {
+		for _, c := range p.lines {
+			if c > bad {
+				break
+			}
+			if err := tags.chain(c, g.cell(c), func(v int64) int32 { return int32(v) }); err != nil {
+				return err
+			}
+		}
+	}
+	if badErr != nil {
+		return badErr
+	}
+	total := nodeAt[len(parts)]
+	if total > math.MaxInt32 {
+		return fmt.Errorf("%s: more than %d cell nodes", g.file, math.MaxInt32)
+	}
+	if cellAt[len(parts)] == 0 {
+		return fmt.Errorf("%s: no triangle, quad, pixel or polygon cells; nothing to check", g.file)
+	}
+	in.CellStart = make([]int32, cellAt[len(parts)]+1)
+	in.CellNodes = make([]int32, total)
+	inRangesK(nc, func(k, lo, hi int) {
+		cell, at := cellAt[k], nodeAt[k]
+		for c := lo; c < hi; c++ {
+			nodes := g.cell(c)
+			switch g.types[c] {
+			case cellTriangle, cellQuad, cellPolygon:
+				for i, v := range nodes {
+					in.CellNodes[at+i] = int32(v)
+				}
+			case cellPixel:
+				// A pixel's points run in (i, j) order; as a polygon its
+				// third and fourth swap (VTK file-format document, figure
+				// of linear cell types).
+				copy(in.CellNodes[at:], []int32{int32(nodes[0]), int32(nodes[1]), int32(nodes[3]), int32(nodes[2])})
+			default:
+				continue
+			}
+			at += len(nodes)
+			cell++
+			in.CellStart[cell] = int32(at)
+		}
+	})
 	if vertices > 0 {
 		what := "vertex cells"
 		if vertices == 1 {
@@ -219,11 +293,20 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 		}
 		g.notes = append(g.notes, fmt.Sprintf("%d %s skipped", vertices, what))
 	}
-	m, err := mesh.Build(in)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", g.file, err)
+	return nil
+}
+
+// firstRangeError calls fn on the ranges of rangeBounds(n) side by side
+// and returns the error of the first range, in order, that failed.
+func firstRangeError(n int, fn func(lo, hi int) error) error {
+	errs := make([]error, len(rangeBounds(n))-1)
+	inRangesK(n, func(k, lo, hi int) { errs[k] = fn(lo, hi) })
+	for _, err := range errs {
+		if err != nil {
+			return err
+		}
 	}
-	return m, nil
+	return nil
 }
 
 // fixedPoints is the number of points a cell of VTK type t has when that
@@ -245,22 +328,29 @@ func fixedPoints(t int64) int {
 }
 
 // checkCells checks that the cell offsets run in order within the
-// connectivity and that every point number is a point of the grid.
+// connectivity and that every point number is a point of the grid, in
+// ranges of cells side by side; the first bad cell is the one named.
 func (g *grid) checkCells() error {
 	np := int64(len(g.points) / 3)
-	start := int64(0)
-	for c, end := range g.offsets {
-		if end < start || end > int64(len(g.conn)) {
-			return fmt.Errorf("%s: cell %d: offset %d is out of order or past the %d connectivity entries", g.file, c, end, len(g.conn))
+	return firstRangeError(len(g.offsets), func(lo, hi int) error {
+		start := int64(0)
+		if lo > 0 {
+			start = g.offsets[lo-1]
 		}
-		for _, v := range g.conn[start:end] {
-			if v < 0 || v >= np {
-				return fmt.Errorf("%s: cell %d refers to point %d; points run from 0 to %d", g.file, c, v, np-1)
+		for c := lo; c < hi; c++ {
+			end := g.offsets[c]
+			if end < start || end > int64(len(g.conn)) {
+				return fmt.Errorf("%s: cell %d: offset %d is out of order or past the %d connectivity entries", g.file, c, end, len(g.conn))
 			}
+			for _, v := range g.conn[start:end] {
+				if v < 0 || v >= np {
+					return fmt.Errorf("%s: cell %d refers to point %d; points run from 0 to %d", g.file, c, v, np-1)
+				}
+			}
+			start = end
 		}
-		start = end
-	}
-	return nil
+		return nil
+	})
 }
 
 // cell returns the point numbers of cell c (after checkCells).

@@ -1,5 +1,8 @@
 package vtk
 
+// This file holds what the readers do side by side: zlib blocks inflated
+// in parallel, and index ranges of large arrays converted in parallel.
+
 import (
 	"bytes"
 	"compress/zlib"

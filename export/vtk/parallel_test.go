@@ -8,6 +8,8 @@ import (
 	"slices"
 	"strings"
 	"testing"
+
+	"cvdeck/mesh"
 )
 
 // zlibBlob is an array's compressed data as the VTK XML writer lays it out
@@ -104,5 +106,48 @@ func TestDecodeUInt64TooLarge(t *testing.T) {
 	err := a.decodeBinary(b, "UInt64", binary.LittleEndian)
 	if want := "value " + itoa(minRange+5) + " (18446744073709551615) is too large"; err == nil || err.Error() != want {
 		t.Fatalf("error %v, want %q", err, want)
+	}
+}
+
+// bigGrid is a grid of n triangles, each on the points 0, 1, 2 of a unit
+// right triangle, all the same cell repeated.
+func bigGrid(n int) *grid {
+	g := &grid{file: "big.vtu", points: []float64{0, 0, 0, 1, 0, 0, 0, 1, 0}}
+	for c := range n {
+		g.conn = append(g.conn, 0, 1, 2)
+		g.offsets = append(g.offsets, int64(3*c+3))
+		g.types = append(g.types, cellTriangle)
+	}
+	return g
+}
+
+// Cells checked and converted in ranges side by side: of two bad cells in
+// different ranges the first is named, as one loop over the cells would
+// name it, and a sound grid converts whole.
+func TestGridRangesFirstError(t *testing.T) {
+	n := 3 * minRange
+	for _, tc := range []struct {
+		spoil func(g *grid, c int)
+		want  string
+	}{
+		{func(g *grid, c int) { g.types[c] = 10 }, "has VTK type 10 (tetra)"},
+		{func(g *grid, c int) { g.conn[3*c+1] = 7 }, "refers to point 7"},
+		{func(g *grid, c int) { g.offsets[c]-- }, "is a triangle with 2 points"},
+	} {
+		g := bigGrid(n)
+		tc.spoil(g, 2*minRange+3)
+		tc.spoil(g, minRange+1)
+		_, err := g.toMesh()
+		if want := "big.vtu: cell " + itoa(minRange+1) + " "; err == nil || !strings.HasPrefix(err.Error(), want) || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("error %v, want %q … %q", err, want, tc.want)
+		}
+	}
+	g := bigGrid(n)
+	var in mesh.Input
+	if err := g.planeCells(&in); err != nil {
+		t.Fatal(err)
+	}
+	if len(in.CellStart) != n+1 || in.CellStart[n] != int32(3*n) || !slices.Equal(in.CellNodes[3*n-3:], []int32{0, 1, 2}) {
+		t.Fatalf("%d cell starts, last %d, last cell %v", len(in.CellStart), in.CellStart[len(in.CellStart)-1], in.CellNodes[len(in.CellNodes)-3:])
 	}
 }
