@@ -116,8 +116,13 @@ func PolygonAreaCentroid(nodes []orb.Point, idx []int32) (float64, orb.Point) {
 	var mx, my float64
 	px, py := 0.0, 0.0
 	for k := 1; k <= n; k++ {
-		q := nodes[idx[k%n]]
-		qx, qy := q[0]-o[0], q[1]-o[1]
+		// The vertices after the first, then the first again to close
+		// the polygon (no modulo: an integer division per vertex).
+		var qx, qy float64
+		if k < n {
+			q := nodes[idx[k]]
+			qx, qy = q[0]-o[0], q[1]-o[1]
+		}
 		cr := px*qy - qx*py
 		a2 += cr
 		cx += (px + qx) * cr
