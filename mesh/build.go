@@ -5,6 +5,8 @@ import (
 	"runtime"
 
 	"github.com/paulmach/orb"
+
+	"cvdeck/internal/hugepage"
 )
 
 // TaggedEdge marks the boundary edge between nodes A and B (either order)
@@ -63,8 +65,8 @@ func Build(in Input) (*Mesh, error) {
 	// side (see inParts) and gives what one pass in order gives: counts
 	// are kept per range and offset by the ranges before, and an error is
 	// the one the lowest range finds first.
-	halfCell := make([]int32, nh)
-	nextOf := make([]int32, nh)
+	halfCell := hugepage.Make[int32](nh)
+	nextOf := hugepage.Make[int32](nh)
 	cellParts := partBounds(nc)
 	cellErr := make([]error, len(cellParts)-1)
 	inParts(cellParts, func(k, clo, chi int) {
@@ -112,7 +114,7 @@ func Build(in Input) (*Mesh, error) {
 		hist[k] = n
 	})
 	start := rangeOffsets(hist, int(nn))
-	bucket := make([]halfEdge, nh)
+	bucket := hugepage.Make[halfEdge](nh)
 	inParts(hParts, func(k, hlo, hhi int) {
 		fill := hist[k]
 		for h := int32(hlo); h < int32(hhi); h++ {
@@ -125,8 +127,8 @@ func Build(in Input) (*Mesh, error) {
 
 	// twin[h] is the other half-edge of h's face, -1 on the boundary; only
 	// the first half-edge (lowest h, so lowest cell) of each face owns it.
-	twin := make([]int32, nh)
-	isOwner := make([]bool, nh)
+	twin := hugepage.Make[int32](nh)
+	isOwner := hugepage.Make[bool](nh)
 	nodeParts := partBounds(int(nn))
 	matchErr := make([]error, len(nodeParts)-1)
 	inParts(nodeParts, func(k, nlo, nhi int) {
@@ -161,7 +163,7 @@ func Build(in Input) (*Mesh, error) {
 	}
 
 	// Tagged edges, bucketed the same way.
-	tagOf := make([]int16, nh)
+	tagOf := hugepage.Make[int16](nh)
 	for h := range tagOf {
 		tagOf[h] = -1
 	}
@@ -230,12 +232,12 @@ func Build(in Input) (*Mesh, error) {
 		Nodes:       in.Nodes,
 		CellStart:   in.CellStart,
 		CellNodes:   in.CellNodes,
-		FaceNodes:   make([][2]int32, nf),
-		Owner:       make([]int32, nf),
-		Neighbour:   make([]int32, nf),
+		FaceNodes:   hugepage.Make[[2]int32](nf),
+		Owner:       hugepage.Make[int32](nf),
+		Neighbour:   hugepage.Make[int32](nf),
 		NumInterior: int(count[1]),
 		Tags:        in.Tags,
-		FaceTag:     make([]int16, nf),
+		FaceTag:     hugepage.Make[int16](nf),
 		TagStart:    make([]int32, len(in.Tags)+1),
 		Blocks:      in.Blocks,
 		Interfaces:  in.Interfaces,

@@ -6,6 +6,8 @@ import (
 	"sync"
 
 	"github.com/paulmach/orb"
+
+	"cvdeck/internal/hugepage"
 )
 
 // Geometry is the derived geometry of a mesh, computed once by Build and
@@ -32,11 +34,11 @@ type Geometry struct {
 func ComputeGeometry(m *Mesh) Geometry {
 	nf, nc := m.NumFaces(), m.NumCells()
 	g := Geometry{
-		FaceLength:   make([]float64, nf),
-		FaceNormal:   make([]orb.Point, nf),
-		FaceMid:      make([]orb.Point, nf),
-		CellArea:     make([]float64, nc),
-		CellCentroid: make([]orb.Point, nc),
+		FaceLength:   hugepage.Make[float64](nf),
+		FaceNormal:   hugepage.Make[orb.Point](nf),
+		FaceMid:      hugepage.Make[orb.Point](nf),
+		CellArea:     hugepage.Make[float64](nc),
+		CellCentroid: hugepage.Make[orb.Point](nc),
 	}
 	inParallel(nf, func(lo, hi int) {
 		for f := lo; f < hi; f++ {

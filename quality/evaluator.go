@@ -1,6 +1,9 @@
 package quality
 
-import "cvdeck/mesh"
+import (
+	"cvdeck/internal/hugepage"
+	"cvdeck/mesh"
+)
 
 // An Evaluator computes quality reports and keeps the working memory of
 // one for the next: the face and cell lists, the accumulators and the
@@ -48,7 +51,7 @@ func Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 // overwrites in full.
 func resize[T any](s *[]T, n int) []T {
 	if cap(*s) < n {
-		*s = make([]T, n)
+		*s = hugepage.Make[T](n)
 	}
 	*s = (*s)[:n]
 	return *s
@@ -57,7 +60,7 @@ func resize[T any](s *[]T, n int) []T {
 // zeroed is resize with every element zero.
 func zeroed[T any](s *[]T, n int) []T {
 	if cap(*s) < n {
-		*s = make([]T, n) // zero already: not touched twice
+		*s = hugepage.Make[T](n) // zero already: not touched twice
 		return *s
 	}
 	*s = (*s)[:n]

@@ -3,13 +3,13 @@ package vtk
 import (
 	"fmt"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
 
 	"github.com/paulmach/orb"
 
+	"cvdeck/internal/hugepage"
 	"cvdeck/mesh"
 )
 
@@ -51,7 +51,7 @@ func ReadFile(path string) (*mesh.Mesh, error) {
 // skipped, and for a slab its planes and what was left out (front and back
 // patches and lines on the upper plane, with their tags).
 func ReadFileNotes(path string) (*mesh.Mesh, []string, error) {
-	data, err := os.ReadFile(path)
+	data, err := hugepage.ReadFile(path)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -160,7 +160,7 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 		}
 		return g.slabMesh(sl)
 	}
-	in := mesh.Input{Nodes: make([]orb.Point, np)}
+	in := mesh.Input{Nodes: hugepage.Make[orb.Point](np)}
 	if err := firstRangeError(np, func(lo, hi int) error {
 		for i := lo; i < hi; i++ {
 			x, y, z := g.points[3*i], g.points[3*i+1], g.points[3*i+2]
@@ -262,8 +262,8 @@ func (g *grid) planeCells(in *mesh.Input) error {
 	if cellAt[len(parts)] == 0 {
 		return fmt.Errorf("%s: no triangle, quad, pixel or polygon cells; nothing to check", g.file)
 	}
-	in.CellStart = make([]int32, cellAt[len(parts)]+1)
-	in.CellNodes = make([]int32, total)
+	in.CellStart = hugepage.Make[int32](cellAt[len(parts)] + 1)
+	in.CellNodes = hugepage.Make[int32](total)
 	inRangesK(nc, func(k, lo, hi int) {
 		cell, at := cellAt[k], nodeAt[k]
 		for c := lo; c < hi; c++ {

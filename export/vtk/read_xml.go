@@ -12,6 +12,7 @@ import (
 	"strconv"
 	"strings"
 
+	"cvdeck/internal/hugepage"
 	"cvdeck/mesh"
 )
 
@@ -548,7 +549,7 @@ func (x *xmlFile) blob(src byteSource) ([]byte, error) {
 		blocks[k] = block{c, total, want}
 		total += want
 	}
-	out := make([]byte, total)
+	out := hugepage.Make[byte](int(total))
 	err = inflateSideBySide(len(blocks), func(k int, zr *zlibReader) error {
 		b := blocks[k]
 		if err := zr.reset(b.data); err != nil {
@@ -583,7 +584,7 @@ func (a *array) decodeBinary(b []byte, typ string, o binary.ByteOrder) error {
 	n := len(b) / typeSize[typ]
 	switch typ {
 	case "Float32", "Float64":
-		f := make([]float64, n)
+		f := hugepage.Make[float64](n)
 		a.floats = f
 		inRanges(n, func(lo, hi int) {
 			if typ == "Float32" {
@@ -598,7 +599,7 @@ func (a *array) decodeBinary(b []byte, typ string, o binary.ByteOrder) error {
 		})
 		return nil
 	}
-	v := make([]int64, n)
+	v := hugepage.Make[int64](n)
 	a.ints = v
 	// tooLarge is the first UInt64 value beyond int64 in each range.
 	tooLarge := make([]int, len(rangeBounds(n))-1)
