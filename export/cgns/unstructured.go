@@ -8,6 +8,7 @@ import "C"
 import (
 	"fmt"
 
+	"cvdeck/internal/hugepage"
 	"cvdeck/mesh"
 )
 
@@ -149,8 +150,8 @@ func (w *writer) cellSection(z C.int, zp, name string, m *mesh.Mesh, r cellRun) 
 		if !r.poly {
 			typ, kind, extra = C.MIXED, "MIXED", 1
 		}
-		conn := make([]int32, 0, int(s1-s0)+int(extra)*(r.hi-r.lo))
-		off := make([]int32, 1, r.hi-r.lo+1)
+		conn := hugepage.Make[int32](int(s1-s0) + int(extra)*(r.hi-r.lo))[:0]
+		off := hugepage.Make[int32](r.hi - r.lo + 1)[:1]
 		for c := r.lo; c < r.hi; c++ {
 			cell := m.Cell(c)
 			if !r.poly {
@@ -217,7 +218,7 @@ func (w *writer) polySection(z C.int, zp, name string, typ C.ElementType_t, kind
 func (w *writer) faceSection(z C.int, zp, name string, m *mesh.Mesh, lo, hi int) error {
 	nc := m.NumCells()
 	n := hi - lo
-	conn := make([]int32, 2*n)
+	conn := hugepage.Make[int32](2 * n)
 	for i, fn := range m.FaceNodes[lo:hi] {
 		conn[2*i], conn[2*i+1] = fn[0]+1, fn[1]+1
 	}
@@ -228,7 +229,7 @@ func (w *writer) faceSection(z C.int, zp, name string, m *mesh.Mesh, lo, hi int)
 	conn = nil
 	// ParentData is the (n, 4) array, column-major: left parent, right
 	// parent, left position, right position.
-	pd := make([]int32, 4*n)
+	pd := hugepage.Make[int32](4 * n)
 	for i := 0; i < n; i++ {
 		f := lo + i
 		o, nb := m.Owner[f], m.Neighbour[f]

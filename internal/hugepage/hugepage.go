@@ -64,3 +64,14 @@ func ReadFile(path string) ([]byte, error) {
 		}
 	}
 }
+
+// Grow is slices.Grow with the new array, when one is needed, from Make:
+// it returns s with room for at least n more elements.
+func Grow[T any](s []T, n int) []T {
+	if cap(s)-len(s) >= n {
+		return s
+	}
+	g := Make[T](len(s) + n)[:len(s)]
+	copy(g, s)
+	return g
+}

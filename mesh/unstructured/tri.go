@@ -3,6 +3,7 @@ package unstructured
 import (
 	"errors"
 
+	"cvdeck/internal/hugepage"
 	"cvdeck/mesh/unstructured/predicates"
 	"github.com/paulmach/orb"
 )
@@ -107,9 +108,9 @@ func (tr *triangulation) random() uint32 {
 // (not collinear) and its three ghost triangles.
 func newTriangulation(pts []orb.Point, a, b, c int32, capTri int) *triangulation {
 	tr := &triangulation{pts: pts, rng: 2463534242}
-	tr.v = make([]int32, 0, 3*capTri)
-	tr.adj = make([]int32, 0, 3*capTri)
-	tr.seg = make([]int16, 0, 3*capTri)
+	tr.v = hugepage.Make[int32](3 * capTri)[:0]
+	tr.adj = hugepage.Make[int32](3 * capTri)[:0]
+	tr.seg = hugepage.Make[int16](3 * capTri)[:0]
 	tr.flag = make([]uint8, 0, capTri)
 	tr.vedge = make([]int32, len(pts))
 	for i := range tr.vedge {
