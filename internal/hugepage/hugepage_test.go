@@ -81,3 +81,16 @@ func TestReadFile(t *testing.T) {
 		t.Fatalf("missing file: error %v", err)
 	}
 }
+
+// Grow keeps the contents, gives the room asked for, and keeps the array
+// when it already has the room (as slices.Grow does).
+func TestGrow(t *testing.T) {
+	s := []int32{1, 2, 3}
+	g := Grow(s, MinBytes/4)
+	if len(g) != 3 || cap(g) < 3+MinBytes/4 || g[0] != 1 || g[2] != 3 {
+		t.Fatalf("len %d cap %d contents %v", len(g), cap(g), g[:3])
+	}
+	if h := Grow(g, 10); &h[0] != &g[0] {
+		t.Fatal("Grow made a new array though the slice had room")
+	}
+}
