@@ -82,9 +82,9 @@ func rangeBounds(n int) []int {
 	return b
 }
 
-// inRangesK calls fn(k, lo, hi) for the ranges of rangeBounds(n), side by
+// inRanges calls fn(k, lo, hi) for the ranges of rangeBounds(n), side by
 // side when there are several, and waits for them.
-func inRangesK(n int, fn func(k, lo, hi int)) {
+func inRanges(n int, fn func(k, lo, hi int)) {
 	b := rangeBounds(n)
 	var wg sync.WaitGroup
 	for k := range len(b) - 2 {
@@ -94,7 +94,15 @@ func inRangesK(n int, fn func(k, lo, hi int)) {
 	wg.Wait()
 }
 
-// inRanges is inRangesK without the range number.
-func inRanges(n int, fn func(lo, hi int)) {
-	inRangesK(n, func(_, lo, hi int) { fn(lo, hi) })
+// firstRangeError calls fn on the ranges of rangeBounds(n) side by side
+// and returns the error of the first range, in order, that failed.
+func firstRangeError(n int, fn func(lo, hi int) error) error {
+	errs := make([]error, len(rangeBounds(n))-1)
+	inRanges(n, func(k, lo, hi int) { errs[k] = fn(lo, hi) })
+	for _, err := range errs {
+		if err != nil {
+			return err
+		}
+	}
+	return nil
 }

@@ -203,7 +203,7 @@ func (g *grid) planeCells(in *mesh.Input) error {
 		err                    error
 	}
 	parts := make([]part, len(b)-1)
-	inRangesK(nc, func(k, lo, hi int) {
+	inRanges(nc, func(k, lo, hi int) {
 		p := &parts[k]
 		p.bad = nc
 		for c := lo; c < hi; c++ {
@@ -264,7 +264,7 @@ func (g *grid) planeCells(in *mesh.Input) error {
 	}
 	in.CellStart = hugepage.Make[int32](cellAt[len(parts)] + 1)
 	in.CellNodes = hugepage.Make[int32](total)
-	inRangesK(nc, func(k, lo, hi int) {
+	inRanges(nc, func(k, lo, hi int) {
 		cell, at := cellAt[k], nodeAt[k]
 		for c := lo; c < hi; c++ {
 			nodes := g.cell(c)
@@ -292,19 +292,6 @@ func (g *grid) planeCells(in *mesh.Input) error {
 			what = "vertex cell"
 		}
 		g.notes = append(g.notes, fmt.Sprintf("%d %s skipped", vertices, what))
-	}
-	return nil
-}
-
-// firstRangeError calls fn on the ranges of rangeBounds(n) side by side
-// and returns the error of the first range, in order, that failed.
-func firstRangeError(n int, fn func(lo, hi int) error) error {
-	errs := make([]error, len(rangeBounds(n))-1)
-	inRangesK(n, func(k, lo, hi int) { errs[k] = fn(lo, hi) })
-	for _, err := range errs {
-		if err != nil {
-			return err
-		}
 	}
 	return nil
 }

@@ -586,7 +586,7 @@ func (a *array) decodeBinary(b []byte, typ string, o binary.ByteOrder) error {
 	case "Float32", "Float64":
 		f := hugepage.Make[float64](n)
 		a.floats = f
-		inRanges(n, func(lo, hi int) {
+		inRanges(n, func(_, lo, hi int) {
 			if typ == "Float32" {
 				for i := lo; i < hi; i++ {
 					f[i] = float64(math.Float32frombits(o.Uint32(b[4*i:])))
@@ -601,10 +601,7 @@ func (a *array) decodeBinary(b []byte, typ string, o binary.ByteOrder) error {
 	}
 	v := hugepage.Make[int64](n)
 	a.ints = v
-	// tooLarge is the first UInt64 value beyond int64 in each range.
-	tooLarge := make([]int, len(rangeBounds(n))-1)
-	inRangesK(n, func(k, lo, hi int) {
-		tooLarge[k] = -1
+	return firstRangeError(n, func(lo, hi int) error {
 		switch typ {
 		case "Int8":
 			for i := lo; i < hi; i++ {
@@ -636,19 +633,13 @@ func (a *array) decodeBinary(b []byte, typ string, o binary.ByteOrder) error {
 			}
 		case "UInt64":
 			for i := lo; i < hi; i++ {
-				v[i] = int64(o.Uint64(b[8*i:]))
-				if v[i] < 0 && tooLarge[k] < 0 {
-					tooLarge[k] = i
+				if v[i] = int64(o.Uint64(b[8*i:])); v[i] < 0 {
+					return fmt.Errorf("value %d (%d) is too large", i, o.Uint64(b[8*i:]))
 				}
 			}
 		}
+		return nil
 	})
-	for _, i := range tooLarge {
-		if i >= 0 {
-			return fmt.Errorf("value %d (%d) is too large", i, o.Uint64(b[8*i:]))
-		}
-	}
-	return nil
 }
 
 // parseASCII parses whitespace-separated numbers of the VTK type typ.
