@@ -25,21 +25,31 @@ func (p *partial) start() {
 // compiler keeps them in registers; the worst value of v then tells
 // whether any value can be graded or join the worst list, and only then
 // does a second loop look for them. On a sound mesh most pieces need none.
+//
+// The first loop takes the extremes of the values' ordered integer keys
+// (orderedKey), which the compiler does with conditional moves: a float
+// comparison is two branches on amd64, and they, not the arithmetic, bound
+// the loop (a scan of 13 × 256 values: 3.8 → 2.0 ns a value). It does not
+// test for NaN: a NaN anywhere makes the sum NaN, and the piece is then
+// scanned again by statsSkippingNaN, as is a piece that starts with NaN
+// (the scaled Jacobian of a triangle).
 func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status []Status) {
-	mn, mx, sum, sumsq, count := math.Inf(1), math.Inf(-1), p.sum, p.sumsq, p.count
-	for _, x := range v {
-		if x != x {
-			continue
+	var mn, mx, sum, sumsq float64
+	var count int
+	fast := len(v) > 0 && v[0] == v[0]
+	if fast {
+		kmn, kmx := int64(math.MaxInt64), int64(math.MinInt64)
+		sum, sumsq = p.sum, p.sumsq
+		for _, x := range v {
+			key := orderedKey(x)
+			kmn, kmx = min(kmn, key), max(kmx, key)
+			sum += x
+			sumsq += x * x
 		}
-		count++
-		if x < mn {
-			mn = x
-		}
-		if x > mx {
-			mx = x
-		}
-		sum += x
-		sumsq += x * x
+		mn, mx, count = fromOrderedKey(kmn), fromOrderedKey(kmx), p.count+len(v)
+	}
+	if !fast || sum != sum {
+		mn, mx, sum, sumsq, count = statsSkippingNaN(v, p.sum, p.sumsq, p.count)
 	}
 	if count == p.count {
 		return // every value NaN
@@ -89,6 +99,41 @@ func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status
 			}
 		}
 	}
+}
+
+// statsSkippingNaN is the first loop of scan for values that may be NaN,
+// which it skips; sum, sumsq and count carry on from the given values.
+func statsSkippingNaN(v []float64, sum, sumsq float64, count int) (mn, mx, _, _ float64, _ int) {
+	mn, mx = math.Inf(1), math.Inf(-1)
+	for _, x := range v {
+		if x != x {
+			continue
+		}
+		count++
+		if x < mn {
+			mn = x
+		}
+		if x > mx {
+			mx = x
+		}
+		sum += x
+		sumsq += x * x
+	}
+	return mn, mx, sum, sumsq, count
+}
+
+// orderedKey maps x to an integer whose order is that of the floats: the
+// bits of a positive float already rise with it, and those of a negative
+// one fall, so the magnitude bits of negatives are flipped (−0 then comes
+// just below +0). NaN has no place in the order.
+func orderedKey(x float64) int64 {
+	b := int64(math.Float64bits(x))
+	return b ^ int64(uint64(b>>63)>>1)
+}
+
+// fromOrderedKey is the inverse of orderedKey.
+func fromOrderedKey(k int64) float64 {
+	return math.Float64frombits(uint64(k ^ int64(uint64(k>>63)>>1)))
 }
 
 // summary merges the chunk summaries of metric d, in chunk order, into
