@@ -74,7 +74,21 @@ func (p *partial) scan(d *metricDef, b Bound, k int, v []float64, lo int, status
 			cut = sign * float64(p.worst[k-1].Value)
 		}
 	}
-	if !(worst > warn || (positive && mn <= 0) || worst > cut || !full) {
+	grade := worst > warn || (positive && mn <= 0)
+	if !(grade || worst > cut || !full) {
+		return
+	}
+	if !grade && full {
+		// Nothing to grade, a full list: only the values that beat the
+		// cut matter, found with one comparison each (false for NaN).
+		// This is the common case, as a chunk's list fills in its first
+		// pieces and the later ones still hold values for it now and then.
+		for i, x := range v {
+			if sign*x > cut {
+				p.worst = keepWorst(d, p.worst, k, lo+i, x)
+				cut = sign * float64(p.worst[k-1].Value)
+			}
+		}
 		return
 	}
 	for i, x := range v {

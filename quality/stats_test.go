@@ -27,12 +27,20 @@ func TestOrderedKey(t *testing.T) {
 // negatives and signed zeros, in pieces of random length as the cell pass
 // does, and compares the summary with statistics taken directly: extremes
 // from the sorted non-NaN values, sums in index order, and the graded
-// counts and worst list by a plain comparison of every value.
+// counts and worst list by a plain comparison of every value. Each trial
+// takes a higher-is-worse or a lower-is-worse metric, and a bound that
+// grades many values or one that grades almost none (only the infinities),
+// so that both loops of scan that look for graded and worst values run.
 func TestScanMatchesDirectStatistics(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 7))
-	d := &metricDefs[mAspect]
-	b := Bound{Warn: 0.8, Fail: 0.95}
-	for trial := 0; trial < 200; trial++ {
+	for trial := 0; trial < 400; trial++ {
+		d, b := &metricDefs[mAspect], Bound{Warn: 0.8, Fail: 0.95}
+		if trial%2 == 1 {
+			d, b = &metricDefs[mMinAngle], Bound{Warn: -0.8, Fail: -0.95}
+		}
+		if trial%4 >= 2 {
+			b.Warn, b.Fail = 1e3*b.Warn, 1e3*b.Fail
+		}
 		n := 1 + rng.IntN(2000)
 		v := make([]float64, n)
 		for i := range v {
@@ -70,11 +78,14 @@ func TestScanMatchesDirectStatistics(t *testing.T) {
 			finite = append(finite, x)
 			sum += x
 			sumsq += x * x
-			want := Pass
+			want, y, sign := Pass, x, 1.0
+			if d.lower {
+				y, sign = -x, -1
+			}
 			switch {
-			case x > b.Fail:
+			case y > sign*b.Fail:
 				want, failed = Fail, failed+1
-			case x > b.Warn:
+			case y > sign*b.Warn:
 				want, warned = Warn, warned+1
 			}
 			if status[i] != want {
@@ -95,7 +106,9 @@ func TestScanMatchesDirectStatistics(t *testing.T) {
 			t.Fatalf("trial %d: sums %g %g, want %g %g", trial, p.sum, p.sumsq, sum, sumsq)
 		}
 		top := slices.Clone(finite)
-		slices.Reverse(top)
+		if !d.lower {
+			slices.Reverse(top)
+		}
 		for i, w := range p.worst {
 			if float64(w.Value) != top[i] || v[w.Index] != top[i] {
 				t.Fatalf("trial %d: worst[%d] = %v, want value %g", trial, i, w, top[i])
