@@ -64,11 +64,8 @@ func Check(path string, patches ...quality.Patch) (*CheckResult, error) {
 // come from the files beside it.
 func CheckAndWrite(path, dir string, patches ...quality.Patch) (*CheckResult, error) {
 	if dir != "" {
-		if inside, err := within(path, dir); err != nil || inside {
-			if err == nil {
-				err = fmt.Errorf("%s lies inside %s, which the check would replace; write the check elsewhere", path, dir)
-			}
-			return nil, fmt.Errorf("%w: %w", ErrInput, err)
+		if err := checkOutDir(dir, []string{path}, "check"); err != nil {
+			return nil, err
 		}
 	}
 	var m *mesh.Mesh

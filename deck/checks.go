@@ -29,10 +29,11 @@ func decodeChecks(v value) (*checkSpec, error) {
 // checkSummary condenses the quality report for the manifest.
 func checkSummary(rep *quality.Report) manifest.Checks {
 	s := manifest.Checks{
-		Verdict:     rep.Verdict.String(),
-		Profile:     rep.Profile,
-		FailedCells: rep.FailedCells,
-		WarnedCells: rep.WarnedCells,
+		Verdict:       rep.Verdict.String(),
+		Profile:       rep.Profile,
+		ChangedLimits: rep.ChangedLimits,
+		FailedCells:   rep.FailedCells,
+		WarnedCells:   rep.WarnedCells,
 	}
 	for _, ms := range rep.Metrics {
 		s.Metrics = append(s.Metrics, manifest.Metric{

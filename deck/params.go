@@ -127,7 +127,14 @@ func ParseAssignments(list []string) (map[string]float64, error) {
 		if !ok || !expr.ValidName(name) {
 			return nil, fmt.Errorf("%w: --set %q: write name=value, e.g. --set thickness=0.12", ErrInput, a)
 		}
-		v, err := expr.Eval(strings.TrimSpace(val), nil)
+		x, err := expr.Parse(strings.TrimSpace(val))
+		if err != nil {
+			return nil, fmt.Errorf("%w: --set %s: %w", ErrInput, name, err)
+		}
+		if names := x.Names(); len(names) > 0 {
+			return nil, fmt.Errorf("%w: --set %s=%s: a --set value is a number or an expression of numbers, constants and functions; it cannot use %q (set each parameter to a value; the case file's own expressions follow them)", ErrInput, name, x, names[0])
+		}
+		v, err := x.Eval(nil)
 		if err != nil {
 			return nil, fmt.Errorf("%w: --set %s: %w", ErrInput, name, err)
 		}

@@ -82,6 +82,12 @@ func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
 	if opts.MaxCells > 0 {
 		c.Mesh.maxCells = opts.MaxCells
 	}
+	if hasFormat(formats, "vts") && c.Mesh.unstructured != nil {
+		return nil, fmt.Errorf("%w: the vts format writes the blocks of a structured mesh, and this case's mesh is unstructured: choose vtu or vtk", ErrInput)
+	}
+	if err := checkOutDir(outDir, c.inputPaths(), "deck"); err != nil {
+		return nil, err
+	}
 
 	stage("mesh")
 	m, kind, notes, err := c.buildMesh()

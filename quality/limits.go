@@ -403,5 +403,30 @@ func Resolve(patches ...Patch) (Limits, error) {
 	return l, nil
 }
 
+// changed returns the names of the limits in l that differ from those of
+// the profile l started from: metrics in report order, then
+// duplicate_tolerance and hanging_tolerance. The report lists them beside
+// the profile name, so that a verdict reached with a case's or a file's
+// own limits never reads as one of the plain profile.
+func (l Limits) changed() []string {
+	base, err := Profile(l.Profile)
+	if err != nil {
+		return nil
+	}
+	var out []string
+	for _, d := range metricDefs {
+		if *d.bound(&l) != *d.bound(&base) {
+			out = append(out, d.name)
+		}
+	}
+	if l.DuplicateTolerance != base.DuplicateTolerance {
+		out = append(out, "duplicate_tolerance")
+	}
+	if l.HangingTolerance != base.HangingTolerance {
+		out = append(out, "hanging_tolerance")
+	}
+	return out
+}
+
 // errNoLimits is returned by Evaluate for a zero Limits value.
 var errNoLimits = errors.New("quality: limits are empty; start from quality.Profile or quality.Resolve")

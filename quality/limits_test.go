@@ -1,6 +1,7 @@
 package quality
 
 import (
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -29,6 +30,33 @@ func TestProfiles(t *testing.T) {
 	}
 	if _, err := Profile("nonesuch"); err == nil || !strings.Contains(err.Error(), "everyday") {
 		t.Errorf("unknown profile: %v", err)
+	}
+}
+
+// TestChangedLimits: a profile as it is has no changed limits; a patch's
+// changes are named in report order, and a value set to the profile's own
+// counts as unchanged.
+func TestChangedLimits(t *testing.T) {
+	for _, name := range ProfileNames() {
+		l, err := Profile(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c := l.changed(); len(c) != 0 {
+			t.Errorf("profile %s as it is: changed %v", name, c)
+		}
+	}
+	base, _ := Profile(DefaultProfile)
+	p, err := LoadPatch(writeFile(t, fmt.Sprintf("growth: {warn: 2, fail: 30}\nhanging_tolerance: 0.01\nmin_angle: {warn: %g, fail: %g}\naspect_ratio: {warn: 7}\n", base.MinAngle.Warn, base.MinAngle.Fail)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	l, err := Resolve(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := strings.Join(l.changed(), ","); got != "aspect_ratio,growth,hanging_tolerance" {
+		t.Errorf("changed %s, want aspect_ratio,growth,hanging_tolerance", got)
 	}
 }
 

@@ -153,12 +153,15 @@ func cellHeight(m *mesh.Mesh, f int) float64 {
 type Report struct {
 	// Verdict is fail if any cell or node fails a metric or any
 	// connectivity check fails, warn if any warns, else pass.
-	Verdict       Status `json:"verdict"`
-	Profile       string `json:"profile"`
-	Cells         int    `json:"cells"`
-	Faces         int    `json:"faces"`
-	BoundaryFaces int    `json:"boundary_faces"`
-	Nodes         int    `json:"nodes"`
+	Verdict Status `json:"verdict"`
+	Profile string `json:"profile"`
+	// ChangedLimits names the limits that differ from the profile's (see
+	// Limits.changed), none when the profile is used as it is.
+	ChangedLimits []string `json:"changed_limits,omitempty"`
+	Cells         int      `json:"cells"`
+	Faces         int      `json:"faces"`
+	BoundaryFaces int      `json:"boundary_faces"`
+	Nodes         int      `json:"nodes"`
 	// FailedCells and WarnedCells count cells by their worst status over
 	// all metrics and connectivity checks.
 	FailedCells int `json:"failed_cells"`
@@ -242,7 +245,7 @@ func (e *Evaluator) Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 	wg.Wait()
 
 	r := &Report{
-		Profile: lim.Profile, Cells: nc, Faces: m.NumFaces(), BoundaryFaces: m.NumBoundary(), Nodes: nn,
+		Profile: lim.Profile, ChangedLimits: lim.changed(), Cells: nc, Faces: m.NumFaces(), BoundaryFaces: m.NumBoundary(), Nodes: nn,
 		DuplicateTolerance: lim.DuplicateTolerance, HangingTolerance: lim.HangingTolerance,
 		CellStatus: zeroed(&e.cellStatus, nc),
 		Boundary:   boundaryTags(m),

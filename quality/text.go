@@ -17,7 +17,11 @@ import (
 func WriteText(w io.Writer, r *Report) error {
 	b := bufio.NewWriter(w)
 	verdict := map[Status]string{Pass: "PASS", Warn: "PASS with warnings", Fail: "FAIL"}[r.Verdict]
-	fmt.Fprintf(b, "cvdeck mesh check: %s   (limits %q)\n", verdict, r.Profile)
+	limits := fmt.Sprintf("limits %q", r.Profile)
+	if len(r.ChangedLimits) > 0 {
+		limits += ", changed: " + strings.Join(r.ChangedLimits, ", ")
+	}
+	fmt.Fprintf(b, "cvdeck mesh check: %s   (%s)\n", verdict, limits)
 	fmt.Fprintf(b, "%d cells, %d faces (%d on the boundary), %d nodes; %d cells fail, %d warn; %d nodes fail\n\n",
 		r.Cells, r.Faces, r.BoundaryFaces, r.Nodes, r.FailedCells, r.WarnedCells, r.FailedNodes)
 

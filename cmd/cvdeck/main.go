@@ -11,6 +11,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strconv"
 
 	"github.com/spf13/cobra"
 
@@ -89,4 +90,22 @@ by a qualified engineer under the applicable codes come first.`,
 		newVersionCommand(g),
 	)
 	return root
+}
+
+// positiveFlags refuses a flag among names that was given with a value
+// that is not positive: for these flags zero is the "not given" default
+// inside, so --refine 0 or --max-cells 0 would otherwise silently mean the
+// default rather than what was typed.
+func positiveFlags(cmd *cobra.Command, names ...string) error {
+	for _, name := range names {
+		fl := cmd.Flags().Lookup(name)
+		if fl == nil || !fl.Changed {
+			continue
+		}
+		v, err := strconv.ParseFloat(fl.Value.String(), 64)
+		if err != nil || !(v > 0) {
+			return fmt.Errorf("%w: --%s must be positive, got %s", deck.ErrInput, name, fl.Value.String())
+		}
+	}
+	return nil
 }

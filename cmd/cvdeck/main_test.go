@@ -13,6 +13,7 @@ import (
 	"testing"
 
 	"cvdeck/deck"
+	"cvdeck/export/manifest"
 	"cvdeck/export/vtk"
 	"cvdeck/quality"
 	"cvdeck/samples"
@@ -366,6 +367,77 @@ func TestMaxCellsRefusesBeforeMeshing(t *testing.T) {
 		if _, err := os.Stat(filepath.Join(dir, d)); !os.IsNotExist(err) {
 			t.Fatalf("deck %s written despite the cell limit", d)
 		}
+	}
+}
+
+// TestZeroIsNotTakenAsUnset: a flag whose internal default is "not
+// given" refuses an explicit zero or negative value instead of quietly
+// using the default, and nothing is written.
+func TestZeroIsNotTakenAsUnset(t *testing.T) {
+	casePath, deckDir := initSample(t, "bump-channel")
+	dir := filepath.Dir(casePath)
+	for _, args := range [][]string{
+		{"mesh", casePath, "-o", deckDir, "--refine", "0"},
+		{"mesh", casePath, "-o", deckDir, "--max-cells", "0"},
+		{"mesh", casePath, "-o", deckDir, "--max-cells", "-5"},
+		{"mesh", filepath.Join(dir, "sketch.wkt"), "-o", deckDir, "--size", "-1"},
+		{"mesh", filepath.Join(dir, "sketch.wkt"), "-o", deckDir, "--size", "0.1", "--scale", "0"},
+		{"init", "--from", filepath.Join(dir, "sketch.wkt"), filepath.Join(dir, "case"), "--size", "0"},
+	} {
+		code, _, errs := cvdeck(t, args...)
+		flag := args[len(args)-2]
+		if code != 2 || !strings.Contains(errs, flag+" must be positive") {
+			t.Errorf("%v: exit %d, %q; want 2 and %s must be positive", args, code, errs, flag)
+		}
+	}
+	for _, d := range []string{deckDir, filepath.Join(dir, "case")} {
+		if _, err := os.Stat(d); !os.IsNotExist(err) {
+			t.Errorf("%s written by a refused run", d)
+		}
+	}
+}
+
+// TestLimitsFileIsRecorded: a deck graded with --limits says so: the
+// report's first line names the changed limits, the manifest lists the
+// file among the inputs and in checks.changed_limits, and the input hash
+// differs from that of the same case without it, so that the two decks
+// never pass for the same.
+func TestLimitsFileIsRecorded(t *testing.T) {
+	casePath, _ := initSample(t, "bump-channel")
+	dir := filepath.Dir(casePath)
+	lim := filepath.Join(dir, "lim.yaml")
+	if err := os.WriteFile(lim, []byte("skewness: {warn: 0.5, fail: 30}\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	plain, limited := filepath.Join(dir, "plain"), filepath.Join(dir, "limited")
+	if code, _, errs := cvdeck(t, "mesh", casePath, "-o", plain, "--quiet"); code != 0 {
+		t.Fatalf("plain: exit %d: %s", code, errs)
+	}
+	code, stdout, errs := cvdeck(t, "mesh", casePath, "-o", limited, "--limits", lim)
+	if code > 1 {
+		t.Fatalf("limited: exit %d: %s", code, errs)
+	}
+	first, _, _ := strings.Cut(stdout, "\n")
+	if !strings.Contains(first, "changed: skewness") {
+		t.Errorf("report header %q does not name the changed limit", first)
+	}
+	a, _ := manifest.Read(plain)
+	b, err := manifest.Read(limited)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a.InputHash == b.InputHash {
+		t.Error("the deck graded with a limits file has the input hash of the one without")
+	}
+	listed := false
+	for _, in := range b.Inputs {
+		listed = listed || in.Path == "lim.yaml"
+	}
+	if !listed {
+		t.Errorf("inputs %v do not list lim.yaml", b.Inputs)
+	}
+	if strings.Join(b.Checks.ChangedLimits, ",") != "skewness" || len(a.Checks.ChangedLimits) != 0 {
+		t.Errorf("changed_limits %v and %v, want [skewness] and none", b.Checks.ChangedLimits, a.Checks.ChangedLimits)
 	}
 }
 

@@ -52,6 +52,9 @@ failed (the report names the cells); 2 bad input, nothing written.`,
 			return nil
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := positiveFlags(cmd, "refine", "max-cells", "size", "scale", "min-angle", "growth"); err != nil {
+				return err
+			}
 			return runMesh(cmd, g, f, args[0])
 		},
 	}
@@ -92,13 +95,6 @@ func runMesh(cmd *cobra.Command, g *globals, f *meshFlags, path string) error {
 		// Only an explicit flag overrides the case's own mesh.max_cells.
 		opts.MaxCells = f.maxCells
 	}
-	if f.limits != "" {
-		p, err := quality.LoadPatch(f.limits)
-		if err != nil {
-			return fmt.Errorf("%w: %w", deck.ErrInput, err)
-		}
-		opts.Limits = &p
-	}
 	stderr := cmd.ErrOrStderr()
 	if !g.quiet && !g.json && stderrIsTerminal(stderr) {
 		opts.Stage = func(name string) { fmt.Fprintf(stderr, "\r\x1b[K%s …", name) }
@@ -115,6 +111,11 @@ func runMesh(cmd *cobra.Command, g *globals, f *meshFlags, path string) error {
 	}
 	if err != nil {
 		return err
+	}
+	if f.limits != "" {
+		if opts.Limits, err = c.AddLimitsFile(f.limits); err != nil {
+			return err
+		}
 	}
 	if c.Family != nil && !f.oneDeck {
 		return runFamily(cmd, g, f, path, c, overrides, formats)

@@ -43,6 +43,9 @@ that meshes the sketch (GeoJSON, WKT, SVG path data or x-y points) with the
 unstructured mesher, ready for editing; the sketch is copied beside it.
 Existing files are never overwritten.`,
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := positiveFlags(cmd, "size", "scale", "min-angle", "growth"); err != nil {
+				return err
+			}
 			var path string
 			var err error
 			if from != "" {

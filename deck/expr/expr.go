@@ -82,7 +82,7 @@ func (x *Expr) Names() []string {
 	walk = func(n node) {
 		switch n := n.(type) {
 		case *nameNode:
-			if !seen[n.name] {
+			if _, constant := constants[n.name]; !constant && !seen[n.name] {
 				seen[n.name] = true
 				out = append(out, n.name)
 			}

@@ -436,6 +436,9 @@ func (p *fileParser) rangeValues(name string, n *yaml.Node) ([]float64, error) {
 		// The tolerance lets a range end on its "to" value despite the
 		// rounding of (to - from) / step, e.g. 0 to 0.3 by 0.1.
 		k := math.Floor((to-from)/step + 1e-9)
+		if last := from + k*step; math.Abs(last-to) > 1e-9*math.Max(math.Abs(step), math.Max(math.Abs(from), math.Abs(to))) {
+			return nil, p.errf(has["step"], "step %v of %s does not end on %v from %v (the last value would be %v), the ends are included, so give a step that divides %v, or {from, to, count}", step, name, to, from, tidy(last), tidy(math.Abs(to-from)))
+		}
 		if k+1 > MaxVariants {
 			return nil, p.errf(has["step"], "the range of %s would have %.0f values, more than the limit of %d", name, k+1, MaxVariants)
 		}

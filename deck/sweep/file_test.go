@@ -101,6 +101,8 @@ func TestParseErrorsSayWhere(t *testing.T) {
 		{"base: a.yaml\nparameters:\n  a: [1, 2]\nconstraints: [\"a < b\"]\n", `uses "b", which is not a swept parameter`, 4, 15},
 		{"base: a.yaml\nparameters:\n  a: {from: 0, to: 1, step: -0.1}\n", "does not lead from 0 to 1", 3, 29},
 		{"base: a.yaml\nparameters:\n  a: [1, x]\n", "value 2 of a is not a number", 3, 10},
+		{"base: a.yaml\nparameters:\n  h: {from: 20, to: 30, step: 3}\n", "does not end on 30 from 20 (the last value would be 29)", 3, 31},
+		{"base: a.yaml\nparameters:\n  h: {from: 1, to: 0, step: -0.3}\n", "the last value would be 0.1), the ends are included, so give a step that divides 1,", 3, 29},
 		{"base: a.yaml\nparameters:\n  sin: [1]\n", "not a valid parameter name", 3, 3},
 		{"base: a.yaml\nrefine: {levels: 3, ratio: 1}\n", "must be above 1", 2, 28},
 		{"parameters:\n  a: [1]\n", "names no base case", 1, 1},

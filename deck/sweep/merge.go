@@ -186,7 +186,8 @@ func FindSummaries(dir string) ([]string, error) {
 
 // MergeDirs reads the summaries of the given output folders (see
 // FindSummaries), merges them and writes summary.json and summary.csv into
-// outDir. The decks stay where the shards wrote them.
+// outDir, which it makes if need be. The decks stay where the shards wrote
+// them. When the summary cannot be written, no summary is returned.
 func MergeDirs(dirs []string, outDir string) (*Summary, MergeReport, error) {
 	var parts []*Summary
 	for _, d := range dirs {
@@ -206,8 +207,11 @@ func MergeDirs(dirs []string, outDir string) (*Summary, MergeReport, error) {
 	if merged == nil {
 		return nil, rep, err
 	}
+	if werr := os.MkdirAll(outDir, 0o755); werr != nil {
+		return nil, rep, fmt.Errorf("merged summary: %w", werr)
+	}
 	if werr := merged.WriteFiles(outDir, Shard{}); werr != nil {
-		return merged, rep, werr
+		return nil, rep, werr
 	}
 	return merged, rep, err
 }

@@ -209,9 +209,22 @@ func TestMergeReportsMissingAndDuplicates(t *testing.T) {
 	for _, k := range []int{1, 2, 3} {
 		Run(context.Background(), f, other, &fakeRunner{}, Options{Workers: 1, Shard: Shard{k, 3}})
 	}
-	_, rep, err = MergeDirs([]string{dir, other}, t.TempDir())
+	// Into a folder that does not exist yet: it is made.
+	fresh := filepath.Join(t.TempDir(), "merged", "all")
+	_, rep, err = MergeDirs([]string{dir, other}, fresh)
 	if err != nil || len(rep.Duplicates) == 0 {
 		t.Errorf("duplicates: %v %+v", err, rep)
+	}
+	if _, err := os.Stat(filepath.Join(fresh, "summary.csv")); err != nil {
+		t.Errorf("merging into a new folder: %v", err)
+	}
+	// Into a path that is a file: an error, and no summary to report.
+	blocked := filepath.Join(t.TempDir(), "file")
+	if err := os.WriteFile(blocked, nil, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if s, _, err := MergeDirs([]string{dir, other}, blocked); err == nil || s != nil {
+		t.Errorf("merging into a file: summary %v, error %v; want none and an error", s != nil, err)
 	}
 	// A different sweep cannot be merged in.
 	g := mustParse(t, strings.Replace(fakeSweep, "[0, 4, 8, 12]", "[0, 4, 8]", 1))

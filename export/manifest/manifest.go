@@ -125,12 +125,14 @@ type Spread struct {
 
 // Checks summarises the quality report (quality.json holds all of it).
 type Checks struct {
-	Verdict     string   `yaml:"verdict"`
-	Profile     string   `yaml:"profile,omitempty"`
-	FailedCells int      `yaml:"failed_cells"`
-	WarnedCells int      `yaml:"warned_cells"`
-	Metrics     []Metric `yaml:"metrics,omitempty"`
-	Messages    []string `yaml:"messages,omitempty"`
+	Verdict string `yaml:"verdict"`
+	Profile string `yaml:"profile,omitempty"`
+	// ChangedLimits names the limits that differ from the profile's.
+	ChangedLimits []string `yaml:"changed_limits,omitempty"`
+	FailedCells   int      `yaml:"failed_cells"`
+	WarnedCells   int      `yaml:"warned_cells"`
+	Metrics       []Metric `yaml:"metrics,omitempty"`
+	Messages      []string `yaml:"messages,omitempty"`
 }
 
 // Metric is one line of the checks summary.
