@@ -2,7 +2,9 @@ package deck
 
 import (
 	"fmt"
+	"path/filepath"
 	"slices"
+	"strings"
 
 	"cvdeck/bc"
 	"cvdeck/export/manifest"
@@ -42,6 +44,14 @@ func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *q
 	}
 	if assign != nil {
 		rec := assign.Record()
+		// A condition's place in the case file is given from the case's
+		// folder, as the inputs are, so that the same case run from
+		// another working folder writes the same manifest.
+		for i := range rec.Boundaries {
+			if rest, ok := strings.CutPrefix(rec.Boundaries[i].Where, c.File+":"); ok {
+				rec.Boundaries[i].Where = filepath.Base(c.File) + ":" + rest
+			}
+		}
 		man.Conditions = &rec
 	} else {
 		man.Mesh.Notes = append(man.Mesh.Notes, "no boundary conditions are assigned: the deck carries boundary tags only")

@@ -5,6 +5,7 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -82,6 +83,43 @@ func TestRunWritesAConsistentDeck(t *testing.T) {
 	sort.Strings(sums)
 	if len(sums) != 2 || sums[0] != sums[1] {
 		t.Errorf("CGNS content hashes %v: want two equal ones", sums)
+	}
+}
+
+// TestManifestDoesNotDependOnTheWorkingFolder: the same case file, named
+// by paths from two working folders, gives the same manifest; the
+// conditions' places in the case file are given from its folder.
+func TestManifestDoesNotDependOnTheWorkingFolder(t *testing.T) {
+	root := t.TempDir()
+	caseDir := filepath.Join(root, "cases", "sq")
+	if err := os.MkdirAll(caseDir, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	text := square + "boundaries: {wall: {kind: wall-slip}}\n"
+	if err := os.WriteFile(filepath.Join(caseDir, "square.yaml"), []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	var mans [][]byte
+	for i, path := range []string{filepath.Join(caseDir, "square.yaml"), filepath.Join(root, "cases", "..", "cases", "sq", "square.yaml")} {
+		c, err := Load(path, LoadOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		dir := filepath.Join(root, fmt.Sprint("deck", i))
+		if _, err := Run(c, dir, RunOptions{Formats: []string{"vtu", "manifest"}}); err != nil {
+			t.Fatal(err)
+		}
+		b, err := os.ReadFile(filepath.Join(dir, manifest.FileName))
+		if err != nil {
+			t.Fatal(err)
+		}
+		mans = append(mans, b)
+	}
+	if !bytes.Equal(mans[0], mans[1]) {
+		t.Error("the manifests of one case named by two paths differ")
+	}
+	if !bytes.Contains(mans[0], []byte("where: square.yaml:")) {
+		t.Errorf("the manifest does not give the condition's place from the case's folder:\n%s", mans[0])
 	}
 }
 
