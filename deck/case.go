@@ -163,6 +163,11 @@ func Parse(path string, data []byte, opts LoadOptions) (*Case, error) {
 			return nil, err
 		}
 	}
+	// Whole refined counts are chosen once the blocks and periodic pairs
+	// that tie segments together are known.
+	if err := c.roundCounts(); err != nil {
+		return nil, err
+	}
 	if v, ok := top.get("checks"); ok {
 		if c.Checks, err = decodeChecks(v); err != nil {
 			return nil, err

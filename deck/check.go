@@ -83,9 +83,10 @@ func CheckAndWrite(path, dir string, patches ...quality.Patch) (*CheckResult, er
 		return nil, fmt.Errorf("%w: %w", ErrInput, err)
 	}
 	res := &CheckResult{File: path, Notes: read}
-	if lo, hi := m.UntaggedRange(); hi > lo && strings.EqualFold(filepath.Ext(path), ".vtu") {
+	if lo, hi := m.UntaggedRange(); hi > lo && slices.Contains([]string{".vtu", ".vtk"}, strings.ToLower(filepath.Ext(path))) {
 		// A cvdeck deck keeps its boundary tags in boundary.vtp beside
-		// mesh.vtu: take them from there when the file is present.
+		// mesh.vtu and mesh.vtk: take them from there when the file is
+		// present.
 		side := filepath.Join(filepath.Dir(path), "boundary.vtp")
 		if data, err := os.ReadFile(side); err == nil {
 			lines, err := vtk.ReadBoundaryVTP(data, side)

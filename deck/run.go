@@ -50,6 +50,10 @@ type Result struct {
 	// Walls are the first-cell heights, and y+ estimates, of the no-slip
 	// walls.
 	Walls []WallResolution
+	// Notes are the deck manifest's notes on the mesh and the case (the
+	// smoothing's sweeps and residual, the boundary layers built, a case
+	// without boundary conditions), for the command line to print.
+	Notes []string
 }
 
 // CheckFailure is returned, together with a Result, when the deck was
@@ -132,7 +136,7 @@ func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
 	}); err != nil {
 		return nil, fmt.Errorf("writing the deck: %w", err)
 	}
-	res := &Result{Case: c.Name, Dir: outDir, InputHash: c.InputHash, Mesh: m, Report: rep, Walls: walls}
+	res := &Result{Case: c.Name, Dir: outDir, InputHash: c.InputHash, Mesh: m, Report: rep, Walls: walls, Notes: man.Mesh.Notes}
 	if rep.Verdict == quality.Fail {
 		return res, &CheckFailure{Dir: outDir, Failed: rep.FailedCells}
 	}

@@ -13,12 +13,18 @@ var spacingKeys = []string{"count", "size", "cosine", "first", "last", "first_yp
 // decodeSpacing reads a spacing law and applies the case's refinement
 // factor r consistently to every law:
 //
-//   - count: N nodes → round((N−1)·r) + 1 nodes (edges scale by r);
+//   - count: N nodes → about (N−1)·r edges;
 //   - size: h → h/r;
 //   - first/last spacing → spacing/r, and a growth ratio g → g^(1/r), so
 //     that r refined cells span what one cell spanned (the geometric mean
 //     of r ratios g^(1/r) is g);
 //   - cosine: N nodes → as count.
+//
+// A law that fixes its count (count, cosine, and the laws with a count) is
+// returned with the count as written: the whole refined counts are chosen
+// afterwards, all segments together, by roundCounts, so that the sides a
+// structured block needs equal stay equal (rounding each segment alone
+// would not keep a three-segment side equal to a one-segment one).
 //
 // The forms are: {count}, {size}, {cosine}, {first, growth}, {last,
 // growth}, {first, count}, {last, count} (geometric growth with the ratio
@@ -58,7 +64,7 @@ func decodeSpacing(v value, c *Case) (geometry.Spacing, error) {
 		if err != nil {
 			return 0, true, err
 		}
-		return int(math.Round(float64(n-1)*refine)) + 1, true, nil
+		return n, true, nil
 	}
 	count, hasCount, err := nodes("count")
 	if err != nil {

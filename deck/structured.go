@@ -5,6 +5,7 @@ import (
 	"math"
 	"runtime"
 	"sort"
+	"strings"
 	"sync"
 
 	"cvdeck/geometry"
@@ -341,7 +342,7 @@ func (ms *meshSpec) buildStructured() (*mesh.Mesh, []string, error) {
 		}
 		blk, err := structured.TFI(structured.BlockSides{Name: bs.name, South: s[mesh.South], East: s[mesh.East], North: s[mesh.North], West: s[mesh.West]})
 		if err != nil {
-			return nil, nil, bs.at.wrap(fmt.Errorf("block %q: %w", bs.name, err))
+			return nil, nil, bs.at.wrap(blockError(bs.name, err))
 		}
 		blocks = append(blocks, blk)
 	}
@@ -423,7 +424,7 @@ func (ms *meshSpec) smoothBlocks(blocks []*structured.Block, notes *[]string) er
 		for k, err := range errs {
 			if err != nil {
 				bs := ms.blocks[which[k]]
-				return bs.smooth.at.wrap(fmt.Errorf("block %q: %w", bs.name, err))
+				return bs.smooth.at.wrap(blockError(bs.name, err))
 			}
 		}
 	}
@@ -431,6 +432,15 @@ func (ms *meshSpec) smoothBlocks(blocks []*structured.Block, notes *[]string) er
 		*notes = append(*notes, smoothNote(ms.blocks[which[k]].name, r))
 	}
 	return nil
+}
+
+// blockError names the block in a mesher's error, unless the mesher's
+// message names it already (most do), so that it is named once.
+func blockError(name string, err error) error {
+	if strings.Contains(err.Error(), fmt.Sprintf("block %q", name)) {
+		return err
+	}
+	return fmt.Errorf("block %q: %w", name, err)
 }
 
 // smoothNote says how a block's smoothing went.

@@ -220,6 +220,71 @@ func (s Spacing) NodeCount(length float64) (int, error) {
 	return s.n, nil
 }
 
+// Counted reports whether the law fixes its own node count (count, cosine,
+// and the geometric and Vinokur laws given a count), rather than deriving
+// it from the segment's length (size, growth) or from the segment's
+// vertices.
+func (s Spacing) Counted() bool {
+	switch s.law {
+	case lawCount, lawCosine, lawGrowthCount, lawOneSided, lawTwoSided:
+		return true
+	}
+	return false
+}
+
+// Edges returns the edge count the law aims at on a segment of the given
+// length before it is rounded to a whole number: n − 1 for a counted law,
+// L/h for a size law and the real m of first·(rᵐ − 1)/(r − 1) = L for a
+// growth law. A caller that must round several segments together (the
+// sides of a structured block) starts from it; see WithEdges.
+func (s Spacing) Edges(length float64) (float64, error) {
+	if err := checkLength("segment length", length); err != nil {
+		return 0, err
+	}
+	switch s.law {
+	case lawVertices:
+		return 0, fmt.Errorf("the own-vertices law has no edge count of its own: %w", ErrSpacing)
+	case lawSize:
+		return length / s.size, nil
+	case lawGrowth:
+		return growthEdgesReal(s.first, s.ratio, length)
+	}
+	return float64(s.n - 1), nil
+}
+
+// MinEdges returns the fewest edges the law accepts: 3 for Vinokur's
+// two-sided law, 2 for the one-sided one, 1 for the others.
+func (s Spacing) MinEdges() int {
+	switch s.law {
+	case lawOneSided:
+		return 2
+	case lawTwoSided:
+		return 3
+	}
+	return 1
+}
+
+// WithEdges returns the law with exactly m edges: a counted law with m + 1
+// nodes, a size law as m equal edges (Count), a growth law as the
+// geometric law with the same first spacing and m edges (GrowthCount).
+// Where m is the count the law rounds to itself, the nodes are the same.
+// The own-vertices law has no count to change.
+func (s Spacing) WithEdges(m int) (Spacing, error) {
+	if m < s.MinEdges() || m > MaxSegmentNodes-1 {
+		return Spacing{}, fmt.Errorf("%s: %d edges is outside %d to %d: %w", s, m, s.MinEdges(), MaxSegmentNodes-1, ErrSpacing)
+	}
+	switch s.law {
+	case lawVertices:
+		return Spacing{}, fmt.Errorf("the own-vertices law has no edge count to change: %w", ErrSpacing)
+	case lawSize:
+		return Count(m + 1)
+	case lawGrowth:
+		return GrowthCount(s.first, m+1, s.fromEnd)
+	}
+	s.n = m + 1
+	return s, nil
+}
+
 // Fractions returns the arc-length fractions 0 = f₀ < f₁ < … < fₙ₋₁ = 1 of
 // the nodes the law places on a segment of the given length. Other
 // packages (the structured mesher) reuse it to distribute nodes along any
@@ -273,19 +338,28 @@ func mirror(f []float64) {
 // growthEdges returns the edge count m whose geometric sum
 // first·(rᵐ − 1)/(r − 1) comes closest to length.
 func growthEdges(first, ratio, length float64) (int, error) {
-	if first > length {
-		return 0, fmt.Errorf("first spacing %g exceeds the segment length %g: %w", first, length, ErrSpacing)
+	m, err := growthEdgesReal(first, ratio, length)
+	if err != nil {
+		return 0, err
 	}
-	var m float64
-	if math.Abs(ratio-1) < 1e-12 {
-		m = math.Round(length / first)
-	} else {
-		m = math.Round(math.Log1p(length/first*(ratio-1)) / math.Log(ratio))
-	}
+	m = math.Round(m)
 	if math.IsNaN(m) || m > MaxSegmentNodes-1 {
 		return 0, fmt.Errorf("first spacing %g with ratio %g cannot fill length %g within %d nodes: %w", first, ratio, length, MaxSegmentNodes, ErrSpacing)
 	}
 	return max(1, int(m)), nil
+}
+
+// growthEdgesReal returns the real m that solves
+// first·(rᵐ − 1)/(r − 1) = length: m = ln(1 + (length/first)(r − 1)) / ln r,
+// or length/first for r = 1.
+func growthEdgesReal(first, ratio, length float64) (float64, error) {
+	if first > length {
+		return 0, fmt.Errorf("first spacing %g exceeds the segment length %g: %w", first, length, ErrSpacing)
+	}
+	if math.Abs(ratio-1) < 1e-12 {
+		return length / first, nil
+	}
+	return math.Log1p(length/first*(ratio-1)) / math.Log(ratio), nil
 }
 
 // geometricFractions returns m+1 fractions whose first edge is exactly d

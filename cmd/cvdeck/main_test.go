@@ -397,6 +397,43 @@ func TestZeroIsNotTakenAsUnset(t *testing.T) {
 	}
 }
 
+// TestNotesArePrinted: the deck's notes reach the user, not only
+// deck.yaml: a case without boundary conditions says so after the report,
+// and in the --json output.
+func TestNotesArePrinted(t *testing.T) {
+	casePath, deckDir := initSample(t, "bump-channel")
+	text, err := os.ReadFile(casePath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := string(text)
+	i := strings.Index(s, "\nboundaries:\n")
+	j := strings.Index(s[i+1:], "\n\n")
+	if i < 0 {
+		t.Fatal("the sample has no boundaries section")
+	}
+	bare := s[:i+1]
+	if j >= 0 {
+		bare += s[i+1+j+2:]
+	}
+	if err := os.WriteFile(casePath, []byte(bare), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	const note = "no boundary conditions are assigned"
+	code, out, errs := cvdeck(t, "mesh", casePath, "-o", deckDir)
+	if code != 0 || !strings.Contains(out, "\nnotes\n  "+note) {
+		t.Fatalf("exit %d, stderr %q; want the note after the report:\n%s", code, errs, out)
+	}
+	code, out, _ = cvdeck(t, "--json", "mesh", casePath, "-o", deckDir)
+	var js struct{ Notes []string }
+	if err := json.Unmarshal([]byte(out), &js); err != nil || code != 0 {
+		t.Fatalf("--json: exit %d, %v", code, err)
+	}
+	if len(js.Notes) == 0 || !strings.HasPrefix(js.Notes[0], note) {
+		t.Errorf("--json notes %q", js.Notes)
+	}
+}
+
 // TestLimitsFileIsRecorded: a deck graded with --limits says so: the
 // report's first line names the changed limits, the manifest lists the
 // file among the inputs and in checks.changed_limits, and the input hash
@@ -461,7 +498,7 @@ func sampleDeck(t *testing.T, name string) (dir, deckDir string) {
 // on the BC types the file gives its tags. The report lists each tag's
 // faces.
 func TestCheckOwnDeck(t *testing.T) {
-	_, deckDir := sampleDeck(t, "bump-channel")
+	caseDir, deckDir := sampleDeck(t, "bump-channel")
 	type result struct {
 		Notes    []string `json:"notes"`
 		Warnings []string `json:"warnings"`
@@ -507,6 +544,16 @@ func TestCheckOwnDeck(t *testing.T) {
 		return strings.HasPrefix(n, "boundary condition types in the file: floor BCWall")
 	}) {
 		t.Errorf("mesh.cgns notes %q give no BC types", r.Notes)
+	}
+	// The legacy files of a deck take their tags from its boundary.vtp too.
+	legacy := filepath.Join(caseDir, "legacy")
+	if code, _, errs := cvdeck(t, "mesh", filepath.Join(caseDir, "bump-channel.yaml"), "-o", legacy, "--quiet", "--format", "vtu,vtk,vtk-binary"); code != 0 {
+		t.Fatalf("mesh with legacy files: exit %d: %s", code, errs)
+	}
+	for _, f := range []string{"mesh.vtk", "mesh-binary.vtk"} {
+		if r := check(filepath.Join(legacy, f)); len(r.Warnings) != 0 || tags(r) != want {
+			t.Errorf("%s with boundary.vtp: %+v", f, r)
+		}
 	}
 	// boundary.vtp holds lines only: no mesh to check.
 	if code, _, errs := cvdeck(t, "check", filepath.Join(deckDir, "boundary.vtp")); code != 2 || !strings.Contains(errs, "no triangle, quad, pixel or polygon cells") {

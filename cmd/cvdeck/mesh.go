@@ -142,7 +142,8 @@ func report(w io.Writer, g *globals, res *deck.Result, runErr error) error {
 			Faces     int             `json:"faces"`
 			Quality   *quality.Report `json:"quality"`
 			Walls     []wallJSON      `json:"walls"`
-		}{res.Dir, res.Case, res.Report.Verdict.String(), res.InputHash, len(res.Mesh.Nodes), res.Mesh.NumCells(), res.Mesh.NumFaces(), res.Report, wallsJSON(res.Walls)}
+			Notes     []string        `json:"notes"`
+		}{res.Dir, res.Case, res.Report.Verdict.String(), res.InputHash, len(res.Mesh.Nodes), res.Mesh.NumCells(), res.Mesh.NumFaces(), res.Report, wallsJSON(res.Walls), append([]string{}, res.Notes...)}
 		enc := json.NewEncoder(w)
 		enc.SetIndent("", "  ")
 		if err := enc.Encode(out); err != nil {
@@ -155,6 +156,12 @@ func report(w io.Writer, g *globals, res *deck.Result, runErr error) error {
 			return err
 		}
 		writeWalls(w, res.Walls)
+		if len(res.Notes) > 0 {
+			fmt.Fprintf(w, "\nnotes\n")
+			for _, n := range res.Notes {
+				fmt.Fprintf(w, "  %s\n", n)
+			}
+		}
 		fmt.Fprintf(w, "\ndeck: %s (%d cells, %d faces, %d nodes)\n", res.Dir, res.Mesh.NumCells(), res.Mesh.NumFaces(), len(res.Mesh.Nodes))
 	}
 	return runErr
