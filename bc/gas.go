@@ -12,16 +12,42 @@ type Gas struct {
 	Gamma float64
 	// R is the specific gas constant in J/(kg K); it must be positive.
 	R float64
+	// Sutherland are the constants of the gas's viscosity law; the zero
+	// value means none were given, and air's are used (see
+	// ViscosityLaw), which the deck and `state` then say.
+	Sutherland Sutherland
 }
 
 // Air is dry air: γ = 1.4 and R = 287.05287 J/(kg K), the specific gas
 // constant of dry air in ISO 2533:1975 (Standard Atmosphere) and the ICAO
-// standard atmosphere (from memory).
-var Air = Gas{Gamma: 1.4, R: 287.05287}
+// standard atmosphere (from memory), with White's Sutherland constants.
+var Air = Gas{Gamma: 1.4, R: 287.05287, Sutherland: AirSutherland}
 
-// Validate reports a γ ≤ 1 or an R ≤ 0 (or either not finite) as an error
-// wrapping ErrInput; where is the case-file place, possibly empty.
+// ViscosityLaw returns the gas's Sutherland constants, air's when none
+// were given.
+func (g Gas) ViscosityLaw() Sutherland {
+	if g.Sutherland == (Sutherland{}) {
+		return AirSutherland
+	}
+	return g.Sutherland
+}
+
+// BorrowsAirViscosity reports whether the gas is not air and was given no
+// viscosity law of its own, so that its viscosity, and the Reynolds
+// number and first-cell height that follow from it, are air's.
+func (g Gas) BorrowsAirViscosity() bool {
+	return g.Sutherland == (Sutherland{}) && (g.Gamma != Air.Gamma || g.R != Air.R)
+}
+
+// Validate reports a γ ≤ 1 or an R ≤ 0 (or either not finite), or
+// Sutherland constants given but not all positive, as an error wrapping
+// ErrInput; where is the case-file place, possibly empty.
 func (g Gas) Validate(where string) error {
+	if g.Sutherland != (Sutherland{}) {
+		if err := g.Sutherland.validate(where); err != nil {
+			return err
+		}
+	}
 	if !(g.Gamma > 1) || math.IsInf(g.Gamma, 0) {
 		return inputErr(where, "", "ratio of specific heats gamma = %g; it must be greater than 1 (air: 1.4)", g.Gamma)
 	}

@@ -115,7 +115,7 @@ func TestPostNormalShockState(t *testing.T) {
 }
 
 func TestGasValidate(t *testing.T) {
-	for _, g := range []Gas{{1, 287}, {0.9, 287}, {1.4, 0}, {1.4, -1}, {math.NaN(), 287}} {
+	for _, g := range []Gas{{Gamma: 1, R: 287}, {Gamma: 0.9, R: 287}, {Gamma: 1.4}, {Gamma: 1.4, R: -1}, {Gamma: math.NaN(), R: 287}, {Gamma: 1.4, R: 287, Sutherland: Sutherland{MuRef: 1e-5, TRef: 0, S: 110}}} {
 		err := g.Validate("case.yaml:3:1")
 		if !errors.Is(err, ErrInput) {
 			t.Errorf("%+v accepted", g)
@@ -127,5 +127,34 @@ func TestGasValidate(t *testing.T) {
 	}
 	if err := Air.Validate(""); err != nil {
 		t.Error(err)
+	}
+}
+
+// TestGasViscosityLaw: a gas's own Sutherland constants give its
+// viscosity (μ = μ_ref at T_ref, by the law's form) and so its Reynolds
+// number; a gas other than air without constants borrows air's, and says
+// so.
+func TestGasViscosityLaw(t *testing.T) {
+	own := Gas{Gamma: 1.3, R: 290, Sutherland: Sutherland{MuRef: 3e-5, TRef: 300, S: 150}}
+	st, err := StateFromMach(own, 0.5, 1e5, 300)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !near(st.Viscosity, 3e-5, 1e-15) {
+		t.Errorf("viscosity at T_ref %g, want μ_ref 3e-5", st.Viscosity)
+	}
+	if want := st.Density * st.Velocity / 3e-5; !near(st.ReynoldsPerMetre, want, 1e-12) {
+		t.Errorf("Reynolds per metre %g, want %g", st.ReynoldsPerMetre, want)
+	}
+	// (T/T_ref)^1.5 (T_ref+S)/(T+S) at T = 2 T_ref, S = T_ref/2: 2^1.5 · 1.5/2.5.
+	if got, want := own.Sutherland.Viscosity(600), 3e-5*math.Pow(2, 1.5)*450/750; !near(got, want, 1e-14) {
+		t.Errorf("μ(600 K) %g, want %g", got, want)
+	}
+	borrowed := Gas{Gamma: 1.3, R: 290}
+	if !borrowed.BorrowsAirViscosity() || own.BorrowsAirViscosity() || Air.BorrowsAirViscosity() || (Gas{Gamma: 1.4, R: 287.05287}).BorrowsAirViscosity() {
+		t.Error("BorrowsAirViscosity is wrong for one of the gases")
+	}
+	if borrowed.ViscosityLaw() != AirSutherland {
+		t.Errorf("a gas without constants uses %v, want air's", borrowed.ViscosityLaw())
 	}
 }

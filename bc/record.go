@@ -103,9 +103,12 @@ func (es Entries) Table() string {
 	return strings.Join(lines, "\n")
 }
 
-// Entries returns the gas constants: gamma and gas_constant.
+// Entries returns the gas constants: gamma, gas_constant and the
+// Sutherland constants of its viscosity (air's when none were given).
 func (g Gas) Entries() Entries {
-	return Entries{{"gamma", g.Gamma, "1"}, {"gas_constant", g.R, "J/(kg K)"}}
+	v := g.ViscosityLaw()
+	return Entries{{"gamma", g.Gamma, "1"}, {"gas_constant", g.R, "J/(kg K)"},
+		{"sutherland_mu_ref", v.MuRef, "Pa s"}, {"sutherland_t_ref", v.TRef, "K"}, {"sutherland_s", v.S, "K"}}
 }
 
 // Entries returns the state's values in a fixed order with snake_case keys

@@ -21,7 +21,7 @@ type State struct {
 	TotalPressure    float64 // p0 = p [1 + (γ−1)/2 M²]^(γ/(γ−1)), Pa
 	TotalTemperature float64 // T0 = T [1 + (γ−1)/2 M²], K
 	DynamicPressure  float64 // q = ½ ρ V² = ½ γ p M², Pa
-	Viscosity        float64 // μ(T) by Sutherland's law, Pa·s
+	Viscosity        float64 // μ(T) by the gas's Sutherland's law, Pa·s
 	ReynoldsPerMetre float64 // ρ V / μ, 1/m
 }
 
@@ -120,7 +120,7 @@ func complete(g Gas, mach, p, t float64) State {
 	a := g.SpeedOfSound(t)
 	rho := g.Density(p, t)
 	v := mach * a
-	mu := SutherlandViscosity(t)
+	mu := g.ViscosityLaw().Viscosity(t)
 	return State{
 		Gas:              g,
 		Mach:             mach,

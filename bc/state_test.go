@@ -10,10 +10,10 @@ import (
 // (F. M. White, Viscous Fluid Flow; μ(300 K) ≈ 1.846e-5 Pa·s as quoted in
 // the issue) and at T_ref, where the law gives μ_ref by construction.
 func TestSutherlandViscosity(t *testing.T) {
-	if mu := SutherlandViscosity(300); !near(mu, 1.846e-5, 3e-4) {
+	if mu := AirSutherland.Viscosity(300); !near(mu, 1.846e-5, 3e-4) {
 		t.Errorf("mu(300 K) = %.5g, White 1.846e-5", mu)
 	}
-	if mu := SutherlandViscosity(273.15); !near(mu, 1.716e-5, 1e-12) {
+	if mu := AirSutherland.Viscosity(273.15); !near(mu, 1.716e-5, 1e-12) {
 		t.Errorf("mu(273.15 K) = %.6g, want mu_ref 1.716e-5", mu)
 	}
 }
@@ -62,7 +62,7 @@ func TestStateBadInput(t *testing.T) {
 		"negative pressure":   func() (State, error) { return StateFromMach(Air, 0.5, -100, 300) },
 		"zero temperature":    func() (State, error) { return StateFromMach(Air, 0.5, 1e5, 0) },
 		"negative Mach":       func() (State, error) { return StateFromMach(Air, -0.1, 1e5, 300) },
-		"gamma 1":             func() (State, error) { return StateFromMach(Gas{1, 287}, 0.5, 1e5, 300) },
+		"gamma 1":             func() (State, error) { return StateFromMach(Gas{Gamma: 1, R: 287}, 0.5, 1e5, 300) },
 		"NaN density":         func() (State, error) { return StateFromVelocity(Air, 10, math.NaN(), 300) },
 		"negative speed":      func() (State, error) { return StateFromVelocity(Air, -10, 1, 300) },
 		"altitude too high":   func() (State, error) { return StateFromAltitude(Air, Altitude{100000, Geometric}, 2) },

@@ -1,21 +1,46 @@
 package bc
 
-import "math"
-
-// Sutherland's law constants for air (F. M. White, Viscous Fluid Flow,
-// McGraw-Hill): μ_ref = 1.716e-5 Pa·s at T_ref = 273.15 K, S = 110.4 K.
-const (
-	SutherlandMuRef = 1.716e-5 // Pa·s
-	SutherlandTRef  = 273.15   // K
-	SutherlandS     = 110.4    // K
+import (
+	"fmt"
+	"math"
 )
 
-// SutherlandViscosity is the dynamic viscosity of air by Sutherland's law,
+// Sutherland holds the constants of Sutherland's law for one gas,
 //
-//	μ(T) = μ_ref (T/T_ref)^(3/2) (T_ref + S)/(T + S),
+//	μ(T) = μ_ref (T/T_ref)^(3/2) (T_ref + S)/(T + S)
 //
-// with White's constants above; White quotes it as accurate to about 2 %
-// from 170 K to 1900 K (from memory).
-func SutherlandViscosity(t float64) float64 {
-	return SutherlandMuRef * math.Pow(t/SutherlandTRef, 1.5) * (SutherlandTRef + SutherlandS) / (t + SutherlandS)
+// (Sutherland 1893; in the form of F. M. White, Viscous Fluid Flow,
+// McGraw-Hill, from memory).
+type Sutherland struct {
+	MuRef float64 // μ_ref, the viscosity at TRef, Pa·s
+	TRef  float64 // T_ref, K
+	S     float64 // Sutherland's constant S, K
+}
+
+// AirSutherland are White's constants for air: μ_ref = 1.716e-5 Pa·s at
+// T_ref = 273.15 K, S = 110.4 K; White quotes the law as accurate to about
+// 2 % from 170 K to 1900 K (from memory).
+var AirSutherland = Sutherland{MuRef: 1.716e-5, TRef: 273.15, S: 110.4}
+
+// Viscosity is the dynamic viscosity μ(T) in Pa·s by the law above.
+func (s Sutherland) Viscosity(t float64) float64 {
+	return s.MuRef * math.Pow(t/s.TRef, 1.5) * (s.TRef + s.S) / (t + s.S)
+}
+
+// validate reports a constant that is not a positive finite number.
+func (s Sutherland) validate(where string) error {
+	for _, c := range []struct {
+		name, unit string
+		v          float64
+	}{{"mu_ref", "Pa s", s.MuRef}, {"t_ref", "K", s.TRef}, {"s", "K", s.S}} {
+		if !(c.v > 0) || math.IsInf(c.v, 0) {
+			return inputErr(where, "", "Sutherland constant %s = %s; it must be a positive finite number (air: %s)", c.name, withUnit(c.v, c.unit), AirSutherland)
+		}
+	}
+	return nil
+}
+
+// String gives the constants as "mu_ref 1.716e-05 Pa s, t_ref 273.15 K, s 110.4 K".
+func (s Sutherland) String() string {
+	return fmt.Sprintf("mu_ref %g Pa s, t_ref %g K, s %g K", s.MuRef, s.TRef, s.S)
 }

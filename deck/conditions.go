@@ -134,7 +134,8 @@ func (r *referenceSpec) direction() orb.Point {
 // decodeReference reads the reference (free-stream) state:
 //
 //	reference:
-//	  gas: air                 # or {gamma: 1.3, gas_constant: 290}
+//	  gas: air                 # or {gamma: 1.3, gas_constant: 290, sutherland: {mu_ref: 1.8e-5, t_ref: 300, s: 120}}
+//	                           # (Pa s, K, K; without sutherland, air's viscosity is used, and a note says so)
 //	  mach: 0.6
 //	  pressure: 101325         # Pa, static
 //	  temperature: 288.15      # K, static
@@ -154,13 +155,14 @@ func decodeReference(v value) (*referenceSpec, error) {
 	if gv, ok := o.get("gas"); ok {
 		if s, err := gv.scalar(); err == nil {
 			if s != "air" {
-				return nil, gv.errf("gas is air or {gamma: γ, gas_constant: R}; found %q", s)
+				return nil, gv.errf("gas is air or {gamma: γ, gas_constant: R, sutherland: {mu_ref, t_ref, s}}; found %q", s)
 			}
 		} else {
 			go_, err := gv.object()
 			if err != nil {
 				return nil, err
 			}
+			r.gas = bc.Gas{}
 			gm, err := go_.need("gamma")
 			if err != nil {
 				return nil, err
@@ -174,6 +176,27 @@ func decodeReference(v value) (*referenceSpec, error) {
 			}
 			if r.gas.R, err = gr.number(); err != nil {
 				return nil, err
+			}
+			if sv, ok := go_.get("sutherland"); ok {
+				so, err := sv.object()
+				if err != nil {
+					return nil, err
+				}
+				for _, k := range []struct {
+					key string
+					v   *float64
+				}{{"mu_ref", &r.gas.Sutherland.MuRef}, {"t_ref", &r.gas.Sutherland.TRef}, {"s", &r.gas.Sutherland.S}} {
+					kv, err := so.need(k.key)
+					if err != nil {
+						return nil, err
+					}
+					if *k.v, err = kv.positive(); err != nil {
+						return nil, err
+					}
+				}
+				if err := so.done(); err != nil {
+					return nil, err
+				}
 			}
 			if err := go_.done(); err != nil {
 				return nil, err

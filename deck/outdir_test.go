@@ -8,6 +8,7 @@ import (
 	"strings"
 	"testing"
 
+	"cvdeck/bc"
 	"cvdeck/export/manifest"
 )
 
@@ -203,6 +204,68 @@ func TestParseAssignments(t *testing.T) {
 	for _, a := range []string{"gap", "=1", "gap=1+", "gap=1/0*0"} {
 		if _, err := ParseAssignments([]string{a}); !errors.Is(err, ErrInput) {
 			t.Errorf("--set %s: got %v, want an input error", a, err)
+		}
+	}
+}
+
+// TestGasSutherlandConstants: a case's gas may carry its own Sutherland
+// constants, which then give the reference viscosity (μ_ref at T = T_ref,
+// by the law's form) and are recorded with the gas in the manifest; a gas
+// without them borrows air's, and the deck's notes say so; a constant
+// missing or not positive is an error at its place in the file.
+func TestGasSutherlandConstants(t *testing.T) {
+	ref := "reference: {gas: GAS, mach: 0.3, pressure: 1e5, temperature: 300}\nboundaries: {wall: {kind: wall-adiabatic}}\n"
+	run := func(gas string) (*Result, *manifest.Manifest) {
+		t.Helper()
+		c, err := Parse("square.yaml", []byte(square+strings.Replace(ref, "GAS", gas, 1)), LoadOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		dir := filepath.Join(t.TempDir(), "deck")
+		res, err := Run(c, dir, RunOptions{Formats: []string{"cgns", "manifest"}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		m, err := manifest.Read(dir)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return res, m
+	}
+	entry := func(es bc.Entries, key string) float64 {
+		for _, e := range es {
+			if e.Key == key {
+				return e.Value
+			}
+		}
+		t.Fatalf("no %s in %v", key, es)
+		return 0
+	}
+	res, m := run("{gamma: 1.3, gas_constant: 290, sutherland: {mu_ref: 2.5e-5, t_ref: 300, s: 90}}")
+	if len(res.Notes) != 0 {
+		t.Errorf("notes %q for a gas with its own constants", res.Notes)
+	}
+	if mu := entry(m.Conditions.Reference, "dynamic_viscosity"); math.Abs(mu-2.5e-5) > 1e-18 {
+		t.Errorf("reference viscosity %g, want μ_ref 2.5e-5 at T_ref", mu)
+	}
+	if s := entry(m.Conditions.Gas, "sutherland_s"); s != 90 {
+		t.Errorf("the manifest's gas has S = %g, want 90", s)
+	}
+	res, m = run("{gamma: 1.3, gas_constant: 290}")
+	if len(res.Notes) != 1 || !strings.Contains(res.Notes[0], "air's Sutherland constants") {
+		t.Errorf("notes %q, want one on the borrowed viscosity", res.Notes)
+	}
+	if mu, want := entry(m.Conditions.Reference, "dynamic_viscosity"), bc.AirSutherland.Viscosity(300); mu != want {
+		t.Errorf("reference viscosity %g, want air's %g", mu, want)
+	}
+	for gas, want := range map[string]string{
+		"{gamma: 1.3, gas_constant: 290, sutherland: {mu_ref: 2.5e-5, t_ref: 300}}":         `"s"`,
+		"{gamma: 1.3, gas_constant: 290, sutherland: {mu_ref: 0, t_ref: 300, s: 90}}":       "greater than zero",
+		"{gamma: 1.3, gas_constant: 290, sutherland: {mu_ref: 1, t_ref: 300, s: 90, x: 1}}": `"x"`,
+	} {
+		_, err := Parse("square.yaml", []byte(square+strings.Replace(ref, "GAS", gas, 1)), LoadOptions{})
+		if !errors.Is(err, ErrInput) || !strings.Contains(err.Error(), want) || !strings.Contains(err.Error(), "square.yaml:") {
+			t.Errorf("gas %s: got %v, want a located error about %s", gas, err, want)
 		}
 	}
 }

@@ -56,6 +56,9 @@ func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *q
 	} else {
 		man.Mesh.Notes = append(man.Mesh.Notes, "no boundary conditions are assigned: the deck carries boundary tags only")
 	}
+	if c.Reference != nil && c.Reference.gas.BorrowsAirViscosity() {
+		man.Mesh.Notes = append(man.Mesh.Notes, fmt.Sprintf("the gas (gamma %g, R %g J/(kg K)) has no viscosity law of its own, so air's Sutherland constants (%s) give its viscosity, Reynolds number and first-cell heights; give reference.gas.sutherland for this gas", c.Reference.gas.Gamma, c.Reference.gas.R, bc.AirSutherland))
+	}
 	man.Advice = c.advice(m)
 	man.Checks = checkSummary(rep)
 	return man

@@ -410,7 +410,8 @@ func cgnsDeck(c *Case, m *mesh.Mesh, assign *bc.Assignment, fields []vtk.Field) 
 			Viscous:  viscous(assign),
 		}
 		if fs.Viscous {
-			fs.Sutherland = &cgns.Sutherland{ViscosityRef: bc.SutherlandMuRef, TemperatureRef: bc.SutherlandTRef, Constant: bc.SutherlandS}
+			v := s.Gas.ViscosityLaw()
+			fs.Sutherland = &cgns.Sutherland{ViscosityRef: v.MuRef, TemperatureRef: v.TRef, Constant: v.S}
 		}
 		d.Flow = fs
 	}

@@ -15,6 +15,7 @@ type stateFlags struct {
 	mach, altitude, pressure, temperature, velocity, density float64
 	altitudeKind, gas                                        string
 	gamma, gasConstant, length, yplus                        float64
+	sutherland                                               []float64
 	normalShock, json                                        bool
 }
 
@@ -28,7 +29,8 @@ func newStateCommand() *cobra.Command {
 		Short: "Compute a reference flow state and its derived figures",
 		Long: `state computes an ideal-gas flow state and prints it: static and total
 pressure and temperature, density, speed of sound, velocity, dynamic pressure,
-viscosity (Sutherland's law) and Reynolds number per metre; with --length the
+viscosity (Sutherland's law: air's constants unless --sutherland gives the
+gas's) and Reynolds number per metre; with --length the
 Reynolds number over that length, with --yplus the first-cell height for that
 y+ at a distance --length from a flat plate's leading edge.
 
@@ -57,6 +59,7 @@ All values are SI: m, Pa, K, kg/m^3, m/s.`,
 	fl.StringVar(&f.gas, "gas", "air", "working gas: air (gamma 1.4, R 287.05287 J/(kg K))")
 	fl.Float64Var(&f.gamma, "gamma", 0, "ratio of specific heats, instead of --gas (with --gas-constant)")
 	fl.Float64Var(&f.gasConstant, "gas-constant", 0, "specific gas constant R in J/(kg K), instead of --gas (with --gamma)")
+	fl.Float64SliceVar(&f.sutherland, "sutherland", nil, "the gas's Sutherland constants MU_REF,T_REF,S (Pa s, K, K); air's by default")
 	fl.Float64Var(&f.length, "length", 0, "reference length in metres, for the Reynolds number and the first-cell height")
 	fl.Float64Var(&f.yplus, "yplus", 0, "target y+ for the first-cell height (needs --length)")
 	fl.BoolVar(&f.normalShock, "normal-shock", false, "also give the state behind a normal shock (needs M > 1)")
@@ -86,6 +89,12 @@ func runState(cmd *cobra.Command, f stateFlags, out io.Writer) error {
 		gas = bc.Gas{Gamma: f.gamma, R: f.gasConstant}
 	case f.gas != "air":
 		return usage("unknown gas %q; use --gas air, or --gamma and --gas-constant", f.gas)
+	}
+	if set("sutherland") {
+		if len(f.sutherland) != 3 {
+			return usage("--sutherland takes three numbers, MU_REF,T_REF,S (Pa s, K, K), e.g. 1.716e-5,273.15,110.4 for air; got %d", len(f.sutherland))
+		}
+		gas.Sutherland = bc.Sutherland{MuRef: f.sutherland[0], TRef: f.sutherland[1], S: f.sutherland[2]}
 	}
 
 	byAltitude := set("altitude")
@@ -158,7 +167,13 @@ func runState(cmd *cobra.Command, f stateFlags, out io.Writer) error {
 	if f.json {
 		return writeStateJSON(out, entries, shock)
 	}
+	if globalFlag(cmd, "quiet") {
+		return nil
+	}
 	fmt.Fprintf(out, "Reference state (%s)\n\n%s", source, entries.Table())
+	if gas.BorrowsAirViscosity() {
+		fmt.Fprintf(out, "\ndynamic_viscosity: this gas has no Sutherland constants of its own (--sutherland MU_REF,T_REF,S), so air's are used, and the Reynolds number and first-cell height follow from them\n")
+	}
 	if set("yplus") {
 		fmt.Fprintf(out, "\nfirst_cell_height: y+ = %g at x = %g m, turbulent flat plate, Schlichting's C_f = [2 log10(Re_x) - 0.65]^-2.3\n", f.yplus, f.length)
 	}

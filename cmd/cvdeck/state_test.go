@@ -92,3 +92,37 @@ func TestStateBadFlags(t *testing.T) {
 		}
 	}
 }
+
+// TestStateGasViscosity: a gas given by γ and R alone borrows air's
+// Sutherland constants and the table says so; --sutherland gives the
+// gas's own, so that at T = T_ref the viscosity is μ_ref (the law's form)
+// and the Reynolds number follows from it; a malformed --sutherland is bad
+// input.
+func TestStateGasViscosity(t *testing.T) {
+	out, err := runStateCmd(t, "--mach", "0.5", "--pressure", "1e5", "--temperature", "300", "--gamma", "1.67", "--gas-constant", "2077")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(out, "no Sutherland constants of its own") {
+		t.Errorf("no note on the borrowed viscosity:\n%s", out)
+	}
+	out, err = runStateCmd(t, "--mach", "0.5", "--pressure", "1e5", "--temperature", "300", "--gamma", "1.67", "--gas-constant", "2077", "--sutherland", "2e-5,300,80", "--json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got map[string]float64
+	if err := json.Unmarshal([]byte(out), &got); err != nil {
+		t.Fatalf("%v in %s", err, out)
+	}
+	if math.Abs(got["dynamic_viscosity"]-2e-5) > 1e-18 || got["sutherland_s"] != 80 {
+		t.Errorf("viscosity %g (want 2e-5 at T_ref), S %g", got["dynamic_viscosity"], got["sutherland_s"])
+	}
+	if want := got["density"] * got["velocity"] / 2e-5; math.Abs(got["reynolds_per_metre"]/want-1) > 1e-12 {
+		t.Errorf("Reynolds per metre %g, want %g", got["reynolds_per_metre"], want)
+	}
+	for _, bad := range []string{"1e-5,300", "1e-5,0,80", "-1e-5,300,80"} {
+		if _, err := runStateCmd(t, "--mach", "0.5", "--pressure", "1e5", "--temperature", "300", "--sutherland", bad); !errors.Is(err, bc.ErrInput) {
+			t.Errorf("--sutherland %s: %v, want bad input", bad, err)
+		}
+	}
+}
