@@ -16,6 +16,8 @@ import (
 	"strconv"
 
 	"gopkg.in/yaml.v3"
+
+	"cvdeck/internal/yamlerr"
 )
 
 // Version is cvdeck's version, recorded in every manifest.
@@ -92,7 +94,8 @@ func Load(path string, opts LoadOptions) (*Case, error) {
 func Parse(path string, data []byte, opts LoadOptions) (*Case, error) {
 	var doc yaml.Node
 	if err := yaml.Unmarshal(data, &doc); err != nil {
-		return nil, &InputError{File: path, Msg: "not valid YAML: " + err.Error(), Err: err}
+		line, col, msg := yamlerr.Describe(data, err)
+		return nil, &InputError{File: path, Line: line, Col: col, Msg: "not valid YAML: " + msg, Err: err}
 	}
 	if doc.Kind != yaml.DocumentNode || len(doc.Content) == 0 {
 		return nil, &InputError{File: path, Line: 1, Col: 1, Msg: "the case file is empty; start from `cvdeck init NAME DIR`"}

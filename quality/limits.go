@@ -10,6 +10,8 @@ import (
 	"strings"
 
 	"gopkg.in/yaml.v3"
+
+	"cvdeck/internal/yamlerr"
 )
 
 // Bound is the pair of thresholds of one metric. For a metric where larger
@@ -193,7 +195,11 @@ func LoadPatch(path string) (Patch, error) {
 	}
 	var doc yaml.Node
 	if err := yaml.Unmarshal(data, &doc); err != nil {
-		return Patch{}, fmt.Errorf("quality: %s: %w", path, err)
+		line, col, msg := yamlerr.Describe(data, err)
+		if line > 0 {
+			return Patch{}, fmt.Errorf("%s:%d:%d: not valid YAML: %s", path, line, col, msg)
+		}
+		return Patch{}, fmt.Errorf("%s: not valid YAML: %s", path, msg)
 	}
 	if len(doc.Content) == 0 {
 		return Patch{}, nil

@@ -32,6 +32,7 @@ import (
 
 	"cvdeck/deck"
 	"cvdeck/deck/expr"
+	"cvdeck/internal/yamlerr"
 )
 
 // MaxVariants is the largest sweep accepted; a sweep file whose product
@@ -139,7 +140,8 @@ func Parse(path string, data []byte) (*File, error) {
 	p := &fileParser{path: path}
 	var doc yaml.Node
 	if err := yaml.Unmarshal(data, &doc); err != nil {
-		return nil, &Error{File: path, Msg: "not valid YAML", Err: err}
+		line, col, msg := yamlerr.Describe(data, err)
+		return nil, &Error{File: path, Line: line, Col: col, Msg: "not valid YAML: " + msg}
 	}
 	if doc.Kind != yaml.DocumentNode || len(doc.Content) == 0 {
 		return nil, &Error{File: path, Msg: "the sweep file is empty; it needs at least a base case (base: case.yaml)"}
