@@ -20,7 +20,8 @@ type BoundaryLine struct {
 // each line from the cell arrays the mesh readers use (boundary_tag or
 // tag: a String array of names, or an integer array indexing the FieldData
 // String array tag_names). Polylines are split into their segments, which
-// share the polyline's tag. Errors name the file and the part at fault.
+// share the polyline's tag. Errors name the file and the part at fault;
+// as with ReadVTU, a file that is not whole is an error.
 func ReadBoundaryVTP(data []byte, name string) ([]BoundaryLine, error) {
 	g, nl, err := readPiece(data, name, "PolyData", "NumberOfLines", "Lines", "connectivity", "offsets")
 	if err != nil {
@@ -67,7 +68,7 @@ func ReadBoundaryVTP(data []byte, name string) ([]BoundaryLine, error) {
 // vertices are skipped with a note. Cell numbers, and so the tag arrays,
 // run as the VTK library numbers a PolyData's cells: verts, lines, polys,
 // then strips. Triangle strips are refused: split them into triangles
-// first.
+// first. As with ReadVTU, a file that is not whole is an error.
 func ReadVTP(data []byte, name string) (*mesh.Mesh, error) {
 	g, err := parseVTP(data, name)
 	if err != nil {

@@ -5,6 +5,7 @@ import (
 	"encoding/base64"
 	"encoding/binary"
 	"encoding/xml"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -20,7 +21,10 @@ import (
 // (name is used in errors); see ReadFile. It reads every encoding the VTK
 // library writes: format ascii, binary (base64) and appended (raw or
 // base64), uncompressed or zlib-compressed (vtkZLibDataCompressor),
-// header_type UInt32 or UInt64, either byte order, one piece.
+// header_type UInt32 or UInt64, either byte order, one piece. A file
+// that is not whole is an error saying where it ends and what is missing:
+// every array it declares must be there, read or not, and the XML must
+// close (see checkWhole).
 func ReadVTU(data []byte, name string) (*mesh.Mesh, error) {
 	g, err := parseVTU(data, name)
 	if err != nil {
@@ -209,22 +213,23 @@ type xmlFile struct {
 	headerSize int  // 4 (UInt32) or 8 (UInt64)
 	compressed bool // vtkZLibDataCompressor
 	appended   []byte
+	appendedAt int  // where appended starts in the file
 	appended64 bool // the appended block is base64 text
 }
 
-// parseXML parses the XML head of a VTK file. A raw appended block is not
-// XML, so the head is everything before <AppendedData>, closed by
-// </VTKFile>; the block itself starts after the '_' that follows the
-// AppendedData start tag.
+// parseXML parses the XML head of a VTK file and checks that the file is
+// whole (see checkWhole). A raw appended block is not XML, so the head is
+// everything before <AppendedData>, closed by </VTKFile>; the block itself
+// starts after the '_' that follows the AppendedData start tag.
 func parseXML(data []byte, name string) (*xmlFile, error) {
 	x := &xmlFile{name: name, order: binary.LittleEndian, headerSize: 4}
-	head := data
+	head, whole := data, true
 	if i := bytes.Index(data, []byte("<AppendedData")); i >= 0 {
 		gt := bytes.IndexByte(data[i:], '>')
 		if gt < 0 {
-			return nil, fmt.Errorf("%s: unterminated AppendedData tag", name)
+			return nil, fmt.Errorf("%s: the file ends at byte %d inside the <AppendedData> start tag: the file is cut short", name, len(data))
 		}
-		tag, err := parseElements(append(append([]byte{}, data[i:i+gt]...), "/>"...), name)
+		tag, err := parseElements(append(append([]byte{}, data[i:i+gt]...), "/>"...), name, false)
 		if err != nil {
 			return nil, err
 		}
@@ -237,18 +242,25 @@ func parseXML(data []byte, name string) (*xmlFile, error) {
 		}
 		u := bytes.IndexByte(data[i+gt:], '_')
 		if u < 0 {
+			if !bytes.Contains(data[i+gt:], []byte("</AppendedData")) {
+				return nil, fmt.Errorf("%s: the file ends at byte %d before the '_' that starts the appended data: the file is cut short", name, len(data))
+			}
 			return nil, fmt.Errorf("%s: AppendedData has no '_' marking the start of its data", name)
 		}
-		x.appended = data[i+gt+u+1:]
+		x.appendedAt = i + gt + u + 1
+		x.appended = data[x.appendedAt:]
 		if x.appended64 {
-			// The base64 text ends where the closing tag begins.
-			if e := bytes.Index(x.appended, []byte("</AppendedData")); e >= 0 {
-				x.appended = bytes.TrimRight(x.appended[:e], " \t\r\n")
+			// The base64 text ends where the closing tag begins (or where
+			// what is left of it begins, in a file cut short): base64 has
+			// no '<'.
+			if e := bytes.IndexByte(x.appended, '<'); e >= 0 {
+				x.appended = x.appended[:e]
 			}
+			x.appended = bytes.TrimRight(x.appended, " \t\r\n")
 		}
-		head = append(append([]byte{}, data[:i]...), "</VTKFile>"...)
+		head, whole = append(append([]byte{}, data[:i]...), "</VTKFile>"...), false
 	}
-	root, err := parseElements(head, name)
+	root, err := parseElements(head, name, whole)
 	if err != nil {
 		return nil, err
 	}
@@ -277,13 +289,19 @@ func parseXML(data []byte, name string) (*xmlFile, error) {
 	default:
 		return nil, fmt.Errorf("%s: compressor %q is not supported; cvdeck reads uncompressed and vtkZLibDataCompressor data", name, c)
 	}
+	if err := x.checkWhole(data); err != nil {
+		return nil, err
+	}
 	return x, nil
 }
 
 // parseElements parses XML into an element tree and returns the root.
-func parseElements(data []byte, name string) (*element, error) {
+// When data is the whole file (whole), XML text that ends inside an
+// element is reported as a file cut short.
+func parseElements(data []byte, name string, whole bool) (*element, error) {
 	d := xml.NewDecoder(bytes.NewReader(data))
 	var stack []*element
+	var lines []int // the line each open element starts on
 	var root *element
 	for {
 		tok, err := d.Token()
@@ -291,6 +309,14 @@ func parseElements(data []byte, name string) (*element, error) {
 			break
 		}
 		if err != nil {
+			var se *xml.SyntaxError
+			if whole && errors.As(err, &se) && strings.HasPrefix(se.Msg, "unexpected EOF") {
+				where := "before its first element"
+				if len(stack) > 0 {
+					where = fmt.Sprintf("inside <%s> (line %d)", stack[len(stack)-1].name, lines[len(lines)-1])
+				}
+				return nil, fmt.Errorf("%s: the file ends at byte %d %s: no closing </VTKFile> tag: the file is cut short", name, len(data), where)
+			}
 			return nil, fmt.Errorf("%s: XML: %w", name, err)
 		}
 		switch t := tok.(type) {
@@ -305,9 +331,10 @@ func parseElements(data []byte, name string) (*element, error) {
 			} else if root == nil {
 				root = e
 			}
-			stack = append(stack, e)
+			line, _ := d.InputPos()
+			stack, lines = append(stack, e), append(lines, line)
 		case xml.EndElement:
-			stack = stack[:len(stack)-1]
+			stack, lines = stack[:len(stack)-1], lines[:len(lines)-1]
 		case xml.CharData:
 			if len(stack) > 0 {
 				e := stack[len(stack)-1]
@@ -315,10 +342,137 @@ func parseElements(data []byte, name string) (*element, error) {
 			}
 		}
 	}
+	if root == nil && whole {
+		return nil, fmt.Errorf("%s: no XML elements in its %d bytes: the file is empty or cut short", name, len(data))
+	}
 	if root == nil {
 		return nil, fmt.Errorf("%s: no XML elements", name)
 	}
 	return root, nil
+}
+
+// checkWhole checks that the file is complete, so that a file cut short
+// is refused even where the cut falls in data the readers do not decode.
+// Every DataArray and Array declared anywhere in the file must lie within
+// it: an appended array's header and the bytes it declares within the
+// appended block, an inline binary array's within its text (ascii arrays
+// and inline text are complete when the XML is, which parseElements
+// checks). Only the headers are decoded: the data of an array is stepped
+// over, not read. After the appended block must come the end tags
+// </AppendedData> and </VTKFile> (VTK file-format specification, "XML
+// File Formats": the appended data sits inside the AppendedData element
+// of the VTKFile root, as the VTK library's XML writers write it).
+func (x *xmlFile) checkWhole(data []byte) error {
+	var end int64 // where the last appended array's data ends in the block
+	var walk func(parent *element) error
+	walk = func(parent *element) error {
+		for _, e := range parent.children {
+			if e.name != "DataArray" && e.name != "Array" {
+				if err := walk(e); err != nil {
+					return err
+				}
+				continue
+			}
+			where := parent.name
+			if n := e.attr["Name"]; n != "" {
+				where += "/" + n
+			}
+			switch e.attr["format"] {
+			case "appended":
+				at, err := x.appendedEnd(e, where, len(data))
+				if err != nil {
+					return err
+				}
+				end = max(end, at)
+			case "binary":
+				text := bytes.TrimSpace(e.text)
+				if bytes.ContainsAny(text, " \t\r\n") {
+					text = stripSpace(text)
+				}
+				if err := x.skipBlob(&base64Source{text: text}); err != nil {
+					return fmt.Errorf("%s: array %q (inline binary): its text holds less than its header declares: %w", x.name, where, err)
+				}
+			}
+		}
+		return nil
+	}
+	if err := walk(x.root); err != nil {
+		return err
+	}
+	if x.appended == nil {
+		return nil
+	}
+	return x.checkEndTags(data, x.appendedAt+int(end))
+}
+
+// appendedEnd returns where the data of the appended array e (where names
+// it) ends in the appended block, stepping over the data after reading
+// its header. An array that runs past the block is an error; when the
+// block runs to the end of the file (n bytes), the file is cut short.
+func (x *xmlFile) appendedEnd(e *element, where string, n int) (int64, error) {
+	if x.appended == nil {
+		return 0, fmt.Errorf("%s: array %q is appended, but the file has no AppendedData block", x.name, where)
+	}
+	off, err := strconv.ParseInt(strings.TrimSpace(e.attr["offset"]), 10, 64)
+	if err != nil || off < 0 || off > int64(len(x.appended)) {
+		if err == nil && off >= 0 && x.appendedAt+len(x.appended) == n {
+			return 0, fmt.Errorf("%s: the file ends at byte %d, before the appended data of array %q at offset %d: the file is cut short", x.name, n, where, off)
+		}
+		return 0, fmt.Errorf("%s: array %q: offset %q is not within the %d-byte appended block", x.name, where, e.attr["offset"], len(x.appended))
+	}
+	src := x.source(off)
+	var short *shortError
+	switch err := x.skipBlob(src); {
+	case errors.As(err, &short) && x.appendedAt+len(x.appended) == n:
+		return 0, fmt.Errorf("%s: the file ends at byte %d inside the appended data of array %q (%s): the file is cut short", x.name, n, where, err)
+	case short != nil:
+		return 0, fmt.Errorf("%s: array %q: its appended data runs past the end of the appended block at byte %d (%w)", x.name, where, x.appendedAt+len(x.appended), err)
+	case err != nil:
+		return 0, fmt.Errorf("%s: array %q (appended at offset %d): %w", x.name, where, off, err)
+	}
+	return int64(len(x.appended) - src.rest()), nil
+}
+
+// source returns the byte source of the appended block from offset off.
+func (x *xmlFile) source(off int64) byteSource {
+	if x.appended64 {
+		return &base64Source{text: x.appended[off:]}
+	}
+	return &rawSource{data: x.appended[off:]}
+}
+
+// checkEndTags checks that what follows the appended arrays' data, from
+// byte at of the file, closes the file: the end tags </AppendedData> and
+// </VTKFile>, with only whitespace before and between them in base64 text
+// (a raw block may hold bytes no array refers to before its end tag).
+func (x *xmlFile) checkEndTags(data []byte, at int) error {
+	tail := data[at:]
+	i := bytes.Index(tail, []byte("</AppendedData"))
+	if i < 0 {
+		return fmt.Errorf("%s: no closing </AppendedData> tag after the appended data, which ends at byte %d of %d: the file is cut short", x.name, at, len(data))
+	}
+	if x.appended64 && len(bytes.TrimSpace(tail[:i])) > 0 {
+		return fmt.Errorf("%s: %d characters after the base64 appended data at byte %d that no array refers to, before </AppendedData>", x.name, len(bytes.TrimSpace(tail[:i])), at)
+	}
+	rest := bytes.TrimLeft(tail[i+len("</AppendedData"):], " \t\r\n")
+	if !bytes.HasPrefix(rest, []byte(">")) {
+		return fmt.Errorf("%s: the </AppendedData> end tag at byte %d is not closed with '>': the file is cut short", x.name, at+i)
+	}
+	rest = bytes.TrimLeft(rest[1:], " \t\r\n")
+	if !bytes.HasPrefix(rest, []byte("</VTKFile")) || !bytes.HasPrefix(bytes.TrimLeft(rest[len("</VTKFile"):], " \t\r\n"), []byte(">")) {
+		return fmt.Errorf("%s: no closing </VTKFile> tag after </AppendedData>: the file is cut short", x.name)
+	}
+	return nil
+}
+
+// stripSpace returns text without its spaces, tabs and line ends.
+func stripSpace(text []byte) []byte {
+	return bytes.Map(func(r rune) rune {
+		if r == ' ' || r == '\n' || r == '\r' || r == '\t' {
+			return -1
+		}
+		return r
+	}, text)
 }
 
 // count reads a non-negative integer attribute.
@@ -371,13 +525,7 @@ func (x *xmlFile) read(e *element, where string) (*array, error) {
 		}
 		return a, nil
 	case "binary":
-		text := bytes.Map(func(r rune) rune {
-			if r == ' ' || r == '\n' || r == '\r' || r == '\t' {
-				return -1
-			}
-			return r
-		}, e.text)
-		b, err := x.blob(&base64Source{text: text})
+		b, err := x.blob(&base64Source{text: stripSpace(e.text)})
 		if err != nil {
 			return fail(err)
 		}
@@ -390,11 +538,7 @@ func (x *xmlFile) read(e *element, where string) (*array, error) {
 		if err != nil || off < 0 || off > int64(len(x.appended)) {
 			return fail(fmt.Errorf("offset %q is not within the %d-byte appended block", e.attr["offset"], len(x.appended)))
 		}
-		var src byteSource = &rawSource{data: x.appended[off:]}
-		if x.appended64 {
-			src = &base64Source{text: x.appended[off:]}
-		}
-		b, err := x.blob(src)
+		b, err := x.blob(x.source(off))
 		if err != nil {
 			return fail(err)
 		}
@@ -420,7 +564,25 @@ func (x *xmlFile) read(e *element, where string) (*array, error) {
 
 // byteSource hands out the bytes of one array's data in order.
 type byteSource interface {
+	// next returns the next n bytes.
 	next(n uint64) ([]byte, error)
+	// skip steps over the next n bytes without decoding them.
+	skip(n uint64) error
+	// rest is the length of the input not yet taken.
+	rest() int
+}
+
+// shortError says that an array's data ends before the bytes it declares.
+type shortError struct {
+	need, have uint64
+	base64     bool // need and have count decoded bytes of base64 text
+}
+
+func (e *shortError) Error() string {
+	if e.base64 {
+		return fmt.Sprintf("base64 data ends %d bytes short", e.need-e.have)
+	}
+	return fmt.Sprintf("needs %d bytes, %d are there", e.need, e.have)
 }
 
 // rawSource reads raw binary bytes.
@@ -428,12 +590,19 @@ type rawSource struct{ data []byte }
 
 func (s *rawSource) next(n uint64) ([]byte, error) {
 	if n > uint64(len(s.data)) {
-		return nil, fmt.Errorf("needs %d more bytes, the data has %d", n, len(s.data))
+		return nil, &shortError{need: n, have: uint64(len(s.data))}
 	}
 	b := s.data[:n]
 	s.data = s.data[n:]
 	return b, nil
 }
+
+func (s *rawSource) skip(n uint64) error {
+	_, err := s.next(n)
+	return err
+}
+
+func (s *rawSource) rest() int { return len(s.data) }
 
 // base64Source decodes base64 text on demand. The VTK library encodes an
 // array's header and its data as separate base64 streams when it
@@ -448,12 +617,13 @@ type base64Source struct {
 func (s *base64Source) next(n uint64) ([]byte, error) {
 	for uint64(len(s.pending)) < n {
 		if len(s.text) == 0 {
-			return nil, fmt.Errorf("base64 data ends %d bytes short", n-uint64(len(s.pending)))
+			return nil, &shortError{need: n, have: uint64(len(s.pending)), base64: true}
 		}
 		need := n - uint64(len(s.pending))
 		q := min((need+2)/3*4, uint64(len(s.text))/4*4)
 		if q == 0 {
-			return nil, fmt.Errorf("base64 data ends with %d stray characters", len(s.text))
+			// Fewer than four characters are left: not one whole quad.
+			return nil, &shortError{need: n, have: uint64(len(s.pending)), base64: true}
 		}
 		if p := bytes.IndexByte(s.text[:q], '='); p >= 0 {
 			q = uint64(p/4+1) * 4
@@ -471,6 +641,28 @@ func (s *base64Source) next(n uint64) ([]byte, error) {
 	return b, nil
 }
 
+// skip steps over n decoded bytes as next would take them, counting whole
+// quads of text (3 bytes each, fewer in a quad padded with '=') without
+// decoding them; only a last quad split by the skip is decoded, by next.
+// The characters stepped over are not checked to be base64.
+func (s *base64Source) skip(n uint64) error {
+	k := min(n, uint64(len(s.pending)))
+	s.pending, n = s.pending[k:], n-k
+	for n >= 3 && len(s.text) >= 4 {
+		q := min(n/3*4, uint64(len(s.text))/4*4)
+		got := q / 4 * 3
+		if p := bytes.IndexByte(s.text[:q], '='); p >= 0 {
+			q = uint64(p/4+1) * 4
+			got = q/4*3 - uint64(bytes.Count(s.text[q-2:q], []byte("=")))
+		}
+		s.text, n = s.text[q:], n-got
+	}
+	_, err := s.next(n)
+	return err
+}
+
+func (s *base64Source) rest() int { return len(s.text) }
+
 // uint reads one header integer of the file's header type.
 func (x *xmlFile) uint(b []byte) uint64 {
 	if x.headerSize == 8 {
@@ -483,12 +675,23 @@ func (x *xmlFile) uint(b []byte) uint64 {
 // for it.
 const maxArrayBytes = 1 << 36
 
-// blob reads one array's binary data: uncompressed, a header holding the
-// byte count then the bytes; compressed, a header [number of blocks,
-// block size, size of the last block, compressed size of each block] then
-// the zlib-compressed blocks (VTK file-format document, "Binary data" and
+// blobHeader is what the header of one array's binary data declares:
+// uncompressed, the byte count; compressed, the zlib blocks' compressed
+// sizes and the bytes each inflates to.
+type blobHeader struct {
+	bytes  uint64   // uncompressed: the data's byte count
+	zipped []uint64 // compressed: each block's compressed size
+	sizes  []uint64 // compressed: each block's inflated size
+	stored uint64   // bytes of data after the header: bytes, or the sum of zipped
+}
+
+// header reads the header of one array's binary data and checks the sizes
+// it declares: uncompressed, a header holding the byte count then the
+// bytes; compressed, a header [number of blocks, block size, size of the
+// last block, compressed size of each block] then the zlib-compressed
+// blocks (VTK file-format document, "Binary data" and
 // vtkXMLDataElement/vtkXMLWriter's layout).
-func (x *xmlFile) blob(src byteSource) ([]byte, error) {
+func (x *xmlFile) header(src byteSource) (*blobHeader, error) {
 	hs := uint64(x.headerSize)
 	h, err := src.next(hs)
 	if err != nil {
@@ -499,7 +702,7 @@ func (x *xmlFile) blob(src byteSource) ([]byte, error) {
 		if n > maxArrayBytes {
 			return nil, fmt.Errorf("header declares %d bytes", n)
 		}
-		return src.next(n)
+		return &blobHeader{bytes: n, stored: n}, nil
 	}
 	nb := x.uint(h)
 	if nb > maxArrayBytes/32768 {
@@ -516,25 +719,11 @@ func (x *xmlFile) blob(src byteSource) ([]byte, error) {
 	if nb > 0 && (nb-1)*bs+last > maxArrayBytes {
 		return nil, fmt.Errorf("compression header declares %d blocks of %d bytes", nb, bs)
 	}
-	// The blocks are found and their sizes checked in order, then the
-	// output is taken at once and the blocks are inflated side by side:
-	// each is a zlib stream of its own. A block's size is checked against
-	// what its compressed bytes can give before anything is allocated, so
-	// the whole allocation is bounded by the data present.
-	type block struct {
-		data      []byte
-		at, bytes uint64
-	}
-	blocks := make([]block, nb)
-	var total uint64
-	for k := range blocks {
+	b := &blobHeader{zipped: make([]uint64, nb), sizes: make([]uint64, nb)}
+	for k := range b.zipped {
 		cs := x.uint(h[(2+uint64(k))*hs:])
 		if cs > maxArrayBytes {
 			return nil, fmt.Errorf("block %d: compressed size %d", k, cs)
-		}
-		c, err := src.next(cs)
-		if err != nil {
-			return nil, fmt.Errorf("block %d: %w", k, err)
 		}
 		want := bs
 		if uint64(k) == nb-1 {
@@ -546,17 +735,55 @@ func (x *xmlFile) blob(src byteSource) ([]byte, error) {
 		if want > 1100*cs+64 {
 			return nil, fmt.Errorf("block %d: %d bytes declared from %d compressed; zlib cannot expand that much", k, want, cs)
 		}
-		blocks[k] = block{c, total, want}
-		total += want
+		b.zipped[k], b.sizes[k] = cs, want
+		b.bytes += want
+		b.stored += cs
 	}
-	out := hugepage.Make[byte](int(total))
+	return b, nil
+}
+
+// skipBlob steps over one array's binary data, reading only its header:
+// it checks that the data declared is there without decoding it.
+func (x *xmlFile) skipBlob(src byteSource) error {
+	h, err := x.header(src)
+	if err != nil {
+		return err
+	}
+	return src.skip(h.stored)
+}
+
+// blob reads one array's binary data (see header), inflating compressed
+// blocks.
+func (x *xmlFile) blob(src byteSource) ([]byte, error) {
+	h, err := x.header(src)
+	if err != nil {
+		return nil, err
+	}
+	if !x.compressed {
+		return src.next(h.bytes)
+	}
+	// The blocks are found in order, then the output is taken at once and
+	// the blocks are inflated side by side: each is a zlib stream of its
+	// own. header has checked each block's size against what its
+	// compressed bytes can give, and the blocks are all present before
+	// anything is allocated, so the allocation is bounded by the data.
+	blocks := make([][]byte, len(h.zipped))
+	for k, cs := range h.zipped {
+		if blocks[k], err = src.next(cs); err != nil {
+			return nil, fmt.Errorf("block %d: %w", k, err)
+		}
+	}
+	at := make([]uint64, len(blocks)+1)
+	for k, n := range h.sizes {
+		at[k+1] = at[k] + n
+	}
+	out := hugepage.Make[byte](int(h.bytes))
 	err = inflateSideBySide(len(blocks), func(k int, zr *zlibReader) error {
-		b := blocks[k]
-		if err := zr.reset(b.data); err != nil {
+		if err := zr.reset(blocks[k]); err != nil {
 			return fmt.Errorf("block %d: zlib: %w", k, err)
 		}
-		if _, err := io.ReadFull(zr.r, out[b.at:b.at+b.bytes]); err != nil {
-			return fmt.Errorf("block %d: zlib: %w (want %d bytes)", k, err, b.bytes)
+		if _, err := io.ReadFull(zr.r, out[at[k]:at[k+1]]); err != nil {
+			return fmt.Errorf("block %d: zlib: %w (want %d bytes)", k, err, h.sizes[k])
 		}
 		// The stream must end there: reading on to its end is what checks
 		// its Adler-32 checksum (RFC 1950), which catches a corrupt block
@@ -564,7 +791,7 @@ func (x *xmlFile) blob(src byteSource) ([]byte, error) {
 		var more [1]byte
 		switch n, err := io.ReadFull(zr.r, more[:]); {
 		case n > 0:
-			return fmt.Errorf("block %d: zlib: the stream holds more than the declared %d bytes", k, b.bytes)
+			return fmt.Errorf("block %d: zlib: the stream holds more than the declared %d bytes", k, h.sizes[k])
 		case err != io.EOF:
 			return fmt.Errorf("block %d: zlib: %w", k, err)
 		}
