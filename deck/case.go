@@ -14,6 +14,7 @@ import (
 	"path/filepath"
 	"sort"
 	"strconv"
+	"strings"
 
 	"gopkg.in/yaml.v3"
 
@@ -66,6 +67,10 @@ type Case struct {
 	// runs with the same InputHash write the same deck.
 	Inputs    []InputFile
 	InputHash string
+
+	// sketch is the sketch file when the case was made from one in memory
+	// (SketchCase), "" for a case file.
+	sketch string
 }
 
 // Family is a refinement family of one case (the refine section).
@@ -104,6 +109,9 @@ func Parse(path string, data []byte, opts LoadOptions) (*Case, error) {
 	root := value{d, doc.Content[0], ""}
 	top, err := root.object()
 	if err != nil {
+		if ext := strings.ToLower(filepath.Ext(path)); ext != ".yaml" && ext != ".yml" {
+			return nil, fmt.Errorf("%w (cvdeck reads %q files as YAML case files; it knows sketches by their extension: %s)", err, ext, SketchExtensions())
+		}
 		return nil, err
 	}
 	c := &Case{File: path, Dir: filepath.Dir(path), Units: "m", Refine: opts.Refine}

@@ -74,7 +74,8 @@ func (e *CheckFailure) Error() string {
 // mesh and writes the deck folder outDir as a whole. Bad input returns an
 // error wrapping ErrInput and writes nothing; a failed check writes the
 // deck and returns it with a *CheckFailure.
-func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
+func Run(c *Case, outDir string, opts RunOptions) (res *Result, err error) {
+	defer func() { err = c.fromSketch(err) }()
 	stage := opts.Stage
 	if stage == nil {
 		stage = func(string) {}
@@ -136,7 +137,7 @@ func Run(c *Case, outDir string, opts RunOptions) (*Result, error) {
 	}); err != nil {
 		return nil, fmt.Errorf("writing the deck: %w", err)
 	}
-	res := &Result{Case: c.Name, Dir: outDir, InputHash: c.InputHash, Mesh: m, Report: rep, Walls: walls, Notes: man.Mesh.Notes}
+	res = &Result{Case: c.Name, Dir: outDir, InputHash: c.InputHash, Mesh: m, Report: rep, Walls: walls, Notes: man.Mesh.Notes}
 	if rep.Verdict == quality.Fail {
 		return res, &CheckFailure{Dir: outDir, Failed: rep.FailedCells}
 	}

@@ -98,6 +98,9 @@ func decodeChain(c *Case, start orb.Point, list value, defTag string, defSpacing
 				return nil, shape.wrap(err)
 			}
 		}
+		if err := c.checkSpacing(seg, o, it); err != nil {
+			return nil, err
+		}
 		cur = seg.At(1)
 		out = append(out, namedSegment{name: name, seg: seg, at: it})
 	}

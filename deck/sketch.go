@@ -2,14 +2,18 @@ package deck
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"github.com/paulmach/orb"
 
+	"cvdeck/bc"
 	"cvdeck/geometry"
+	"cvdeck/mesh/unstructured"
 )
 
 // sketchKinds maps sketch file extensions to their reader.
@@ -75,7 +79,7 @@ func readSketch(path string, data []byte, r sketchRead) (geometry.Outline, error
 			}
 		}
 	default:
-		return geometry.Outline{}, fmt.Errorf("%s: cvdeck reads sketches as %s", path, sketchExtensions())
+		return geometry.Outline{}, fmt.Errorf("%s: cvdeck reads sketches as %s", path, SketchExtensions())
 	}
 	if err != nil {
 		return geometry.Outline{}, fmt.Errorf("%s: %w", path, err)
@@ -92,7 +96,9 @@ func readSketch(path string, data []byte, r sketchRead) (geometry.Outline, error
 	return o, nil
 }
 
-func sketchExtensions() string {
+// SketchExtensions lists the sketch file extensions and their formats,
+// for messages.
+func SketchExtensions() string {
 	return ".geojson/.json (GeoJSON), .wkt (WKT), .svg (SVG path data) or .xy/.txt/.dat/.csv (x y points)"
 }
 
@@ -207,13 +213,43 @@ type SketchOptions struct {
 // angle and growth, boundary tags from the file (GeoJSON "tag" and
 // "edge_tags" properties) or one per loop. It is the case that `cvdeck init
 // --from` writes out, run without writing it.
+//
+// The case exists only in memory, so it is known by a label rather than a
+// file name (see sketchCaseLabel), and errors located in it are given
+// against the sketch, with no line of a file the user cannot see (see
+// Case.fromSketch).
 func SketchCase(path string, so SketchOptions, lo LoadOptions) (*Case, error) {
 	text, err := sketchCaseText(path, filepath.Base(path), so)
 	if err != nil {
 		return nil, err
 	}
-	name := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)) + ".yaml"
-	return Parse(filepath.Join(filepath.Dir(path), name), []byte(text), lo)
+	c, err := Parse(filepath.Join(filepath.Dir(path), sketchCaseLabel(path)), []byte(text), lo)
+	if err != nil {
+		return nil, (&Case{File: filepath.Join(filepath.Dir(path), sketchCaseLabel(path)), sketch: path}).fromSketch(err)
+	}
+	c.sketch = path
+	return c, nil
+}
+
+// sketchCaseLabel names the case made from a sketch and the flags, in the
+// deck's manifest (case.file, the first input) and nowhere on disk.
+func sketchCaseLabel(sketch string) string {
+	return "(case made from " + filepath.Base(sketch) + " and the flags)"
+}
+
+// fromSketch gives an input error located in the in-memory case of a
+// bare sketch run against the sketch file instead, without the line and
+// column of the case text, and says where the case comes from. Other
+// errors, and every error of a case read from a file, are returned as
+// they are.
+func (c *Case) fromSketch(err error) error {
+	var ie *InputError
+	if c.sketch == "" || !errors.As(err, &ie) || ie.File != c.File {
+		return err
+	}
+	ie.File, ie.Line, ie.Col = c.sketch, 0, 0
+	ie.Msg += " (in the case cvdeck makes from the sketch and the flags; `cvdeck init --from` writes it out to edit)"
+	return err
 }
 
 // sketchCaseText writes the case file around a sketch referred to as rel.
@@ -227,8 +263,11 @@ func sketchCaseText(path, rel string, so SketchOptions) (string, error) {
 	if !(so.Size > 0) {
 		return "", fmt.Errorf("%w: meshing a sketch needs --size, the target cell size in the sketch's units after --scale", ErrInput)
 	}
-	if so.MinAngle < 0 || so.Growth < 0 {
-		return "", fmt.Errorf("%w: --min-angle and --growth must not be negative", ErrInput)
+	if so.MinAngle < 0 || so.MinAngle > unstructured.MaxMinAngle {
+		return "", fmt.Errorf("%w: --min-angle %g: the smallest triangle angle the mesher can promise is between 0 and %g degrees", ErrInput, so.MinAngle, unstructured.MaxMinAngle)
+	}
+	if so.Growth != 0 && !(so.Growth >= 1) {
+		return "", fmt.Errorf("%w: --growth %g: the size growth ratio away from the boundary is at least 1", ErrInput, so.Growth)
 	}
 	data, err := os.ReadFile(path)
 	if err != nil {
@@ -236,7 +275,8 @@ func sketchCaseText(path, rel string, so SketchOptions) (string, error) {
 	}
 	// Read it once here so that a bad sketch fails with the sketch's own
 	// error, located at its ring and vertex.
-	if _, err := readSketch(path, data, sketchRead{scale: so.Scale, flipY: so.FlipY}); err != nil {
+	o, err := readSketch(path, data, sketchRead{scale: so.Scale, flipY: so.FlipY})
+	if err != nil {
 		return "", fmt.Errorf("%w: %w", ErrInput, err)
 	}
 	name := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
@@ -256,7 +296,14 @@ func sketchCaseText(path, rel string, so SketchOptions) (string, error) {
 	if so.Growth > 0 {
 		fmt.Fprintf(&b, "    growth: %g\n", so.Growth)
 	}
-	b.WriteString("# boundaries:           # give each boundary tag a condition, e.g.\n#   outer: {kind: wall-slip}\n")
+	var kinds []string
+	for _, k := range bc.Kinds() {
+		kinds = append(kinds, k.String())
+	}
+	b.WriteString("# boundaries:           # give each boundary tag of the sketch a condition (kinds: " + strings.Join(kinds, ", ") + ")\n")
+	for _, tag := range outlineTags(o) {
+		fmt.Fprintf(&b, "#   %s: {kind: wall-slip}\n", yamlKey(tag))
+	}
 	return b.String(), nil
 }
 
@@ -265,7 +312,7 @@ func sketchCaseText(path, rel string, so SketchOptions) (string, error) {
 // so.Scale) defaults to a fiftieth of the sketch's size. Existing files are not overwritten.
 func InitFromSketch(sketch, dir string, so SketchOptions) (string, error) {
 	if !IsSketch(sketch) {
-		return "", fmt.Errorf("%w: %s is not a sketch file: cvdeck reads %s", ErrInput, sketch, sketchExtensions())
+		return "", fmt.Errorf("%w: %s is not a sketch file: cvdeck reads %s", ErrInput, sketch, SketchExtensions())
 	}
 	data, err := os.ReadFile(sketch)
 	if err != nil {
@@ -302,6 +349,31 @@ func InitFromSketch(sketch, dir string, so SketchOptions) (string, error) {
 		return "", err
 	}
 	return casePath, nil
+}
+
+// outlineTags returns the boundary tags of the outline, each once, in loop
+// and segment order.
+func outlineTags(o geometry.Outline) []string {
+	var tags []string
+	for _, l := range o.Loops() {
+		for _, sg := range l.Segments {
+			if t := sg.Attr().Tag; t != "" && !slices.Contains(tags, t) {
+				tags = append(tags, t)
+			}
+		}
+	}
+	return tags
+}
+
+// yamlKey writes a tag as a YAML mapping key, quoted unless it is a plain
+// word.
+func yamlKey(tag string) string {
+	for _, r := range tag {
+		if !(r == '_' || r == '-' || r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9') {
+			return fmt.Sprintf("%q", tag)
+		}
+	}
+	return tag
 }
 
 // outlineSize is the diagonal of the outer loop's bounding box, sampled at

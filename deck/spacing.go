@@ -1,6 +1,7 @@
 package deck
 
 import (
+	"fmt"
 	"math"
 
 	"cvdeck/bc"
@@ -173,4 +174,30 @@ func (c *Case) wallHeight(x value) (float64, error) {
 		return 0, x.wrap(err)
 	}
 	return ws.Height, nil
+}
+
+// checkSpacing discretises a segment of the case as written (refinement
+// factor 1) once, so that a spacing law the segment cannot meet — a first
+// spacing longer than the segment, a size that asks for too many nodes —
+// is reported at the spacing in the case file (o's spacing key, or the
+// segment item it when the spacing is its loop's) rather than later, at
+// the block side or loop that uses the segment. The law's lengths are in
+// metres; for a case in other units the message says so. Under
+// refinement the counts are chosen later (roundCounts), and the mesher
+// reports such a law.
+func (c *Case) checkSpacing(seg geometry.Segment, o *object, it value) error {
+	if c.Refine != 1 {
+		return nil
+	}
+	_, err := geometry.DiscretiseSegment(seg)
+	if err == nil {
+		return nil
+	}
+	if c.Units != "m" {
+		err = fmt.Errorf("%w (lengths in metres: 1 m is %g %s)", err, 1/unitScale[c.Units], c.Units)
+	}
+	if v, ok := o.get("spacing"); ok {
+		return v.wrap(err)
+	}
+	return it.wrap(fmt.Errorf("its loop's spacing: %w", err))
 }

@@ -403,7 +403,7 @@ func Resolve(patches ...Patch) (Limits, error) {
 	}
 	for _, p := range patches {
 		if l, err = p.Apply(l); err != nil {
-			return Limits{}, fmt.Errorf("quality: %w", err)
+			return Limits{}, err
 		}
 	}
 	return l, nil

@@ -204,6 +204,71 @@ func TestSamplesListAndVersion(t *testing.T) {
 	}
 }
 
+// TestSketchRunSaysWhereItsCaseComes: a bare sketch run has no case file,
+// so its errors name the sketch (never a line of a file that does not
+// exist) or the flag, and its manifest labels the case as made from the
+// flags; init --from lists the sketch's own tags for their conditions; a
+// file whose extension is not a sketch's says how cvdeck reads it.
+func TestSketchRunSaysWhereItsCaseComes(t *testing.T) {
+	dir := t.TempDir()
+	wkt := filepath.Join(dir, "plate.wkt")
+	if err := os.WriteFile(wkt, []byte("POLYGON ((0 0, 10 0, 10 10, 0 10, 0 0), (4 4, 6 4, 6 6, 4 6, 4 4))\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	// A disc of two arcs, too small for the size asked: the mesher's
+	// error is located in the case made from the flags.
+	disc := filepath.Join(dir, "disc.svg")
+	if err := os.WriteFile(disc, []byte("M 0 0 A 5 5 0 0 1 10 0 A 5 5 0 0 1 0 0 Z\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	deckDir := filepath.Join(dir, "deck")
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{wkt, "--size", "1", "--min-angle", "40"}, "--min-angle 40"},
+		{[]string{wkt, "--size", "1", "--growth", "0.5"}, "--growth 0.5"},
+		{[]string{disc, "--size", "100"}, "disc.svg: "},
+	} {
+		code, _, errs := cvdeck(t, append([]string{"mesh", "-o", deckDir}, c.args...)...)
+		if code != 2 || !strings.Contains(errs, c.want) || strings.Contains(errs, ".yaml") || strings.Contains(errs, "flags):") || regexp.MustCompile(`(plate\.wkt|disc\.svg):\d`).MatchString(errs) {
+			t.Errorf("%v: exit %d, %q; want 2 and %q, no case-file line", c.args, code, errs, c.want)
+		}
+	}
+	if code, _, errs := cvdeck(t, "mesh", wkt, "-o", deckDir, "--size", "1", "--format", "manifest"); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	m, err := manifest.Read(deckDir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if m.Case.File != "(case made from plate.wkt and the flags)" || len(m.Inputs) != 2 || m.Inputs[1].Path != "plate.wkt" {
+		t.Errorf("case file %q, inputs %v", m.Case.File, m.Inputs)
+	}
+	code, out, errs := cvdeck(t, "init", "--from", wkt, "--size", "1", filepath.Join(dir, "case"))
+	if code != 0 {
+		t.Fatalf("init --from: exit %d: %s", code, errs)
+	}
+	text, err := os.ReadFile(strings.TrimSpace(out))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tag := range []string{"#   outer: {kind: wall-slip}", "#   inner1: {kind: wall-slip}"} {
+		if !strings.Contains(string(text), tag) {
+			t.Errorf("the written case does not offer %q:\n%s", tag, text)
+		}
+	}
+	odd := filepath.Join(dir, "plate.path")
+	if err := os.WriteFile(odd, []byte("M 0 0 L 1 0 L 1 1 Z\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, args := range [][]string{{"mesh", odd, "-o", deckDir}, {"mesh", odd, "-o", deckDir, "--size", "1"}} {
+		if code, _, errs := cvdeck(t, args...); code != 2 || !strings.Contains(errs, ".wkt (WKT)") {
+			t.Errorf("%v: exit %d, %q; want 2 and the sketch extensions", args, code, errs)
+		}
+	}
+}
+
 // TestSketchStraightToMesh meshes a bare GeoJSON sketch with no case file,
 // writes a case around it with init --from and meshes that too, and
 // refuses a self-crossing sketch with its ring and vertex named.

@@ -105,7 +105,7 @@ func runMesh(cmd *cobra.Command, g *globals, f *meshFlags, path string) error {
 		c, err = deck.SketchCase(path, f.sketch, deck.LoadOptions{Params: overrides, Refine: f.refine})
 	} else {
 		if f.sketch != (deck.SketchOptions{Scale: 1}) {
-			return fmt.Errorf("%w: --size, --min-angle, --growth, --scale and --flip-y apply to sketch files; set a case file's mesh in the file", deck.ErrInput)
+			return fmt.Errorf("%w: --size, --min-angle, --growth, --scale and --flip-y apply to sketch files, and %s is read as a case file (sketches are known by their extension: %s); set a case file's mesh in the file", deck.ErrInput, path, deck.SketchExtensions())
 		}
 		c, err = deck.Load(path, deck.LoadOptions{Params: overrides, Refine: f.refine})
 	}
