@@ -144,11 +144,12 @@ func Run(c *Case, outDir string, opts RunOptions) (res *Result, err error) {
 	return res, nil
 }
 
-// buildMesh runs the case's mesher.
+// buildMesh runs the case's mesher; the notes it returns go into the
+// manifest's mesh notes.
 func (c *Case) buildMesh() (*mesh.Mesh, string, []string, error) {
 	if c.Mesh.unstructured != nil {
-		m, err := c.buildUnstructured()
-		return m, "unstructured", nil, err
+		m, notes, err := c.buildUnstructured()
+		return m, "unstructured", notes, err
 	}
 	m, notes, err := c.Mesh.buildStructured()
 	return m, "structured", notes, err

@@ -1,7 +1,10 @@
 package deck
 
 import (
+	"errors"
+	"fmt"
 	"math"
+	"strings"
 
 	"cvdeck/mesh"
 	"cvdeck/mesh/unstructured"
@@ -14,6 +17,7 @@ type unstructuredSpec struct {
 	// in the reference state.
 	layerYplus []*value
 	layerAt    []value
+	regionAt   []value // the place of each region in the case file
 	at         value
 }
 
@@ -70,6 +74,7 @@ func decodeUnstructured(v value) (*unstructuredSpec, error) {
 				return nil, err
 			}
 			us.opt.Regions = append(us.opt.Regions, r)
+			us.regionAt = append(us.regionAt, it)
 		}
 	}
 	if x, ok := o.get("layers"); ok {
@@ -228,8 +233,10 @@ func decodeLayers(v value) (unstructured.Layers, *value, error) {
 	return l, yplus, o.done()
 }
 
-// buildUnstructured meshes the case's outline with the unstructured mesher.
-func (c *Case) buildUnstructured() (*mesh.Mesh, error) {
+// buildUnstructured meshes the case's outline with the unstructured mesher
+// and returns the mesh notes: one per layer request, on the layers asked
+// for and built (see layerNote).
+func (c *Case) buildUnstructured() (*mesh.Mesh, []string, error) {
 	us := c.Mesh.unstructured
 	opt := us.opt
 	opt.MaxCells = c.Mesh.maxCells
@@ -242,7 +249,7 @@ func (c *Case) buildUnstructured() (*mesh.Mesh, error) {
 		if yv := us.layerYplus[i]; yv != nil {
 			h, err := c.wallHeight(*yv)
 			if err != nil {
-				return nil, err
+				return nil, nil, err
 			}
 			l.FirstHeight = h
 		}
@@ -266,11 +273,108 @@ func (c *Case) buildUnstructured() (*mesh.Mesh, error) {
 	}
 	d, err := c.Geometry.shape.Discretise()
 	if err != nil {
-		return nil, c.Geometry.locate(err)
+		return nil, nil, c.Geometry.locate(err)
 	}
-	m, err := unstructured.Mesh(d, opt)
+	m, rep, err := unstructured.MeshWithReport(d, opt)
 	if err != nil {
-		return nil, &InputError{File: c.File, Line: us.at.n.Line, Col: us.at.n.Column, Path: us.at.path, Msg: err.Error(), Err: err}
+		var big *unstructured.CellLimitError
+		if errors.As(err, &big) {
+			return nil, nil, c.cellLimitError(big)
+		}
+		return nil, nil, &InputError{File: c.File, Line: us.at.n.Line, Col: us.at.n.Column, Path: us.at.path, Msg: err.Error(), Err: err}
 	}
-	return m, nil
+	var notes []string
+	for _, l := range rep.Layers {
+		notes = append(notes, layerNote(l))
+	}
+	return m, notes, nil
+}
+
+// layerNote says in one line how many layers a request asked for and how
+// many were built on its wall faces, and why fewer where fewer:
+//
+//	layers on cylinder: 10 asked, 10 built on all 96 wall faces
+//	layers on cylinder: 100 asked, 18 to 24 built (all 100 on none of 96 wall faces); fewer on 90 faces where ...
+func layerNote(r unstructured.LayerReport) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "layers on %s: %d asked, ", strings.Join(r.Tags, ", "), r.Asked)
+	switch {
+	case r.Faces == 0:
+		b.WriteString("none built: another layer request with a thinner first layer has the same tags and takes their faces")
+		return b.String()
+	case r.Full == r.Faces:
+		fmt.Fprintf(&b, "%s built on all %d wall faces", span(r.Min, r.Max), r.Faces)
+		return b.String()
+	}
+	full := "none"
+	if r.Full > 0 {
+		full = fmt.Sprint(r.Full)
+	}
+	fmt.Fprintf(&b, "%s built (all %d on %s of %d wall faces)", span(r.Min, r.Max), r.Asked, full, r.Faces)
+	for i, s := range r.Short {
+		sep, unit := "; fewer on ", " faces"
+		if i > 0 {
+			sep, unit = "; on ", ""
+		}
+		if s.Faces == 1 && i == 0 {
+			unit = " face"
+		}
+		fmt.Fprintf(&b, "%s%d%s where %s", sep, s.Faces, unit, s.Reason)
+	}
+	return b.String()
+}
+
+// span writes a range of whole numbers: "7", or "5 to 7".
+func span(lo, hi int) string {
+	if lo == hi {
+		return fmt.Sprint(lo)
+	}
+	return fmt.Sprintf("%d to %d", lo, hi)
+}
+
+// cellLimitError words the mesher's refusal of a mesh above the cell
+// limit in the case's units, at the place in the case file of what asks
+// for most of the cells, and says what to change. Sizes are quoted as the
+// case file writes them, before the refinement factor divides them.
+func (c *Case) cellLimitError(e *unstructured.CellLimitError) error {
+	us := c.Mesh.unstructured
+	at := us.at
+	unit := c.Units
+	perUnit := c.Refine / unitScale[unit] // metres in the mesher to case units in the file
+	length := func(m float64) string { return fmt.Sprintf("%.3g %s", m*perUnit, unit) }
+	var b strings.Builder
+	fmt.Fprintf(&b, "the sizes ask for about %.3g cells", e.Estimate)
+	if e.LayerCells > 0 {
+		fmt.Fprintf(&b, " (%d of them in the boundary layers)", e.LayerCells)
+	}
+	fmt.Fprintf(&b, ", more than the limit of %d", e.Limit)
+	if e.Limit == DefaultMaxCells {
+		b.WriteString(" (the default; mesh.max_cells or --max-cells sets another)")
+	} else {
+		b.WriteString(" (mesh.max_cells or --max-cells)")
+	}
+	if c.Refine != 1 {
+		fmt.Fprintf(&b, " at refinement factor %g", c.Refine)
+	}
+	what, change := "", ""
+	switch {
+	case e.Region >= 0:
+		at = us.regionAt[e.Region]
+		what, change = fmt.Sprintf("this region's size, %s,", length(e.Size)), "a size of about %s would fit"
+	case e.LayerTop:
+		what, change = fmt.Sprintf("the spacing along the walls with boundary layers (%s at the finest, kept along the layers' top)", length(e.Size)), "a spacing of about %s there would fit"
+	case e.Tag != "":
+		what, change = fmt.Sprintf("the spacing along boundary %s (%s at the finest)", e.Tag, length(e.Size)), "a spacing of about %s there would fit"
+	case !math.IsInf(e.Size, 1):
+		what, change = fmt.Sprintf("max_size, %s,", length(e.Size)), "a max_size of about %s would fit"
+	default:
+		what = "the size grown out from the boundary spacing"
+	}
+	fmt.Fprintf(&b, "; %s asks for about %.3g of them", what, e.Part)
+	if e.Fit > 0 && change != "" {
+		fmt.Fprintf(&b, ": "+change+", or raise the limit", fmt.Sprintf("%.3g %s", unstructured.RoundUp3(e.Fit*perUnit), unit))
+	} else {
+		b.WriteString(", and the other sizes alone ask for more than the limit: coarsen them too, or raise the limit")
+	}
+	return &InputError{File: c.File, Line: at.n.Line, Col: at.n.Column, Path: at.path, Msg: b.String(), Err: e}
 }

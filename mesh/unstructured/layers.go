@@ -48,12 +48,15 @@ type ray struct {
 	scale float64
 	spec  int     // index into the layer requests
 	limit float64 // largest distance the layers may reach along the ray
-	zero  bool    // layers must end here (a wall end that cannot slide)
+	// limitWhy is what sets limit: StopGap, StopSlide or StopCross.
+	limitWhy StopReason
+	zero     bool // layers must end here (a wall end that cannot slide)
 	// slide ≥ 0: the ray runs along input edge slide (a non-wall edge at a
 	// wall end) and its layer faces are boundary faces with that tag.
 	slide int32
-	n     int     // layer count after limits
-	nodes []int32 // node ids, nodes[0] = base
+	n     int        // layer count after limits
+	why   StopReason // what last lowered n below the count asked, or StopNone
+	nodes []int32    // node ids, nodes[0] = base
 }
 
 // layerPlan is the boundary-layer part of a mesh and the outline of the
@@ -109,8 +112,11 @@ func heights(l Layers) []float64 {
 //     none is left.
 //
 // The result is the layer cells and the outline of the remaining region,
-// whose edges along the layers' top are tagged frontTag.
-func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
+// whose edges along the layers' top are tagged frontTag, and a report per
+// layer request of the layers built on its wall faces and why some got
+// fewer than asked (see LayerReport). Each ray keeps the reason that last
+// lowered its count, so the report follows the steps above.
+func buildLayers(g *pslg, opt Options) (*layerPlan, []LayerReport, error) {
 	specOf := make([]int, len(g.tags))
 	for i := range specOf {
 		specOf[i] = -1
@@ -127,7 +133,7 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 				}
 			}
 			if !found {
-				return nil, fmt.Errorf("layers %d: no boundary edge is tagged %q; tags are %q", li, tag, g.tags)
+				return nil, nil, fmt.Errorf("layers %d: no boundary edge is tagged %q; tags are %q", li, tag, g.tags)
 			}
 		}
 	}
@@ -189,7 +195,7 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 		raysAt[i] = [2]int32{first, int32(len(rays))}
 	}
 	if len(rays) == 0 {
-		return nil, nil
+		return nil, nil, nil
 	}
 	// connected(j): rays j and j+1 of the same loop bound layer cells: a fan
 	// at one point, or the two ends of a wall edge.
@@ -237,12 +243,12 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 			if t, ok := rayHit(o, r.dir, g.pts[a], g.pts[b]); ok {
 				// Leave a gap of at least gapSpacing wall spacings, so the
 				// triangles between two fronts are not slivers.
-				r.limit = math.Min(r.limit, math.Min(gapShare*t, 0.5*(t-gapSpacing*spacing)))
+				r.lower(math.Min(gapShare*t, 0.5*(t-gapSpacing*spacing)), StopGap)
 			}
 		}
 		if r.slide >= 0 {
 			a, b := g.pts[r.slide], g.pts[g.nextPt[r.slide]]
-			r.limit = math.Min(r.limit, gapShare*math.Hypot(b[0]-a[0], b[1]-a[1]))
+			r.lower(gapShare*math.Hypot(b[0]-a[0], b[1]-a[1]), StopSlide)
 		}
 	}
 	for j := range rays {
@@ -251,18 +257,25 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 			continue
 		}
 		if t, s, ok := rayCross(g.pts[rays[j].base], rays[j].dir, g.pts[rays[k].base], rays[k].dir); ok {
-			rays[j].limit = math.Min(rays[j].limit, crossShare*t)
-			rays[k].limit = math.Min(rays[k].limit, crossShare*s)
+			rays[j].lower(crossShare*t, StopCross)
+			rays[k].lower(crossShare*s, StopCross)
 		}
 	}
 	for j := range rays {
 		r := &rays[j]
 		s := hs[r.spec]
-		r.n = 0
-		if !r.zero {
-			for r.n+1 < len(s) && r.scale*s[r.n+1] <= r.limit {
-				r.n++
+		r.n, r.why = 0, StopNone
+		if r.zero {
+			if len(s) > 1 {
+				r.why = StopWallEnd
 			}
+			continue
+		}
+		for r.n+1 < len(s) && r.scale*s[r.n+1] <= r.limit {
+			r.n++
+		}
+		if r.n+1 < len(s) {
+			r.why = r.limitWhy
 		}
 	}
 
@@ -275,24 +288,37 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, error) {
 			// fans and sides meet: lower the rays at crossing front edges.
 			bad = crossingRays(plan, rays, int32(len(g.pts)))
 			if len(bad) == 0 {
-				return plan, nil
+				return plan, layerReports(g, opt, hs, rays, raysAt, nextRay, wall), nil
 			}
 			crossing = true
+		}
+		why := StopFold
+		if crossing {
+			why = StopOverlap
 		}
 		lowered := false
 		for _, j := range bad {
 			if rays[j].n > 0 {
 				rays[j].n--
+				rays[j].why = why
 				lowered = true
 			}
 		}
 		if !lowered {
 			// Every layer count is already zero where the trouble is.
 			if crossing {
-				return plan, nil // the outline itself crosses: the triangulation says where
+				// The outline itself crosses: the triangulation says where.
+				return plan, layerReports(g, opt, hs, rays, raysAt, nextRay, wall), nil
 			}
-			return nil, fmt.Errorf("boundary layers at %s: cells are inverted even with no layers there (internal error)", g.where(rays[bad[0]].base))
+			return nil, nil, fmt.Errorf("boundary layers at %s: cells are inverted even with no layers there (internal error)", g.where(rays[bad[0]].base))
 		}
+	}
+}
+
+// lower brings the ray's limit down to d, if that is lower, and records why.
+func (r *ray) lower(d float64, why StopReason) {
+	if d < r.limit {
+		r.limit, r.limitWhy = d, why
 	}
 }
 
@@ -500,7 +526,9 @@ func segmentsMeet(a, b, c, d orb.Point) bool {
 }
 
 // smoothCounts lowers layer counts until connected rays differ by at most
-// one layer.
+// one layer. A ray lowered so takes the reason of the neighbour that
+// lowered it (see causeOf), so that the report names the first cause, not
+// the smoothing that spreads it.
 func smoothCounts(rays []ray, connected func(int32) (int32, bool)) {
 	for changed := true; changed; {
 		changed = false
@@ -511,10 +539,10 @@ func smoothCounts(rays []ray, connected func(int32) (int32, bool)) {
 			}
 			a, b := &rays[j], &rays[k]
 			if a.n > b.n+1 {
-				a.n, changed = b.n+1, true
+				a.n, a.why, changed = b.n+1, causeOf(b), true
 			}
 			if b.n > a.n+1 {
-				b.n, changed = a.n+1, true
+				b.n, b.why, changed = a.n+1, causeOf(a), true
 			}
 		}
 	}
@@ -682,4 +710,154 @@ func rayCross(a, u, b, v orb.Point) (t, s float64, ok bool) {
 	t = (bx*v[1] - by*v[0]) / den
 	s = (bx*u[1] - by*u[0]) / den
 	return t, s, t > 0 && s > 0
+}
+
+// StopReason says why a wall face got fewer boundary layers than asked.
+type StopReason int
+
+// The reasons, in the order buildLayers applies its limits.
+const (
+	// StopNone: the face got every layer asked for.
+	StopNone StopReason = iota
+	// StopGap: another boundary lies across from the wall, and the layers
+	// may take only gapShare of the free distance to it (less in narrow
+	// gaps, so that a few cells fit between two fronts).
+	StopGap
+	// StopSlide: at a wall end the layers grow along the next edge, and
+	// may cover only gapShare of that edge's first piece.
+	StopSlide
+	// StopCross: the rays of neighbouring wall points cross (a concave
+	// wall), and the layers stop at crossShare of the way to the crossing.
+	StopCross
+	// StopWallEnd: the wall ends beside an edge too far from the layer
+	// direction to grow along, so the layers taper to none there.
+	StopWallEnd
+	// StopFold: with more layers some cell would be inverted or not convex.
+	StopFold
+	// StopOverlap: with more layers the front would cross the front of
+	// layers grown from elsewhere.
+	StopOverlap
+	// StopNeighbour: a neighbouring wall of another request asks for
+	// fewer layers, and neighbours differ by at most one.
+	StopNeighbour
+)
+
+// String says the reason in plain words, to follow "fewer where".
+func (r StopReason) String() string {
+	switch r {
+	case StopNone:
+		return "nothing stopped them"
+	case StopGap:
+		return fmt.Sprintf("another boundary is near (the layers take at most %.0f%% of the distance to it)", 100*gapShare)
+	case StopSlide:
+		return fmt.Sprintf("the wall ends beside a short edge that the layers grow along (they cover at most %.0f%% of its first piece)", 100*gapShare)
+	case StopCross:
+		return fmt.Sprintf("neighbouring rays cross (the layers stop at %.0f%% of the distance to the crossing)", 100*crossShare)
+	case StopWallEnd:
+		return "the wall ends beside an edge more than 50° off the layer direction, so the layers taper to none"
+	case StopFold:
+		return "cells would fold (come out inverted or not convex)"
+	case StopOverlap:
+		return "the layers would overlap layers grown from another part of the walls"
+	case StopNeighbour:
+		return "a neighbouring wall asks for fewer layers (neighbours differ by at most one)"
+	}
+	return fmt.Sprintf("StopReason(%d)", int(r))
+}
+
+// causeOf is the reason to pass on from ray r to a neighbour that r
+// lowers: r's own, or, when r has every layer its request asks for,
+// StopNeighbour.
+func causeOf(r *ray) StopReason {
+	if r.why == StopNone {
+		return StopNeighbour
+	}
+	return r.why
+}
+
+// LayerReport compares the boundary layers built for one layer request
+// with the layers it asked for. It counts wall faces, the outline's edges
+// tagged with one of the request's Tags, and the layers on a face are the
+// quadrilaterals stacked on it (a thinner layer request on the same tag
+// takes its faces; a face with no layers may be split by refinement, so
+// the mesh can have more faces there).
+type LayerReport struct {
+	// Tags are the request's wall tags.
+	Tags []string
+	// Asked is the layer count asked for: Count, or as many layers as fit
+	// within Thickness.
+	Asked int
+	// Faces is the number of wall faces; Full of them got all Asked
+	// layers.
+	Faces, Full int
+	// Min and Max are the fewest and the most layers on a wall face (0
+	// when there are no faces).
+	Min, Max int
+	// Short says why the other faces got fewer: one entry per reason, the
+	// reason of the most faces first. The reason of a face is what
+	// lowered the smaller count of its two ends; where smoothing lowered
+	// it, the reason that started the smoothing.
+	Short []Shortfall
+
+	built []int // layers on each wall face, in outline order
+}
+
+// Shortfall counts the wall faces that got fewer layers for one reason.
+type Shortfall struct {
+	Reason StopReason
+	Faces  int
+}
+
+// layerReports tallies the layers on every wall face: the face from point
+// e to the next has the last ray of e and the first of the next point as
+// its sides, and min of their counts quadrilaterals on it (see assemble).
+func layerReports(g *pslg, opt Options, hs [][]float64, rays []ray, raysAt [][2]int32, nextRay func(int32) int32, wall func(int32) int) []LayerReport {
+	reps := make([]LayerReport, len(opt.Layers))
+	for i, l := range opt.Layers {
+		reps[i] = LayerReport{Tags: slices.Clone(l.Tags), Asked: len(hs[i]) - 1}
+	}
+	for e := range g.pts {
+		li := wall(int32(e))
+		if li < 0 {
+			continue
+		}
+		a := &rays[raysAt[e][1]-1]
+		b := &rays[nextRay(raysAt[e][1]-1)]
+		lo := a
+		if b.n < a.n || (b.n == a.n && a.why == StopNone) {
+			lo = b
+		}
+		rep := &reps[li]
+		rep.built = append(rep.built, lo.n)
+		if lo.n >= rep.Asked {
+			rep.Full++
+			continue
+		}
+		why := causeOf(lo)
+		k := slices.IndexFunc(rep.Short, func(s Shortfall) bool { return s.Reason == why })
+		if k < 0 {
+			rep.Short = append(rep.Short, Shortfall{Reason: why})
+			k = len(rep.Short) - 1
+		}
+		rep.Short[k].Faces++
+	}
+	for i := range reps {
+		finishReport(&reps[i])
+	}
+	return reps
+}
+
+// finishReport sets the face count, Min and Max from the per-face counts
+// and orders Short by faces, then by reason.
+func finishReport(r *LayerReport) {
+	r.Faces = len(r.built)
+	if r.Faces > 0 {
+		r.Min, r.Max = slices.Min(r.built), slices.Max(r.built)
+	}
+	slices.SortFunc(r.Short, func(a, b Shortfall) int {
+		if a.Faces != b.Faces {
+			return b.Faces - a.Faces
+		}
+		return int(a.Reason - b.Reason)
+	})
 }

@@ -22,8 +22,11 @@
 package unstructured
 
 import (
+	"errors"
 	"fmt"
 	"math"
+	"slices"
+	"strings"
 
 	"cvdeck/geometry"
 	"cvdeck/internal/hugepage"
@@ -32,61 +35,90 @@ import (
 )
 
 // Mesh meshes the region inside the outline's outer loop and outside its
-// inner loops. The outline's points and edges are kept (refinement may
-// split edges; the pieces keep the edge's tag), every boundary face
-// carries its edge's tag, and cells are counter-clockwise.
+// inner loops; it is MeshWithReport without the report.
+func Mesh(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, error) {
+	m, _, err := MeshWithReport(out, opt)
+	return m, err
+}
+
+// Report tells what the mesher built where that may differ from what was
+// asked.
+type Report struct {
+	// Layers has one entry per Options.Layers request, in order.
+	Layers []LayerReport
+}
+
+// MeshWithReport meshes the region inside the outline's outer loop and
+// outside its inner loops, and reports the boundary layers built. The
+// outline's points and edges are kept (refinement may split edges; the
+// pieces keep the edge's tag), every boundary face carries its edge's
+// tag, and cells are counter-clockwise.
 //
 // The steps: validate and flatten the outline; boundary layers when asked
 // for, which leave a smaller region whose top edges may not be split;
 // an estimate of the cell count from the size field, refused above
-// MaxCells before anything large is allocated; the constrained Delaunay
-// triangulation of the region; Delaunay refinement to the minimum angle
-// and the size field (see refiner and sizeField); quad pairing when asked
-// for; mesh.Build.
+// MaxCells before anything large is allocated (a *CellLimitError); the
+// constrained Delaunay triangulation of the region; Delaunay refinement
+// to the minimum angle and the size field (see refiner and sizeField);
+// quad pairing when asked for; mesh.Build.
 //
 // Node order: the outline's points first, loop by loop in outline order,
 // then the other nodes in the order the cells first use them. Cell order:
 // along a Hilbert curve (see localOrder).
-func Mesh(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, error) {
+func MeshWithReport(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, *Report, error) {
 	opt, err := opt.withDefaults()
 	if err != nil {
-		return nil, fmt.Errorf("unstructured: %w", err)
+		return nil, nil, fmt.Errorf("unstructured: %w", err)
 	}
 	g, err := flatten(out)
 	if err != nil {
-		return nil, fmt.Errorf("unstructured: %w", err)
+		return nil, nil, fmt.Errorf("unstructured: %w", err)
 	}
+	rep := &Report{}
 	region := g
+	limit := opt.MaxCells
 	var plan *layerPlan
 	if len(opt.Layers) > 0 {
-		if plan, err = buildLayers(g, opt); err != nil {
-			return nil, fmt.Errorf("unstructured: %w", err)
+		if plan, rep.Layers, err = buildLayers(g, opt); err != nil {
+			return nil, nil, fmt.Errorf("unstructured: %w", err)
 		}
 		if plan != nil {
 			nl := len(plan.cellStart) - 1
 			if nl >= opt.MaxCells {
-				return nil, fmt.Errorf("unstructured: the boundary layers alone have %d cells, above the limit of %d; raise the limit or use fewer layers", nl, opt.MaxCells)
+				return nil, nil, fmt.Errorf("unstructured: the boundary layers alone have %d cells, above the limit of %d; raise the limit or use fewer layers", nl, opt.MaxCells)
 			}
+			// The triangles may have what the layers leave of the limit.
 			opt.MaxCells -= nl
 			if region, err = flatten(plan.front); err != nil {
-				return nil, fmt.Errorf("unstructured: the outline left after the boundary layers is not valid (reduce the layer thickness): %w", err)
+				return nil, nil, fmt.Errorf("unstructured: the outline left after the boundary layers is not valid (use fewer or thinner layers): %w", err)
 			}
 		}
 	}
 	tr, err := triangulateOutline(region, g, opt)
 	if err != nil {
-		if plan != nil {
-			return nil, fmt.Errorf("unstructured: meshing the region left by the boundary layers (their top is loop points there; reduce the layer thickness): %w", err)
+		var big *CellLimitError
+		switch {
+		case errors.As(err, &big):
+			// Quote the limit the caller set, with the layer cells in the
+			// estimate, rather than what the layers leave of it.
+			big.LayerCells = limit - opt.MaxCells
+			big.Estimate += float64(big.LayerCells)
+			big.Limit = limit
+			return nil, nil, err
+		case errors.Is(err, errTooMany):
+			return nil, nil, fmt.Errorf("unstructured: %w", refineError(errTooMany, limit))
+		case plan != nil:
+			return nil, nil, fmt.Errorf("unstructured: meshing the region left by the boundary layers (their top is loop points there; use fewer or thinner layers): %w", err)
 		}
-		return nil, err
+		return nil, nil, err
 	}
 	in := localOrder(meshInput(g, region, plan, tr, opt.QuadDominant), len(g.pts))
 	tr = nil
 	m, err := mesh.Build(in)
 	if err != nil {
-		return nil, fmt.Errorf("unstructured: building the mesh: %w", err)
+		return nil, nil, fmt.Errorf("unstructured: building the mesh: %w", err)
 	}
-	return m, nil
+	return m, rep, nil
 }
 
 // triangulateOutline returns the refined constrained Delaunay
@@ -98,10 +130,10 @@ func triangulateOutline(region, orig *pslg, opt Options) (*triangulation, error)
 		return nil, fmt.Errorf("unstructured: %w", err)
 	}
 	est := size.estimateTriangles(region)
-	if est > float64(opt.MaxCells) {
-		return nil, fmt.Errorf("unstructured: the sizes ask for about %.3g cells, above the limit of %d; raise the limit or the sizes", est, opt.MaxCells)
+	if est.total > float64(opt.MaxCells) {
+		return nil, est.limitError(region, orig, size, opt)
 	}
-	capTri := int(math.Min(1.15*est, float64(opt.MaxCells))) + 4*len(region.pts) + 16
+	capTri := int(math.Min(1.15*est.total, float64(opt.MaxCells))) + 4*len(region.pts) + 16
 	pts := make([]orb.Point, len(region.pts), capTri/2+len(region.pts))
 	copy(pts, region.pts)
 	g2 := *region
@@ -115,7 +147,8 @@ func triangulateOutline(region, orig *pslg, opt Options) (*triangulation, error)
 	r := newRefiner(tr, region, size, opt.MinAngle, opt.MaxCells+4*len(region.pts)+16)
 	r.frozen = region.tagIndex(frontTag)
 	if err := r.run(); err != nil {
-		return nil, fmt.Errorf("unstructured: %w", refineError(err, opt.MaxCells))
+		// MeshWithReport words errTooMany with the caller's limit.
+		return nil, fmt.Errorf("unstructured: %w", err)
 	}
 	return tr, nil
 }
@@ -136,14 +169,16 @@ func newSizeField(g, orig *pslg, opt Options) (*sizeField, error) {
 	for i, p := range g.pts {
 		a, c := g.pts[g.prevPt[i]], g.pts[g.nextPt[i]]
 		h := 0.5 * (math.Hypot(p[0]-a[0], p[1]-a[1]) + math.Hypot(p[0]-c[0], p[1]-c[1]))
-		s.src = append(s.src, sizeSource{p: p, h: h})
+		s.src = append(s.src, sizeSource{p: p, h: h, from: fromTag(g.edgeTag[i])})
 	}
 	for ri, r := range opt.Regions {
 		switch r.Shape {
 		case Box:
 			s.boxes = append(s.boxes, r)
+			s.boxFrom = append(s.boxFrom, int32(ri))
 		case Circle:
 			s.circles = append(s.circles, r)
+			s.circleFrom = append(s.circleFrom, int32(ri))
 		case NearTag:
 			found := false
 			for e, ti := range orig.edgeTag {
@@ -161,7 +196,7 @@ func newSizeField(g, orig *pslg, opt Options) (*sizeField, error) {
 				}
 				for k := 0; k < max(n, 1); k++ {
 					t := float64(k) / float64(max(n, 1))
-					s.src = append(s.src, sizeSource{p: orb.Point{a[0] + t*(b[0]-a[0]), a[1] + t*(b[1]-a[1])}, h: r.Size, r: r.Distance})
+					s.src = append(s.src, sizeSource{p: orb.Point{a[0] + t*(b[0]-a[0]), a[1] + t*(b[1]-a[1])}, h: r.Size, r: r.Distance, from: int32(ri)})
 				}
 			}
 			if !found {
@@ -173,19 +208,28 @@ func newSizeField(g, orig *pslg, opt Options) (*sizeField, error) {
 	return s, nil
 }
 
+// cellEstimate is the triangle count the size field asks for, and the
+// part of it from each thing that sets the size (keyed by
+// sizeSource.from, see sizeField.sizeAt).
+type cellEstimate struct {
+	total float64
+	by    map[int32]float64
+}
+
 // estimateTriangles estimates the triangle count of the refined mesh: the
 // integral over the domain of 1/(0.41·h²), 0.41·h² being the mean
 // triangle area refinement gives for the size target h (measured on the
 // benchmark channel; an equilateral triangle of edge h has
 // √3/4·h² ≈ 0.43·h²), plus two per outline point. The integral is a
 // midpoint sum on a 128 × 128 grid over the outline's bounding box,
-// counting the samples inside the outline by the even-odd rule.
-func (s *sizeField) estimateTriangles(g *pslg) float64 {
+// counting the samples inside the outline by the even-odd rule; each
+// sample's part is booked to what sets the size there.
+func (s *sizeField) estimateTriangles(g *pslg) cellEstimate {
 	b := orb.MultiPoint(g.pts).Bound()
 	const n = 128
 	dx, dy := (b.Max[0]-b.Min[0])/n, (b.Max[1]-b.Min[1])/n
+	est := cellEstimate{by: map[int32]float64{}}
 	// Crossings of each sample row with the outline edges, by row.
-	sum := 0.0
 	xs := make([]float64, 0, 64)
 	for j := 0; j < n; j++ {
 		y := b.Min[1] + (float64(j)+0.5)*dy
@@ -205,12 +249,179 @@ func (s *sizeField) estimateTriangles(g *pslg) float64 {
 				}
 			}
 			if c%2 == 1 {
-				h := s.at(orb.Point{x, y})
-				sum += dx * dy / (0.41 * h * h)
+				h, from := s.sizeAt(orb.Point{x, y})
+				part := dx * dy / (0.41 * h * h)
+				est.total += part
+				est.by[from] += part
 			}
 		}
 	}
-	return sum + 2*float64(len(g.pts))
+	est.total += 2 * float64(len(g.pts))
+	return est
+}
+
+// CellLimitError refuses a mesh whose estimated cell count is above the
+// limit (Options.MaxCells), before the triangulation is allocated. It
+// names what asks for most of the cells, so that the user knows which
+// size to change, and by about how much.
+type CellLimitError struct {
+	// Estimate is the estimated cell count, LayerCells of them in the
+	// boundary layers (counted exactly); Limit is Options.MaxCells.
+	Estimate   float64
+	LayerCells int
+	Limit      int
+	// What sets the size where most cells are: Region ≥ 0 is an index
+	// into Options.Regions; otherwise Tag names the boundary whose
+	// spacing it is (LayerTop: the top of the boundary layers, spaced as
+	// their walls), or, with neither, MaxSize (or, without one, the
+	// spacing grown out from the boundary).
+	Region   int
+	Tag      string
+	LayerTop bool
+	// Size is that size (m): the region's size, the boundary's finest
+	// spacing, or the maximum size.
+	Size float64
+	// Part is the estimated cells where it sets the size.
+	Part float64
+	// Fit is the size that brings the estimate within the limit, the
+	// other sizes kept: found by estimating again with other sizes for a
+	// region or the maximum size, and, for a boundary's spacing (which
+	// moves the outline's points), taking that part's cells to go as
+	// 1/size². 0 when the other sizes alone ask for more than the limit.
+	Fit float64
+}
+
+func (e *CellLimitError) Error() string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "unstructured: the sizes ask for about %.3g cells", e.Estimate)
+	if e.LayerCells > 0 {
+		fmt.Fprintf(&b, " (%d of them in the boundary layers)", e.LayerCells)
+	}
+	fmt.Fprintf(&b, ", above the limit of %d; %s asks for about %.3g of them", e.Limit, e.Driver(), e.Part)
+	if e.Fit > 0 {
+		fmt.Fprintf(&b, ": a size of about %.3g m instead of %.3g m would fit, or raise the limit", RoundUp3(e.Fit), e.Size)
+	} else {
+		b.WriteString(", and the rest alone is above the limit: coarsen the other sizes too, or raise the limit")
+	}
+	return b.String()
+}
+
+// Driver names what asks for most of the cells, in metres.
+func (e *CellLimitError) Driver() string {
+	switch {
+	case e.Region >= 0:
+		return fmt.Sprintf("region %d (size %.3g m)", e.Region, e.Size)
+	case e.LayerTop:
+		return fmt.Sprintf("the spacing along the top of the boundary layers (%.3g m at the finest, as on their walls)", e.Size)
+	case e.Tag != "":
+		return fmt.Sprintf("the boundary spacing along %q (%.3g m at the finest)", e.Tag, e.Size)
+	case !math.IsInf(e.Size, 1):
+		return fmt.Sprintf("the maximum size (%.3g m)", e.Size)
+	}
+	return "the size grown out from the boundary spacing"
+}
+
+// limitError makes the refusal of an estimate above opt.MaxCells over the
+// region g (orig is the user's outline, for near-tag regions): what sets
+// the size where the most cells are, and the size that would fit.
+func (est cellEstimate) limitError(g, orig *pslg, size *sizeField, opt Options) *CellLimitError {
+	keys := make([]int32, 0, len(est.by))
+	for k := range est.by {
+		keys = append(keys, k)
+	}
+	slices.Sort(keys)
+	top := keys[0]
+	for _, k := range keys {
+		if est.by[k] > est.by[top] {
+			top = k
+		}
+	}
+	e := &CellLimitError{Estimate: est.total, Limit: opt.MaxCells, Region: -1, Part: est.by[top]}
+	switch {
+	case top >= 0:
+		e.Region = int(top)
+		e.Size = opt.Regions[top].Size
+	case top == fromMaxSize:
+		e.Size = opt.MaxSize
+	default:
+		t := int16(-1 - top)
+		if g.tags[t] == frontTag {
+			e.LayerTop = true
+		} else {
+			e.Tag = g.tags[t]
+		}
+		e.Size = math.Inf(1)
+		for i, p := range g.pts {
+			if g.edgeTag[i] == t {
+				q := g.pts[g.nextPt[i]]
+				e.Size = math.Min(e.Size, math.Hypot(q[0]-p[0], q[1]-p[1]))
+			}
+		}
+		// Part·(Size/Fit)² + rest = MaxCells.
+		if room := float64(opt.MaxCells) - (est.total - e.Part); room > 0 && !math.IsInf(e.Size, 1) {
+			e.Fit = e.Size * math.Sqrt(e.Part/room)
+		}
+		return e
+	}
+	// The estimate falls as the driver's size grows: double the size
+	// until it fits, then halve the bracket (on a log scale) to 0.1%.
+	with := func(h float64) float64 {
+		o := opt
+		if top >= 0 {
+			o.Regions = slices.Clone(opt.Regions)
+			o.Regions[top].Size = h
+		} else {
+			o.MaxSize = h
+		}
+		f := size
+		if top < 0 || o.Regions[top].Shape == NearTag {
+			var err error
+			if f, err = newSizeField(g, orig, o); err != nil {
+				return math.Inf(1)
+			}
+		} else {
+			c := *size
+			c.boxes, c.circles = slices.Clone(size.boxes), slices.Clone(size.circles)
+			for i, k := range c.boxFrom {
+				c.boxes[i] = o.Regions[k]
+			}
+			for i, k := range c.circleFrom {
+				c.circles[i] = o.Regions[k]
+			}
+			f = &c
+		}
+		return f.estimateTriangles(g).total
+	}
+	limit := float64(opt.MaxCells)
+	if with(math.Inf(1)) > limit {
+		return e
+	}
+	lo, hi := e.Size, 2*e.Size
+	for k := 0; with(hi) > limit; k++ {
+		if k == 60 {
+			return e
+		}
+		lo, hi = hi, 2*hi
+	}
+	for hi/lo > 1.001 {
+		if mid := math.Sqrt(lo * hi); with(mid) > limit {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	e.Fit = hi
+	return e
+}
+
+// RoundUp3 rounds a positive x up to three significant digits, so that a
+// size quoted as the least that fits does fit as written.
+func RoundUp3(x float64) float64 {
+	if !(x > 0) || math.IsInf(x, 0) {
+		return x
+	}
+	p := math.Pow(10, math.Floor(math.Log10(x))-2)
+	return math.Ceil(x/p*(1-1e-12)) * p
 }
 
 // meshInput assembles the mesh: the layer plan's nodes and cells (when

@@ -67,7 +67,8 @@ type Region struct {
 // another boundary or of other layers. Where a wall ends beside an edge
 // that is not a wall, within 50° of the layer normal, the layers grow
 // along that edge's first piece (up to 45% of its length); otherwise they
-// taper to nothing at the wall's end.
+// taper to nothing at the wall's end. MeshWithReport says how many layers
+// each request got, and why fewer where fewer (LayerReport).
 type Layers struct {
 	// Tags are the boundary tags the layers grow from.
 	Tags []string

@@ -7,11 +7,22 @@ import (
 )
 
 // sizeSource is one cone of the size field: the target size h at point p,
-// held out to radius r and growing linearly beyond it.
+// held out to radius r and growing linearly beyond it. from says what
+// asked for it (see sizeField.sizeAt).
 type sizeSource struct {
 	p    orb.Point
 	h, r float64
+	from int32
 }
+
+// fromMaxSize is the sizeSource.from of the maximum size; from ≥ 0 is the
+// index of a region in Options.Regions, and from < 0 other than
+// fromMaxSize a boundary point whose outgoing edge has tag index −1−from.
+const fromMaxSize = math.MinInt32
+
+// fromTag returns the sizeSource.from of a boundary point whose outgoing
+// edge has tag index t.
+func fromTag(t int16) int32 { return -1 - int32(t) }
 
 // sizeField is the target edge length h(x) of the mesh:
 //
@@ -35,6 +46,9 @@ type sizeField struct {
 	src     []sizeSource
 	boxes   []Region
 	circles []Region
+	// boxFrom and circleFrom are the indices of the boxes and circles
+	// in Options.Regions.
+	boxFrom, circleFrom []int32
 
 	x0, y0, inv float64 // grid origin and 1/cell
 	cell        float64
@@ -143,7 +157,15 @@ func (s *sizeField) build(bound orb.Bound) {
 // G−1, so the value returned exceeds the exact one by at most
 // 2(G−1)|p−c| ≤ 1.4(G−1)·cell.
 func (s *sizeField) at(p orb.Point) float64 {
-	h := s.maxSize
+	h, _ := s.sizeAt(p)
+	return h
+}
+
+// sizeAt returns the target size at p (see at) and what sets it there: a
+// sizeSource.from value, fromMaxSize when no cone is lower than the
+// maximum size.
+func (s *sizeField) sizeAt(p orb.Point) (float64, int32) {
+	h, from := s.maxSize, int32(fromMaxSize)
 	if s.best != nil {
 		i := int((p[0] - s.x0) * s.inv)
 		j := int((p[1] - s.y0) * s.inv)
@@ -152,18 +174,24 @@ func (s *sizeField) at(p orb.Point) float64 {
 		k := j*s.nx + i
 		for _, b := range [4]int32{s.best[k], s.best[k+1], s.best[k+s.nx], s.best[k+s.nx+1]} {
 			if b >= 0 {
-				h = math.Min(h, s.cone(b, p))
+				if c := s.cone(b, p); c < h {
+					h, from = c, s.src[b].from
+				}
 			}
 		}
 	}
-	for _, r := range s.boxes {
+	for i, r := range s.boxes {
 		dx := math.Max(0, math.Max(r.Min[0]-p[0], p[0]-r.Max[0]))
 		dy := math.Max(0, math.Max(r.Min[1]-p[1], p[1]-r.Max[1]))
-		h = math.Min(h, r.Size+s.slope*math.Hypot(dx, dy))
+		if c := r.Size + s.slope*math.Hypot(dx, dy); c < h {
+			h, from = c, s.boxFrom[i]
+		}
 	}
-	for _, r := range s.circles {
+	for i, r := range s.circles {
 		d := math.Max(0, math.Hypot(p[0]-r.Center[0], p[1]-r.Center[1])-r.Radius)
-		h = math.Min(h, r.Size+s.slope*d)
+		if c := r.Size + s.slope*d; c < h {
+			h, from = c, s.circleFrom[i]
+		}
 	}
-	return h
+	return h, from
 }
