@@ -281,7 +281,9 @@ func (c *Case) buildUnstructured() (*mesh.Mesh, []string, error) {
 		if errors.As(err, &big) {
 			return nil, nil, c.cellLimitError(big)
 		}
-		return nil, nil, &InputError{File: c.File, Line: us.at.n.Line, Col: us.at.n.Column, Path: us.at.path, Msg: err.Error(), Err: err}
+		// The key path already says the unstructured mesher.
+		msg := strings.TrimPrefix(err.Error(), "unstructured: ")
+		return nil, nil, &InputError{File: c.File, Line: us.at.n.Line, Col: us.at.n.Column, Path: us.at.path, Msg: msg, Err: err}
 	}
 	var notes []string
 	for _, l := range rep.Layers {

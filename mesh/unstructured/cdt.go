@@ -34,7 +34,7 @@ func flatten(out geometry.DiscreteOutline) (*pslg, error) {
 	for li, l := range out.Loops {
 		n := len(l.Points)
 		if n < 3 {
-			return nil, fmt.Errorf("loop %d has %d points; a loop needs at least 3", li, n)
+			return nil, fmt.Errorf("loop %d has %d points; a loop needs at least 3 (its spacing is too coarse for its length)", li, n)
 		}
 		if len(l.Tags) != n {
 			return nil, fmt.Errorf("loop %d has %d points and %d tags; a closed loop needs one tag per edge (%d)", li, n, len(l.Tags), n)
