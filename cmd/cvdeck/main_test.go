@@ -196,6 +196,16 @@ func TestSamplesListAndVersion(t *testing.T) {
 			t.Errorf("line %q: want the name %s first, then its description", lines[i], s.Name)
 		}
 	}
+	// --json: one object (or list) on stdout, for scripts.
+	var list []struct{ Name, Description string }
+	if code, out, _ := cvdeck(t, "--json", "samples"); code != 0 || json.Unmarshal([]byte(out), &list) != nil || len(list) != len(samples.List()) || list[0].Name != samples.List()[0].Name {
+		t.Errorf("samples --json: exit %d, %q", code, out)
+	}
+	var made struct{ Case string }
+	dir := t.TempDir()
+	if code, out, _ := cvdeck(t, "--json", "init", "bump-channel", dir); code != 0 || json.Unmarshal([]byte(out), &made) != nil || made.Case != filepath.Join(dir, "bump-channel.yaml") {
+		t.Errorf("init --json: exit %d, %q", code, out)
+	}
 	if code, out, _ := cvdeck(t, "version"); code != 0 || !strings.HasPrefix(out, "cvdeck ") {
 		t.Fatalf("version: exit %d, %q", code, out)
 	}

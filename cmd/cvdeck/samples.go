@@ -3,6 +3,7 @@ package main
 import (
 	"encoding/json"
 	"fmt"
+	"io"
 	"os"
 
 	"github.com/spf13/cobra"
@@ -20,6 +21,17 @@ func newSamplesCommand() *cobra.Command {
 			w := cmd.OutOrStdout()
 			width := 0
 			list := samples.List()
+			if globalFlag(cmd, "json") {
+				type item struct {
+					Name        string `json:"name"`
+					Description string `json:"description"`
+				}
+				items := []item{}
+				for _, s := range list {
+					items = append(items, item{s.Name, s.Description})
+				}
+				return writeJSON(w, items)
+			}
 			for _, s := range list {
 				width = max(width, len(s.Name))
 			}
@@ -65,6 +77,11 @@ Existing files are never overwritten.`,
 			if err != nil {
 				return err
 			}
+			if globalFlag(cmd, "json") {
+				return writeJSON(cmd.OutOrStdout(), struct {
+					Case string `json:"case"`
+				}{path})
+			}
 			fmt.Fprintln(cmd.OutOrStdout(), path)
 			return nil
 		},
@@ -106,4 +123,12 @@ func noArgs(cmd *cobra.Command, args []string) error {
 func isTerminal(f *os.File) bool {
 	st, err := f.Stat()
 	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}
+
+// writeJSON prints v as indented JSON, one object on stdout, as --json
+// asks of every command.
+func writeJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(v)
 }

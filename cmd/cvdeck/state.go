@@ -116,7 +116,11 @@ func runState(cmd *cobra.Command, f stateFlags, out io.Writer) error {
 		}
 		alt := bc.Altitude{Metres: f.altitude, Kind: kind}
 		st, err = bc.StateFromAltitude(gas, alt, f.mach)
-		source = fmt.Sprintf("U.S. Standard Atmosphere 1976 at %g m %s (%.1f m geopotential)", f.altitude, kind, alt.Geopotential())
+		other := fmt.Sprintf("%.1f m geopotential", alt.Geopotential())
+		if kind == bc.Geopotential {
+			other = fmt.Sprintf("%.1f m geometric", alt.Geometric())
+		}
+		source = fmt.Sprintf("U.S. Standard Atmosphere 1976 at %g m %s (%s)", f.altitude, kind, other)
 	case byPT:
 		if !set("mach") || !set("temperature") {
 			return usage("--pressure needs --mach and --temperature")

@@ -126,3 +126,24 @@ func TestStateGasViscosity(t *testing.T) {
 		}
 	}
 }
+
+// TestStateHeaderGivesTheOtherAltitude: an altitude given as geopotential
+// is shown with its geometric equivalent and the other way round, by
+// z = r0 H / (r0 − H) with r0 = 6 356 766 m (U.S. Standard Atmosphere
+// 1976, from memory): 20 000 m geopotential is 20 063.1 m geometric.
+func TestStateHeaderGivesTheOtherAltitude(t *testing.T) {
+	out, err := runStateCmd(t, "--mach", "0.8", "--altitude", "20000", "--altitude-kind", "geopotential")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(out, "20000 m geopotential (20063.1 m geometric)") {
+		t.Errorf("header: %s", strings.SplitN(out, "\n", 2)[0])
+	}
+	out, err = runStateCmd(t, "--mach", "0.8", "--altitude", "20063.1")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(out, "20063.1 m geometric (20000.0 m geopotential)") {
+		t.Errorf("header: %s", strings.SplitN(out, "\n", 2)[0])
+	}
+}
