@@ -1,7 +1,9 @@
 // Package preview draws a picture of a mesh for people to look at before a
 // long run: the mesh, its boundary coloured by condition (or by tag) with a
-// legend, the cells that fail or nearly fail a limit highlighted, zoom
-// windows around the worst cells, and one histogram per quality metric.
+// legend, the cells that fail or nearly fail a limit highlighted, a view
+// near the bodies when they are small beside the domain (an aerofoil in
+// its far field), zoom windows around the worst cells, and one histogram
+// per quality metric.
 //
 // The same scene is written as SVG (SVG) or rasterised by our own
 // scanline rasteriser and written as PNG with image/png (PNG); both are
@@ -196,6 +198,30 @@ func build(in Input) (*scene, error) {
 	}
 
 	bottom := overview.b.y + overview.b.h
+	if r, ok := bodiesRegion(m); ok {
+		// Bodies far smaller than the domain (an aerofoil in its far
+		// field) are a speck in the overview: a view of their
+		// surroundings, framed on the overview, shows their mesh.
+		top := bottom + 36
+		h := math.Round(math.Min(math.Max(viewW*(r[3]-r[1])/(r[2]-r[0]), minViewH), maxBodiesH))
+		near := newView(box{margin, top, viewW, h}, r[0], r[1], r[2], r[3])
+		clip := s.addClip(near.b)
+		s.rect(near.b, &white, &zoomFrame, 1.5)
+		if facesMeeting(m, near, maxBodiesFaces) > maxBodiesFaces {
+			drawDensity(s, m, near)
+		} else {
+			drawInterior(s, m, near, clip)
+		}
+		drawBoundary(s, m, colours, near, MaxBoundaryFaces, clip, 1.8)
+		drawFlagged(s, m, in.Status, near, clip, MaxFlaggedCells)
+		s.text(near.b.x, near.b.y-8, 12, start, ink, true, "near the bodies: the boundaries inside the domain and their surroundings")
+		ax, ay := overview.px(near.x0, near.y0)
+		bx, by := overview.px(near.x1, near.y1)
+		fb := clampBox(box{ax, by, bx - ax, ay - by}, overview.b)
+		s.rect(fb, nil, &zoomFrame, 1.5)
+		s.text(fb.x+fb.w+3, fb.y+10, 12, start, zoomFrame, true, "B")
+		bottom = near.b.y + near.b.h
+	}
 	zoomTop := bottom + 36
 	zooms, regions := zoomCells(m, in)
 	for k, c := range zooms {
@@ -274,6 +300,99 @@ func build(in Input) (*scene, error) {
 	}
 	s.h = int(math.Ceil(math.Max(bottom, y) + margin))
 	return s, nil
+}
+
+// Bounds of the view near the bodies: its height in canvas pixels, and
+// the interior faces it draws one by one (beyond that, the cell density),
+// so that the picture stays as bounded as the package comment says.
+const (
+	maxBodiesH     = 420
+	maxBodiesFaces = 9000
+)
+
+// bodiesRegion returns the region, as x0, y0, x1, y1, around the inner
+// boundaries of the mesh — the closed chains of boundary faces other than
+// the outer one, found by joining boundary faces that share a node, the
+// outer being the chain whose bounding box is largest — when their
+// bounding box is under a quarter of the mesh's in width and in height;
+// the region pads that box by half its larger side. A mesh with one
+// boundary chain, or bodies that fill much of it, has none.
+func bodiesRegion(m *mesh.Mesh) ([4]float64, bool) {
+	parent := map[int32]int32{}
+	var find func(int32) int32
+	find = func(a int32) int32 {
+		for {
+			p, ok := parent[a]
+			if !ok || p == a {
+				return a
+			}
+			if g, ok := parent[p]; ok {
+				parent[a] = g
+			}
+			a = p
+		}
+	}
+	for _, fn := range m.FaceNodes[m.NumInterior:] {
+		a, b := find(fn[0]), find(fn[1])
+		if a != b {
+			parent[max(a, b)] = min(a, b)
+		}
+	}
+	type bbox struct{ x0, y0, x1, y1 float64 }
+	boxes := map[int32]*bbox{}
+	var roots []int32
+	for _, fn := range m.FaceNodes[m.NumInterior:] {
+		r := find(fn[0])
+		b, ok := boxes[r]
+		if !ok {
+			b = &bbox{math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)}
+			boxes[r] = b
+			roots = append(roots, r)
+		}
+		for _, v := range fn {
+			p := m.Nodes[v]
+			b.x0, b.x1 = math.Min(b.x0, p[0]), math.Max(b.x1, p[0])
+			b.y0, b.y1 = math.Min(b.y0, p[1]), math.Max(b.y1, p[1])
+		}
+	}
+	if len(roots) < 2 {
+		return [4]float64{}, false
+	}
+	outer := roots[0]
+	size := func(b *bbox) float64 { return math.Hypot(b.x1-b.x0, b.y1-b.y0) }
+	for _, r := range roots[1:] {
+		if size(boxes[r]) > size(boxes[outer]) {
+			outer = r
+		}
+	}
+	u := bbox{math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)}
+	for _, r := range roots {
+		if r != outer {
+			b := boxes[r]
+			u = bbox{math.Min(u.x0, b.x0), math.Min(u.y0, b.y0), math.Max(u.x1, b.x1), math.Max(u.y1, b.y1)}
+		}
+	}
+	o := boxes[outer]
+	if !(u.x1-u.x0 < 0.25*(o.x1-o.x0) && u.y1-u.y0 < 0.25*(o.y1-o.y0)) {
+		return [4]float64{}, false
+	}
+	pad := 0.5 * math.Max(u.x1-u.x0, u.y1-u.y0)
+	return [4]float64{u.x0 - pad, u.y0 - pad, u.x1 + pad, u.y1 + pad}, true
+}
+
+// facesMeeting counts the interior faces that meet the view, stopping
+// past limit.
+func facesMeeting(m *mesh.Mesh, v view, limit int) int {
+	n := 0
+	for _, fn := range m.FaceNodes[:m.NumInterior] {
+		a, b := m.Nodes[fn[0]], m.Nodes[fn[1]]
+		if v.meets(a[0], a[1], b[0], b[1]) {
+			if n++; n > limit {
+				break
+			}
+		}
+	}
+	return n
 }
 
 // clampBox clips b to within c.

@@ -278,3 +278,59 @@ func TestHistogramAxis(t *testing.T) {
 		})
 	}
 }
+
+// holedSquare is the unit square of n × n quads with the cells of rows
+// and columns [lo, hi) left out: a square hole, a body inside the domain
+// (our own test scenario). Its boundary edges are untagged.
+func holedSquare(t *testing.T, n, lo, hi int) *mesh.Mesh {
+	in := mesh.Input{CellStart: []int32{0}}
+	for j := 0; j <= n; j++ {
+		for i := 0; i <= n; i++ {
+			in.Nodes = append(in.Nodes, orb.Point{float64(i) / float64(n), float64(j) / float64(n)})
+		}
+	}
+	id := func(i, j int) int32 { return int32(j*(n+1) + i) }
+	for j := 0; j < n; j++ {
+		for i := 0; i < n; i++ {
+			if i >= lo && i < hi && j >= lo && j < hi {
+				continue
+			}
+			in.CellNodes = append(in.CellNodes, id(i, j), id(i+1, j), id(i+1, j+1), id(i, j+1))
+			in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+		}
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return m
+}
+
+// TestBodiesView: a body a tenth of the domain's width gets a view of its
+// surroundings, the hole's box padded by half its side; a body as wide as
+// half the domain, and a mesh with no inner boundary, get none.
+func TestBodiesView(t *testing.T) {
+	r, ok := bodiesRegion(holedSquare(t, 40, 18, 22))
+	// The hole spans [0.45, 0.55] both ways; padded by 0.05.
+	want := [4]float64{0.4, 0.4, 0.6, 0.6}
+	for k := range want {
+		if !ok || math.Abs(r[k]-want[k]) > 1e-12 {
+			t.Fatalf("bodies region %v (found %v), want %v", r, ok, want)
+		}
+	}
+	if _, ok := bodiesRegion(holedSquare(t, 40, 10, 30)); ok {
+		t.Error("a hole half the domain's width got a bodies view")
+	}
+	if _, ok := bodiesRegion(bumpChannel(t, 24, 8)); ok {
+		t.Error("a channel with no inner boundary got a bodies view")
+	}
+	var b bytes.Buffer
+	in := Input{Title: "holed square", Mesh: holedSquare(t, 40, 18, 22)}
+	if err := SVG(&b, in); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(b.String(), "near the bodies") {
+		t.Error("the SVG of a mesh with a small body has no view near it")
+	}
+	keep(t, "bodies.svg", b.Bytes())
+}
