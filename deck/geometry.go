@@ -311,10 +311,25 @@ func (g *geometrySpec) locate(err error) error {
 		if ge.Segment >= 0 && ge.Segment < len(l.segAt) {
 			at = l.segAt[ge.Segment]
 		}
-		return at.wrap(err)
+		return at.wrap(inMetres(err, at.d.scale))
 	}
 	if len(g.loops) > 0 {
-		return g.loops[0].at.wrap(err)
+		return g.loops[0].at.wrap(inMetres(err, g.loops[0].at.d.scale))
+	}
+	return err
+}
+
+// inMetres adds to an error of the geometry or mesh packages, whose
+// coordinates and lengths are in metres, what a metre is in the case's
+// units (scale metres per case unit), when these are not metres.
+func inMetres(err error, scale float64) error {
+	if scale == 1 {
+		return err
+	}
+	for name, s := range unitScale {
+		if s == scale {
+			return fmt.Errorf("%w (lengths and coordinates in metres: 1 m is %g %s)", err, 1/s, name)
+		}
 	}
 	return err
 }

@@ -193,9 +193,7 @@ func (c *Case) checkSpacing(seg geometry.Segment, o *object, it value) error {
 	if err == nil {
 		return nil
 	}
-	if c.Units != "m" {
-		err = fmt.Errorf("%w (lengths in metres: 1 m is %g %s)", err, 1/unitScale[c.Units], c.Units)
-	}
+	err = inMetres(err, unitScale[c.Units])
 	if v, ok := o.get("spacing"); ok {
 		return v.wrap(err)
 	}

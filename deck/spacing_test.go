@@ -27,7 +27,7 @@ func TestSpacingErrorsAtTheSpacing(t *testing.T) {
 		if ie.Path != "geometry.loops[0].segments[1].spacing" || ie.Line != 14 {
 			t.Errorf("%s: at %s (line %d), want the spacing of segment e on line 14: %v", c.law, ie.Path, ie.Line, err)
 		}
-		if !strings.Contains(err.Error(), c.want) || !strings.Contains(err.Error(), "lengths in metres: 1 m is 1000 mm") {
+		if !strings.Contains(err.Error(), c.want) || !strings.Contains(err.Error(), "lengths and coordinates in metres: 1 m is 1000 mm") {
 			t.Errorf("%s: %v", c.law, err)
 		}
 	}
