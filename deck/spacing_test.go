@@ -32,3 +32,16 @@ func TestSpacingErrorsAtTheSpacing(t *testing.T) {
 		}
 	}
 }
+
+// TestGeometryErrorsSayMetres: an outline error of a millimetre case (a
+// loop left open by 1 mm) gives its coordinates in metres and says so.
+func TestGeometryErrorsSayMetres(t *testing.T) {
+	text := strings.Replace(square, "{name: w, line: [0, 0],", "{name: w, line: [0, 1],", 1)
+	if text == square {
+		t.Fatal("the square case has changed; update the test")
+	}
+	_, err := Parse("square.yaml", []byte(text), LoadOptions{})
+	if !errors.Is(err, ErrInput) || !strings.Contains(err.Error(), "(0, 0.001)") || !strings.Contains(err.Error(), "1 m is 1000 mm") {
+		t.Fatalf("got %v, want the gap at (0, 0.001) m and the note on metres", err)
+	}
+}
