@@ -143,7 +143,7 @@ func TestReadWKT(t *testing.T) {
 	}
 	for _, b := range []struct{ text, says string }{
 		{"LINESTRING (0 0, 1 1)", "a LineString bounds no area"},
-		{"POLYGON ((0 0, 1 0, 1 1", "WKT:"},
+		{"POLYGON ((0 0, 1 0, 1 1", "line 1, column 24: expected ',' or ')' after the point (1 1), found the end of the text"},
 		{"POLYGON ((0 0, 1 0, 1 1, 0 0))", "names polygon 3"},
 		{"POLYGON ((0 0, 1 0, 1 1, 0 1))", "ring 0: a ring must be closed (last position equal to the first) with at least 4 positions (OGC Simple Features"},
 	} {
