@@ -311,6 +311,18 @@ func (p Patch) Apply(base Limits) (Limits, error) {
 				}
 				return base, fmt.Errorf("%s: %s warn %g is %s fail %g; a warning must come before failure", e.pos, e.key, b.Warn, worse, b.Fail)
 			}
+			lo, hi := md.span()
+			for _, t := range []struct {
+				what string
+				v    float64
+			}{{"warn", b.Warn}, {"fail", b.Fail}} {
+				switch {
+				case !md.lower && t.v < lo:
+					return base, fmt.Errorf("%s: %s %s %g: %s is never below %g, so every cell would %s", e.pos, e.key, t.what, t.v, e.key, lo, t.what)
+				case md.lower && t.v > hi:
+					return base, fmt.Errorf("%s: %s %s %g: %s is never above %g, so every cell would %s", e.pos, e.key, t.what, t.v, e.key, hi, t.what)
+				}
+			}
 			continue
 		}
 		switch e.key {

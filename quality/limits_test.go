@@ -125,3 +125,42 @@ func TestPatchErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestLimitsWithinTheMetricsSpan: a threshold past the values a metric
+// can take, on the side that grades, would grade every cell and is
+// refused with its place; one past them on the other side only turns the
+// grade off and is taken; every profile lies within the spans.
+func TestLimitsWithinTheMetricsSpan(t *testing.T) {
+	for _, name := range ProfileNames() {
+		l, _ := Profile(name)
+		if _, err := (Patch{}).Apply(l); err != nil {
+			t.Errorf("profile %s: %v", name, err)
+		}
+		for i := range metricDefs {
+			d := &metricDefs[i]
+			lo, hi := d.span()
+			b := *d.bound(&l)
+			if !d.lower && (b.Warn < lo || b.Fail < lo) || d.lower && (b.Warn > hi || b.Fail > hi) {
+				t.Errorf("profile %s: %s %+v lies past the metric's span [%g, %g]", name, d.name, b, lo, hi)
+			}
+		}
+	}
+	for text, want := range map[string]string{
+		"skewness: {warn: -1, fail: 1}\n":             "skewness is never below 0, so every cell would warn",
+		"scaled_jacobian: {warn: 1.5, fail: 0.1}\n":   "scaled_jacobian is never above 1, so every cell would warn",
+		"growth: {warn: 0.5, fail: 0.9}\n":            "growth is never below 1",
+		"non_orthogonality: {warn: 200, fail: 300}\n": "",
+	} {
+		p, err := LoadPatch(writeFile(t, text))
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, err = Resolve(p)
+		switch {
+		case want == "" && err != nil:
+			t.Errorf("%q: %v; a threshold no cell reaches turns the grade off", text, err)
+		case want != "" && (err == nil || !strings.Contains(err.Error(), want) || !strings.Contains(err.Error(), ":1:")):
+			t.Errorf("%q: got %v, want an error at line 1 saying %q", text, err, want)
+		}
+	}
+}

@@ -1,5 +1,7 @@
 package quality
 
+import "math"
+
 // metricDef describes one metric of the report.
 type metricDef struct {
 	name string
@@ -75,4 +77,25 @@ func (d *metricDef) worse(a, b float64) bool {
 		return a < b
 	}
 	return a > b
+}
+
+// span returns the least and the largest value metric d can take, by its
+// definition: a threshold beyond them on the graded side would grade
+// every cell (common practice; the angles are those of simple polygons,
+// up to 360° at a reflex corner).
+func (d *metricDef) span() (lo, hi float64) {
+	inf := math.Inf(1)
+	switch d.name {
+	case "aspect_ratio", "growth":
+		return 1, inf
+	case "min_angle", "max_angle":
+		return 0, 360
+	case "non_orthogonality":
+		return 0, 180
+	case "scaled_jacobian":
+		return -1, 1
+	case "area", "face_length":
+		return -inf, inf
+	}
+	return 0, inf // skewnesses, closures, residuals, errors
 }
