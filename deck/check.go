@@ -72,20 +72,20 @@ func CheckAndWrite(path, dir string, patches ...quality.Patch) (*CheckResult, er
 	var read []string
 	var err error
 	switch strings.ToLower(filepath.Ext(path)) {
-	case ".vtu", ".vtk", ".vtp":
+	case ".vtu", ".vtk", ".vtp", ".vts", ".vtm":
 		m, read, err = vtk.ReadFileNotes(path)
 	case ".cgns":
 		m, read, err = cgns.ReadNotes(path)
 	default:
-		return nil, fmt.Errorf("%w: %s: cvdeck checks .vtu, .vtk, .vtp and .cgns meshes, not %q", ErrInput, path, filepath.Ext(path))
+		return nil, fmt.Errorf("%w: %s: cvdeck checks .vtu, .vtk, .vtp, .vts, .vtm and .cgns meshes, not %q", ErrInput, path, filepath.Ext(path))
 	}
 	if err != nil {
 		return nil, fmt.Errorf("%w: %w", ErrInput, err)
 	}
 	res := &CheckResult{File: path, Notes: read}
-	if lo, hi := m.UntaggedRange(); hi > lo && slices.Contains([]string{".vtu", ".vtk"}, strings.ToLower(filepath.Ext(path))) {
+	if lo, hi := m.UntaggedRange(); hi > lo && slices.Contains([]string{".vtu", ".vtk", ".vtm"}, strings.ToLower(filepath.Ext(path))) {
 		// A cvdeck deck keeps its boundary tags in boundary.vtp beside
-		// mesh.vtu and mesh.vtk: take them from there when the file is
+		// mesh.vtu, mesh.vtk and blocks.vtm: take them from there when the file is
 		// present.
 		side := filepath.Join(filepath.Dir(path), "boundary.vtp")
 		if data, err := os.ReadFile(side); err == nil {

@@ -1,5 +1,5 @@
 // Package vtk writes cvdeck meshes in the VTK file formats and reads
-// unstructured grids back for checking.
+// unstructured, polygon and structured grids back for checking.
 //
 // Writers (the XML formats are those of the VTK file-format document, "VTK
 // File Formats", Kitware; the legacy one its "Simple Legacy Formats"
@@ -17,8 +17,11 @@
 //   - WriteVTS and WriteVTM: one XML StructuredGrid per structured block
 //     and the multiblock index that lists them.
 //
-// Readers (ReadFile, ReadVTU, ReadLegacy, ReadVTP) accept what the VTK
-// library writes, including its defaults (zlib-compressed, base64 appended
-// data), and return a mesh.Mesh whose line cells became tagged boundary
-// faces.
+// Readers (ReadFile, ReadVTU, ReadLegacy, ReadVTP, ReadVTS, ReadVTM)
+// accept what the VTK library writes, including its defaults
+// (zlib-compressed, base64 appended data), and return a mesh.Mesh whose
+// line cells became tagged boundary faces. ReadVTS reads a 2D XML
+// StructuredGrid (one node plane, or a slab one cell thick), and ReadVTM
+// the multiblock index of such grids, joined into one mesh with the nodes
+// of block interfaces merged; their boundary faces are untagged.
 package vtk

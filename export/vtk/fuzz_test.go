@@ -83,3 +83,17 @@ func FuzzReadVTP(f *testing.F) {
 		ReadVTP(data, "fuzz.vtp")
 	})
 }
+
+func FuzzReadVTS(f *testing.F) {
+	m := twoBlocks(f)
+	var b bytes.Buffer
+	if err := WriteVTS(&b, m, 0, []Field{squareField(m.NumCells())}); err != nil {
+		f.Fatal(err)
+	}
+	f.Add(b.Bytes())
+	// A slab one cell thick in ascii: 2 × 2 × 2 nodes.
+	f.Add([]byte(`<VTKFile type="StructuredGrid"><StructuredGrid WholeExtent="0 1 0 1 0 1"><Piece Extent="0 1 0 1 0 1"><Points><DataArray type="Float64" NumberOfComponents="3" format="ascii">0 0 0 1 0 0 0 1 0 1 1 0 0 0 1 1 0 1 0 1 1 1 1 1</DataArray></Points></Piece></StructuredGrid></VTKFile>`))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		ReadVTS(data, "fuzz.vts")
+	})
+}

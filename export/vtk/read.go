@@ -40,6 +40,10 @@ var tagArrayNames = []string{"boundary_tag", TagArray}
 // side boundary faces (tagged like lines), lines on the lower plane are
 // boundary faces too, and cells lying in either plane (the front and back
 // patches) and lines on the upper plane are left out.
+//
+// A .vts (XML StructuredGrid) is read by ReadVTS, and a .vtm (XML
+// multiblock index of .vts blocks) by ReadVTM, which joins its blocks
+// into one mesh; neither names boundary tags.
 func ReadFile(path string) (*mesh.Mesh, error) {
 	m, _, err := ReadFileNotes(path)
 	return m, err
@@ -57,6 +61,10 @@ func ReadFileNotes(path string) (*mesh.Mesh, []string, error) {
 	}
 	var g *grid
 	switch strings.ToLower(filepath.Ext(path)) {
+	case ".vts":
+		return readVTS(data, path)
+	case ".vtm":
+		return readVTM(data, path)
 	case ".vtu":
 		g, err = parseVTU(data, path)
 	case ".vtk":
@@ -64,7 +72,7 @@ func ReadFileNotes(path string) (*mesh.Mesh, []string, error) {
 	case ".vtp":
 		g, err = parseVTP(data, path)
 	default:
-		return nil, nil, fmt.Errorf("%s: unknown extension %q; cvdeck reads VTK unstructured grids as .vtu or .vtk, and polygon meshes as .vtp", path, filepath.Ext(path))
+		return nil, nil, fmt.Errorf("%s: unknown extension %q; cvdeck reads VTK unstructured grids as .vtu or .vtk, polygon meshes as .vtp, and structured grids as .vts or as the .vtm index of .vts blocks", path, filepath.Ext(path))
 	}
 	if err != nil {
 		return nil, nil, err

@@ -79,6 +79,32 @@ func readPiece(data []byte, name, dataset, countAttr, cellsElem string, want ...
 // into a grid with its points, cell-data tag arrays and field-data tag
 // names but no cells, and returns the file and the piece for reading them.
 func readHead(data []byte, name, dataset string) (*xmlFile, *element, *grid, error) {
+	x, ds, p, err := openPiece(data, name, dataset)
+	if err != nil {
+		return nil, nil, nil, err
+	}
+	np, err := x.count(p, "NumberOfPoints")
+	if err != nil {
+		return nil, nil, nil, err
+	}
+	g := &grid{file: name}
+	if g.points, err = x.points(p, np, ""); err != nil {
+		return nil, nil, nil, err
+	}
+	// Of the cell and field data only the boundary tags are used; other
+	// arrays (a deck's quality fields, say) are not decoded at all.
+	if g.cellData, err = x.readNamed(p.child("CellData"), tagArrayNames); err != nil {
+		return nil, nil, nil, err
+	}
+	if g.fieldData, err = x.readNamed(ds.child("FieldData"), []string{TagNamesArray}); err != nil {
+		return nil, nil, nil, err
+	}
+	return x, p, g, nil
+}
+
+// openPiece parses an XML file of the given dataset type and returns it
+// with its dataset element and its one Piece.
+func openPiece(data []byte, name, dataset string) (*xmlFile, *element, *element, error) {
 	x, err := parseXML(data, name)
 	if err != nil {
 		return nil, nil, nil, err
@@ -99,36 +125,27 @@ func readHead(data []byte, name, dataset string) (*xmlFile, *element, *grid, err
 	if len(pieces) != 1 {
 		return nil, nil, nil, fmt.Errorf("%s: %d pieces; cvdeck reads single-piece files", name, len(pieces))
 	}
-	p := pieces[0]
-	np, err := x.count(p, "NumberOfPoints")
-	if err != nil {
-		return nil, nil, nil, err
-	}
-	g := &grid{file: name}
+	return x, ds, pieces[0], nil
+}
+
+// points decodes the Points of piece p, which must hold np points of 3
+// components; why, if not "", says where np comes from, for the error.
+func (x *xmlFile) points(p *element, np int, why string) ([]float64, error) {
 	pts := p.child("Points")
 	if pts == nil || len(pts.arrays()) != 1 {
-		return nil, nil, nil, fmt.Errorf("%s: Piece needs a Points element with one DataArray", name)
+		return nil, fmt.Errorf("%s: Piece needs a Points element with one DataArray", x.name)
 	}
 	pa, err := x.read(pts.arrays()[0], "Points")
 	if err != nil {
-		return nil, nil, nil, err
+		return nil, err
 	}
 	if pa.strs != nil {
-		return nil, nil, nil, fmt.Errorf("%s: Points is a String array; it must be numeric", name)
+		return nil, fmt.Errorf("%s: Points is a String array; it must be numeric", x.name)
 	}
 	if pa.comps != 3 || pa.length() != 3*np {
-		return nil, nil, nil, fmt.Errorf("%s: Points has %d values in %d components; want 3 components for %d points", name, pa.length(), pa.comps, np)
+		return nil, fmt.Errorf("%s: Points has %d values in %d components; want 3 components for %d points%s", x.name, pa.length(), pa.comps, np, why)
 	}
-	g.points = pa.asFloats()
-	// Of the cell and field data only the boundary tags are used; other
-	// arrays (a deck's quality fields, say) are not decoded at all.
-	if g.cellData, err = x.readNamed(p.child("CellData"), tagArrayNames); err != nil {
-		return nil, nil, nil, err
-	}
-	if g.fieldData, err = x.readNamed(ds.child("FieldData"), []string{TagNamesArray}); err != nil {
-		return nil, nil, nil, err
-	}
-	return x, p, g, nil
+	return pa.asFloats(), nil
 }
 
 // cellArrays decodes the integer DataArrays named in want of the cell

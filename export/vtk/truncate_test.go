@@ -100,13 +100,15 @@ print(json.dumps(out))
 `
 
 // readerFor returns the reader a file's name calls for: ReadVTU for .vtu,
-// ReadVTP for .vtp, ReadBoundaryVTP for a boundary .vtp of lines only.
+// ReadVTP for .vtp, ReadVTS for .vts, ReadBoundaryVTP for a boundary .vtp of lines only.
 func readerFor(name string) func([]byte, string) (any, error) {
 	switch {
 	case strings.HasPrefix(filepath.Base(name), "boundary"):
 		return func(b []byte, n string) (any, error) { return ReadBoundaryVTP(b, n) }
 	case strings.HasSuffix(name, ".vtp"):
 		return func(b []byte, n string) (any, error) { return ReadVTP(b, n) }
+	case strings.HasSuffix(name, ".vts"):
+		return func(b []byte, n string) (any, error) { return ReadVTS(b, n) }
 	}
 	return func(b []byte, n string) (any, error) { return ReadVTU(b, n) }
 }
