@@ -176,6 +176,10 @@ func (c *Case) wallHeight(x value) (float64, error) {
 	return ws.Height, nil
 }
 
+// checkedNodes is the most nodes checkSpacing places on a segment to try
+// its law.
+const checkedNodes = 100000
+
 // checkSpacing discretises a segment of the case as written (refinement
 // factor 1) once, so that a spacing law the segment cannot meet — a first
 // spacing longer than the segment, a size that asks for too many nodes —
@@ -188,6 +192,14 @@ func (c *Case) wallHeight(x value) (float64, error) {
 func (c *Case) checkSpacing(seg geometry.Segment, o *object, it value) error {
 	if c.Refine != 1 {
 		return nil
+	}
+	// A law that asks for very many nodes is left for the mesher, after
+	// the cell-count estimate, rather than allocated here (an impossible
+	// count is an error of NodeCount and is reported below).
+	if sp := seg.Attr().Spacing; !sp.KeepsVertices() {
+		if n, err := sp.NodeCount(seg.Length()); err == nil && n > checkedNodes {
+			return nil
+		}
 	}
 	_, err := geometry.DiscretiseSegment(seg)
 	if err == nil {
