@@ -72,6 +72,50 @@ type BoundaryTag struct {
 	// cell normal to the face (cellHeight), in metres: on a wall, the
 	// first-cell height its boundary layer is resolved with.
 	FirstCellHeight Spread `json:"first_cell_height"`
+	// QuadLayers spreads, over the faces, the number of quadrilaterals
+	// stacked on each face (see quadStack): on a wall of a hybrid mesh the
+	// boundary layers it carries, on a structured grid its cells across;
+	// all zero on triangles.
+	QuadLayers Spread `json:"quad_layers"`
+}
+
+// maxStack bounds the quadrilaterals quadStack counts on one face.
+const maxStack = 1000
+
+// quadStack counts the quadrilaterals stacked on boundary face f: its
+// cell, the cell across that cell's opposite face (the one sharing no
+// node with the face it was entered by), and so on while the cells are
+// quadrilaterals of four faces, up to maxStack. Layer cells on a wall
+// are such a stack; the count is what a user checks a wall's layers by.
+func quadStack(m *mesh.Mesh, cf *cellFaces, f int) int {
+	c, cur, n := int(m.Owner[f]), f, 0
+	for n < maxStack {
+		faces := cf.faces[cf.start[c]:cf.start[c+1]]
+		if m.CellStart[c+1]-m.CellStart[c] != 4 || len(faces) != 4 {
+			break
+		}
+		n++
+		a, b := m.FaceNodes[cur][0], m.FaceNodes[cur][1]
+		opp := -1
+		for _, g := range faces {
+			if fn := m.FaceNodes[g]; fn[0] != a && fn[0] != b && fn[1] != a && fn[1] != b {
+				opp = int(g)
+				break
+			}
+		}
+		if opp < 0 {
+			break
+		}
+		next := int(m.Owner[opp])
+		if next == c {
+			next = int(m.Neighbour[opp])
+		}
+		if next < 0 || next == c {
+			break
+		}
+		c, cur = next, opp
+	}
+	return n
 }
 
 // Spread is the smallest, mean and largest of a set of values; all three
@@ -104,12 +148,15 @@ func (s *spreadOf) spread() Spread {
 	return Spread{Number(s.min), Number(s.sum / float64(s.n)), Number(s.max)}
 }
 
-// boundaryTags sums up the boundary faces of m by their FaceTag: every
+// boundaryTags sums up the boundary faces of m by their FaceTag (their
+// length, first-cell heights and stacked quadrilaterals, the latter from
+// the cell-face lists cf): every
 // tag, with no faces too, then the untagged faces if there are any. It
 // reads FaceTag rather than TagStart, which validateArrays does not check.
-func boundaryTags(m *mesh.Mesh) []BoundaryTag {
+func boundaryTags(m *mesh.Mesh, cf *cellFaces) []BoundaryTag {
 	out := make([]BoundaryTag, len(m.Tags)+1)
 	heights := make([]spreadOf, len(out))
+	stacks := make([]spreadOf, len(out))
 	for t, name := range m.Tags {
 		out[t].Tag = name
 	}
@@ -122,9 +169,11 @@ func boundaryTags(m *mesh.Mesh) []BoundaryTag {
 		out[t].Faces++
 		out[t].Length += Number(m.Geo.FaceLength[f])
 		heights[t].add(cellHeight(m, f))
+		stacks[t].add(float64(quadStack(m, cf, f)))
 	}
 	for t := range out {
 		out[t].FirstCellHeight = heights[t].spread()
+		out[t].QuadLayers = stacks[t].spread()
 	}
 	if out[untagged].Faces == 0 {
 		out = out[:untagged]
@@ -248,10 +297,10 @@ func (e *Evaluator) Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 		Profile: lim.Profile, ChangedLimits: lim.changed(), Cells: nc, Faces: m.NumFaces(), BoundaryFaces: m.NumBoundary(), Nodes: nn,
 		DuplicateTolerance: lim.DuplicateTolerance, HangingTolerance: lim.HangingTolerance,
 		CellStatus: zeroed(&e.cellStatus, nc),
-		Boundary:   boundaryTags(m),
 	}
 	// Three independent sweeps run side by side: the cell metrics, the node
-	// metric and the connectivity checks. Each writes only its own results.
+	// metric and the connectivity checks with the boundary summary. Each
+	// writes only its own results.
 	var vals [numCellMetrics][]float64
 	var parts [numCellMetrics][]partial
 	var dual []float64
@@ -276,6 +325,7 @@ func (e *Evaluator) Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 	}()
 	go func() {
 		defer wg.Done()
+		r.Boundary = boundaryTags(m, &e.cellFaces)
 		checkFaces(m, e.cellFaces, cn)
 		bclosure = boundaryClosure(m)
 		checkNodes(m, first, &e.balance, bclosure, lim.Closure.Fail, cn)

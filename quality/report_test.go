@@ -193,8 +193,11 @@ func TestReportBoundaryTags(t *testing.T) {
 	}
 	r := evaluate(t, m)
 	// Every boundary cell is a 0.5 m square: first-cell height 0.5 m.
+	// Two squares stand on each floor and lid face, four on each side
+	// face.
 	half, none := Spread{0.5, 0.5, 0.5}, Number(math.NaN())
-	want := []BoundaryTag{{"floor", 4, 2, half}, {"lid", 4, 2, half}, {"spare", 0, 0, Spread{none, none, none}}, {"", 4, 2, half}}
+	nothing := Spread{none, none, none}
+	want := []BoundaryTag{{"floor", 4, 2, half, Spread{2, 2, 2}}, {"lid", 4, 2, half, Spread{2, 2, 2}}, {"spare", 0, 0, nothing, nothing}, {"", 4, 2, half, Spread{4, 4, 4}}}
 	if fmt.Sprint(r.Boundary) != fmt.Sprint(want) {
 		t.Errorf("boundary %+v, want %+v", r.Boundary, want)
 	}
@@ -202,7 +205,7 @@ func TestReportBoundaryTags(t *testing.T) {
 	if err := WriteText(&x, r); err != nil {
 		t.Fatal(err)
 	}
-	for _, line := range []string{"  floor                     4 faces, length 2 m; first-cell height 0.5 to 0.5 m, mean 0.5", "  spare                     0 faces, length 0 m", "  (no tag)                  4 faces, length 2 m; first-cell height 0.5 to 0.5 m, mean 0.5"} {
+	for _, line := range []string{"  floor                     4 faces, length 2 m; first-cell height 0.5 to 0.5 m, mean 0.5; 2 to 2 quadrilaterals stacked, mean 2", "  spare                     0 faces, length 0 m", "  (no tag)                  4 faces, length 2 m; first-cell height 0.5 to 0.5 m, mean 0.5; 4 to 4 quadrilaterals stacked, mean 4"} {
 		if !strings.Contains(x.String(), line+"\n") {
 			t.Errorf("text report lacks %q:\n%s", line, x.String())
 		}
@@ -259,6 +262,43 @@ func TestFirstCellHeight(t *testing.T) {
 		h := floor.FirstCellHeight
 		if !near(float64(h.Min), lo, 1e-15) || !near(float64(h.Max), hi, 1e-15) || !near(float64(h.Mean), sum/nx, 1e-15) {
 			t.Errorf("tri %v: floor spread %+v, want %g, %g, %g", tri, h, lo, sum/nx, hi)
+		}
+	}
+}
+
+// TestQuadLayers: on a strip of 4 × 6 unit squares whose lower three rows
+// are quadrilaterals and upper three rows are split into triangles (a
+// hybrid mesh in miniature), three quadrilaterals stand on each floor
+// face, none under the lid, four across each side face of the lower rows
+// and none across the upper ones (counted by hand).
+func TestQuadLayers(t *testing.T) {
+	const nx, ny = 4, 6
+	in := mesh.Input{Nodes: gridNodes(nx, ny, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0), Tags: []string{"floor", "lid"}, CellStart: []int32{0}}
+	quads, tris := quadCells(nx, ny, false), quadCells(nx, ny, true)
+	for k, c := range quads {
+		if k/nx < 3 {
+			in.CellNodes = append(in.CellNodes, c...)
+			in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+			continue
+		}
+		for _, tr := range tris[2*k : 2*k+2] {
+			in.CellNodes = append(in.CellNodes, tr...)
+			in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+		}
+	}
+	id := func(i, j int) int32 { return int32(j*(nx+1) + i) }
+	for i := 0; i < nx; i++ {
+		in.Edges = append(in.Edges, mesh.TaggedEdge{A: id(i, 0), B: id(i+1, 0), Tag: 0}, mesh.TaggedEdge{A: id(i, ny), B: id(i+1, ny), Tag: 1})
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := evaluate(t, m)
+	want := map[string]Spread{"floor": {3, 3, 3}, "lid": {0, 0, 0}, "": {0, 2, 4}}
+	for _, b := range r.Boundary {
+		if fmt.Sprint(b.QuadLayers) != fmt.Sprint(want[b.Tag]) {
+			t.Errorf("tag %q: quadrilaterals stacked %v, want %v", b.Tag, b.QuadLayers, want[b.Tag])
 		}
 	}
 }

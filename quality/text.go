@@ -70,6 +70,9 @@ func WriteText(w io.Writer, r *Report) error {
 		if h := t.FirstCellHeight; t.Faces > 0 {
 			fmt.Fprintf(b, "; first-cell height %s to %s m, mean %s", num(float64(h.Min)), num(float64(h.Max)), num(float64(h.Mean)))
 		}
+		if q := t.QuadLayers; t.Faces > 0 && q.Max > 0 {
+			fmt.Fprintf(b, "; %s to %s quadrilaterals stacked, mean %s", num(float64(q.Min)), num(float64(q.Max)), num(float64(q.Mean)))
+		}
 		fmt.Fprintln(b)
 	}
 
