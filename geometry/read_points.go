@@ -34,6 +34,10 @@ func ReadPoints(r io.Reader, a Attr, close bool) (*Polyline, bool, error) {
 	sc.Buffer(make([]byte, 64*1024), 16*1024*1024)
 	for n := 1; sc.Scan(); n++ {
 		text := sc.Text()
+		if n == 1 {
+			// A byte-order mark, which some editors write, is not text.
+			text = strings.TrimPrefix(text, "\ufeff")
+		}
 		blank := strings.TrimSpace(text) == ""
 		if i := strings.IndexByte(text, '#'); i >= 0 {
 			text = text[:i]

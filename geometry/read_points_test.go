@@ -65,7 +65,8 @@ func TestReadPointsCrossing(t *testing.T) {
 
 // TestReadPointsStillAccepted: blank and comment lines within one loop,
 // Windows line ends, a closing repeat of the first point, and open
-// polylines that touch nothing are read as before.
+// polylines that touch nothing are read as before; a byte-order mark is
+// skipped.
 func TestReadPointsStillAccepted(t *testing.T) {
 	for _, c := range []struct {
 		text   string
@@ -79,6 +80,8 @@ func TestReadPointsStillAccepted(t *testing.T) {
 		{"0, 0\n1,0\n\n1\t1\n", false, false, 2},
 		// An open polyline may cross itself: it is a segment, validated in its loop.
 		{"0 0\n1 1\n1 0\n0 1\n", false, false, 1 + 2*math.Sqrt2},
+		// A byte-order mark before the first line, as some editors write.
+		{"\ufeff0 0\n1 0\n1 1\n0 1\n", true, true, 4},
 	} {
 		p, closed, err := ReadPoints(strings.NewReader(c.text), Attr{}, c.close)
 		if err != nil {
