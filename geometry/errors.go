@@ -54,7 +54,7 @@ func (e *Error) Error() string {
 		fmt.Fprintf(&b, ", vertex %d", e.Vertex)
 	}
 	if e.HasPoint {
-		fmt.Fprintf(&b, " at (%g, %g)", e.Point[0], e.Point[1])
+		fmt.Fprintf(&b, " at (%.9g, %.9g)", e.Point[0], e.Point[1])
 	}
 	if b.Len() > 0 {
 		b.WriteString(": ")

@@ -148,7 +148,7 @@ func pointLoopCrossing(pts []orb.Point, lines []int, gap pointGap) error {
 		}
 		return fmt.Sprintf("the edge from line %d to line %d", lines[k], lines[k+1])
 	}
-	msg := fmt.Sprintf("%s crosses %s at (%g, %g)", edge(j), edge(i), p[0], p[1])
+	msg := fmt.Sprintf("%s crosses %s at (%.9g, %.9g)", edge(j), edge(i), p[0], p[1])
 	if gap.line > 0 {
 		what := "comment line"
 		if gap.blank {

@@ -125,7 +125,7 @@ func ringError(err error, p orb.Polygon) error {
 	}
 	at := ""
 	if ge.HasPoint {
-		at = fmt.Sprintf(" at (%g, %g)", ge.Point[0], ge.Point[1])
+		at = fmt.Sprintf(" at (%.9g, %.9g)", ge.Point[0], ge.Point[1])
 	}
 	return fmt.Errorf("%s, edge from vertex %d to vertex %d%s: %s: %w", ring, ge.Segment, ge.Segment+1, at, ge.Detail, errOrFormat(ge.Err))
 }

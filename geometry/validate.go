@@ -164,7 +164,7 @@ func (o Outline) check() ([]float64, error) {
 				}
 				return nil, &Error{Loop: li, LoopName: l.Name, Segment: si, Kind: s.Kind(), Vertex: -1,
 					Point: end, HasPoint: true,
-					Detail: fmt.Sprintf("ends here but %s starts at (%g, %g): gap %g exceeds the closure tolerance %g (%g × outline size)", what, start[0], start[1], gap, tol, ClosureTolerance),
+					Detail: fmt.Sprintf("ends here but %s starts at (%.9g, %.9g): gap %.3g exceeds the closure tolerance %.3g (%g × outline size)", what, start[0], start[1], gap, tol, ClosureTolerance),
 					Err:    ErrNotClosed}
 			}
 		}
