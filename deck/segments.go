@@ -1,9 +1,11 @@
 package deck
 
 import (
+	"bytes"
 	"math"
 
 	"github.com/paulmach/orb"
+	"gopkg.in/yaml.v3"
 
 	"cvdeck/geometry"
 )
@@ -84,11 +86,10 @@ func decodeChain(c *Case, start orb.Point, list value, defTag string, defSpacing
 				return nil, err
 			}
 		case "polyline", "spline":
-			pts, err := shape.points(1)
+			pts, err := c.chainPoints(shape, cur)
 			if err != nil {
 				return nil, err
 			}
-			pts = append([]orb.Point{cur}, pts...)
 			if kind == "polyline" {
 				seg, err = geometry.NewPolyline(pts, attr)
 			} else {
@@ -209,4 +210,56 @@ func decodeAttr(c *Case, o *object, defTag string, defSpacing *geometry.Spacing)
 		a.Spacing = *defSpacing
 	}
 	return a, name, nil
+}
+
+// chainPoints reads the points of a polyline or spline that starts at
+// cur: a list [[x, y], ...], or {file: points.dat}, an x-y point file
+// (one "x y" pair a line, as a sketch's, in the case's units, relative to
+// the case file) such as a table of aerofoil ordinates. The file's first
+// point may be cur itself (a loop that starts where its table does), or
+// the points follow cur.
+func (c *Case) chainPoints(shape value, cur orb.Point) ([]orb.Point, error) {
+	if shape.n.Kind != yaml.MappingNode {
+		pts, err := shape.points(1)
+		if err != nil {
+			return nil, err
+		}
+		return append([]orb.Point{cur}, pts...), nil
+	}
+	o, err := shape.object()
+	if err != nil {
+		return nil, err
+	}
+	fv, err := o.need("file")
+	if err != nil {
+		return nil, err
+	}
+	if err := o.done(); err != nil {
+		return nil, err
+	}
+	rel, err := fv.str()
+	if err != nil {
+		return nil, err
+	}
+	data, _, err := c.readInput(fv, rel)
+	if err != nil {
+		return nil, err
+	}
+	pl, _, err := geometry.ReadPoints(bytes.NewReader(data), geometry.Attr{}, false)
+	if err != nil {
+		return nil, fv.errf("%s: %v", rel, err)
+	}
+	scale := shape.d.scale
+	pts := []orb.Point{cur}
+	for i, p := range pl.Vertices() {
+		q := orb.Point{p[0] * scale, p[1] * scale}
+		if i == 0 && math.Hypot(q[0]-cur[0], q[1]-cur[1]) <= 1e-9*math.Max(1, math.Hypot(cur[0], cur[1])) {
+			continue // the table starts at cur
+		}
+		pts = append(pts, q)
+	}
+	if len(pts) < 2 {
+		return nil, fv.errf("%s: needs at least one point besides the start", rel)
+	}
+	return pts, nil
 }

@@ -2,6 +2,9 @@ package deck
 
 import (
 	"errors"
+	"math"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -43,5 +46,58 @@ func TestGeometryErrorsSayMetres(t *testing.T) {
 	_, err := Parse("square.yaml", []byte(text), LoadOptions{})
 	if !errors.Is(err, ErrInput) || !strings.Contains(err.Error(), "(0, 0.001)") || !strings.Contains(err.Error(), "1 m is 1000 mm") {
 		t.Fatalf("got %v, want the gap at (0, 0.001) m and the note on metres", err)
+	}
+}
+
+// TestChainPointsFromFile: a polyline may take its points from an x-y
+// file beside the case, in the case's units, its first point the chain's
+// start or following it; the file is an input of the deck; a bad file is
+// an error naming it and its line. The mesh of a 10 mm square with a hole
+// whose corners come from the file covers the square less the hole
+// (100 − 4 = 96 mm², elementary geometry).
+func TestChainPointsFromFile(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, text string) string {
+		t.Helper()
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	write("hole.xy", "# x y, mm\n4 4\n4 6\n6 6\n6 4\n4 4\n")
+	holed := strings.Replace(square, "mesh:\n", `    - name: hole
+      start: [4, 4]
+      segments:
+        - {polyline: {file: hole.xy}, tag: hole}
+mesh:
+`, 1)
+	holed = strings.Replace(holed, "  structured:\n    blocks:\n      - {south: s, east: e, north: n, west: w}\n", "  unstructured: {max_size: 1}\n", 1)
+	c, err := Load(write("holed.yaml", holed), LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Run(c, filepath.Join(dir, "deck"), RunOptions{Formats: []string{"manifest"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	area := 0.0
+	for _, a := range res.Mesh.Geo.CellArea {
+		area += a
+	}
+	if want := 96e-6; math.Abs(area-want) > 1e-12*want {
+		t.Errorf("mesh area %.17g m², want %g", area, want)
+	}
+	if len(c.Inputs) != 2 || c.Inputs[1].Path != "hole.xy" {
+		t.Errorf("inputs %v, want the case file and hole.xy", c.Inputs)
+	}
+	write("bad.xy", "4 4\n4 six\n")
+	_, err = Load(write("bad.yaml", strings.Replace(holed, "hole.xy", "bad.xy", 1)), LoadOptions{})
+	if !errors.Is(err, ErrInput) || !strings.Contains(err.Error(), "bad.xy: line 2") || !strings.Contains(err.Error(), "bad.yaml:") {
+		t.Errorf("a bad point file: got %v, want an error at the file key naming bad.xy line 2", err)
+	}
+	_, err = Load(write("none.yaml", strings.Replace(holed, "hole.xy", "none.xy", 1)), LoadOptions{})
+	if !errors.Is(err, ErrInput) || !strings.Contains(err.Error(), "none.xy") {
+		t.Errorf("a missing point file: got %v", err)
 	}
 }
