@@ -186,13 +186,13 @@ func TestCutOwnFiles(t *testing.T) {
 		name   string
 		nx, ny int
 	}{{"small", 6, 5}, {"large", 60, 40}} {
-		msh := mixedMesh(t, m.nx, m.ny, 0)
-		fields := []Field{squareField(msh.NumCells()), {Name: "growth", Values: msh.Geo.CellArea}}
+		mixed := mixedMesh(t, m.nx, m.ny, 0)
+		fields := []Field{squareField(mixed.NumCells()), {Name: "growth", Values: mixed.Geo.CellArea}}
 		var vtu, vtp bytes.Buffer
-		if err := WriteVTU(&vtu, msh, fields); err != nil {
+		if err := WriteVTU(&vtu, mixed, fields); err != nil {
 			t.Fatal(err)
 		}
-		if err := WriteBoundaryVTP(&vtp, msh, []string{"wall", "outflow", "wall"}); err != nil {
+		if err := WriteBoundaryVTP(&vtp, mixed, []string{"wall", "outflow", "wall"}); err != nil {
 			t.Fatal(err)
 		}
 		if cuts := cutTest(t, m.name+"/mesh.vtu", vtu.Bytes()); len(cuts) != 1 {
@@ -311,9 +311,9 @@ func checkVTKPoints(t *testing.T, name string, data []byte, xyz []float64, polys
 // where, for the cuts the brief of this check was written against: inside
 // a cell-data array the reader skips, and in the end tags.
 func TestCutErrorsSayWhere(t *testing.T) {
-	msh := mixedMesh(t, 6, 5, 0)
+	mixed := mixedMesh(t, 6, 5, 0)
 	var b bytes.Buffer
-	if err := WriteVTU(&b, msh, []Field{{Name: "growth", Values: msh.Geo.CellArea}}); err != nil {
+	if err := WriteVTU(&b, mixed, []Field{{Name: "growth", Values: mixed.Geo.CellArea}}); err != nil {
 		t.Fatal(err)
 	}
 	data := b.Bytes()
@@ -325,7 +325,7 @@ func TestCutErrorsSayWhere(t *testing.T) {
 		n    int
 		want string
 	}{
-		{start + off + 20, fmt.Sprintf(`t.vtu: the file ends at byte %d inside the appended data of array "CellData/growth" (needs %d bytes, %d are there)`, start+off+20, 8*msh.NumCells(), 12)},
+		{start + off + 20, fmt.Sprintf(`t.vtu: the file ends at byte %d inside the appended data of array "CellData/growth" (needs %d bytes, %d are there)`, start+off+20, 8*mixed.NumCells(), 12)},
 		{start + off + 3, fmt.Sprintf(`t.vtu: the file ends at byte %d inside the appended data of array "CellData/growth" (header: needs 8 bytes, 3 are there)`, start+off+3)},
 		{len(data) - 3, "t.vtu: no closing </VTKFile> tag after </AppendedData>: the file is cut short"},
 		{len(data) - 13, "t.vtu: the </AppendedData> end tag at byte"},
