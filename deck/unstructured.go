@@ -286,34 +286,27 @@ func (c *Case) buildUnstructured() (*mesh.Mesh, []string, error) {
 		return nil, nil, &InputError{File: c.File, Line: us.at.n.Line, Col: us.at.n.Column, Path: us.at.path, Msg: msg, Err: err}
 	}
 	var notes []string
-	for i, l := range rep.Layers {
-		note := layerNote(l)
-		if i < len(opt.Layers) {
-			note += topLayerNote(m, opt.Layers[i], l)
-		}
-		notes = append(notes, note)
+	for _, l := range rep.Layers {
+		notes = append(notes, layerNote(l)+topLayerNote(m, l))
 	}
 	return m, notes, nil
 }
 
 // topLayerNote says how the thickest stack of a layer request meets the
-// triangles above it: its top layer's thickness h = h₁ G^(n−1) (n the most
-// layers built) beside the length s of the wall faces, and the area ratio
-// across the front that follows, about (√3/4) s² / (s h) = 0.433 s/h for
+// triangles above it: its top layer's thickness h = h₁ G^(n−1)
+// (LayerReport.Top, n the most layers built) beside the length s of the
+// wall faces, and the area ratio across the front that follows, about
+// (√3/4) s² / (s h) = 0.433 s/h for
 // triangles near equilateral on a front edge about as long as the wall
 // face (our own estimate; the growth metric of the report measures it).
 // Where the ratio is large the layers end too thin for the triangles (or
 // too thick, below 1): more or faster-growing layers, or a finer wall
 // spacing, bring it near 1. "" when nothing was built.
-func topLayerNote(m *mesh.Mesh, l unstructured.Layers, r unstructured.LayerReport) string {
-	if r.Max == 0 {
+func topLayerNote(m *mesh.Mesh, r unstructured.LayerReport) string {
+	h := r.Top
+	if !(h > 0) {
 		return ""
 	}
-	g := l.Growth
-	if g == 0 {
-		g = unstructured.DefaultGrowth
-	}
-	h := l.FirstHeight * math.Pow(g, float64(r.Max-1))
 	lo, hi := math.Inf(1), 0.0
 	for _, tag := range r.Tags {
 		a, b, ok := m.TagRange(tag)

@@ -178,19 +178,7 @@ func posInf() float64 { x := 0.0; return 1 / x }
 // geometry).
 func TestReportBoundaryTags(t *testing.T) {
 	const nx, ny = 4, 2
-	in := mesh.Input{Nodes: gridNodes(nx, ny, orb.Point{0, 0}, orb.Point{0.5, 0}, orb.Point{0, 0.5}, 0), Tags: []string{"floor", "lid", "spare"}, CellStart: []int32{0}}
-	for _, c := range quadCells(nx, ny, false) {
-		in.CellNodes = append(in.CellNodes, c...)
-		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
-	}
-	id := func(i, j int) int32 { return int32(j*(nx+1) + i) }
-	for i := 0; i < nx; i++ {
-		in.Edges = append(in.Edges, mesh.TaggedEdge{A: id(i, 0), B: id(i+1, 0), Tag: 0}, mesh.TaggedEdge{A: id(i, ny), B: id(i+1, ny), Tag: 1})
-	}
-	m, err := mesh.Build(in)
-	if err != nil {
-		t.Fatal(err)
-	}
+	m := floorAndLid(t, nx, ny, 0.5, quadCells(nx, ny, false), "spare")
 	r := evaluate(t, m)
 	// Every boundary cell is a 0.5 m square: first-cell height 0.5 m.
 	// Two squares stand on each floor and lid face, four on each side
@@ -273,18 +261,34 @@ func TestFirstCellHeight(t *testing.T) {
 // and none across the upper ones (counted by hand).
 func TestQuadLayers(t *testing.T) {
 	const nx, ny = 4, 6
-	in := mesh.Input{Nodes: gridNodes(nx, ny, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0), Tags: []string{"floor", "lid"}, CellStart: []int32{0}}
 	quads, tris := quadCells(nx, ny, false), quadCells(nx, ny, true)
+	var cells [][]int32
 	for k, c := range quads {
 		if k/nx < 3 {
-			in.CellNodes = append(in.CellNodes, c...)
-			in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
-			continue
+			cells = append(cells, c)
+		} else {
+			cells = append(cells, tris[2*k:2*k+2]...)
 		}
-		for _, tr := range tris[2*k : 2*k+2] {
-			in.CellNodes = append(in.CellNodes, tr...)
-			in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+	}
+	r := evaluate(t, floorAndLid(t, nx, ny, 1, cells))
+	want := map[string]Spread{"floor": {3, 3, 3}, "lid": {0, 0, 0}, "": {0, 2, 4}}
+	for _, b := range r.Boundary {
+		if fmt.Sprint(b.QuadLayers) != fmt.Sprint(want[b.Tag]) {
+			t.Errorf("tag %q: quadrilaterals stacked %v, want %v", b.Tag, b.QuadLayers, want[b.Tag])
 		}
+	}
+}
+
+// floorAndLid builds the mesh of the given cells on the grid of nx × ny
+// squares of side h from the origin (gridNodes), its bottom edges tagged
+// floor, its top edges lid, its sides untagged; extra tags follow with no
+// faces.
+func floorAndLid(t *testing.T, nx, ny int, h float64, cells [][]int32, extra ...string) *mesh.Mesh {
+	t.Helper()
+	in := mesh.Input{Nodes: gridNodes(nx, ny, orb.Point{0, 0}, orb.Point{h, 0}, orb.Point{0, h}, 0), Tags: append([]string{"floor", "lid"}, extra...), CellStart: []int32{0}}
+	for _, c := range cells {
+		in.CellNodes = append(in.CellNodes, c...)
+		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
 	}
 	id := func(i, j int) int32 { return int32(j*(nx+1) + i) }
 	for i := 0; i < nx; i++ {
@@ -294,11 +298,5 @@ func TestQuadLayers(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	r := evaluate(t, m)
-	want := map[string]Spread{"floor": {3, 3, 3}, "lid": {0, 0, 0}, "": {0, 2, 4}}
-	for _, b := range r.Boundary {
-		if fmt.Sprint(b.QuadLayers) != fmt.Sprint(want[b.Tag]) {
-			t.Errorf("tag %q: quadrilaterals stacked %v, want %v", b.Tag, b.QuadLayers, want[b.Tag])
-		}
-	}
+	return m
 }

@@ -798,6 +798,9 @@ type LayerReport struct {
 	// lowered the smaller count of its two ends; where smoothing lowered
 	// it, the reason that started the smoothing.
 	Short []Shortfall
+	// Top is the thickness of the last of Max layers, h₁ G^(Max−1) (see
+	// heights), in metres; 0 when none was built.
+	Top float64
 
 	built []int // layers on each wall face, in outline order
 }
@@ -843,6 +846,9 @@ func layerReports(g *pslg, opt Options, hs [][]float64, rays []ray, raysAt [][2]
 	}
 	for i := range reps {
 		finishReport(&reps[i])
+		if n := reps[i].Max; n > 0 {
+			reps[i].Top = hs[i][n] - hs[i][n-1]
+		}
 	}
 	return reps
 }
