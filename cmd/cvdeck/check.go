@@ -2,7 +2,6 @@ package main
 
 import (
 	"bufio"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -81,9 +80,7 @@ read.`,
 			}
 			w := cmd.OutOrStdout()
 			if g.json {
-				enc := json.NewEncoder(w)
-				enc.SetIndent("", "  ")
-				if e := enc.Encode(checkedEntry(res)); e != nil {
+				if e := writeJSON(w, checkedEntry(res)); e != nil {
 					return e
 				}
 				return err
@@ -161,9 +158,7 @@ func checkMany(cmd *cobra.Command, g *globals, files []string, patches []quality
 	}
 	w := cmd.OutOrStdout()
 	if g.json {
-		enc := json.NewEncoder(w)
-		enc.SetIndent("", "  ")
-		if err := enc.Encode(struct {
+		if err := writeJSON(w, struct {
 			Files []checkEntry `json:"files"`
 		}{entries}); err != nil {
 			return err

@@ -7,6 +7,7 @@
 package main
 
 import (
+	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -108,4 +109,12 @@ func positiveFlags(cmd *cobra.Command, names ...string) error {
 		}
 	}
 	return nil
+}
+
+// writeJSON prints v as indented JSON, one object on stdout, as --json
+// asks of every command.
+func writeJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(v)
 }

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -144,9 +143,7 @@ func report(w io.Writer, g *globals, res *deck.Result, runErr error) error {
 			Walls     []wallJSON      `json:"walls"`
 			Notes     []string        `json:"notes"`
 		}{res.Dir, res.Case, res.Report.Verdict.String(), res.InputHash, len(res.Mesh.Nodes), res.Mesh.NumCells(), res.Mesh.NumFaces(), res.Report, wallsJSON(res.Walls), append([]string{}, res.Notes...)}
-		enc := json.NewEncoder(w)
-		enc.SetIndent("", "  ")
-		if err := enc.Encode(out); err != nil {
+		if err := writeJSON(w, out); err != nil {
 			return err
 		}
 		return runErr
