@@ -127,9 +127,10 @@ func TestGreenGaussSeesSkewness(t *testing.T) {
 }
 
 // A mixed mesh of quads, triangles and a hexagon (two quads merged, so two
-// of its corners are straight, 180°) keeps closure and free-stream at
-// rounding level, and the hexagon's equiangle skewness is
-// (180 − 120)/(180 − 120) = 1 with θe = 120° (hand computation).
+// of its nodes sit on straight sides) keeps closure and free-stream at
+// rounding level, and the hexagon is measured as the 1 × 0.5 rectangle its
+// four true corners span (cellShape, "Straight corners"): equiangle
+// skewness 0 and aspect ratio (1 + 1)/(0.5 + 0.5) = 2 (hand computation).
 func TestMixedCells(t *testing.T) {
 	nodes := gridNodes(4, 2, orb.Point{5, 5}, orb.Point{0.5, 0}, orb.Point{0, 0.5}, 0)
 	id := func(i, j int) int32 { return int32(j*5 + i) }
@@ -143,8 +144,11 @@ func TestMixedCells(t *testing.T) {
 	}
 	m := build(t, nodes, cells, true)
 	r := evaluate(t, m)
-	if e := field(t, r, "equiangle_skewness")[0]; !near(e, 1, 1e-12) {
-		t.Errorf("hexagon equiangle skewness %g, want 1", e)
+	if e := field(t, r, "equiangle_skewness")[0]; !near(e, 0, 1e-12) {
+		t.Errorf("hexagon equiangle skewness %g, want 0", e)
+	}
+	if a := field(t, r, "aspect_ratio")[0]; !near(a, 2, 1e-12) {
+		t.Errorf("hexagon aspect ratio %g, want 2", a)
 	}
 	if a := field(t, r, "area")[0]; !near(a, 0.5, 1e-14) {
 		t.Errorf("hexagon area %g, want 0.5", a)

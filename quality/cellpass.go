@@ -58,7 +58,7 @@ func cellPass(m *mesh.Mesh, cf *cellFaces, ff *faceFields, lim *Limits, status [
 			parts[k][lo/chunk].start()
 		}
 		var buf []float64
-		var sh cellShape
+		sh := cellShape{straight: lim.HangingTolerance}
 		var tv [numCellMetrics][tile]float64
 		var out [numCellMetrics][]float64
 		for b := lo; b < hi; b += tile {

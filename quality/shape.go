@@ -45,15 +45,41 @@ const rad2deg = 180 / math.Pi
 // matrix norm and associated quantities", Int. J. Numer. Meth. Engng 48;
 // from memory).
 //
+// Straight corners. A node of a polygon that lies on the straight line
+// between its two neighbours, within straight × the distance between them,
+// is not a corner of the cell's shape but a node on one of its sides, as
+// hanging-node refinement leaves it: a square beside two half-size squares
+// is a pentagon with one such node, an ordinary finite-volume cell with two
+// collinear faces. The shape metrics above are taken over the true corners
+// only, with the cell measured as the polygon they span (a square with a
+// node on one side is measured as a square: angles 90°, equiangle skewness
+// 0, aspect ratio 1, scaled Jacobian 1), so that the fix the hanging-node
+// check advises is not graded as a 180° corner (common practice). Only
+// polygons of five or more nodes are measured so: a quadrilateral with a
+// 180° corner is a degenerate quadrilateral (its bilinear map has a zero
+// Jacobian there, which a solver working on the quadrilateral's mapping
+// would meet), and stays graded as one; a polygon whose nodes are nearly
+// all on one line, leaving fewer than three corners, keeps them all, as
+// the degenerate cell it is. straight is the limits' hanging-node
+// tolerance, so that a node the hanging-node check would see on a face
+// counts as on the side here.
+//
 // All edge vectors are differences of node positions, so every quantity is
 // invariant to a shift of the mesh and keeps its digits far from the origin.
 type cellShape struct {
 	aspect, minAngle, maxAngle, equiangle, jacobian float64
+	// straight is the relative tolerance of a straight corner (see above).
+	straight float64
+	// corners is scratch space for the true corners of a polygon.
+	corners []int32
 }
 
 // compute fills s for the cell with nodes idx and signed area area. buf is
 // scratch space, returned (perhaps grown) for reuse.
 func (s *cellShape) compute(nodes []orb.Point, idx []int32, area float64, buf []float64) []float64 {
+	if len(idx) > 4 {
+		idx = s.trueCorners(nodes, idx)
+	}
 	n := len(idx)
 	if n == 3 {
 		s.triangle(nodes[idx[0]], nodes[idx[1]], nodes[idx[2]], area)
@@ -125,6 +151,33 @@ func (s *cellShape) compute(nodes []orb.Point, idx []int32, area float64, buf []
 		s.aspect = lmax / lmin
 	}
 	return buf
+}
+
+// trueCorners returns idx without its straight corners (see cellShape),
+// in s.corners, or idx itself when every node is a corner or fewer than
+// three would be left.
+func (s *cellShape) trueCorners(nodes []orb.Point, idx []int32) []int32 {
+	n := len(idx)
+	straight := func(k int) bool {
+		p, q, r := nodes[idx[(k+n-1)%n]], nodes[idx[k]], nodes[idx[(k+1)%n]]
+		ux, uy := p[0]-q[0], p[1]-q[1]
+		vx, vy := r[0]-q[0], r[1]-q[1]
+		// The node's distance to the chord p r is |u × v| / |v − u|; the
+		// neighbours must lie on either side of it (u · v < 0).
+		cx, cy := vx-ux, vy-uy
+		return ux*vx+uy*vy < 0 && math.Abs(ux*vy-uy*vx) <= s.straight*(cx*cx+cy*cy)
+	}
+	kept := s.corners[:0]
+	for k := range n {
+		if !straight(k) {
+			kept = append(kept, idx[k])
+		}
+	}
+	s.corners = kept
+	if len(kept) == n || len(kept) < 3 {
+		return idx
+	}
+	return kept
 }
 
 // triangle is compute for a triangle p0 p1 p2, unrolled. By the law of

@@ -109,3 +109,70 @@ func TestSliverAngles(t *testing.T) {
 		t.Errorf("aspect ratio %g, want %g", got, ar)
 	}
 }
+
+// A node on a straight side is not a corner (cellShape, "Straight
+// corners"): a unit square with a node at the middle of one side, one with
+// a node on each of two sides and one with two nodes on one side are
+// measured as the unit square
+// (angles 90°, equiangle skewness 0, aspect ratio 1, scaled Jacobian 1:
+// the square's values, worked by hand). A node off the side by more than
+// the hanging-node tolerance stays a corner: its angle is
+// 180° − 2·atan(2d) for a node d off the middle of a unit side (elementary
+// trigonometry), graded as the near-180° corner it is.
+func TestStraightCorners(t *testing.T) {
+	square := func(t *testing.T, nodes []orb.Point) *Report {
+		idx := make([]int32, len(nodes))
+		for i := range idx {
+			idx[i] = int32(i)
+		}
+		return evaluate(t, build(t, nodes, [][]int32{idx}, true))
+	}
+	for name, nodes := range map[string][]orb.Point{
+		"one side node":   {{0, 0}, {1, 0}, {1, 0.5}, {1, 1}, {0, 1}},
+		"two side nodes":  {{0, 0}, {0.5, 0}, {1, 0}, {1, 1}, {0.25, 1}, {0, 1}},
+		"two on one side": {{0, 0}, {1, 0}, {1, 0.25}, {1, 0.5}, {1, 1}, {0, 1}},
+	} {
+		t.Run(name, func(t *testing.T) {
+			r := square(t, nodes)
+			for metric, want := range map[string]float64{"min_angle": 90, "max_angle": 90, "equiangle_skewness": 0, "aspect_ratio": 1, "scaled_jacobian": 1} {
+				if got := field(t, r, metric)[0]; !near(got, want, 1e-12) {
+					t.Errorf("%s = %.17g, want %g", metric, got, want)
+				}
+			}
+		})
+	}
+	t.Run("beside two half squares", func(t *testing.T) {
+		// The hanging-node fix itself: the unit square as a pentagon with
+		// the node its two half-size neighbours share. Nothing fails.
+		nodes := []orb.Point{{0, 0}, {1, 0}, {1, 0.5}, {1, 1}, {0, 1}, {1.5, 0}, {1.5, 0.5}, {1.5, 1}}
+		r := evaluate(t, build(t, nodes, [][]int32{{0, 1, 2, 3, 4}, {1, 5, 6, 2}, {2, 6, 7, 3}}, true))
+		if r.Verdict == Fail {
+			t.Errorf("verdict fail: %v", r)
+		}
+		if got := field(t, r, "max_angle")[0]; !near(got, 90, 1e-12) {
+			t.Errorf("max_angle of the pentagon = %.17g, want 90", got)
+		}
+	})
+	t.Run("off the side", func(t *testing.T) {
+		d := 1e-4 // far beyond the hanging-node tolerance of 1e-6
+		r := square(t, []orb.Point{{0, 0}, {1, 0}, {1 + d, 0.5}, {1, 1}, {0, 1}})
+		want := 180 - 2*math.Atan(2*d)*rad2deg
+		if got := field(t, r, "max_angle")[0]; !near(got, want, 1e-9) {
+			t.Errorf("max_angle = %.17g, want %.17g", got, want)
+		}
+		if r.Verdict != Fail {
+			t.Errorf("verdict %v, want fail for a %.4f° corner", r.Verdict, want)
+		}
+	})
+	t.Run("quadrilateral keeps its corners", func(t *testing.T) {
+		// A four-node cell with a straight corner is a degenerate
+		// quadrilateral: scaled Jacobian sin 180° = 0, which fails.
+		r := square(t, []orb.Point{{0, 0}, {1, 0}, {2, 0}, {1, 1}})
+		if got := field(t, r, "scaled_jacobian")[0]; !near(got, 0, 1e-12) {
+			t.Errorf("scaled_jacobian = %g, want 0", got)
+		}
+		if r.Verdict != Fail {
+			t.Errorf("verdict %v, want fail", r.Verdict)
+		}
+	})
+}
