@@ -12,6 +12,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"runtime/debug"
 	"sort"
 	"strconv"
 	"strings"
@@ -21,8 +22,41 @@ import (
 	"cvdeck/internal/yamlerr"
 )
 
-// Version is cvdeck's version, recorded in every manifest.
+// Version is cvdeck's release version.
 const Version = "0.1.0"
+
+// Build is Version with the source revision the program was built from,
+// when the Go toolchain recorded one (a build inside a git checkout):
+// "0.1.0+3f2a9c1b7e4d", the first 12 hex digits of the commit, with
+// "-modified" when the checkout had uncommitted changes; Version alone
+// otherwise (a test binary, or a build outside a checkout). Every manifest
+// records it and every input hash includes it, so that decks made by two
+// builds of one version are not taken for each other by a sweep's resume.
+var Build = buildID(debug.ReadBuildInfo())
+
+// buildID makes Build from the toolchain's build information.
+func buildID(info *debug.BuildInfo, ok bool) string {
+	if !ok {
+		return Version
+	}
+	var rev, modified string
+	for _, s := range info.Settings {
+		switch s.Key {
+		case "vcs.revision":
+			rev = s.Value
+		case "vcs.modified":
+			modified = s.Value
+		}
+	}
+	if rev == "" {
+		return Version
+	}
+	id := Version + "+" + rev[:min(12, len(rev))]
+	if modified == "true" {
+		id += "-modified"
+	}
+	return id
+}
 
 // unitScale gives metres per case length unit. The inch is exactly 0.0254 m
 // by the 1959 international yard and pound agreement (common practice).
@@ -203,7 +237,7 @@ func Parse(path string, data []byte, opts LoadOptions) (*Case, error) {
 // factor and version into one SHA-256.
 func (c *Case) hashInputs() string {
 	var b bytes.Buffer
-	fmt.Fprintf(&b, "cvdeck %s\n", Version)
+	fmt.Fprintf(&b, "cvdeck %s\n", Build)
 	for _, f := range c.Inputs {
 		fmt.Fprintf(&b, "file %s %s\n", f.Path, f.SHA256)
 	}

@@ -18,7 +18,7 @@ func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *q
 	man := &manifest.Manifest{
 		Schema:    manifest.Schema,
 		Caution:   manifest.Caution,
-		Cvdeck:    Version,
+		Cvdeck:    Build,
 		Case:      manifest.Case{Name: c.Name, File: c.Inputs[0].Path, Units: c.Units, Refine: c.Refine},
 		InputHash: c.InputHash,
 	}

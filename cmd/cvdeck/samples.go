@@ -101,9 +101,9 @@ func newVersionCommand(g *globals) *cobra.Command {
 		Args:  noArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			if g.json {
-				return json.NewEncoder(cmd.OutOrStdout()).Encode(map[string]string{"version": deck.Version})
+				return json.NewEncoder(cmd.OutOrStdout()).Encode(map[string]string{"version": deck.Build})
 			}
-			fmt.Fprintf(cmd.OutOrStdout(), "cvdeck %s\n", deck.Version)
+			fmt.Fprintf(cmd.OutOrStdout(), "cvdeck %s\n", deck.Build)
 			return nil
 		},
 	}
