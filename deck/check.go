@@ -2,6 +2,7 @@ package deck
 
 import (
 	"cmp"
+	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -12,6 +13,7 @@ import (
 
 	"cvdeck/export/atomic"
 	"cvdeck/export/cgns"
+	"cvdeck/export/manifest"
 	"cvdeck/export/preview"
 	"cvdeck/export/vtk"
 	"cvdeck/mesh"
@@ -138,7 +140,7 @@ var CheckFiles = []string{"mesh.vtu", "boundary.vtp", "quality.json", "preview.s
 // called name.
 func writeCheck(dir, name string, m *mesh.Mesh, rep *quality.Report) error {
 	writers := map[string]func(w io.Writer) error{
-		"mesh.vtu":     func(w io.Writer) error { return vtk.WriteVTU(w, m, cellFields(rep)) },
+		"mesh.vtu":     func(w io.Writer) error { return vtk.WriteVTU(w, m, vtuFields(rep)) },
 		"boundary.vtp": func(w io.Writer) error { return vtk.WriteBoundaryVTP(w, m, nil) },
 		"quality.json": func(w io.Writer) error { return quality.WriteJSON(w, rep) },
 		"preview.svg":  func(w io.Writer) error { return preview.SVG(w, previewInput(name, m, nil, rep)) },
@@ -181,7 +183,10 @@ func within(path, dir string) (bool, error) {
 }
 
 // withDeckLimits puts the limits of the quality.json beside path before
-// the patches when none of them names a profile, and says so.
+// the patches when none of them names a profile and the report belongs to
+// the mesh (see ownReport), and says so. A quality.json beside a mesh of
+// anything else (a copy of a report dropped into a folder of meshes) is
+// not taken: it would grade every mesh there by one run's limits.
 func withDeckLimits(path string, patches []quality.Patch) ([]quality.Patch, []string, []string) {
 	for _, p := range patches {
 		if p.Profile != "" {
@@ -192,12 +197,50 @@ func withDeckLimits(path string, patches []quality.Patch) ([]quality.Patch, []st
 	if _, err := os.Stat(side); err != nil {
 		return patches, nil, nil
 	}
+	whose := ownReport(path)
+	if whose == "" {
+		return patches, []string{fmt.Sprintf("%s is not taken for the limits: no deck.yaml beside it lists %s, nor is the folder one that cvdeck check -o wrote", side, filepath.Base(path))}, nil
+	}
 	dp, err := quality.ReportPatch(side)
 	if err != nil {
 		return patches, nil, []string{fmt.Sprintf("%v; checking with the %q profile instead", err, quality.DefaultProfile)}
 	}
-	note := fmt.Sprintf("limits taken from %s (profile %q with the deck's changes)", side, dp.Profile)
+	changes := "no limit changed"
+	if data, err := os.ReadFile(side); err == nil {
+		var rec struct {
+			Changed []string `json:"changed_limits"`
+		}
+		if json.Unmarshal(data, &rec) == nil && len(rec.Changed) > 0 {
+			changes = "with the " + whose + "'s changed limits: " + strings.Join(rec.Changed, ", ")
+		}
+	}
+	note := fmt.Sprintf("limits taken from %s, the %s's report (profile %q, %s)", side, whose, dp.Profile, changes)
 	return append([]quality.Patch{dp}, patches...), []string{note}, nil
+}
+
+// ownReport says whose report the quality.json beside the mesh file path
+// is: "deck" when a deck.yaml beside it lists the file among the deck's
+// files, "check" when the file is the mesh.vtu of a folder CheckAndWrite
+// wrote (every one of CheckFiles is there), "" otherwise.
+func ownReport(path string) string {
+	dir, name := filepath.Dir(path), filepath.Base(path)
+	if man, err := manifest.Read(dir); err == nil {
+		for _, f := range man.Files {
+			if filepath.Base(filepath.FromSlash(f.Path)) == name {
+				return "deck"
+			}
+		}
+		return ""
+	}
+	if name != CheckFiles[0] {
+		return ""
+	}
+	for _, f := range CheckFiles[1:] {
+		if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
+			return ""
+		}
+	}
+	return "check"
 }
 
 // tagFromLines returns m with the tags of boundary lines given by their
@@ -309,11 +352,13 @@ func withTags(m *mesh.Mesh, adds []namedEdge) (*mesh.Mesh, error) {
 		tag[int(f)-m.NumInterior] = t
 	}
 	// Build's order: by group (the tags in order, then untagged), then by
-	// owner, then by the face's place in its owner's node list.
+	// owner, then by the face's place in its owner's node list (where the
+	// owner traverses it either way: Build turns the boundary faces of a
+	// cell of negative area against its node order).
 	place := func(f int) int {
 		cell, fn := m.Cell(int(m.Owner[f])), m.FaceNodes[f]
 		for k, v := range cell {
-			if v == fn[0] && cell[(k+1)%len(cell)] == fn[1] {
+			if w := cell[(k+1)%len(cell)]; v == fn[0] && w == fn[1] || v == fn[1] && w == fn[0] {
 				return k
 			}
 		}

@@ -1,6 +1,8 @@
 package deck
 
 import (
+	"os"
+	"path/filepath"
 	"reflect"
 	"strings"
 	"testing"
@@ -133,5 +135,55 @@ func TestWithTagsAsBuilt(t *testing.T) {
 	}
 	if _, err := withTags(m2, []namedEdge{{0, 8, "x"}}); err == nil || !strings.Contains(err.Error(), "not a boundary face") {
 		t.Errorf("diagonal: %v", err)
+	}
+}
+
+// TestDeckLimitsOnlyFromOwnReport: the quality.json of a deck grades the
+// deck's own mesh (no limit changed, as the note says), and a check
+// folder's grades its mesh.vtu; the same report copied beside a mesh of
+// anything else is not taken, with a note saying why.
+func TestDeckLimitsOnlyFromOwnReport(t *testing.T) {
+	root := t.TempDir()
+	c, err := Parse(filepath.Join(root, "square.yaml"), []byte(square), LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	deck := filepath.Join(root, "deck")
+	if _, err := Run(c, deck, RunOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	notes := func(path string) string {
+		t.Helper()
+		res, err := Check(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return strings.Join(res.Notes, "\n")
+	}
+	if n := notes(filepath.Join(deck, "mesh.vtu")); !strings.Contains(n, "the deck's report (profile \"everyday\", no limit changed)") {
+		t.Errorf("the deck's mesh: notes %q, want the deck's limits with no change", n)
+	}
+	checked := filepath.Join(root, "checked")
+	if _, err := CheckAndWrite(filepath.Join(deck, "mesh.vtu"), checked); err != nil {
+		t.Fatal(err)
+	}
+	if n := notes(filepath.Join(checked, "mesh.vtu")); !strings.Contains(n, "the check's report") {
+		t.Errorf("the check folder's mesh: notes %q, want the check's limits", n)
+	}
+	stray := filepath.Join(root, "stray")
+	if err := os.Mkdir(stray, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	for from, to := range map[string]string{"mesh.vtu": "other.vtu", "quality.json": "quality.json"} {
+		data, err := os.ReadFile(filepath.Join(deck, from))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(stray, to), data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if n := notes(filepath.Join(stray, "other.vtu")); strings.Contains(n, "limits taken") || !strings.Contains(n, "is not taken for the limits") {
+		t.Errorf("a mesh beside a stray report: notes %q, want the report refused", n)
 	}
 }

@@ -40,6 +40,15 @@ type Input struct {
 //   - a face's owner is the lower-numbered of its cells and its nodes are in
 //     the owner's counter-clockwise order, so the normal points from owner to
 //     neighbour and outward on the boundary;
+//   - a cell of negative signed area (listed clockwise, or folded over) is
+//     turned the wrong way, and the faces it touches are set by its
+//     neighbours and the boundary, not by it, so that its defect stays its
+//     own: where it traverses an interior face the same way as a
+//     neighbour of positive area, that neighbour owns the face and gives
+//     its direction, and its boundary faces run against its node order,
+//     as the boundary loop of the cells around it runs, their normals
+//     pointing out of the mesh. The cell itself is kept as given, for the
+//     checks to find (its area, and its node order against its faces);
 //   - interior faces come first in order of (owner, position in the owner),
 //     then boundary faces grouped by tag in the order of in.Tags, each group
 //     in the same order, then untagged boundary faces.
@@ -67,6 +76,9 @@ func Build(in Input) (*Mesh, error) {
 	// the one the lowest range finds first.
 	halfCell := hugepage.Make[int32](nh)
 	nextOf := hugepage.Make[int32](nh)
+	// sign is the sign of each cell's signed area: −1 for a cell turned
+	// the wrong way, 0 for one of no area.
+	sign := hugepage.Make[int8](nc)
 	cellParts := partBounds(nc)
 	cellErr := make([]error, len(cellParts)-1)
 	inParts(cellParts, func(k, clo, chi int) {
@@ -87,6 +99,12 @@ func Build(in Input) (*Mesh, error) {
 				} else {
 					nextOf[h] = in.CellNodes[s]
 				}
+			}
+			switch a, _ := PolygonAreaCentroid(in.Nodes, in.CellNodes[s:e]); {
+			case a < 0:
+				sign[c] = -1
+			case a > 0:
+				sign[c] = 1
 			}
 		}
 	})
@@ -125,8 +143,10 @@ func Build(in Input) (*Mesh, error) {
 	})
 	hist = nil
 
-	// twin[h] is the other half-edge of h's face, -1 on the boundary; only
-	// the first half-edge (lowest h, so lowest cell) of each face owns it.
+	// twin[h] is the other half-edge of h's face, -1 on the boundary; the
+	// first half-edge (lowest h, so lowest cell) of each face owns it,
+	// unless both run the same way and only the other's cell has positive
+	// area.
 	twin := hugepage.Make[int32](nh)
 	isOwner := hugepage.Make[bool](nh)
 	nodeParts := partBounds(int(nn))
@@ -154,6 +174,9 @@ func Build(in Input) (*Mesh, error) {
 					twin[h] = g
 					twin[g] = h
 					b[y].h = -1
+					if in.CellNodes[h] == in.CellNodes[g] && sign[halfCell[h]] < 0 && sign[halfCell[g]] > 0 {
+						isOwner[h], isOwner[g] = false, true
+					}
 				}
 			}
 		}
@@ -258,6 +281,9 @@ func Build(in Input) (*Mesh, error) {
 				m.Neighbour[f] = halfCell[t]
 			} else {
 				m.Neighbour[f] = -1
+				if sign[halfCell[h]] < 0 {
+					m.FaceNodes[f] = [2]int32{nextOf[h], in.CellNodes[h]}
+				}
 			}
 			m.FaceTag[f] = tagOf[h]
 		}
@@ -298,4 +324,53 @@ func firstError(errs []error) error {
 		}
 	}
 	return nil
+}
+
+// OrientCounterClockwise reverses the node order of every cell of in when
+// every cell of non-zero area runs clockwise (negative signed area) and at
+// least one does, and returns the number of cells it reversed (0 when it
+// left in as it was). A file whose cells are all listed clockwise follows a
+// convention of its own, consistently, and is no defect; readers call this
+// before Build so that such a file is read counter-clockwise, and say so.
+// A mesh where only some cells run clockwise is left as it is, for the
+// checks to name those cells (see Build). Cells are tested in ranges side
+// by side; nothing is allocated but the per-range counts.
+func OrientCounterClockwise(in *Input) int {
+	nc := len(in.CellStart) - 1
+	if nc <= 0 {
+		return 0
+	}
+	parts := partBounds(nc)
+	neg, pos := make([]int, len(parts)-1), make([]int, len(parts)-1)
+	inParts(parts, func(k, lo, hi int) {
+		for c := lo; c < hi; c++ {
+			switch a, _ := PolygonAreaCentroid(in.Nodes, in.CellNodes[in.CellStart[c]:in.CellStart[c+1]]); {
+			case a < 0:
+				neg[k]++
+			case a > 0:
+				pos[k]++
+			}
+		}
+	})
+	n := 0
+	for k := range neg {
+		if pos[k] > 0 {
+			return 0
+		}
+		n += neg[k]
+	}
+	if n == 0 {
+		return 0
+	}
+	inParts(parts, func(_, lo, hi int) {
+		for c := lo; c < hi; c++ {
+			cell := in.CellNodes[in.CellStart[c]:in.CellStart[c+1]]
+			// Reversed after the first node, which stays first:
+			// a, b, c, d becomes a, d, c, b.
+			for i, j := 1, len(cell)-1; i < j; i, j = i+1, j-1 {
+				cell[i], cell[j] = cell[j], cell[i]
+			}
+		}
+	})
+	return nc
 }

@@ -200,3 +200,73 @@ func TestBuildSameOnAnyProcs(t *testing.T) {
 		t.Logf("%s: %v", name, e1)
 	}
 }
+
+// TestBuildClockwiseCell: in a 3 × 1 strip of unit quads whose middle one
+// is listed clockwise, the faces around that cell are set by the others:
+// the shared faces are owned by the outer cells and run their way, and
+// the middle cell's boundary faces run against its node order, so that
+// every boundary normal points out of the strip and every node starts as
+// many boundary faces as it ends (hand-worked).
+func TestBuildClockwiseCell(t *testing.T) {
+	in := grid(3, 1)
+	cell := in.CellNodes[4:8]
+	cell[1], cell[3] = cell[3], cell[1]
+	m, err := Build(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if m.Geo.CellArea[1] >= 0 || m.Geo.CellArea[0] <= 0 || m.Geo.CellArea[2] <= 0 {
+		t.Fatalf("areas %v, want only cell 1 negative", m.Geo.CellArea)
+	}
+	for f := range m.NumInterior {
+		if m.Owner[f] == 1 {
+			t.Errorf("interior face %d (%v) is owned by the clockwise cell", f, m.FaceNodes[f])
+		}
+	}
+	balance := map[int32]int{}
+	for f := m.NumInterior; f < m.NumFaces(); f++ {
+		fn, mid, n := m.FaceNodes[f], m.Geo.FaceMid[f], m.Geo.FaceNormal[f]
+		balance[fn[0]]++
+		balance[fn[1]]--
+		if (mid[0]-0.5)*n[0]+(mid[1]-0.5)*n[1] <= 0 {
+			t.Errorf("boundary face %d %v of cell %d: normal %v points into the strip", f, fn, m.Owner[f], n)
+		}
+	}
+	for v, b := range balance {
+		if b != 0 {
+			t.Errorf("node %d starts %d more boundary faces than it ends", v, b)
+		}
+	}
+}
+
+// TestOrientCounterClockwise: a grid listed clockwise throughout is turned
+// round, cell by cell, to the grid Build makes of it counter-clockwise; a
+// grid with one clockwise cell among others is left as it is.
+func TestOrientCounterClockwise(t *testing.T) {
+	want, err := Build(grid(3, 2))
+	if err != nil {
+		t.Fatal(err)
+	}
+	in := grid(3, 2)
+	for c := range len(in.CellStart) - 1 {
+		q := in.CellNodes[in.CellStart[c]:in.CellStart[c+1]]
+		q[1], q[3] = q[3], q[1]
+	}
+	if n := OrientCounterClockwise(&in); n != 6 {
+		t.Fatalf("reversed %d cells, want 6", n)
+	}
+	got, err := Build(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(got.CellNodes, want.CellNodes) || !reflect.DeepEqual(got.FaceNodes, want.FaceNodes) {
+		t.Errorf("turned round: cells %v faces %v; want %v, %v", got.CellNodes, got.FaceNodes, want.CellNodes, want.FaceNodes)
+	}
+	mixed := grid(3, 1)
+	q := mixed.CellNodes[4:8]
+	q[1], q[3] = q[3], q[1]
+	before := append([]int32(nil), mixed.CellNodes...)
+	if n := OrientCounterClockwise(&mixed); n != 0 || !reflect.DeepEqual(mixed.CellNodes, before) {
+		t.Errorf("a mix: reversed %d cells, nodes %v; want none, %v", n, mixed.CellNodes, before)
+	}
+}

@@ -279,7 +279,13 @@ func checkFaceRange(m *mesh.Mesh, lo, hi int, cn *connectivity) {
 		}
 		if owner := m.CellNodes[m.CellStart[o]:m.CellStart[o+1]]; edgeAt(owner, a, b) < 0 {
 			if edgeAt(owner, b, a) >= 0 {
-				report(CheckOrientation, f, o, fmt.Sprintf("face %d runs %d→%d but its owner, cell %d, traverses it %d→%d; the normal would point into the owner", f, a, b, o, b, a))
+				if area := m.Geo.CellArea[o]; area < 0 {
+					// mesh.Build runs a clockwise cell's boundary faces
+					// against it, so that they point out of the mesh.
+					report(CheckOrientation, f, o, fmt.Sprintf("face %d runs %d→%d, out of the mesh, against its owner cell %d, which runs clockwise (area %.6g)", f, a, b, o, area))
+				} else {
+					report(CheckOrientation, f, o, fmt.Sprintf("face %d runs %d→%d but its owner, cell %d, traverses it %d→%d; the normal would point into the owner", f, a, b, o, b, a))
+				}
 			} else {
 				report(CheckFaceCells, f, o, fmt.Sprintf("face %d (nodes %d-%d) is not an edge of its owner, cell %d", f, a, b, o))
 			}

@@ -7,8 +7,10 @@ package cgns
 import "C"
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"slices"
 	"strings"
@@ -157,6 +159,9 @@ func open(path string) (*reader, *mesh.Mesh, error) {
 	defer free(p)
 	var ft C.int
 	if C.cg_is_cgns(p, &ft) != 0 {
+		if kind := container(path); kind != "" {
+			return nil, nil, fmt.Errorf("cgns: %s begins as an %s file does, but the CGNS library cannot read a CGNS tree from it: the file may be cut short or damaged", path, kind)
+		}
 		return nil, nil, fmt.Errorf("cgns: %s is not a CGNS file (the CGNS library finds neither an HDF5 nor an ADF CGNS tree in it)", path)
 	}
 	var fn C.int
@@ -170,6 +175,31 @@ func open(path string) (*reader, *mesh.Mesh, error) {
 		return nil, nil, fmt.Errorf("cgns: read %s: %w", path, err)
 	}
 	return r, m, nil
+}
+
+// container names the storage format whose signature the file at path
+// begins with, "HDF5" or "ADF", or "" for neither (or a file that cannot
+// be read). HDF5 puts its 8-byte signature \x89HDF\r\n\x1a\n at byte 0
+// of a file (HDF5 File Format Specification, superblock; a user block
+// can move it to 512, 1024, ... which cvdeck does not look for); ADF
+// files begin with four bytes and the text "ADF Database" (as in an ADF
+// file written by the Debian CGNS tools, which starts c0 a8 a3 a9, the
+// text "@(#)" with the high bits set).
+func container(path string) string {
+	f, err := os.Open(path)
+	if err != nil {
+		return ""
+	}
+	defer f.Close()
+	head := make([]byte, 16)
+	n, _ := io.ReadFull(f, head)
+	switch head = head[:n]; {
+	case bytes.HasPrefix(head, []byte("\x89HDF\r\n\x1a\n")):
+		return "HDF5"
+	case len(head) == 16 && string(head[4:]) == "ADF Database":
+		return "ADF"
+	}
+	return ""
 }
 
 type reader struct {

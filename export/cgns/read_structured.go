@@ -6,9 +6,11 @@ package cgns
 import "C"
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 	"unsafe"
 
 	"github.com/paulmach/orb"
@@ -151,6 +153,11 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 			}
 		}
 		joins = append(joins, js...)
+	}
+	if len(zones) > 1 {
+		if note := mergeTouching(zones, parent, find); note != "" {
+			r.notes = append(r.notes, note)
+		}
 	}
 	newID := make([]int32, total)
 	var nodes []orb.Point
@@ -589,4 +596,55 @@ func (s *szone) planeBCs(bcs []bcInfo) (kept, left []bcInfo, err error) {
 		kept = append(kept, b)
 	}
 	return kept, left, nil
+}
+
+// mergeTolerance is how close, relative to the local face length, nodes of
+// two structured zones must be to be taken as one where the file joins the
+// zones by no 1-to-1 connectivity: at most mergeTolerance times the
+// shorter of the two nodes' local face lengths (the shortest grid edge
+// meeting the node in its own zone). As in the VTK reader's joining of
+// structured blocks, it lies far above the roundoff of coordinates
+// written in double precision and far below any spacing of a mesh fit to
+// check; exactly coincident nodes always merge.
+const mergeTolerance = 1e-6
+
+// mergeTouching merges the nodes on the sides of different zones that
+// coincide (within mergeTolerance of the local face length) but that the
+// 1-to-1 connectivity has not joined, into the union-find parent (find
+// its lookup), so that zones which touch without connectivity in the file
+// (as a converter from a format with none writes them) become one mesh,
+// as ReadVTM joins VTK blocks. It returns the note naming what was merged
+// and between which zones, "" when nothing was (mesh.JoinCoincident finds
+// the candidates).
+func mergeTouching(zones []szone, parent []int32, find func(int32) int32) string {
+	var sides []mesh.SideNode
+	for zi := range zones {
+		s := &zones[zi]
+		sides = mesh.SideNodes(sides, s.nodes, s.ni, s.nj, s.first, zi, mergeTolerance)
+	}
+	merged := 0
+	var pairs [][2]int
+	mesh.JoinCoincident(sides, func(c, o mesh.SideNode) {
+		if c.Block == o.Block {
+			return // a zone's own seam is its connectivity's business
+		}
+		a, b := find(c.ID), find(o.ID)
+		if a == b {
+			return
+		}
+		parent[max(a, b)] = min(a, b)
+		merged++
+		if pr := [2]int{min(c.Block, o.Block), max(c.Block, o.Block)}; !slices.Contains(pairs, pr) {
+			pairs = append(pairs, pr)
+		}
+	})
+	if merged == 0 {
+		return ""
+	}
+	slices.SortFunc(pairs, func(x, y [2]int) int { return cmp.Or(cmp.Compare(x[0], y[0]), cmp.Compare(x[1], y[1])) })
+	names := make([]string, len(pairs))
+	for k, pr := range pairs {
+		names[k] = zones[pr[0]].name + " and " + zones[pr[1]].name
+	}
+	return fmt.Sprintf("%d coincident nodes merged where zones touch that the file joins by no 1-to-1 connectivity (within %g of the local face length): %s", merged, mergeTolerance, strings.Join(names, ", "))
 }

@@ -1,8 +1,12 @@
 package cgns
 
 import (
+	"os"
+	"os/exec"
 	"path/filepath"
 	"slices"
+	"strconv"
+	"strings"
 	"testing"
 
 	"cvdeck/mesh"
@@ -141,5 +145,63 @@ func TestReadInterfaces(t *testing.T) {
 		if len(m.Interfaces) != 1 || m.Interfaces[0] != want {
 			t.Errorf("reverse=%v: interfaces %+v, want [%+v]", reverse, m.Interfaces, want)
 		}
+	}
+}
+
+// TestReadTouchingZones: two structured zones that share a side but carry
+// no 1-to-1 connectivity, as the CGNS tools' plot3d_to_cgns writes a
+// multi-block Plot3D grid of our own (a 5 × 4 and a 5 × 4 block of unit
+// squares side by side, one cell thick), read as one mesh: the 5 nodes of
+// the shared side merged, with a note naming the zones, the shared side
+// interior faces, and nothing left untagged but the outer boundary.
+func TestReadTouchingZones(t *testing.T) {
+	dir := t.TempDir()
+	var b strings.Builder
+	b.WriteString("2\n6 5 2\n6 5 2\n")
+	for blk := range 2 {
+		for axis := range 3 {
+			for k := range 2 {
+				for j := range 5 {
+					for i := range 6 {
+						b.WriteString(strconv.FormatFloat([]float64{float64(5*blk + i), float64(j), 0.1 * float64(k)}[axis], 'g', -1, 64) + " ")
+					}
+				}
+			}
+			b.WriteString("\n")
+		}
+	}
+	xyz, file := filepath.Join(dir, "two.p3d"), filepath.Join(dir, "two.cgns")
+	if err := os.WriteFile(xyz, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if out, err := exec.Command(tool(t, "plot3d_to_cgns"), "-f", "-d", xyz, file).CombinedOutput(); err != nil {
+		t.Fatalf("plot3d_to_cgns: %v\n%s", err, out)
+	}
+	m, notes, err := ReadNotes(file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.ContainsFunc(notes, func(n string) bool {
+		return strings.HasPrefix(n, "5 coincident nodes merged where zones touch that the file joins by no 1-to-1 connectivity") && strings.HasSuffix(n, ": Zone1 and Zone2")
+	}) {
+		t.Errorf("notes %q, want the 5 merged nodes between Zone1 and Zone2", notes)
+	}
+	// 10 × 4 unit squares: 11 × 5 nodes, 2·10·4 + 10 + 4 faces, 28 on the
+	// boundary (Euler's formula for a planar grid).
+	if m.NumCells() != 40 || len(m.Nodes) != 55 || m.NumFaces() != 94 || m.NumBoundary() != 28 {
+		t.Errorf("%d cells, %d nodes, %d faces, %d on the boundary; want 40, 55, 94, 28", m.NumCells(), len(m.Nodes), m.NumFaces(), m.NumBoundary())
+	}
+	// The same file cut short keeps its HDF5 signature: the error says
+	// the file may be cut short.
+	data, err := os.ReadFile(file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cut := filepath.Join(dir, "cut.cgns")
+	if err := os.WriteFile(cut, data[:len(data)/3], 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := Read(cut); err == nil || !strings.Contains(err.Error(), "begins as an HDF5 file does") || !strings.Contains(err.Error(), "may be cut short") {
+		t.Errorf("a file cut short: got %v, want it said it may be cut short", err)
 	}
 }

@@ -91,6 +91,13 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 		}
 		barOf = planarBarOf(secs)
 	}
+	if n := mesh.OrientCounterClockwise(&in); n > 0 {
+		what := "run clockwise seen from +z (negative signed area)"
+		if r.thin {
+			what = "have negative volume by the CGNS node-order conventions (their faces on the lower plane run clockwise seen from +z)"
+		}
+		r.notes = append(r.notes, fmt.Sprintf("all %d cells of %s %s as the file lists them; their node order is reversed", n, zp, what))
+	}
 
 	bcs, err := r.bocos(z, zp, 1)
 	if err != nil {

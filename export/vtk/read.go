@@ -1,9 +1,12 @@
 package vtk
 
 import (
+	"bytes"
 	"fmt"
 	"math"
 	"path/filepath"
+	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -28,8 +31,11 @@ var tagArrayNames = []string{"boundary_tag", TagArray}
 // as tagArrayNames says; vertex cells are skipped, with a note (see
 // ReadFileNotes). Boundary faces without a tag (no tag array, no lines,
 // or lines that leave part of the boundary out) stay untagged: see
-// mesh.Mesh.UntaggedRange. Node z coordinates must all be equal (a plane
-// mesh); they are dropped.
+// mesh.Mesh.UntaggedRange. The nodes must lie in one plane z = c (z is
+// dropped), or x = c or y = c (see mapPlane); a file whose cells all run
+// clockwise is read turned round (see mesh.OrientCounterClockwise), and a
+// legacy file named .vtu or .vtp, or an XML one named .vtk, is read as
+// what it holds; each with a note.
 //
 // A 2D case stored the way 3D solvers take one, a slab one cell thick, is
 // read too: points on two planes z = z0 < z1, cells that are hexahedra,
@@ -60,9 +66,26 @@ func ReadFileNotes(path string) (*mesh.Mesh, []string, error) {
 		return nil, nil, err
 	}
 	var g *grid
-	switch strings.ToLower(filepath.Ext(path)) {
+	ext := strings.ToLower(filepath.Ext(path))
+	var renamed string // how the file was read when its content belies its extension
+	switch kind := sniff(data); {
+	case kind == "legacy" && (ext == ".vtu" || ext == ".vtp"):
+		renamed, ext = fmt.Sprintf("a legacy VTK file (first line \"# vtk DataFile Version ...\"), not VTK XML as its %s extension says; read as legacy VTK", ext), ".vtk"
+	case ext == ".vtk" && kind != "" && kind != "legacy":
+		// VTK XML under a legacy name: read by its VTKFile type.
+		to := map[string]string{"UnstructuredGrid": ".vtu", "PolyData": ".vtp", "StructuredGrid": ".vts"}[kind]
+		if to == "" {
+			return nil, nil, fmt.Errorf("%s: a VTK XML file of type %q, not a legacy VTK file as its .vtk extension says; cvdeck reads XML UnstructuredGrid, PolyData and StructuredGrid files", path, kind)
+		}
+		renamed, ext = fmt.Sprintf("a VTK XML %s file, not legacy VTK as its .vtk extension says; read as %s", kind, to), to
+	}
+	switch ext {
 	case ".vts":
-		return readVTS(data, path)
+		m, notes, err := readVTS(data, path)
+		if renamed != "" && err == nil {
+			notes = append([]string{renamed}, notes...)
+		}
+		return m, notes, err
 	case ".vtm":
 		return readVTM(data, path)
 	case ".vtu":
@@ -77,12 +100,41 @@ func ReadFileNotes(path string) (*mesh.Mesh, []string, error) {
 	if err != nil {
 		return nil, nil, err
 	}
+	if renamed != "" {
+		g.notes = append(g.notes, renamed)
+	}
 	m, err := g.toMesh()
 	if err != nil {
 		return nil, nil, err
 	}
 	return m, g.notes, nil
 }
+
+// sniff tells what a VTK file holds by its first bytes: "legacy" for the
+// legacy header line "# vtk DataFile Version", the VTKFile type attribute
+// (such as "UnstructuredGrid") for VTK XML, "" when it is neither or the
+// type cannot be found in the first 4 KiB.
+func sniff(data []byte) string {
+	head := bytes.TrimLeft(data[:min(len(data), 4096)], " \t\r\n\ufeff")
+	if bytes.HasPrefix(head, []byte("# vtk DataFile Version")) {
+		return "legacy"
+	}
+	i := bytes.Index(head, []byte("<VTKFile"))
+	if i < 0 {
+		return ""
+	}
+	tag := head[i:]
+	if e := bytes.IndexByte(tag, '>'); e >= 0 {
+		tag = tag[:e]
+	}
+	if m := xmlType.FindSubmatch(tag); m != nil {
+		return string(m[1])
+	}
+	return ""
+}
+
+// xmlType finds the type attribute of a VTKFile start tag.
+var xmlType = regexp.MustCompile(`\stype\s*=\s*["']([A-Za-z]+)["']`)
 
 // array is one data array as read from a file, before interpretation.
 type array struct {
@@ -126,6 +178,9 @@ type grid struct {
 	types     []int64
 	cellData  []*array
 	fieldData []*array
+	// cellArrays names every cell-data array of the file, decoded or not,
+	// for the note on a file whose tags are under another name.
+	cellArrays []string
 	// notes say how the grid was read where the mesh does not show it.
 	notes []string
 }
@@ -169,29 +224,109 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 		return g.slabMesh(sl)
 	}
 	in := mesh.Input{Nodes: hugepage.Make[orb.Point](np)}
-	if err := firstRangeError(np, func(lo, hi int) error {
-		for i := lo; i < hi; i++ {
-			x, y, z := g.points[3*i], g.points[3*i+1], g.points[3*i+2]
-			if z != g.points[2] {
-				return fmt.Errorf("%s: point %d has z = %g but point 0 has z = %g; cvdeck reads plane 2D meshes (all z equal), or slabs one cell thick of hexahedra, voxels or wedges", g.file, i, z, g.points[2])
-			}
-			in.Nodes[i] = orb.Point{x, y}
+	view := "+z"
+	switch axis := planeAxis(g.points); axis {
+	case -1:
+		i := 1
+		for g.points[3*i+2] == g.points[2] {
+			i++
 		}
-		return nil
-	}); err != nil {
-		return nil, err
+		return nil, fmt.Errorf("%s: point %d has z = %g but point 0 has z = %g, and the points share no one x or y either; cvdeck reads plane 2D meshes lying in a plane x, y or z = constant, or slabs one cell thick of hexahedra, voxels or wedges", g.file, i, g.points[3*i+2], g.points[2])
+	case 2:
+		if z := g.points[2]; z != 0 {
+			g.notes = append(g.notes, fmt.Sprintf("a plane mesh on z = %g, read as 2D (z dropped)", z))
+		}
+	default:
+		var note string
+		note, view = mapPlane(g.points, axis)
+		g.notes = append(g.notes, note)
 	}
-	if z := g.points[2]; z != 0 {
-		g.notes = append(g.notes, fmt.Sprintf("a plane mesh on z = %g, read as 2D (z dropped)", z))
-	}
+	inRanges(np, func(_, lo, hi int) {
+		for i := lo; i < hi; i++ {
+			in.Nodes[i] = orb.Point{g.points[3*i], g.points[3*i+1]}
+		}
+	})
 	if err := g.planeCells(&in); err != nil {
 		return nil, err
 	}
+	g.orient(&in, func(n int) string {
+		return fmt.Sprintf("all %d cells run clockwise seen from %s (negative signed area) as the file lists them", n, view)
+	})
 	m, err := mesh.Build(in)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", g.file, err)
 	}
 	return m, nil
+}
+
+// planeRelTol is how far, relative to the largest coordinate magnitude,
+// the x or y of a point may stray from the first point's and still count
+// as lying on the plane x = c or y = c: a few units of roundoff in double
+// precision, so that a mesh written in such a plane is read while a tilted
+// one is not.
+const planeRelTol = 1e-12
+
+// planeAxis returns the axis (0 for x, 1 for y, 2 for z) whose coordinate
+// every point of pts (x, y, z each) shares: z if every z is equal (exactly,
+// as a plane mesh of VTK files usually is), else y or x if every point's
+// lies within planeRelTol of the largest coordinate magnitude of the
+// first point's; −1 if none does (a tilted plane, or not a plane).
+func planeAxis(pts []float64) int {
+	same := func(a int, tol float64) bool {
+		c := pts[a]
+		for i := a; i < len(pts); i += 3 {
+			if math.Abs(pts[i]-c) > tol {
+				return false
+			}
+		}
+		return true
+	}
+	if same(2, 0) {
+		return 2
+	}
+	extent := 0.0
+	for _, v := range pts {
+		extent = max(extent, math.Abs(v))
+	}
+	for _, a := range []int{1, 0} {
+		if same(a, planeRelTol*extent) {
+			return a
+		}
+	}
+	return -1
+}
+
+// mapPlane rewrites pts (x, y, z each), whose points lie on the plane of
+// axis 0 (x = c) or 1 (y = c), so that the two coordinates that vary come
+// first and the constant one last: (y, z, x) for x = c, seen from +x, and
+// (x, z, y) for y = c, seen from −y, both right-handed (x̂ × ẑ = −ŷ,
+// ŷ × ẑ = x̂), so that a cell counter-clockwise in the new (x, y) is
+// counter-clockwise seen from that side. It returns the note saying so
+// and the side the mesh is seen from.
+func mapPlane(pts []float64, axis int) (note, view string) {
+	c := pts[axis]
+	u, v, name, view := 1, 2, "x", "+x"
+	if axis == 1 {
+		u, v, name, view = 0, 2, "y", "−y"
+	}
+	uv := [3]string{"x", "y", "z"}
+	inRanges(len(pts)/3, func(_, lo, hi int) {
+		for i := lo; i < hi; i++ {
+			p := pts[3*i : 3*i+3]
+			p[0], p[1], p[2] = p[u], p[v], p[axis]
+		}
+	})
+	return fmt.Sprintf("a plane mesh on %s = %g, read as 2D with (%s, %s) taken as (x, y), seen from %s (%s dropped)", name, c, uv[u], uv[v], view, name), view
+}
+
+// orient turns the cells of in counter-clockwise when every one of them
+// (of non-zero area) runs clockwise, with a note that says so after what
+// (such as "all 12 cells run clockwise seen from +z"); see
+// mesh.OrientCounterClockwise.
+func (g *grid) orient(in *mesh.Input, what func(n int) string) {
+	if n := mesh.OrientCounterClockwise(in); n > 0 {
+		g.notes = append(g.notes, what(n)+"; their node order is reversed")
+	}
 }
 
 // planeCells turns the cells of a plane grid into the cells and tagged
@@ -294,6 +429,9 @@ func (g *grid) planeCells(in *mesh.Input) error {
 			in.CellStart[cell] = int32(at)
 		}
 	})
+	g.numberingNote(func(t int64) bool {
+		return t == cellTriangle || t == cellQuad || t == cellPolygon || t == cellPixel
+	}, "line and vertex", "area")
 	if vertices > 0 {
 		what := "vertex cells"
 		if vertices == 1 {
@@ -302,6 +440,35 @@ func (g *grid) planeCells(in *mesh.Input) error {
 		g.notes = append(g.notes, fmt.Sprintf("%d %s skipped", vertices, what))
 	}
 	return nil
+}
+
+// numberingNote adds a note when the file numbers other cells (of the
+// kinds others names) before or among the cells that become the mesh's
+// (isCell, of the kind kind), so that a cell number in the report, which counts the mesh's
+// cells only, can be found in the file: when the others all come first,
+// by the offset; otherwise by the rule.
+func (g *grid) numberingNote(isCell func(t int64) bool, others, kind string) {
+	first, last, cells, before := -1, -1, 0, 0
+	for c, t := range g.types {
+		if isCell(t) {
+			if first < 0 {
+				first = c
+			}
+			last = c
+			cells++
+		}
+	}
+	if first < 0 {
+		return
+	}
+	before = last + 1 - cells // other cells before the last mesh cell
+	switch {
+	case before == 0:
+	case last-first+1 == cells:
+		g.notes = append(g.notes, fmt.Sprintf("the file lists %d %s cells before its %d %s cells: cell k of this report is the file's cell k + %d", first, others, cells, kind, first))
+	default:
+		g.notes = append(g.notes, fmt.Sprintf("the file lists %d %s cells among its %d %s cells: the cell numbers of this report count the %s cells only, from 0 in file order", before, others, cells, kind, kind))
+	}
 }
 
 // fixedPoints is the number of points a cell of VTK type t has when that
@@ -423,6 +590,13 @@ func (g *grid) lineTags() (func(c int) string, error) {
 		}
 	}
 	if a == nil {
+		if slices.ContainsFunc(g.types, func(t int64) bool { return t == cellLine || t == cellPolyLine || t == cellQuad && g.has3D() }) {
+			found := "it has no cell data"
+			if len(g.cellArrays) > 0 {
+				found = "its cell-data arrays are " + strings.Join(g.cellArrays, ", ")
+			}
+			g.notes = append(g.notes, fmt.Sprintf("the boundary lines and faces carry no tags: cvdeck takes them from a cell-data array named %s, and %s", strings.Join(tagArrayNames, " or "), found))
+		}
 		return func(int) string { return "" }, nil
 	}
 	if a.comps > 1 || a.length() != len(g.types) {

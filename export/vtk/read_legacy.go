@@ -473,7 +473,13 @@ func (r *legacyReader) cells(g *grid, kw string) error {
 // boundary tags (tagArrayNames) are decoded and kept; the others are
 // skipped.
 func (r *legacyReader) attributes(g *grid, section string, n int) error {
-	keep := func(name string) bool { return section == "CELL_DATA" && slices.Contains(tagArrayNames, name) }
+	keep := func(name string) bool {
+		if section != "CELL_DATA" {
+			return false
+		}
+		g.cellArrays = append(g.cellArrays, name)
+		return slices.Contains(tagArrayNames, name)
+	}
 	for {
 		save := r.pos
 		kw := r.word()

@@ -21,8 +21,7 @@ type slabPlanes struct{ lo, hi float64 }
 // than two, is an error only if it holds 3D cells; otherwise toMesh's
 // plane test speaks.
 func (g *grid) slab() (slabPlanes, bool, error) {
-	has3D := slices.ContainsFunc(g.types, func(t int64) bool { return t == cellHex || t == cellVoxel || t == cellWedge })
-	if !has3D {
+	if !g.has3D() {
 		return slabPlanes{}, false, nil
 	}
 	z0, z1, two := g.points[2], 0.0, false
@@ -39,6 +38,11 @@ func (g *grid) slab() (slabPlanes, bool, error) {
 		return slabPlanes{}, false, fmt.Errorf("%s: the grid has 3D cells but all its points lie on z = %g; they have no thickness", g.file, z0)
 	}
 	return slabPlanes{min(z0, z1), max(z0, z1)}, true, nil
+}
+
+// has3D reports whether the grid holds a hexahedron, voxel or wedge.
+func (g *grid) has3D() bool {
+	return slices.ContainsFunc(g.types, func(t int64) bool { return t == cellHex || t == cellVoxel || t == cellWedge })
 }
 
 // slabMesh builds the mesh of the lower plane of a slab.
@@ -74,20 +78,16 @@ func (g *grid) slabMesh(sl slabPlanes) (*mesh.Mesh, error) {
 	for c := range g.types {
 		nodes := g.cell(c)
 		t := g.types[c]
-		var bottom, top []int64
+		var face []int64
 		switch t {
 		case cellHex, cellWedge, cellVoxel:
 			want := fixedPoints(t)
 			if len(nodes) != want {
 				return nil, fmt.Errorf("%s: cell %d is a %s with %d points", g.file, c, cellTypeName[t], len(nodes))
 			}
-			h := want / 2
-			bottom, top = nodes[:h], nodes[h:]
-			if t == cellVoxel {
-				// A voxel's points run in (i, j, k) order (VTK file-format
-				// document, figure of linear cell types).
-				bottom = []int64{nodes[0], nodes[1], nodes[3], nodes[2]}
-				top = []int64{nodes[4], nodes[5], nodes[7], nodes[6]}
+			var err error
+			if face, err = g.lowerFace(c, t, nodes, sl, extent); err != nil {
+				return nil, err
 			}
 		case cellTriangle, cellQuad, cellPixel, cellPolygon:
 			if onPlane(nodes, sl.lo) || onPlane(nodes, sl.hi) {
@@ -122,34 +122,6 @@ func (g *grid) slabMesh(sl slabPlanes) (*mesh.Mesh, error) {
 		default:
 			return nil, fmt.Errorf("%s: cell %d has VTK type %d (%s); in a slab cvdeck reads hexahedra (12), voxels (11) and wedges (13), with quads, pixels and lines as boundary faces", g.file, c, t, typeName(t))
 		}
-		// The face on the lower plane, counter-clockwise from +z when the
-		// cell has positive volume. By the VTK file-format document's
-		// conventions the right-hand normal of a hexahedron's or voxel's
-		// first face points towards the second face, and a wedge's points
-		// away from it; so the lower face keeps its order when it is a
-		// hexahedron's first face or a wedge's second, and is reversed
-		// otherwise.
-		var face []int64
-		switch {
-		case onPlane(bottom, sl.lo) && onPlane(top, sl.hi):
-			face = slices.Clone(bottom)
-			if t == cellWedge {
-				slices.Reverse(face)
-			}
-		case onPlane(bottom, sl.hi) && onPlane(top, sl.lo):
-			face = slices.Clone(top)
-			if t != cellWedge {
-				slices.Reverse(face)
-			}
-		default:
-			return nil, fmt.Errorf("%s: cell %d, a %s, does not stand between the planes z = %g and %g with one face on each", g.file, c, cellTypeName[t], sl.lo, sl.hi)
-		}
-		for k := range bottom {
-			a, b := bottom[k], top[k]
-			if math.Abs(g.points[3*a]-g.points[3*b]) > 1e-12*extent || math.Abs(g.points[3*a+1]-g.points[3*b+1]) > 1e-12*extent {
-				return nil, fmt.Errorf("%s: cell %d, a %s: its points %d and %d are not straight above each other; cvdeck reads slabs extruded along z", g.file, c, cellTypeName[t], a, b)
-			}
-		}
 		for _, v := range face {
 			in.CellNodes = append(in.CellNodes, index[v])
 		}
@@ -158,6 +130,10 @@ func (g *grid) slabMesh(sl slabPlanes) (*mesh.Mesh, error) {
 		}
 		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
 	}
+	g.numberingNote(func(t int64) bool { return t == cellHex || t == cellVoxel || t == cellWedge }, "boundary face and line", "3D")
+	g.orient(&in, func(n int) string {
+		return fmt.Sprintf("all %d cells have negative volume by the VTK node-order conventions (their faces on the lower plane run clockwise seen from +z)", n)
+	})
 	m, err := mesh.Build(in)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", g.file, err)
@@ -206,4 +182,90 @@ func (l *leftOut) String(what, where string) string {
 		s += fmt.Sprintf(" (tags %s)", strings.Join(l.tags, ", "))
 	}
 	return s
+}
+
+// The faces of the 3D cells a slab is made of, each listed so that its
+// right-hand normal points into the cell (the reverse of the outward
+// order), and the edges, by position in the cell's point list. A
+// hexahedron's points are 0–3 on one face and 4–7 on the opposite one,
+// point k+4 joined to point k; a wedge's 0–2 and 3–5 likewise; a voxel is
+// a hexahedron with its points in (i, j, k) order, taken through
+// voxelAsHex. With positive volume the right-hand normal of a
+// hexahedron's face 0–3 points towards 4–7 and a wedge's face 0–2 away
+// from 3–5 (VTK file-format document, figure of linear cell types; VTK's
+// vtkHexahedron and vtkWedge face lists give the same, outward, from
+// memory).
+var (
+	hexInward = [][]int{{0, 1, 2, 3}, {7, 6, 5, 4}, {0, 4, 5, 1}, {1, 5, 6, 2}, {2, 6, 7, 3}, {3, 7, 4, 0}}
+	hexEdges  = [][2]int{{0, 1}, {1, 2}, {2, 3}, {3, 0}, {4, 5}, {5, 6}, {6, 7}, {7, 4}, {0, 4}, {1, 5}, {2, 6}, {3, 7}}
+	// A wedge stands between the planes only on its triangles; its
+	// quadrilateral faces are opposite an edge, not a face.
+	wedgeInward = [][]int{{2, 1, 0}, {3, 4, 5}}
+	wedgeEdges  = [][2]int{{0, 1}, {1, 2}, {2, 0}, {3, 4}, {4, 5}, {5, 3}, {0, 3}, {1, 4}, {2, 5}}
+	voxelAsHex  = []int{0, 1, 3, 2, 4, 5, 7, 6}
+)
+
+// lowerFace returns the face on the lower plane of file cell c, a
+// hexahedron, voxel or wedge of type t with points nodes: whichever of its
+// faces lies on z = sl.lo, the face opposite on z = sl.hi, in the order
+// that is counter-clockwise seen from +z when the cell has positive
+// volume. Any face of a hexahedron or voxel may be the lower one, so a
+// cell whose local numbering starts on a side face is read as it stands.
+// Every edge between the planes must be straight up (within 1e-12 of
+// extent, the largest coordinate of the lower plane).
+func (g *grid) lowerFace(c int, t int64, nodes []int64, sl slabPlanes, extent float64) ([]int64, error) {
+	pts := nodes
+	inward, edges := hexInward, hexEdges
+	switch t {
+	case cellVoxel:
+		pts = make([]int64, 8)
+		for k, p := range voxelAsHex {
+			pts[k] = nodes[p]
+		}
+	case cellWedge:
+		inward, edges = wedgeInward, wedgeEdges
+	}
+	z := func(v int64) float64 { return g.points[3*v+2] }
+	low := 0
+	for _, v := range pts {
+		switch z(v) {
+		case sl.lo:
+			low++
+		case sl.hi:
+		default:
+			low = -1
+		}
+		if low < 0 {
+			break
+		}
+	}
+	var face []int64
+	if low == len(inward[0]) {
+		for _, f := range inward {
+			on := true
+			for _, k := range f {
+				on = on && z(pts[k]) == sl.lo
+			}
+			if on {
+				face = make([]int64, len(f))
+				for i, k := range f {
+					face[i] = pts[k]
+				}
+				break
+			}
+		}
+	}
+	if face == nil {
+		return nil, fmt.Errorf("%s: cell %d, a %s, does not stand between the planes z = %g and %g with one face on each (its points on the lower plane: %d of %d)", g.file, c, cellTypeName[t], sl.lo, sl.hi, max(low, 0), len(pts))
+	}
+	for _, e := range edges {
+		a, b := pts[e[0]], pts[e[1]]
+		if z(a) == z(b) {
+			continue
+		}
+		if math.Abs(g.points[3*a]-g.points[3*b]) > 1e-12*extent || math.Abs(g.points[3*a+1]-g.points[3*b+1]) > 1e-12*extent {
+			return nil, fmt.Errorf("%s: cell %d, a %s: its points %d and %d are not straight above each other; cvdeck reads slabs extruded along z", g.file, c, cellTypeName[t], a, b)
+		}
+	}
+	return face, nil
 }

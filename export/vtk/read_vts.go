@@ -225,7 +225,20 @@ func parseVTS(data []byte, name string) (*nodePlane, error) {
 	if err != nil {
 		return nil, err
 	}
-	return planeOf(name, p.attr["Extent"], n, pts)
+	// A grid in the plane x = c or y = c is read as ReadFile reads a plane
+	// mesh there: its coordinates mapped (see mapPlane), after which it is
+	// a grid on one z.
+	axis := planeAxis(pts)
+	if axis != 0 && axis != 1 {
+		return planeOf(name, p.attr["Extent"], n, pts)
+	}
+	note, _ := mapPlane(pts, axis)
+	pl, err := planeOf(name, p.attr["Extent"], n, pts)
+	if err != nil {
+		return nil, err
+	}
+	pl.notes = []string{note} // in place of the note on its z, which is the old x or y
+	return pl, nil
 }
 
 // parseExtent parses an extent attribute (what names it in errors): six
@@ -449,10 +462,8 @@ func (pl *nodePlane) signedArea() float64 {
 // itself if none. Only the nodes on the planes' sides are candidates:
 // there block interfaces and seams lie. Two candidates merge when their
 // distance is at most mergeTolerance times the shorter of their local
-// face lengths (see mergeTolerance); merging is transitive. Candidates
-// are found through a hash grid of square buckets no smaller than the
-// largest tolerance, so each looks only at its own bucket and the eight
-// around it.
+// face lengths (see mergeTolerance; mesh.JoinCoincident finds them);
+// merging is transitive.
 func mergeNodes(planes []*nodePlane, first []int) []int32 {
 	root := hugepage.Make[int32](first[len(planes)])
 	for g := range root {
@@ -465,56 +476,14 @@ func mergeNodes(planes []*nodePlane, first []int) []int32 {
 		}
 		return g
 	}
-	type candidate struct {
-		id  int32
-		p   orb.Point
-		tol float64
-	}
-	var cands []candidate
-	maxTol, extent := 0.0, 0.0
+	var sides []mesh.SideNode
 	for b, pl := range planes {
-		for v := range pl.nv {
-			for u := range pl.nu {
-				if u != 0 && u != pl.nu-1 && v != 0 && v != pl.nv-1 {
-					continue
-				}
-				k := v*pl.nu + u
-				p := pl.xy[k]
-				h := math.Inf(1)
-				for _, d := range [4][2]int{{-1, 0}, {1, 0}, {0, -1}, {0, 1}} {
-					if uu, vv := u+d[0], v+d[1]; uu >= 0 && uu < pl.nu && vv >= 0 && vv < pl.nv {
-						q := pl.xy[vv*pl.nu+uu]
-						h = min(h, math.Hypot(q[0]-p[0], q[1]-p[1]))
-					}
-				}
-				c := candidate{int32(first[b] + k), p, mergeTolerance * h}
-				cands = append(cands, c)
-				maxTol = max(maxTol, c.tol)
-				extent = max(extent, math.Abs(p[0]), math.Abs(p[1]))
-			}
-		}
+		sides = mesh.SideNodes(sides, pl.xy, pl.nu, pl.nv, int32(first[b]), b, mergeTolerance)
 	}
-	// Buckets no smaller than 1e-15 of the extent keep the bucket numbers
-	// within int64.
-	size := max(maxTol, 1e-15*extent)
-	if size == 0 || math.IsInf(size, 0) || math.IsNaN(size) {
-		size = 1
-	}
-	buckets := map[[2]int64][]candidate{}
-	for _, c := range cands {
-		key := [2]int64{int64(math.Floor(c.p[0] / size)), int64(math.Floor(c.p[1] / size))}
-		for dx := int64(-1); dx <= 1; dx++ {
-			for dy := int64(-1); dy <= 1; dy++ {
-				for _, o := range buckets[[2]int64{key[0] + dx, key[1] + dy}] {
-					if math.Hypot(c.p[0]-o.p[0], c.p[1]-o.p[1]) <= min(c.tol, o.tol) {
-						a, b := find(c.id), find(o.id)
-						root[max(a, b)] = min(a, b)
-					}
-				}
-			}
-		}
-		buckets[key] = append(buckets[key], c)
-	}
+	mesh.JoinCoincident(sides, func(c, o mesh.SideNode) {
+		a, b := find(c.ID), find(o.ID)
+		root[max(a, b)] = min(a, b)
+	})
 	for g := range root {
 		root[g] = find(int32(g))
 	}

@@ -96,6 +96,11 @@ func readHead(data []byte, name, dataset string) (*xmlFile, *element, *grid, err
 	if g.cellData, err = x.readNamed(p.child("CellData"), tagArrayNames); err != nil {
 		return nil, nil, nil, err
 	}
+	if cd := p.child("CellData"); cd != nil {
+		for _, a := range cd.arrays() {
+			g.cellArrays = append(g.cellArrays, a.attr["Name"])
+		}
+	}
 	if g.fieldData, err = x.readNamed(ds.child("FieldData"), []string{TagNamesArray}); err != nil {
 		return nil, nil, nil, err
 	}
