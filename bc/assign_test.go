@@ -2,6 +2,7 @@ package bc
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -301,5 +302,264 @@ func TestAssignPeriodicBadValueClaimsPartner(t *testing.T) {
 	expectOne(t, err, "wall", "q:1:1", "tolerance = -1 m is not physical")
 	if errs := errorList(t, err); len(errs) != 1 {
 		t.Errorf("want one error, got %d:\n%v", len(errs), err)
+	}
+}
+
+// farfieldSquare is a 2 × 2 square of four cells whose four sides are one
+// farfield each, the far boundary of an external-flow case.
+func farfieldSquare(t *testing.T) (*mesh.Mesh, []Condition) {
+	m := channel(t, 2, 2, 1, 1, 0, [4]string{"far", "far2", "far3", "far4"})
+	conds := []Condition{{Tag: "far", Kind: Farfield, Where: "f:1:1"}, {Tag: "far2", Kind: Farfield}, {Tag: "far3", Kind: Farfield}, {Tag: "far4", Kind: Farfield}}
+	return m, conds
+}
+
+// A farfield imposes the free stream, so it takes the reference flow
+// direction (cos α, sin α) (closed form); a given direction within
+// FarfieldAngleTolerance stands for it, and one further off is an input
+// error naming both angles and both places.
+func TestAssignFarfieldDirection(t *testing.T) {
+	m, conds := farfieldSquare(t)
+	ref := seaLevel(t)
+	alpha := 4 * math.Pi / 180
+	dir := orb.Point{math.Cos(alpha), math.Sin(alpha)}
+
+	a, err := Assign(m, Setup{Reference: ref, Direction: dir, DirectionWhere: "r:5:10", Conditions: conds})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, r := range a.Conditions {
+		if r.Direction != dir {
+			t.Errorf("%s: direction %v, want (cos 4°, sin 4°) = %v", r.Tag, r.Direction, dir)
+		}
+	}
+	// The zero direction is +x, as for α = 0.
+	a, err = Assign(m, Setup{Reference: ref, Conditions: conds})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a.Direction != (orb.Point{1, 0}) || a.Conditions[0].Direction != (orb.Point{1, 0}) {
+		t.Errorf("default direction %v, farfield %v; want (1, 0)", a.Direction, a.Conditions[0].Direction)
+	}
+
+	// [0.9976, 0.0698] is 4.0023° (atan2), within 0.1° of 4°: accepted,
+	// and the farfield takes the reference direction itself.
+	c := append([]Condition{}, conds...)
+	c[0].Values = []Value{vector(KeyDirection, 0.9976, 0.0698, "f:1:30")}
+	a, err = Assign(m, Setup{Reference: ref, Direction: dir, DirectionWhere: "r:5:10", Conditions: c})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a.Conditions[0].Direction != dir {
+		t.Errorf("farfield direction %v, want the reference's %v", a.Conditions[0].Direction, dir)
+	}
+	// [1, 0.0715] is 4.0897°, still within 0.1°; [1, 0.0717] is 4.1011°
+	// (atan2), just outside it.
+	c[0].Values = []Value{vector(KeyDirection, 1, 0.0715, "f:1:30")}
+	if _, err = Assign(m, Setup{Reference: ref, Direction: dir, Conditions: c}); err != nil {
+		t.Errorf("4.0897° against 4°: %v", err)
+	}
+	c[0].Values = []Value{vector(KeyDirection, 1, 0.0717, "f:1:30")}
+	_, err = Assign(m, Setup{Reference: ref, Direction: dir, DirectionWhere: "r:5:10", Conditions: c})
+	expectOne(t, err, "far", "f:1:30", "4.101° from +x", "reference flow angle is 4°", "given at r:5:10", "within 0.1°")
+	// A direction at right angles, with no angle given: the reference
+	// flow angle is the default 0.
+	c[0].Values = []Value{vector(KeyDirection, 0, 1, "f:1:30")}
+	_, err = Assign(m, Setup{Reference: ref, Conditions: c})
+	expectOne(t, err, "far", "f:1:30", "(0, 1) is at 90° from +x", "reference flow angle is 0°", "gives no flow angle")
+
+	// A reference direction that is no unit vector is refused.
+	_, err = Assign(m, Setup{Reference: ref, Direction: orb.Point{math.NaN(), 0}, DirectionWhere: "r:5:10", Conditions: conds})
+	expectOne(t, err, "", "r:5:10", "not a unit vector")
+	_, err = Assign(m, Setup{Reference: ref, Direction: orb.Point{3 * dir[0], 3 * dir[1]}, DirectionWhere: "r:5:10", Conditions: conds})
+	expectOne(t, err, "", "r:5:10", "not a unit vector (length 3)")
+}
+
+// isentropicMach is the Mach number of total over static pressure ratio
+// p0/p, M = sqrt(2/(γ−1) ((p0/p)^((γ−1)/γ) − 1)) (NACA Report 1135),
+// written out here apart from Gas.MachFromPressureRatio.
+func isentropicMach(gamma, p0OverP float64) float64 {
+	return math.Sqrt(2 / (gamma - 1) * (math.Pow(p0OverP, (gamma-1)/gamma) - 1))
+}
+
+// notesOn returns the texts of the notes on tag.
+func notesOn(a *Assignment, tag string) []string {
+	var out []string
+	for _, n := range a.Notes {
+		if n.Tag == tag {
+			out = append(out, n.Text)
+		}
+	}
+	return out
+}
+
+// An inflow-total whose total state differs from the reference's by more
+// than StateNoteFraction is noted, with both values and the Mach numbers;
+// one within it is not. The run goes on: notes are no errors.
+func TestAssignNotesInflowTotalAgainstReference(t *testing.T) {
+	m := channel(t, 6, 3, 3, 1, 0, ductTags)
+	ref := seaLevel(t)
+	a, err := Assign(m, Setup{Reference: ref, Conditions: ductConditions(ref)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(a.Notes) != 0 {
+		t.Errorf("a duct fed with the reference total state has notes: %v", a.Notes)
+	}
+
+	conds := ductConditions(ref)
+	conds[0].Values[0].Number[0] = 0.99 * ref.TotalPressure     // 1 %: no note
+	conds[0].Values[1].Number[0] = 1.015 * ref.TotalTemperature // 1.5 %: no note
+	if a, err = Assign(m, Setup{Reference: ref, Conditions: conds}); err != nil || len(a.Notes) != 0 {
+		t.Errorf("within 2 %%: notes %v, error %v", a.Notes, err)
+	}
+
+	conds[0].Values[0].Number[0] = 0.95 * ref.TotalPressure
+	conds[0].Values[1].Number[0] = 1.5 * ref.TotalTemperature
+	a, err = Assign(m, Setup{Reference: ref, Conditions: conds})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := notesOn(a, "inlet")
+	if len(got) != 1 || a.Notes[0].Where != "case.yaml:10:5" {
+		t.Fatalf("notes %+v", a.Notes)
+	}
+	// The reference: M 0.3 at sea level of the standard atmosphere, p =
+	// 101325 Pa, T = 288.15 K, so p0 = p (1 + 0.2 · 0.3²)^3.5 = 107853 Pa
+	// and T0 = T (1 + 0.2 · 0.3²) = 293.337 K (isentropic, γ = 1.4).
+	mach := isentropicMach(1.4, 0.95*ref.TotalPressure/101325)
+	for _, want := range []string{
+		fmt.Sprintf("total pressure %.6g Pa", 0.95*ref.TotalPressure), "-5 %", "reference total pressure 107853 Pa",
+		fmt.Sprintf("total temperature %.6g K", 1.5*ref.TotalTemperature), "+50 %", "reference total temperature 293.337 K",
+		"static pressure 101325 Pa", fmt.Sprintf("M = %.4g", mach), "reference Mach number is 0.3",
+	} {
+		if !strings.Contains(got[0], want) {
+			t.Errorf("note lacks %q:\n%s", want, got[0])
+		}
+	}
+	// By hand: 0.95 · 1.064430 = 1.011209, ^(2/7) = 1.003190, M = √(5 ·
+	// 0.003190) = 0.1263.
+	if !near(mach, 0.1263, 1e-3) {
+		t.Errorf("M from 95 %% of the total pressure is %g; by hand 0.1263", mach)
+	}
+}
+
+// A subsonic kind under a supersonic reference state, and a supersonic
+// inflow under a subsonic one, are noted, with the reference Mach number.
+func TestAssignNotesRegimeAgainstReference(t *testing.T) {
+	m := channel(t, 6, 3, 3, 1, 0, ductTags)
+	// M = 2 at 101325 Pa, 288.15 K; the inlet fed at M 0.3's total
+	// pressure, p0/p = (1 + 0.2 · 0.3²)^3.5 (isentropic, γ = 1.4, NACA
+	// Report 1135), is subsonic.
+	sup, err := StateFromMach(Air, 2, 101325, 288.15)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sub := seaLevel(t)
+	conds := ductConditions(sub)
+	conds[0].Values[0].Number[0] = 101325 * math.Pow(1+0.2*0.09, 3.5)
+	conds[0].Values[1].Number[0] = sup.TotalTemperature
+	a, err := Assign(m, Setup{Reference: &sup, Conditions: conds})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tag := range []string{"inlet", "outlet"} {
+		got := strings.Join(notesOn(a, tag), "\n")
+		if !strings.Contains(got, "for subsonic flow at the boundary, but the reference Mach number is 2 (supersonic)") {
+			t.Errorf("%s: notes %q", tag, got)
+		}
+	}
+	if got := strings.Join(notesOn(a, "outlet"), ""); !strings.Contains(got, "use outflow-supersonic") {
+		t.Errorf("outlet note %q does not name the supersonic outflow", got)
+	}
+	if got := strings.Join(notesOn(a, "inlet"), "\n"); !strings.Contains(got, "M = 0.3,") {
+		t.Errorf("inlet notes %q lack its own Mach number", got)
+	}
+
+	conds = ductConditions(sub)
+	conds[0] = Condition{Tag: "inlet", Kind: InflowSupersonic, Where: "s:1:1", Values: []Value{
+		scalar(KeyMach, 2, ""), scalar(KeyPressure, 1e5, ""), scalar(KeyTemperature, 300, ""), vector(KeyDirection, 1, 0, "")}}
+	a, err = Assign(m, Setup{Reference: sub, Conditions: conds})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(a.Notes) != 1 || a.Notes[0].Tag != "inlet" || !strings.Contains(a.Notes[0].Text, "supersonic inflow, but the reference Mach number is 0.3 (subsonic)") {
+		t.Errorf("notes %+v", a.Notes)
+	}
+	if s := a.Notes[0].String(); !strings.HasPrefix(s, `s:1:1: boundary tag "inlet": `) {
+		t.Errorf("note string %q", s)
+	}
+}
+
+// A periodic pair may be declared from both sides: the same pair with
+// opposite translations is one pairing, each tag keeping its own place;
+// declarations that disagree are refused with what disagrees, never as a
+// tag with two conditions.
+func TestAssignPeriodicDeclaredTwice(t *testing.T) {
+	ref := seaLevel(t)
+	pair := func(up, down float64) []Condition {
+		c := ductConditions(ref)[:2]
+		return append(c,
+			Condition{Tag: "wall", Kind: Periodic, Partner: "top", Where: "p:1:1", Values: []Value{vector(KeyTranslation, 0, up, "p:1:40")}},
+			Condition{Tag: "top", Kind: Periodic, Partner: "wall", Where: "p:2:1", Values: []Value{vector(KeyTranslation, 0, down, "p:2:40")}})
+	}
+	m := channel(t, 6, 3, 3, 1, 0, ductTags)
+	a, err := Assign(m, Setup{Reference: ref, Conditions: pair(1, -1)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(a.Periodic) != 1 || len(a.Periodic[0].Pairs) != 6 {
+		t.Fatalf("pairings %+v", a.Periodic)
+	}
+	if w, top := a.Conditions[0], a.Conditions[2]; w.Where != "p:1:1" || top.Where != "p:2:1" || top.Partner != "wall" || w.Partner != "top" {
+		t.Errorf("wall %+v\ntop %+v", w, top)
+	}
+
+	// The default tolerance is 1e-6 times the shortest face, 0.5 m:
+	// 5e-7 m. Translations 1e-7 m from opposite agree; 0.1 m do not.
+	if _, err := Assign(m, Setup{Reference: ref, Conditions: pair(1, -1-1e-7)}); err != nil {
+		t.Errorf("1e-7 m off opposite, within 5e-7 m: %v", err)
+	}
+	_, err = Assign(m, Setup{Reference: ref, Conditions: pair(1, -1.1)})
+	expectOne(t, err, "top", "p:2:40", `declares the periodic pair with "wall" that "wall" declares too (at p:1:1)`,
+		"not opposite: (0, -1.1) m here, (0, 1) m there", "0.1 m apart", "one side is enough")
+	for _, e := range errorList(t, err) {
+		if strings.Contains(e.Msg, "two conditions") {
+			t.Errorf("a mutual declaration is reported as two conditions: %v", e)
+		}
+	}
+	if n := len(errorList(t, err)); n != 1 {
+		t.Errorf("want one error, got %d:\n%v", n, err)
+	}
+
+	// Tolerances given on both sides must agree.
+	c := pair(1, -1)
+	c[2].Values = append(c[2].Values, scalar(KeyTolerance, 1e-3, "p:1:60"))
+	c[3].Values = append(c[3].Values, scalar(KeyTolerance, 2e-3, "p:2:60"))
+	_, err = Assign(m, Setup{Reference: ref, Conditions: c})
+	expectOne(t, err, "top", "p:2:60", "tolerances disagree: 0.002 m here, 0.001 m there", "one side is enough")
+
+	// A tolerance on the second side only applies to the pairing: the
+	// north row sheared by 1e-4 of a cell (5e-5 m) fails the default
+	// tolerance (5e-7 m) and passes 1e-4 m.
+	sheared := channel(t, 6, 3, 3, 1, 1e-4, ductTags)
+	if _, err := Assign(sheared, Setup{Reference: ref, Conditions: pair(1, -1)}); err == nil {
+		t.Fatal("a shear of 5e-5 m passes the default tolerance")
+	}
+	c = pair(1, -1)
+	c[3].Values = append(c[3].Values, scalar(KeyTolerance, 1e-4, "p:2:60"))
+	a, err = Assign(sheared, Setup{Reference: ref, Conditions: c})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if mm := a.Periodic[0].MaxMismatch; !near(mm, 5e-5, 1e-9) {
+		t.Errorf("largest mismatch %g m, want the shear 5e-5 m", mm)
+	}
+	// A bad value on the second side is reported there, once.
+	c = pair(1, -1)
+	c[3].Values = append(c[3].Values, scalar(KeyTolerance, -1, "p:2:60"))
+	_, err = Assign(m, Setup{Reference: ref, Conditions: c})
+	expectOne(t, err, "top", "p:2:1", "tolerance = -1 m is not physical")
+	if n := len(errorList(t, err)); n != 1 {
+		t.Errorf("want one error, got %d:\n%v", n, err)
 	}
 }

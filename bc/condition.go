@@ -39,7 +39,30 @@ type Setup struct {
 	Reference *State
 	// ReferenceWhere is the case-file place of the reference state.
 	ReferenceWhere string
+	// Direction is the free stream's unit flow direction, the reference
+	// state's flow angle α as (cos α, sin α); the zero value means +x,
+	// (1, 0), as for α = 0. A farfield takes it as its direction, as given.
+	// Any other vector whose length is not 1 within 1e-12 is an input
+	// error.
+	Direction orb.Point
+	// DirectionWhere is the case-file place of the flow angle, for errors;
+	// empty when the case gives none (α = 0 by default).
+	DirectionWhere string
 	Conditions     []Condition
+}
+
+// Note is a remark on a valid assignment that the user should read but that
+// does not stop the run, such as a boundary state far from the reference
+// state: the case may intend it. Where and Tag are as in Error.
+type Note struct {
+	Where string
+	Tag   string
+	Text  string
+}
+
+// String formats the note as "where: boundary tag "t": text", as Error does.
+func (n Note) String() string {
+	return (&Error{Where: n.Where, Tag: n.Tag, Msg: n.Text}).Error()
 }
 
 // Resolved is a validated condition on one boundary tag, with its face
@@ -54,7 +77,8 @@ type Resolved struct {
 	// kind's keys (vectors are in Direction, Velocity, Translation).
 	Values []Entry
 	// Direction is the unit flow direction for inflow-total,
-	// inflow-supersonic, inflow-velocity and farfield; zero otherwise.
+	// inflow-supersonic, inflow-velocity and farfield (the reference flow
+	// direction, Setup.Direction); zero otherwise.
 	Direction orb.Point
 	// Velocity is the velocity vector of an inflow-velocity, m/s.
 	Velocity orb.Point
@@ -89,8 +113,14 @@ func (r Resolved) Value(key string) (float64, bool) {
 type Assignment struct {
 	Gas       Gas
 	Reference *State
+	// Direction is the free stream's unit flow direction (Setup.Direction;
+	// (1, 0) when the setup gives none).
+	Direction orb.Point
 	// Conditions[t] is the condition of mesh tag t (m.Tags[t]).
 	Conditions []Resolved
 	// Periodic lists the verified periodic pairings in case-file order.
 	Periodic []PeriodicMatch
+	// Notes are the remarks on boundary states against the reference state
+	// (see Assign), in mesh tag order.
+	Notes []Note
 }

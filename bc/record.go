@@ -8,6 +8,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
+	"github.com/paulmach/orb"
 	"gopkg.in/yaml.v3"
 )
 
@@ -151,17 +152,41 @@ type BoundaryRecord struct {
 	Partner   string  `yaml:"partner,omitempty"`
 	Where     string  `yaml:"where,omitempty"`
 	Values    Entries `yaml:"values,omitempty"`
+	// Notes are the remarks on this tag's state against the reference
+	// state (Assignment.Notes), without the case-file place, which is
+	// Where.
+	Notes []string `yaml:"notes,omitempty"`
 }
 
 // Record returns the assignment as it goes into deck.yaml: the gas, the
 // reference state (if any) and one entry per tag in mesh tag order, with
 // the condition's values, its flow direction or velocity, the Mach number
-// it implies, and for a periodic pair the number of paired faces and the
-// largest mismatch.
+// it implies, for a periodic pair the number of paired faces and the
+// largest mismatch, and the tag's notes.
+//
+// The reference state carries, after its speed, the free stream's
+// direction: flow_angle α (degrees from +x) and the velocity components
+// velocity_x = V cos α, velocity_y = V sin α. α is computed from the unit
+// direction as atan2 and rounded to 15 significant digits, within which
+// atan2(sin α, cos α) gives α back, so that an angle the case gives as 4
+// reads 4, not 3.9999999999999996.
 func (a *Assignment) Record() Record {
 	rec := Record{Gas: a.Gas.Entries(), Boundaries: make([]BoundaryRecord, 0, len(a.Conditions))}
 	if a.Reference != nil {
-		rec.Reference = a.Reference.Entries()
+		dir := a.Direction
+		if dir == (orb.Point{}) {
+			dir = orb.Point{1, 0}
+		}
+		angle, _ := strconv.ParseFloat(strconv.FormatFloat(degrees(dir), 'g', 15, 64), 64)
+		v := a.Reference.Velocity
+		for _, e := range a.Reference.Entries() {
+			rec.Reference = append(rec.Reference, e)
+			if e.Key == "velocity" {
+				// + 0 writes a negative zero as 0.
+				rec.Reference = append(rec.Reference, Entry{"flow_angle", angle + 0, "deg"},
+					Entry{"velocity_x", v * dir[0], "m/s"}, Entry{"velocity_y", v*dir[1] + 0, "m/s"})
+			}
+		}
 	}
 	for _, r := range a.Conditions {
 		br := BoundaryRecord{Tag: r.Tag, Kind: r.Kind.String(), CGNSType: r.Kind.CGNSType(),
@@ -179,6 +204,11 @@ func (a *Assignment) Record() Record {
 		if r.Periodic >= 0 {
 			pm := a.Periodic[r.Periodic]
 			br.Values = append(br.Values, Entry{"paired_faces", float64(len(pm.Pairs)), "1"}, Entry{"max_mismatch", pm.MaxMismatch, "m"})
+		}
+		for _, n := range a.Notes {
+			if n.Tag == r.Tag {
+				br.Notes = append(br.Notes, n.Text)
+			}
 		}
 		rec.Boundaries = append(rec.Boundaries, br)
 	}

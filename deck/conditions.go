@@ -116,6 +116,10 @@ type referenceSpec struct {
 	state bc.State
 	// angle is the free-stream flow angle from +x, radians.
 	angle float64
+	// angleAt is the case-file place of the angle ("" when the case gives
+	// none, and the angle is 0), for the errors of a farfield direction
+	// that disagrees with it.
+	angleAt string
 	// length is the reference length for the Reynolds number, metres (0:
 	// none given).
 	length float64
@@ -259,6 +263,7 @@ func decodeReference(v value) (*referenceSpec, error) {
 			return nil, err
 		}
 		r.angle = deg * math.Pi / 180
+		r.angleAt = av.where()
 	}
 	if lv, ok := o.get("length"); ok {
 		if r.length, err = lv.positiveLength(); err != nil {
