@@ -101,21 +101,60 @@ const (
 
 // Atmosphere is the static state of the standard atmosphere at an altitude.
 type Atmosphere struct {
-	Temperature float64 // K
-	Pressure    float64 // Pa
-	Density     float64 // kg/m³
+	// Temperature is the kinetic temperature T = T_M (M/M0), K: the
+	// temperature of the gas, which its viscosity follows.
+	Temperature float64
+	// MolecularTemperature is the molecular-scale temperature T_M, K, in
+	// which the standard defines its layers, pressure, density and speed
+	// of sound. It equals Temperature up to 80 km geometric, where the
+	// mean molar mass M of air is still its sea-level value M0.
+	MolecularTemperature float64
+	Pressure             float64 // Pa
+	Density              float64 // ρ = p/(R T_M) with R = R*/M0, kg/m³
+}
+
+// atmMolarMassRatio is M/M0, the mean molar mass of air over its sea-level
+// value, of the U.S. Standard Atmosphere 1976 (NOAA-S/T 76-1562, Table 8;
+// from memory) from 80 km geometric altitude, where it is 1, to 86 km,
+// every 0.5 km. Below 80 km M/M0 = 1. Molecular oxygen dissociates above
+// 80 km (from memory); up to 86 km the standard accounts for it by this
+// ratio alone.
+var atmMolarMassRatio = [...]float64{
+	1.000000, 0.999996, 0.999989, 0.999971, 0.999941, 0.999909, 0.999870,
+	0.999829, 0.999786, 0.999741, 0.999694, 0.999641, 0.999579,
+}
+
+// molarMassRatio returns M/M0 at geometric altitude z (m) by linear
+// interpolation in Table 8 (cvdeck's choice; the rows step by at most
+// 6.2e-5, and their second differences are below 1e-5, so the
+// interpolation error is below 2e-6 of T). It is 1 at and below 80 km.
+func molarMassRatio(z float64) float64 {
+	const z0, dz = 80000.0, 500.0
+	if z <= z0 {
+		return 1
+	}
+	u := (z - z0) / dz
+	i := min(int(u), len(atmMolarMassRatio)-2)
+	f := u - float64(i)
+	return atmMolarMassRatio[i] + f*(atmMolarMassRatio[i+1]-atmMolarMassRatio[i])
 }
 
 // StandardAtmosphere returns the temperature, pressure and density of the
 // U.S. Standard Atmosphere 1976 at altitude a, from −5 km to 86 km
-// geometric. Within a layer of base H_b, T_b, p_b and lapse rate L,
+// geometric. Within a layer of base H_b, T_b, p_b and lapse rate L, the
+// molecular-scale temperature T_M and the pressure are
 //
-//	T = T_b + L (H − H_b)
-//	p = p_b (T_b/T)^(g0/(R L))     for L ≠ 0
+//	T_M = T_b + L (H − H_b)
+//	p = p_b (T_b/T_M)^(g0/(R L))     for L ≠ 0
 //	p = p_b exp(−g0 (H − H_b)/(R T_b))  for L = 0
 //
-// with the base values built up from the sea-level state, and ρ = p/(R T)
-// (U.S. Standard Atmosphere 1976, NOAA-S/T 76-1562).
+// with the base values built up from the sea-level state, ρ = p/(R T_M)
+// with R = R*/M0, and the kinetic temperature T = T_M (M/M0), M/M0 from
+// the standard's Table 8 above 80 km geometric (U.S. Standard Atmosphere
+// 1976, NOAA-S/T 76-1562). The standard defines the hydrostatic pressure,
+// the density and the speed of sound a = √(γ R* T_M/M0) in T_M and M0,
+// which is the same as in T and the local M; only T (and the viscosity,
+// which the standard computes from T) differ from T_M, by 4.2e-4 at most.
 func StandardAtmosphere(a Altitude) (Atmosphere, error) {
 	if math.IsNaN(a.Metres) || math.IsInf(a.Metres, 0) {
 		return Atmosphere{}, fmt.Errorf("altitude %g m is not a number: %w", a.Metres, ErrInput)
@@ -139,7 +178,7 @@ func StandardAtmosphere(a Altitude) (Atmosphere, error) {
 			break
 		}
 	}
-	return Atmosphere{Temperature: t, Pressure: p, Density: p / (atmR * t)}, nil
+	return Atmosphere{Temperature: t * molarMassRatio(a.Geometric()), MolecularTemperature: t, Pressure: p, Density: p / (atmR * t)}, nil
 }
 
 // atmStep carries temperature and pressure through dh metres of

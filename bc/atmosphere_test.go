@@ -68,3 +68,63 @@ func TestStandardAtmosphereRange(t *testing.T) {
 		t.Errorf("-5 km: %g K", a.Temperature)
 	}
 }
+
+// Above 80 km the standard's kinetic temperature is T = T_M (M/M0), with
+// M/M0 from its Table 8 (U.S. Standard Atmosphere 1976, from memory:
+// 0.999870 at 83 km, 0.999579 at 86 km); T_M is the linear layer's from
+// 71 km geopotential (−2 K/km, Table 4). Table I at 86 km gives T =
+// 186.87 K, T_M = 186.946 K, p = 0.37338 Pa, ρ = 6.958e-6 kg/m³ and
+// a = 274.10 m/s (from memory): pressure, density and the speed of sound
+// follow T_M and M0, as the standard defines them, and the viscosity
+// follows T. At 80 km and below T = T_M.
+func TestStandardAtmosphereKineticTemperature(t *testing.T) {
+	for _, c := range []struct {
+		z, ratio float64
+	}{{79000, 1}, {80000, 1}, {83000, 0.999870}, {86000, 0.999579}} {
+		a, err := StandardAtmosphere(Altitude{c.z, Geometric})
+		if err != nil {
+			t.Fatal(err)
+		}
+		h := Altitude{c.z, Geometric}.Geopotential()
+		tm := 214.65 - 0.002*(h-71000)
+		if !near(a.MolecularTemperature, tm, 1e-12) || !near(a.Temperature, tm*c.ratio, 1e-9) {
+			t.Errorf("%g m: T %.6f K, T_M %.6f K; want T_M %.6f K, T %.6f K (M/M0 %g)", c.z, a.Temperature, a.MolecularTemperature, tm, tm*c.ratio, c.ratio)
+		}
+	}
+	a, err := StandardAtmosphere(Altitude{86000, Geometric})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name      string
+		got, want float64
+		tol       float64
+	}{
+		{"T", a.Temperature, 186.87, 3e-5}, {"T_M", a.MolecularTemperature, 186.946, 3e-6},
+		{"p", a.Pressure, 0.37338, 1.4e-5}, {"rho", a.Density, 6.958e-6, 8e-5},
+	} {
+		if !near(c.got, c.want, c.tol) {
+			t.Errorf("86 km %s = %.6g, Table I %g", c.name, c.got, c.want)
+		}
+	}
+	s, err := StateFromAltitude(Air, Altitude{86000, Geometric}, 2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !near(s.Temperature, a.Temperature, 1e-15) || !near(s.SpeedOfSound, 274.10, 2e-5) ||
+		!near(s.Density, s.Pressure/(Air.R*a.MolecularTemperature), 1e-15) || !near(s.Viscosity, AirSutherland.Viscosity(a.Temperature), 1e-15) {
+		t.Errorf("86 km state: T %.6g K, a %.6g m/s (Table I 274.10), rho %.6g, mu %.6g", s.Temperature, s.SpeedOfSound, s.Density, s.Viscosity)
+	}
+	// T0/T = 1 + 0.2 M² holds for the kinetic temperature, and a normal
+	// shock keeps the composition: behind it ρ = p/(R T_M) still.
+	if !near(s.TotalTemperature, 1.8*s.Temperature, 1e-15) {
+		t.Errorf("T0 %g, T %g", s.TotalTemperature, s.Temperature)
+	}
+	post, err := s.PostNormalShock()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := post.Pressure * 0.999579 / (Air.R * post.Temperature); !near(post.Density, want, 1e-12) || !near(post.Temperature, 1.6875*s.Temperature, 6e-5) {
+		t.Errorf("behind the shock at 86 km: rho %g (want %g), T %g (NACA 1135: 1.6875 T1)", post.Density, want, post.Temperature)
+	}
+}

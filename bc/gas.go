@@ -23,6 +23,74 @@ type Gas struct {
 // standard atmosphere (from memory), with White's Sutherland constants.
 var Air = Gas{Gamma: 1.4, R: 287.05287, Sutherland: AirSutherland}
 
+// Where a calorically perfect ideal gas of γ = 1.4 stops describing air,
+// at about atmospheric pressure, in K; and the largest γ of an ideal gas.
+const (
+	// airVibration: above about 800 K the vibration of air's nitrogen and
+	// oxygen molecules is excited, so that cp grows and γ falls below
+	// 1.4: 1.354 at 800 K against 1.400 at 300 K (Y. A. Çengel and M. A.
+	// Boles, Thermodynamics: An Engineering Approach, table of the
+	// ideal-gas specific heats of air; from memory). J. D. Anderson,
+	// Modern Compressible Flow, also puts the onset near 800 K (from
+	// memory).
+	airVibration = 800.0
+	// airDissociation: above about 2000 K oxygen begins to dissociate,
+	// and nitrogen above about 4000 K (Anderson, Modern Compressible
+	// Flow; from memory): air is then a reacting mixture whose R changes
+	// as well as its γ.
+	airDissociation = 2000.0
+	// monatomicGamma is 5/3, the γ of a monatomic ideal gas and the
+	// largest of any ideal gas: γ = 1 + 2/f for a molecule of f ≥ 3
+	// degrees of freedom, the three of translation being always there
+	// (common practice).
+	monatomicGamma = 5.0 / 3
+)
+
+// isAir reports whether the gas is Air's γ and R.
+func (g Gas) isAir() bool { return g.Gamma == Air.Gamma && g.R == Air.R }
+
+// Notes returns a remark when the gas cannot be an ideal gas as given:
+// a γ above 5/3, more than any ideal gas has; 1.67, 5/3 as it is often
+// written, passes. Such a γ is allowed (a model gas of a numerical test
+// may want it); the note says what it is.
+func (g Gas) Notes() []string {
+	if g.Gamma > max(monatomicGamma, 1.67) {
+		return []string{fmt.Sprintf("gas model: gamma = %g is above 5/3, the value of a monatomic gas: an ideal gas has gamma = 1 + 2/f with f >= 3 degrees of freedom of its molecules (common practice), so no real gas has this one, and the state is that of a model gas", g.Gamma)}
+	}
+	return nil
+}
+
+// airModelTier is 0 below airVibration, 1 from it to airDissociation, 2
+// above.
+func airModelTier(t float64) int {
+	switch {
+	case t > airDissociation:
+		return 2
+	case t > airVibration:
+		return 1
+	}
+	return 0
+}
+
+// airModelNote returns a note when the gas is air and the temperature t
+// (K) of what (such as "the total temperature") is where air's constant γ
+// = 1.4 stops holding, with the consequence, or "" when there is nothing
+// to say.
+func airModelNote(g Gas, what string, t float64, consequence string) string {
+	if !g.isAir() {
+		return ""
+	}
+	switch airModelTier(t) {
+	case 2:
+		return fmt.Sprintf("gas model: %s, %.4g K, is above about %g K, where air's oxygen begins to dissociate (its nitrogen above about 4000 K; Anderson, Modern Compressible Flow, from memory): air is then a reacting mixture, and neither gamma = 1.4 nor R = %g J/(kg K) holds; %s",
+			what, t, airDissociation, Air.R, consequence)
+	case 1:
+		return fmt.Sprintf("gas model: %s, %.4g K, is above about %g K, where the vibration of air's molecules raises cp and gamma falls below 1.4 (1.354 at 800 K; Cengel and Boles, Thermodynamics, from memory); %s",
+			what, t, airVibration, consequence)
+	}
+	return ""
+}
+
 // ViscosityLaw returns the gas's Sutherland constants, air's when none
 // were given.
 func (g Gas) ViscosityLaw() Sutherland {

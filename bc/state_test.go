@@ -3,6 +3,7 @@ package bc
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -70,6 +71,56 @@ func TestStateBadInput(t *testing.T) {
 	} {
 		if _, err := f(); !errors.Is(err, ErrInput) {
 			t.Errorf("%s: accepted (%v)", name, err)
+		}
+	}
+}
+
+// The state's notes, at the thresholds its doc names: air's Sutherland
+// range 170-1900 K (White, Viscous Fluid Flow; from memory), air's
+// vibration onset near 800 K and oxygen's dissociation near 2000 K
+// (Anderson, Modern Compressible Flow; from memory), γ above the
+// monatomic 5/3 (common practice). The temperatures are set just either
+// side of each threshold; the total temperature is T (1 + 0.2 M²).
+func TestStateNotes(t *testing.T) {
+	for _, c := range []struct {
+		name    string
+		g       Gas
+		mach, T float64
+		wants   []string
+	}{
+		{"sea level", Air, 0.8, 288.15, nil},
+		{"171 K", Air, 0, 171, nil},
+		{"169 K", Air, 0, 169, []string{"static temperature, 169 K, is below 170 K"}},
+		{"0.5 K", Air, 0.5, 0.5, []string{"static temperature, 0.5 K, is below 170 K"}},
+		{"799 K", Air, 0, 799, nil},
+		{"801 K", Air, 0, 801, []string{"static temperature, 801 K, is above about 800 K", "vibration"}},
+		{"M 4 at 216.65 K", Air, 4, 216.65, []string{"total temperature, 909.9 K, is above about 800 K"}},
+		{"M 8 at 226.5 K", Air, 8, 226.5, []string{"total temperature, 3126 K, is above 1900 K", "total temperature, 3126 K, is above about 2000 K", "dissociate"}},
+		{"2001 K", Air, 0, 2001, []string{"static temperature, 2001 K, is above about 2000 K", "static temperature, 2001 K, is above 1900 K"}},
+		{"1901 K", Air, 0, 1901, []string{"static temperature, 1901 K, is above 1900 K", "above about 800 K"}},
+		{"gamma 3", Gas{Gamma: 3, R: 287}, 0.5, 300, []string{"gamma = 3 is above 5/3"}},
+		{"gamma 5/3", Gas{Gamma: 5.0 / 3, R: 2077.1}, 0.5, 300, nil},
+		{"gamma 1.67", Gas{Gamma: 1.67, R: 2077.1}, 0.5, 300, nil},
+		{"gamma 1.68", Gas{Gamma: 1.68, R: 2077.1}, 0.5, 300, []string{"gamma = 1.68 is above 5/3"}},
+		// Another gas with its own viscosity law: neither air's range nor
+		// its γ apply.
+		{"own law", Gas{Gamma: 1.3, R: 188.9, Sutherland: Sutherland{MuRef: 1.37e-5, TRef: 273, S: 222}}, 0, 2500, nil},
+	} {
+		s, err := StateFromMach(c.g, c.mach, 1e5, c.T)
+		if err != nil {
+			t.Fatal(err)
+		}
+		notes := s.Notes()
+		// Each wanted phrase is in a note of its own, except that one
+		// note may hold two phrases (a place and its cause).
+		if n := len(notes); (len(c.wants) == 0) != (n == 0) || n > len(c.wants) {
+			t.Errorf("%s: notes %q", c.name, notes)
+		}
+		all := strings.Join(notes, "\n")
+		for _, want := range c.wants {
+			if !strings.Contains(all, want) {
+				t.Errorf("%s: no %q in %q", c.name, want, notes)
+			}
 		}
 	}
 }

@@ -22,6 +22,29 @@ type Sutherland struct {
 // 2 % from 170 K to 1900 K (from memory).
 var AirSutherland = Sutherland{MuRef: 1.716e-5, TRef: 273.15, S: 110.4}
 
+// The range of temperatures, K, over which White quotes Sutherland's law
+// with air's constants as within about 2 % (see AirSutherland).
+const (
+	airSutherlandMin = 170.0
+	airSutherlandMax = 1900.0
+)
+
+// sutherlandNote returns a note when the gas's viscosity is air's
+// Sutherland law and the temperature t (K) of what (such as "the static
+// temperature") is outside the law's range, with the consequence, or ""
+// when there is nothing to say.
+func sutherlandNote(g Gas, what string, t float64, consequence string) string {
+	if g.ViscosityLaw() != AirSutherland || (t >= airSutherlandMin && t <= airSutherlandMax) {
+		return ""
+	}
+	side := fmt.Sprintf("below %g K, the bottom", airSutherlandMin)
+	if t > airSutherlandMax {
+		side = fmt.Sprintf("above %g K, the top", airSutherlandMax)
+	}
+	return fmt.Sprintf("viscosity: %s, %.4g K, is %s of the range %g-%g K in which Sutherland's law with air's constants is within about 2 %% (White, Viscous Fluid Flow; from memory): %s",
+		what, t, side, airSutherlandMin, airSutherlandMax, consequence)
+}
+
 // Viscosity is the dynamic viscosity μ(T) in Pa·s by the law above.
 func (s Sutherland) Viscosity(t float64) float64 {
 	return s.MuRef * math.Pow(t/s.TRef, 1.5) * (s.TRef + s.S) / (t + s.S)

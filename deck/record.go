@@ -59,6 +59,15 @@ func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *q
 	if c.Reference != nil && c.Reference.gas.BorrowsAirViscosity() {
 		man.Mesh.Notes = append(man.Mesh.Notes, fmt.Sprintf("the gas (gamma %g, R %g J/(kg K)) has no viscosity law of its own, so air's Sutherland constants (%s) give its viscosity, Reynolds number and first-cell heights; give reference.gas.sutherland for this gas", c.Reference.gas.Gamma, c.Reference.gas.R, bc.AirSutherland))
 	}
+	if c.Reference != nil {
+		// Where the reference state stretches the gas models (bc.State.Notes).
+		man.Mesh.Notes = append(man.Mesh.Notes, c.Reference.state.Notes()...)
+	}
+	if len(walls) > 0 {
+		for _, n := range walls[0].TargetNotes {
+			man.Mesh.Notes = append(man.Mesh.Notes, "first-cell height advice: "+n)
+		}
+	}
 	man.Advice = c.advice(m)
 	man.Checks = checkSummary(rep)
 	return man

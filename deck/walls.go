@@ -16,6 +16,12 @@ type WallResolution struct {
 	// first-cell height advised for it (mesh_advice); 0 when the case
 	// sets no target.
 	TargetYplus, TargetHeight float64
+	// TargetNotes are the advice's remarks on that height
+	// (bc.WallSpacing.Notes: a laminar station, a Reynolds number past
+	// the correlation's range, a wall past air's Sutherland range), the
+	// same on every wall since the advice is made at the reference
+	// length; nil when the case sets no target.
+	TargetNotes []string
 	// Yplus spreads TargetYplus × h / TargetHeight over the heights h. In
 	// the viscous sublayer y+ = y u_τ / ν grows in proportion to the wall
 	// distance y (common practice), and u_τ is the flat-plate estimate's
@@ -30,14 +36,15 @@ func (c *Case) wallResolution(rep *quality.Report, assign *bc.Assignment) []Wall
 	if assign == nil {
 		return nil
 	}
-	yplus, target := c.targetHeight()
+	yplus, ws := c.targetSpacing()
+	target := ws.Height
 	var out []WallResolution
 	for t, cond := range assign.Conditions {
 		if !cond.Kind.FrictionWall() || t >= len(rep.Boundary) || rep.Boundary[t].Faces == 0 {
 			continue
 		}
 		h := rep.Boundary[t].FirstCellHeight
-		w := WallResolution{Tag: cond.Tag, Height: h, TargetYplus: yplus, TargetHeight: target}
+		w := WallResolution{Tag: cond.Tag, Height: h, TargetYplus: yplus, TargetHeight: target, TargetNotes: ws.Notes}
 		if target > 0 {
 			k := quality.Number(yplus / target)
 			w.Yplus = quality.Spread{Min: h.Min * k, Mean: h.Mean * k, Max: h.Max * k}
@@ -51,15 +58,23 @@ func (c *Case) wallResolution(rep *quality.Report, assign *bc.Assignment) []Wall
 // advised for it (bc.FirstCellHeight at the reference length), both 0 when
 // the case sets no target or the estimate cannot be made.
 func (c *Case) targetHeight() (yplus, height float64) {
+	yplus, ws := c.targetSpacing()
+	return yplus, ws.Height
+}
+
+// targetSpacing returns the case's target y+ and the advice for it
+// (bc.FirstCellHeight at the reference length), zero when the case sets
+// no target or the estimate cannot be made.
+func (c *Case) targetSpacing() (float64, bc.WallSpacing) {
 	r := c.Reference
 	if r == nil || r.yplus <= 0 {
-		return 0, 0
+		return 0, bc.WallSpacing{}
 	}
 	ws, err := bc.FirstCellHeight(r.state, r.length, r.yplus)
 	if err != nil {
-		return 0, 0
+		return 0, bc.WallSpacing{}
 	}
-	return r.yplus, ws.Height
+	return r.yplus, ws
 }
 
 // manifestSpread turns a report's spread into the manifest's, nil when it

@@ -32,7 +32,11 @@ pressure and temperature, density, speed of sound, velocity, dynamic pressure,
 viscosity (Sutherland's law: air's constants unless --sutherland gives the
 gas's) and Reynolds number per metre; with --length the
 Reynolds number over that length, with --yplus the first-cell height for that
-y+ at a distance --length from a flat plate's leading edge.
+y+ at a distance --length from the leading edge of an adiabatic flat plate
+(a first guess: turbulent skin friction at Eckert's reference temperature,
+y+ in wall units). Notes follow where a model is stretched: temperatures
+outside the range of air's Sutherland constants or of its constant gamma, a
+gamma above 5/3, a laminar or very long plate for the first-cell height.
 
 Give the state by one of:
   --mach M --altitude H [--altitude-kind geometric|geopotential]
@@ -148,6 +152,7 @@ func runState(cmd *cobra.Command, f stateFlags, out io.Writer) error {
 		}
 		entries = append(entries, bc.Entry{Key: "reynolds", Value: st.Reynolds(f.length), Unit: "1"})
 	}
+	var wall bc.WallSpacing
 	if set("yplus") {
 		if !set("length") {
 			return usage("--yplus needs --length, the distance from the leading edge at which y+ is wanted")
@@ -157,8 +162,12 @@ func runState(cmd *cobra.Command, f stateFlags, out io.Writer) error {
 			return fmt.Errorf("state: --yplus: %w", err)
 		}
 		entries = append(entries, bc.Entry{Key: "first_cell_height", Value: w.Height, Unit: "m"},
-			bc.Entry{Key: "skin_friction", Value: w.SkinFriction, Unit: "1"})
+			bc.Entry{Key: "skin_friction", Value: w.SkinFriction, Unit: "1"},
+			bc.Entry{Key: "adiabatic_wall_temperature", Value: w.WallTemperature, Unit: "K"},
+			bc.Entry{Key: "eckert_reference_temperature", Value: w.ReferenceTemperature, Unit: "K"})
+		wall = w
 	}
+	notes := append(st.Notes(), wall.Notes...)
 	var shock bc.Entries
 	if f.normalShock {
 		post, err := st.PostNormalShock()
@@ -166,10 +175,13 @@ func runState(cmd *cobra.Command, f stateFlags, out io.Writer) error {
 			return fmt.Errorf("state: --normal-shock: %w", err)
 		}
 		shock = post.Entries()
+		for _, n := range post.Notes() {
+			notes = append(notes, "behind the normal shock: "+n)
+		}
 	}
 
 	if f.json {
-		return writeStateJSON(out, entries, shock)
+		return writeStateJSON(out, entries, shock, notes)
 	}
 	if globalFlag(cmd, "quiet") {
 		return nil
@@ -179,17 +191,25 @@ func runState(cmd *cobra.Command, f stateFlags, out io.Writer) error {
 		fmt.Fprintf(out, "\ndynamic_viscosity: this gas has no Sutherland constants of its own (--sutherland MU_REF,T_REF,S), so air's are used, and the Reynolds number and first-cell height follow from them\n")
 	}
 	if set("yplus") {
-		fmt.Fprintf(out, "\nfirst_cell_height: y+ = %g at x = %g m, turbulent flat plate, Schlichting's C_f = [2 log10(Re_x) - 0.65]^-2.3\n", f.yplus, f.length)
+		fmt.Fprintf(out, "\nfirst_cell_height: a first guess for y+ = %g at x = %g m on an adiabatic flat plate (wall at %.4g K): turbulent, Schlichting's C_f = [2 log10(Re_x) - 0.65]^-2.3 at Eckert's reference temperature %.4g K, y+ in wall units; the solution's own wall shear decides\n",
+			f.yplus, f.length, wall.WallTemperature, wall.ReferenceTemperature)
 	}
 	if shock != nil {
 		fmt.Fprintf(out, "\nBehind a normal shock\n\n%s", shock.Table())
 	}
+	if len(notes) > 0 {
+		fmt.Fprintf(out, "\nNotes\n\n")
+		for _, n := range notes {
+			fmt.Fprintf(out, "  %s\n", n)
+		}
+	}
 	return nil
 }
 
-// writeStateJSON prints one object: the entries, and the post-shock state
-// under "post_shock" when asked.
-func writeStateJSON(out io.Writer, entries, shock bc.Entries) error {
+// writeStateJSON prints one object: the entries, the post-shock state
+// under "post_shock" when asked, and the notes as a list of strings under
+// "notes" when there are any.
+func writeStateJSON(out io.Writer, entries, shock bc.Entries, notes []string) error {
 	b, err := json.Marshal(entries)
 	if err != nil {
 		return fmt.Errorf("state: %w", err)
@@ -200,6 +220,13 @@ func writeStateJSON(out io.Writer, entries, shock bc.Entries) error {
 			return fmt.Errorf("state: %w", err)
 		}
 		b = append(append(append(b[:len(b)-1], `,"post_shock":`...), s...), '}')
+	}
+	if len(notes) > 0 {
+		n, err := json.Marshal(notes)
+		if err != nil {
+			return fmt.Errorf("state: %w", err)
+		}
+		b = append(append(append(b[:len(b)-1], `,"notes":`...), n...), '}')
 	}
 	_, err = fmt.Fprintf(out, "%s\n", b)
 	return err

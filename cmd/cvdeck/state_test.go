@@ -147,3 +147,59 @@ func TestStateHeaderGivesTheOtherAltitude(t *testing.T) {
 		t.Errorf("header: %s", strings.SplitN(out, "\n", 2)[0])
 	}
 }
+
+// TestStateNotes: the models' limits are named, and nothing is refused.
+// At M 8 and 30 km the free stream's total temperature, 3126 K, and the
+// 3032 K behind the normal shock (T2/T1 = 13.39 at M 8, NACA Report 1135;
+// from memory) are past air's Sutherland range (170-1900 K, White; from
+// memory) and oxygen's dissociation near 2000 K (Anderson; from memory);
+// the adiabatic wall is at T (1 + 0.72^(1/3) · 0.2 · 64) (recovery factor
+// Pr^(1/3), common practice). 0.5 K and gamma 3 are noted; sea-level air
+// at M 0.8 over 2 m has nothing to note.
+func TestStateNotes(t *testing.T) {
+	out, err := runStateCmd(t, "--mach", "8", "--altitude", "30000", "--normal-shock", "--length", "1", "--yplus", "1", "--json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got struct {
+		T     float64            `json:"static_temperature"`
+		Taw   float64            `json:"adiabatic_wall_temperature"`
+		Post  map[string]float64 `json:"post_shock"`
+		Notes []string           `json:"notes"`
+	}
+	if err := json.Unmarshal([]byte(out), &got); err != nil {
+		t.Fatalf("%v in %s", err, out)
+	}
+	if want := got.T * (1 + math.Cbrt(0.72)*0.2*64); math.Abs(got.Taw/want-1) > 1e-12 {
+		t.Errorf("adiabatic wall %g K, want %g", got.Taw, want)
+	}
+	if tr := got.Post["static_temperature"] / got.T; math.Abs(tr/13.387-1) > 1e-4 {
+		t.Errorf("T2/T1 = %g, NACA 1135 13.387", tr)
+	}
+	all := strings.Join(got.Notes, "\n")
+	for _, want := range []string{"total temperature, 3126 K, is above 1900 K", "total temperature, 3126 K, is above about 2000 K",
+		"behind the normal shock: viscosity: the static temperature, 3032 K", "behind the normal shock: gas model: the static temperature, 3032 K",
+		"first-cell height: viscosity: the adiabatic wall temperature"} {
+		if !strings.Contains(all, want) {
+			t.Errorf("no %q in the notes:\n%s", want, all)
+		}
+	}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--mach", "0.5", "--pressure", "1e5", "--temperature", "0.5"}, "static temperature, 0.5 K, is below 170 K"},
+		{[]string{"--mach", "0.5", "--pressure", "1e5", "--temperature", "300", "--gamma", "3", "--gas-constant", "287"}, "gamma = 3 is above 5/3"},
+		{[]string{"--mach", "0.3", "--altitude", "30000", "--length", "1", "--yplus", "1"}, "it would be laminar there"},
+		{[]string{"--mach", "0.8", "--altitude", "0", "--length", "2", "--yplus", "1"}, ""},
+	} {
+		out, err := runStateCmd(t, c.args...)
+		if err != nil {
+			t.Errorf("%v: %v", c.args, err)
+			continue
+		}
+		if c.want == "" && strings.Contains(out, "Notes") || c.want != "" && !strings.Contains(out, "Notes\n\n  ") || !strings.Contains(out, c.want) {
+			t.Errorf("%v: want the note %q:\n%s", c.args, c.want, out)
+		}
+	}
+}
