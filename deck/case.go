@@ -97,7 +97,7 @@ type Case struct {
 
 	// Inputs are the files the case read (the case file first) and their
 	// SHA-256 hashes; InputHash hashes them together with the parameter
-	// values, the refinement factor and the cvdeck version, so that two
+	// values, the refinement factor and the cvdeck build, so that two
 	// runs with the same InputHash write the same deck.
 	Inputs    []InputFile
 	InputHash string
@@ -105,6 +105,11 @@ type Case struct {
 	// sketch is the sketch file when the case was made from one in memory
 	// (SketchCase), "" for a case file.
 	sketch string
+	// sizedByYplus is set once a wall spacing of the case has been read
+	// as a target y+ (wallHeight), which the turbulent flat-plate
+	// estimate turns into a height: the case is then meant for turbulent
+	// flow (see cgnsTurbulent).
+	sizedByYplus bool
 }
 
 // Family is a refinement family of one case (the refine section).

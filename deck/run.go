@@ -52,7 +52,10 @@ type Result struct {
 	Walls []WallResolution
 	// Notes are the deck manifest's notes on the mesh and the case (the
 	// smoothing's sweeps and residual, the boundary layers built, a case
-	// without boundary conditions), for the command line to print.
+	// without boundary conditions), then the boundary conditions' notes on
+	// their states against the reference state (bc.Assignment.Notes, each
+	// with its case-file place; deck.yaml keeps them with their tag), for
+	// the command line to print.
 	Notes []string
 }
 
@@ -108,6 +111,8 @@ func Run(c *Case, outDir string, opts RunOptions) (res *Result, err error) {
 			setup.Gas = c.Reference.gas
 			setup.Reference = &c.Reference.state
 			setup.ReferenceWhere = c.Reference.at.where()
+			setup.Direction = c.Reference.direction()
+			setup.DirectionWhere = c.Reference.angleAt
 		}
 		if assign, err = bc.Assign(m, setup); err != nil {
 			return nil, c.Boundaries.locate(err)
@@ -137,7 +142,12 @@ func Run(c *Case, outDir string, opts RunOptions) (res *Result, err error) {
 	}); err != nil {
 		return nil, fmt.Errorf("writing the deck: %w", err)
 	}
-	res = &Result{Case: c.Name, Dir: outDir, InputHash: c.InputHash, Mesh: m, Report: rep, Walls: walls, Notes: man.Mesh.Notes}
+	res = &Result{Case: c.Name, Dir: outDir, InputHash: c.InputHash, Mesh: m, Report: rep, Walls: walls, Notes: append([]string(nil), man.Mesh.Notes...)}
+	if assign != nil {
+		for _, n := range assign.Notes {
+			res.Notes = append(res.Notes, n.String())
+		}
+	}
 	if rep.Verdict == quality.Fail {
 		return res, &CheckFailure{Dir: outDir, Failed: rep.FailedCells}
 	}
@@ -205,7 +215,7 @@ func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *qu
 		})
 	}
 	if hasFormat(formats, "vtu") {
-		file("mesh.vtu", "vtk-xml-unstructured", func(w io.Writer) error { return vtk.WriteVTU(w, m, fields) })
+		file("mesh.vtu", "vtk-xml-unstructured", func(w io.Writer) error { return vtk.WriteVTU(w, m, vtuFields(rep)) })
 		file("boundary.vtp", "vtk-xml-polydata", func(w io.Writer) error { return vtk.WriteBoundaryVTP(w, m, conds) })
 	}
 	if hasFormat(formats, "vtk") {
@@ -275,9 +285,10 @@ func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *qu
 }
 
 // previewInput gathers what the preview pictures of the mesh called name
-// show: the mesh, the boundary coloured by condition (by tag when conds
-// is nil), cells by their worst status, and a histogram of each cell
-// metric with its limits.
+// show: the mesh, the boundary tags with their conditions (conds, nil
+// when there are none), cells by their worst status, and each cell metric
+// with its unit, the way it worsens, its limits and, where the report has
+// them, its values per face.
 func previewInput(name string, m *mesh.Mesh, conds []string, rep *quality.Report) preview.Input {
 	in := preview.Input{
 		Title:      fmt.Sprintf("%s: %d cells, checks %s", name, m.NumCells(), rep.Verdict),
@@ -310,8 +321,17 @@ func previewInput(name string, m *mesh.Mesh, conds []string, rep *quality.Report
 		if !ok || ms.Per != "cell" || len(vals) != m.NumCells() {
 			continue
 		}
-		in.Metrics = append(in.Metrics, preview.Metric{Name: ms.Name, Values: vals, Limits: []preview.Limit{
-			{Value: ms.Limit.Warn, Status: preview.Warn}, {Value: ms.Limit.Fail, Status: preview.Fail}}})
+		// Face values, where the cell value is its worst face's, let a
+		// zoom on a thin cell centre on that face.
+		var faceVals []float64
+		for _, f := range rep.FaceFields {
+			if f.Name == ms.Name && len(f.Values) == m.NumFaces() {
+				faceVals = f.Values
+			}
+		}
+		in.Metrics = append(in.Metrics, preview.Metric{Name: ms.Name, Unit: ms.Unit, Lower: ms.Worse == "lower",
+			Values: vals, FaceValues: faceVals, Limits: []preview.Limit{
+				{Value: ms.Limit.Warn, Status: preview.Warn}, {Value: ms.Limit.Fail, Status: preview.Fail}}})
 	}
 	return in
 }
@@ -368,6 +388,18 @@ func cellFields(rep *quality.Report) []vtk.Field {
 	return out
 }
 
+// vtuFields are cellFields and, as point data, the per-node metrics
+// (dual_closure, the closure of each node's median-dual control volume),
+// for mesh.vtu: the one file where failing nodes can be seen as well as
+// failing cells.
+func vtuFields(rep *quality.Report) []vtk.Field {
+	out := cellFields(rep)
+	for _, f := range rep.NodeFields {
+		out = append(out, vtk.Field{Name: f.Name, Values: f.Values, Point: true})
+	}
+	return out
+}
+
 // conditionNames gives each tag's boundary kind, or nil without conditions.
 func conditionNames(m *mesh.Mesh, assign *bc.Assignment) []string {
 	if assign == nil {
@@ -380,7 +412,9 @@ func conditionNames(m *mesh.Mesh, assign *bc.Assignment) []string {
 	return out
 }
 
-// cgnsDeck fills the CGNS writer's input.
+// cgnsDeck fills the CGNS writer's input: the mesh, each tag's BCType and
+// the values its condition imposes (cgnsBCValues), the periodic pairs, the
+// flow equation set and reference state (cgnsFlow) and the cell fields.
 func cgnsDeck(c *Case, m *mesh.Mesh, assign *bc.Assignment, fields []vtk.Field) *cgns.Deck {
 	d := &cgns.Deck{Mesh: m, Name: cgnsName(c.Name)}
 	for t, tag := range m.Tags {
@@ -392,6 +426,9 @@ func cgnsDeck(c *Case, m *mesh.Mesh, assign *bc.Assignment, fields []vtk.Field) 
 			if ct := assign.Conditions[t].Kind.CGNSType(); ct != "" {
 				typ = ct
 			}
+			if vals := cgnsBCValues(assign.Conditions[t]); len(vals) > 0 {
+				d.BCData = append(d.BCData, cgns.BCData{Tag: tag, Values: vals})
+			}
 		}
 		d.BCs = append(d.BCs, cgns.BC{Tag: tag, BCType: typ})
 	}
@@ -400,27 +437,113 @@ func cgnsDeck(c *Case, m *mesh.Mesh, assign *bc.Assignment, fields []vtk.Field) 
 			d.Periodic = append(d.Periodic, cgns.Periodic{A: p.A, B: p.B, Translation: [2]float64{p.Translation[0], p.Translation[1]}, Pairs: p.Pairs})
 		}
 	}
-	if c.Reference != nil {
-		s := c.Reference.state
-		dir := c.Reference.direction()
-		fs := &cgns.FlowState{
-			Gamma: s.Gas.Gamma, GasConstant: s.Gas.R, Mach: s.Mach, Pressure: s.Pressure,
-			Temperature: s.Temperature, Density: s.Density, SpeedOfSound: s.SpeedOfSound,
-			Velocity:  [2]float64{s.Velocity * dir[0], s.Velocity * dir[1]},
-			Viscosity: s.Viscosity, ReynoldsLength: c.Reference.length,
-			Reynolds: s.Reynolds(c.Reference.length),
-			Viscous:  viscous(assign),
-		}
-		if fs.Viscous {
-			v := s.Gas.ViscosityLaw()
-			fs.Sutherland = &cgns.Sutherland{ViscosityRef: v.MuRef, TemperatureRef: v.TRef, Constant: v.S}
-		}
-		d.Flow = fs
-	}
+	d.Flow = cgnsFlow(c, assign)
 	for _, f := range fields {
 		d.CellFields = append(d.CellFields, cgns.Field{Name: f.Name, Values: f.Values})
 	}
 	return d
+}
+
+// cgnsPrandtl is the Prandtl number written as the ThermalConductivityModel
+// ConstantPrandtl of a viscous deck: 0.72, air's near room temperature
+// (common practice). bc.Gas carries no Prandtl number, so a gas other than
+// air is given air's too.
+const cgnsPrandtl = 0.72
+
+// cgnsFlow is the flow equation set and reference state of the CGNS file,
+// or nil when the case states nothing of its gas (no reference state and
+// no boundary conditions). The gas is the assignment's (the reference
+// state's, or air without one). Without a reference state only the
+// equation set is written. The governing equations follow the walls: Euler
+// without a no-slip wall; with one, NSTurbulent when the case sizes its
+// wall cells for a target y+ (cgnsTurbulent), NSLaminar otherwise; a
+// viscous deck gets the gas's Sutherland law and a constant Prandtl number
+// (cgnsPrandtl).
+func cgnsFlow(c *Case, assign *bc.Assignment) *cgns.FlowState {
+	var gas bc.Gas
+	switch {
+	case assign != nil:
+		gas = assign.Gas
+	case c.Reference != nil:
+		gas = c.Reference.gas
+	default:
+		return nil
+	}
+	fs := &cgns.FlowState{Gamma: gas.Gamma, GasConstant: gas.R, Viscous: viscous(assign), EquationsOnly: c.Reference == nil}
+	if r := c.Reference; r != nil {
+		s := r.state
+		dir := r.direction()
+		fs.Mach, fs.Pressure, fs.Temperature, fs.Density, fs.SpeedOfSound = s.Mach, s.Pressure, s.Temperature, s.Density, s.SpeedOfSound
+		fs.Velocity = [2]float64{s.Velocity * dir[0], s.Velocity * dir[1]}
+		fs.Viscosity, fs.ReynoldsLength, fs.Reynolds = s.Viscosity, r.length, s.Reynolds(r.length)
+	}
+	if fs.Viscous {
+		v := gas.ViscosityLaw()
+		fs.Sutherland = &cgns.Sutherland{ViscosityRef: v.MuRef, TemperatureRef: v.TRef, Constant: v.S}
+		fs.Prandtl = cgnsPrandtl
+		fs.Turbulent = cgnsTurbulent(c)
+	}
+	return fs
+}
+
+// cgnsTurbulent reports whether the case sizes its wall cells for a
+// target y+: a reference yplus (the target of the first-cell height
+// advice and of the walls' y+ estimates), or any wall spacing given as a
+// y+ (first_yplus or last_yplus of a structured edge, a grown grid's or an
+// unstructured boundary layer's first height; Case.sizedByYplus). cvdeck
+// turns a y+ into a height by a turbulent flat-plate skin-friction
+// correlation (bc.FirstCellHeight), so such a case is meant to be solved
+// as turbulent flow, and a solver reading GoverningEquations should be
+// told NSTurbulent rather than NSLaminar.
+func cgnsTurbulent(c *Case) bool {
+	return c.sizedByYplus || c.Reference != nil && c.Reference.yplus > 0
+}
+
+// cgnsBCValues are the values a condition imposes, under the SIDS
+// data-name identifiers (SIDS, "Conventions for Data-Name Identifiers"):
+// an isothermal wall's Temperature; an inflow-total's PressureStagnation,
+// TemperatureStagnation and flow direction VelocityUnitVectorX and
+// VelocityUnitVectorY; an inflow-velocity's VelocityX, VelocityY and
+// Temperature; an outflow-pressure's Pressure; and the full state (Mach,
+// Pressure, Temperature, Density, VelocityX, VelocityY) of a supersonic
+// inflow and of a farfield (the reference state, in the free stream's
+// direction as bc.Assign resolves it). Other kinds impose no value (an
+// adiabatic wall's zero heat flux is its BCType).
+func cgnsBCValues(r bc.Resolved) []cgns.BCValue {
+	val := func(key string) float64 { v, _ := r.Value(key); return v }
+	switch r.Kind {
+	case bc.WallIsothermal:
+		return []cgns.BCValue{{Name: "Temperature", Value: val(bc.KeyTemperature)}}
+	case bc.InflowTotal:
+		return []cgns.BCValue{
+			{Name: "PressureStagnation", Value: val(bc.KeyTotalPressure)},
+			{Name: "TemperatureStagnation", Value: val(bc.KeyTotalTemperature)},
+			{Name: "VelocityUnitVectorX", Value: r.Direction[0]},
+			{Name: "VelocityUnitVectorY", Value: r.Direction[1]},
+		}
+	case bc.InflowVelocity:
+		return []cgns.BCValue{
+			{Name: "VelocityX", Value: r.Velocity[0]},
+			{Name: "VelocityY", Value: r.Velocity[1]},
+			{Name: "Temperature", Value: val(bc.KeyTemperature)},
+		}
+	case bc.OutflowPressure:
+		return []cgns.BCValue{{Name: "Pressure", Value: val(bc.KeyPressure)}}
+	case bc.InflowSupersonic, bc.Farfield:
+		if r.State == nil {
+			return nil
+		}
+		s, dir := r.State, r.Direction
+		return []cgns.BCValue{
+			{Name: "Mach", Value: s.Mach},
+			{Name: "Pressure", Value: s.Pressure},
+			{Name: "Temperature", Value: s.Temperature},
+			{Name: "Density", Value: s.Density},
+			{Name: "VelocityX", Value: s.Velocity * dir[0]},
+			{Name: "VelocityY", Value: s.Velocity * dir[1]},
+		}
+	}
+	return nil
 }
 
 // cgnsName makes a CGNS base name: at most 32 characters, no '/'.

@@ -163,9 +163,10 @@ func zoneNames(m *mesh.Mesh, structured bool) []string {
 // written from both sides. Periodic pairs of whole block sides become
 // periodic 1-to-1 joins (see structuredPeriodic and blockPeriodic). Every
 // other run of boundary edges of one tag along a side becomes a BC with a
-// Vertex PointRange and FamilyName the tag.
-func (w *writer) structured(d *Deck, bcTypes []C.BCType_t, pjoins []periodicJoin) error {
-	m := d.Mesh
+// Vertex PointRange, FamilyName the tag and the tag's values, if any, as a
+// BCDataSet (see (*writer).bcDataSet).
+func (w *writer) structured(d *Deck, pl *plan) error {
+	m, pjoins := d.Mesh, pl.joins
 	names := zoneNames(m, true)
 	bface := make(map[[2]int32]int32, m.NumBoundary())
 	for f := m.NumInterior; f < m.NumFaces(); f++ {
@@ -209,7 +210,7 @@ func (w *writer) structured(d *Deck, bcTypes []C.BCType_t, pjoins []periodicJoin
 		}
 	}
 	for b := range m.Blocks {
-		if err := w.blockBCs(m, b, zs[b], names[b], bface, bcTypes); err != nil {
+		if err := w.blockBCs(m, b, zs[b], names[b], bface, pl); err != nil {
 			return err
 		}
 	}
@@ -302,8 +303,8 @@ func (w *writer) join(z C.int, zone, name, donor string, rng, drng []int32, tr [
 }
 
 // blockBCs writes the point-range BCs of block b.
-func (w *writer) blockBCs(m *mesh.Mesh, b int, z C.int, zone string, bface map[[2]int32]int32, bcTypes []C.BCType_t) error {
-	blk := &m.Blocks[b]
+func (w *writer) blockBCs(m *mesh.Mesh, b int, z C.int, zone string, bface map[[2]int32]int32, pl *plan) error {
+	blk, bcTypes := &m.Blocks[b], pl.bcTypes
 	zp := "/" + w.base + "/" + zone
 	used := map[string]bool{}
 	tagAt := func(s mesh.Side, k int) int16 {
@@ -336,7 +337,7 @@ func (w *writer) blockBCs(m *mesh.Mesh, b int, z C.int, zone string, bface map[[
 			}
 			used[name] = true
 			rng := []int32{int32(ai + 1), int32(aj + 1), int32(bi + 1), int32(bj + 1)}
-			if err := w.boco(z, zp, name, tag, bcTypes[t], C.PointRange, rng, C.Vertex); err != nil {
+			if err := w.boco(z, zp, name, tag, bcTypes[t], pl.bcData[t], C.PointRange, rng, C.Vertex); err != nil {
 				return err
 			}
 			k = k1

@@ -38,11 +38,12 @@ const unstructuredZone = "Mesh"
 //
 // ZoneBC has one BC per tag, named after the tag, with the BCType of the
 // deck, a PointList of the tag's BAR_2 element numbers at GridLocation
-// EdgeCenter (the face location of a 2D zone) and FamilyName the tag; the
-// tags of periodic pairs get none, their faces being written as
+// EdgeCenter (the face location of a 2D zone), FamilyName the tag and the
+// condition's values, if any, as a BCDataSet (see (*writer).bcDataSet);
+// the tags of periodic pairs get none, their faces being written as
 // ZoneGridConnectivity (see unstructuredPeriodic).
-func (w *writer) unstructured(d *Deck, bcTypes []C.BCType_t) error {
-	m := d.Mesh
+func (w *writer) unstructured(d *Deck, pl *plan) error {
+	m, bcTypes := d.Mesh, pl.bcTypes
 	nn, nc := len(m.Nodes), m.NumCells()
 	zn := zoneNames(m, false)[0]
 	zp := "/" + w.base + "/" + zn
@@ -102,7 +103,7 @@ func (w *writer) unstructured(d *Deck, bcTypes []C.BCType_t) error {
 		for i := range pts {
 			pts[i] = int32(nc + 1 + g.lo + i)
 		}
-		if err := w.boco(z, zp, g.name, g.name, bcTypes[g.tag], C.PointList, pts, C.EdgeCenter); err != nil {
+		if err := w.boco(z, zp, g.name, g.name, bcTypes[g.tag], pl.bcData[g.tag], C.PointList, pts, C.EdgeCenter); err != nil {
 			return err
 		}
 	}
@@ -259,9 +260,10 @@ func edgePosition(m *mesh.Mesh, c int32, v int32) int32 {
 	return 0
 }
 
-// boco writes one BC under ZoneBC with its grid location and FamilyName
-// (the tag, which is also a Family_t of the base).
-func (w *writer) boco(z C.int, zp, name, family string, typ C.BCType_t, set C.PointSetType_t, pts []int32, loc C.GridLocation_t) error {
+// boco writes one BC under ZoneBC with its grid location, FamilyName
+// (the tag, which is also a Family_t of the base) and the BCDataSet of
+// its values, if any.
+func (w *writer) boco(z C.int, zp, name, family string, typ C.BCType_t, data []BCValue, set C.PointSetType_t, pts []int32, loc C.GridLocation_t) error {
 	n := cstr(name)
 	defer free(n)
 	path := zp + "/ZoneBC/" + name
@@ -279,5 +281,8 @@ func (w *writer) boco(z C.int, zp, name, family string, typ C.BCType_t, set C.Po
 	w.sum.text(path, bcTypeName(typ))
 	w.sum.ints(path+"/"+C.GoString(C.cg_PointSetTypeName(set)), pts)
 	w.sum.text(path+"/GridLocation", C.GoString(C.cg_GridLocationName(loc)))
-	return w.familyName(path, family)
+	if err := w.familyName(path, family); err != nil {
+		return err
+	}
+	return w.bcDataSet(z, bc, path, typ, data)
 }

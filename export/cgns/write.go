@@ -24,7 +24,7 @@ import (
 // DataClass Dimensional and DimensionalUnits SI (Kilogram, Meter, Second,
 // Kelvin, Radian), one Family_t per boundary tag (with a FamilyBC, except
 // for the tags of periodic pairs), the FlowEquationSet and ReferenceState
-// from Deck.Flow, and either one unstructured zone (see
+// from Deck.Flow (see (*writer).flow), and either one unstructured zone (see
 // (*writer).unstructured) or one structured zone per block (see
 // (*writer).structured). Periodic pairs are written as connectivity with
 // a Periodic_t (see Periodic).
@@ -136,9 +136,9 @@ func (w *writer) deck(d *Deck, pl *plan) error {
 		}
 	}
 	if d.structured() {
-		return w.structured(d, bcTypes, pl.joins)
+		return w.structured(d, pl)
 	}
-	return w.unstructured(d, bcTypes)
+	return w.unstructured(d, pl)
 }
 
 // units writes DataClass Dimensional and SI DimensionalUnits at the base;

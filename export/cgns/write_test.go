@@ -1,6 +1,7 @@
 package cgns
 
 import (
+	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -158,6 +159,27 @@ func TestWriteRejects(t *testing.T) {
 		{"field named like a node", func(d *Deck) { d.CellFields[1].Name = "GridLocation" }, `name "GridLocation" is a standard child`},
 		{"null BCType", func(d *Deck) { d.BCs[1].BCType = "Null" }, `"Null" is not a CGNS BCType`},
 		{"tag named like a node", func(d *Deck) { d.Mesh.Tags[0] = "ZoneBC"; d.BCs[0].Tag = "ZoneBC" }, `boundary tag "ZoneBC" is also the name of a standard CGNS node`},
+		{"BC value of no SIDS name", func(d *Deck) { d.BCData = []BCData{{Tag: "wall", Values: []BCValue{{"WallTemperature", 300}}}} }, `value "WallTemperature" is not a BC data-name identifier`},
+		{"BC value twice", func(d *Deck) {
+			d.BCData = []BCData{{Tag: "outlet", Values: []BCValue{{"Pressure", 1e5}, {"Pressure", 2e5}}}}
+		}, `value "Pressure" is given twice`},
+		{"negative back pressure", func(d *Deck) { d.BCData = []BCData{{Tag: "outlet", Values: []BCValue{{"Pressure", -1}}}} }, `BC data of tag "outlet": value Pressure is -1; it must be positive`},
+		{"infinite wall temperature", func(d *Deck) {
+			d.BCData = []BCData{{Tag: "wall", Values: []BCValue{{"Temperature", math.Inf(1)}}}}
+		}, "value Temperature is +Inf; it must be a finite number"},
+		{"direction not a unit vector", func(d *Deck) {
+			d.BCData = []BCData{{Tag: "farfield", Values: []BCValue{{"VelocityUnitVectorX", 1}, {"VelocityUnitVectorY", 1}}}}
+		}, "flow direction (1, 1) has length 1.41421"},
+		{"half a direction", func(d *Deck) { d.BCData = []BCData{{Tag: "farfield", Values: []BCValue{{"VelocityUnitVectorX", 1}}}} }, "needs both VelocityUnitVectorX and VelocityUnitVectorY"},
+		{"BC values of a tag without BC", func(d *Deck) { d.BCData = []BCData{{Tag: "inlet", Values: []BCValue{{"Pressure", 1e5}}}} }, `tag "inlet" has no BC to carry its values`},
+		{"BC values twice for a tag", func(d *Deck) {
+			d.BCData = []BCData{{Tag: "outlet", Values: []BCValue{{"Pressure", 1e5}}}, {Tag: "outlet"}}
+		}, `tag "outlet" has values twice`},
+		{"turbulent inviscid flow", func(d *Deck) { d.Flow.Viscous, d.Flow.Turbulent = false, true }, "NSTurbulent needs Viscous"},
+		{"equations only with a free stream", func(d *Deck) { d.Flow.EquationsOnly = true }, "Mach is 0.5, but EquationsOnly writes no ReferenceState"},
+		{"equations only, viscous, no law", func(d *Deck) {
+			d.Flow = &FlowState{EquationsOnly: true, Gamma: 1.4, GasConstant: 287.05, Viscous: true}
+		}, "a viscous flow without a reference state needs Sutherland constants"},
 	}
 	for _, c := range cases {
 		d := testDeck(quadMesh(t, 8, 4))
