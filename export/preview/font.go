@@ -1,8 +1,12 @@
 package preview
 
-import "strings"
+import (
+	"strings"
+	"unicode/utf8"
+)
 
-// glyphRows is a 5 × 7 bitmap font of our own drawing for printable ASCII:
+// glyphRows is a 5 × 7 bitmap font of our own drawing for printable ASCII
+// and the few other characters the pictures write (units, comparisons):
 // each line is a character, then its seven rows from the top, '#' for ink.
 // The PNG rasteriser uses it; characters it lacks are drawn as '?'.
 const glyphRows = `
@@ -100,18 +104,25 @@ z ..... ..... ##### ...#. ..#.. .#... #####
 | ..#.. ..#.. ..#.. ..#.. ..#.. ..#.. ..#..
 } .#... ..#.. ..#.. ...#. ..#.. ..#.. .#...
 ~ ..... ..... .#... #.#.# ...#. ..... .....
+° .##.. #..#. #..#. .##.. ..... ..... .....
+² .##.. ...#. ..#.. .###. ..... ..... .....
+µ ..... ..... #...# #...# #..## ###.# #....
+≤ ...#. ..#.. .#... ..#.. ...#. ..... #####
+≥ .#... ..#.. ...#. ..#.. .#... ..... #####
+× ..... #...# .#.#. ..#.. .#.#. #...# .....
 `
 
 // glyphs holds each character's rows, bit 4 the leftmost pixel.
 var glyphs = parseGlyphs()
 
-func parseGlyphs() map[byte][7]uint8 {
-	g := map[byte][7]uint8{}
+func parseGlyphs() map[rune][7]uint8 {
+	g := map[rune][7]uint8{}
 	for _, line := range strings.Split(glyphRows, "\n") {
-		if len(line) < 2 {
+		c, n := utf8.DecodeRuneInString(line)
+		if len(line) <= n {
 			continue
 		}
-		rows := strings.Fields(line[1:])
+		rows := strings.Fields(line[n:])
 		var bits [7]uint8
 		for r, row := range rows {
 			for _, c := range row {
@@ -121,13 +132,13 @@ func parseGlyphs() map[byte][7]uint8 {
 				}
 			}
 		}
-		g[line[0]] = bits
+		g[c] = bits
 	}
 	return g
 }
 
 // glyph returns the rows of c, or of '?' if the font lacks c.
-func glyph(c byte) [7]uint8 {
+func glyph(c rune) [7]uint8 {
 	if b, ok := glyphs[c]; ok {
 		return b
 	}

@@ -16,7 +16,11 @@ import (
 // on the axis as dashed lines in their status colour, and those off it
 // named in a line of text beneath for each end.
 func drawHistogram(s *scene, mt Metric, b box) {
-	s.text(b.x, b.y-8, 13, start, ink, true, mt.Name)
+	title := mt.Name + " (no unit)"
+	if mt.Unit != "" {
+		title = mt.Name + " (" + mt.Unit + ")"
+	}
+	s.text(b.x, b.y-8, 13, start, ink, true, title)
 	s.rect(b, &white, &panelLine, 1)
 	ax, n := histogramAxis(mt)
 	if n == 0 {
@@ -53,10 +57,10 @@ func drawHistogram(s *scene, mt Metric, b box) {
 		x := b.x + b.w*(l.Value-lo)/(hi-lo)
 		s.add(shape{kind: segments, pts: []float64{x, b.y, x, b.y + b.h}, stroke: &c, width: 1.5, dashed: true})
 	}
-	s.text(b.x, b.y+b.h+16, 12, start, faint, false, short(lo))
-	s.text(b.x+b.w, b.y+b.h+16, 12, end, faint, false, short(hi))
+	s.text(b.x, b.y+b.h+16, 12, start, faint, false, withUnit(lo, mt.Unit))
+	s.text(b.x+b.w, b.y+b.h+16, 12, end, faint, false, withUnit(hi, mt.Unit))
 	s.text(b.x, b.y+b.h+34, 12, start, faint, false, fmt.Sprintf("%d values; bar height: log count, tallest %d", n, top))
-	for i, line := range ax.offLines() {
+	for i, line := range ax.offLines(mt.Unit) {
 		s.text(b.x, b.y+b.h+52+18*float64(i), 12, start, faint, false, line)
 	}
 }
@@ -137,9 +141,10 @@ func histogramAxis(mt Metric) (axis, int) {
 	return ax, n
 }
 
-// offLines names the limits beyond each end of the axis, a line for each
-// end that has any (short enough for the column in the raster font).
-func (ax axis) offLines() []string {
+// offLines names the limits beyond each end of the axis, in unit, a line
+// for each end that has any (short enough for the column in the raster
+// font).
+func (ax axis) offLines(unit string) []string {
 	name := func(ls []Limit) string {
 		var out []string
 		for _, l := range ls {
@@ -147,7 +152,7 @@ func (ax axis) offLines() []string {
 			if l.Status == Fail {
 				word = "fail"
 			}
-			out = append(out, word+" "+short(l.Value))
+			out = append(out, word+" "+withUnit(l.Value, unit))
 		}
 		return strings.Join(out, ", ")
 	}

@@ -1,22 +1,26 @@
 // Package preview draws a picture of a mesh for people to look at before a
-// long run: the mesh, its boundary coloured by condition (or by tag) with a
-// legend, the cells that fail or nearly fail a limit highlighted, a view
-// near the bodies when they are small beside the domain (an aerofoil in
-// its far field), zoom windows around the worst cells, and one histogram
-// per quality metric.
+// long run: the mesh with its coordinates and a scale bar, its boundary
+// coloured by tag with a legend that names each tag under its condition,
+// the cells that fail or nearly fail a limit highlighted, a view near the
+// bodies when they are small beside the domain (an aerofoil in its far
+// field), zoom windows around the worst cells that name the limits each
+// is past, and one histogram per quality metric, in its unit.
 //
 // The same scene is written as SVG (SVG) or rasterised by our own
 // scanline rasteriser and written as PNG with image/png (PNG); both are
 // deterministic: the same input gives the same bytes.
 //
 // Large meshes stay fast and small: the drawing is bounded whatever the
-// cell count. At most MaxInteriorFaces interior faces are drawn (beyond
-// that, one face per screen bin of the overview, the decimated interior),
-// at most MaxBoundaryFaces boundary faces (likewise), MaxFlaggedCells
-// highlighted cells, MaxZoomWindows zoom windows of at most
+// cell count. A view draws the faces of the cells that span a few pixels
+// or more on screen as lines, at most MaxInteriorFaces of them on the
+// overview (the threshold rises until they fit), and shades the smaller
+// cells by the ink their lines would put on each 4 px square; it draws at
+// most MaxBoundaryFaces boundary faces (one per screen bin beyond that),
+// MaxFlaggedCells highlighted cells (smaller or further ones mark the
+// 6 px squares they touch), MaxZoomWindows zoom windows of at most
 // MaxZoomFaces faces each. An SVG therefore stays below about 1.5 MB and a
 // PNG below W × H × 4 bytes before compression, however large the mesh;
-// the time is one pass over the faces per view.
+// the time is a few passes over the faces per view.
 package preview
 
 import (
@@ -45,11 +49,22 @@ type Limit struct {
 }
 
 // Metric is one quality metric, one value per cell (or per face), drawn as
-// a histogram. Values that are NaN or infinite are left out of it.
+// a histogram. Values that are NaN or infinite are left out of it. Zoom
+// windows name the per-cell metrics whose limits their cell is past.
 type Metric struct {
-	Name   string
+	Name string
+	// Unit is the values' unit ("m²", "°"), "" for a ratio.
+	Unit string
+	// Lower is true when smaller values are worse: a value below a limit
+	// is past it (at or below a limit of 0, as a zero area or length is a
+	// collapsed cell); otherwise a value above a limit is past it.
+	Lower  bool
 	Values []float64
-	Limits []Limit
+	// FaceValues optionally gives the metric on each face, for a metric
+	// whose cell value is that of the cell's worst face; a zoom on a cell
+	// too thin to see whole centres on that face. nil when there are none.
+	FaceValues []float64
+	Limits     []Limit
 }
 
 // Input is what a preview shows.
@@ -79,15 +94,21 @@ const (
 
 // Layout in canvas pixels.
 const (
-	canvasW   = 1280
-	margin    = 20
-	viewW     = 800
-	minViewH  = 240
-	maxViewH  = 700
-	viewTop   = 50
+	canvasW = 1280
+	margin  = 20
+	// gutter is the room left of a view for its y coordinates.
+	gutter   = 56
+	viewX    = margin + gutter
+	viewW    = 760
+	minViewH = 240
+	maxViewH = 700
+	viewTop  = 50
+	// panelGap is the room from one panel's footer to the next panel.
+	panelGap  = 36
 	zoomSize  = 256
-	zoomGap   = 16
-	columnX   = margin + viewW + 24
+	zoomGap   = (gutter + viewW - MaxZoomWindows*zoomSize) / (MaxZoomWindows - 1)
+	frameMin  = 8
+	columnX   = viewX + viewW + 24
 	columnW   = canvasW - columnX - margin
 	histH     = 96
 	histBlock = histH + 114
@@ -118,6 +139,7 @@ type view struct {
 	b              box
 	cx, cy, scale  float64
 	x0, y0, x1, y1 float64 // the mesh-space region shown
+	whole          bool    // the region holds the whole mesh
 }
 
 func newView(b box, x0, y0, x1, y1 float64) view {
@@ -168,6 +190,9 @@ func build(in Input) (*scene, error) {
 		if mt.Name == "" {
 			return nil, fmt.Errorf("preview: a metric has no name")
 		}
+		if mt.FaceValues != nil && len(mt.FaceValues) != m.NumFaces() {
+			return nil, fmt.Errorf("preview: metric %s has %d face values for %d faces", mt.Name, len(mt.FaceValues), m.NumFaces())
+		}
 	}
 	s := &scene{w: canvasW}
 	title := in.Title
@@ -180,49 +205,37 @@ func build(in Input) (*scene, error) {
 	s.rect(overview.b, &white, &panelLine, 1)
 	colours, legend := boundaryColours(m, in.Conditions)
 	counts := statusCounts(in.Status)
-	dense := m.NumInterior > MaxInteriorFaces
-	if dense {
-		drawDensity(s, m, overview)
-	} else {
-		drawInterior(s, m, overview, 0)
+	type drawnView struct {
+		name string
+		d    interiorDrawn
 	}
+	views := []drawnView{{"overview", drawInterior(s, m, overview, 0, MaxInteriorFaces, meshLine, lineWidth)}}
 	drawBoundary(s, m, colours, overview, MaxBoundaryFaces, 0, 2.2)
 	// Flagged cells go on top of the lines: they are what the picture
 	// is for.
-	binned := counts[Warn]+counts[Fail] > MaxFlaggedCells
-	if binned {
-		drawFlaggedBins(s, m, in.Status, overview)
-	} else {
-		drawFlagged(s, m, in.Status, overview, 0, MaxFlaggedCells)
+	binned := drawFlagged(s, m, in.Status, overview, 0, MaxFlaggedCells, false)
+	if counts[Warn]+counts[Fail] <= MaxFlaggedCells {
 		drawMarkers(s, m, in.Status, overview)
 	}
+	bottom := drawFooter(s, overview)
 
-	bottom := overview.b.y + overview.b.h
 	if r, ok := bodiesRegion(m); ok {
 		// Bodies far smaller than the domain (an aerofoil in its far
 		// field) are a speck in the overview: a view of their
 		// surroundings, framed on the overview, shows their mesh.
-		top := bottom + 36
+		top := bottom + panelGap
 		h := math.Round(math.Min(math.Max(viewW*(r[3]-r[1])/(r[2]-r[0]), minViewH), maxBodiesH))
-		near := newView(box{margin, top, viewW, h}, r[0], r[1], r[2], r[3])
+		near := newView(box{viewX, top, viewW, h}, r[0], r[1], r[2], r[3])
 		clip := s.addClip(near.b)
 		s.rect(near.b, &white, &zoomFrame, 1.5)
-		if facesMeeting(m, near, maxBodiesFaces) > maxBodiesFaces {
-			drawDensity(s, m, near)
-		} else {
-			drawInterior(s, m, near, clip)
-		}
+		views = append(views, drawnView{"near the bodies", drawInterior(s, m, near, clip, maxBodiesFaces, meshLine, lineWidth)})
 		drawBoundary(s, m, colours, near, MaxBoundaryFaces, clip, 1.8)
-		drawFlagged(s, m, in.Status, near, clip, MaxFlaggedCells)
+		binned = drawFlagged(s, m, in.Status, near, clip, MaxFlaggedCells, false) || binned
 		s.text(near.b.x, near.b.y-8, 12, start, ink, true, "near the bodies: the boundaries inside the domain and their surroundings")
-		ax, ay := overview.px(near.x0, near.y0)
-		bx, by := overview.px(near.x1, near.y1)
-		fb := clampBox(box{ax, by, bx - ax, ay - by}, overview.b)
-		s.rect(fb, nil, &zoomFrame, 1.5)
-		s.text(fb.x+fb.w+3, fb.y+10, 12, start, zoomFrame, true, "B")
-		bottom = near.b.y + near.b.h
+		frameOn(s, overview, near, "B")
+		bottom = drawFooter(s, near)
 	}
-	zoomTop := bottom + 36
+	zoomTop := bottom + panelGap
 	zooms, regions := zoomCells(m, in)
 	for k, c := range zooms {
 		zb := box{float64(margin + k*(zoomSize+zoomGap)), zoomTop, zoomSize, zoomSize}
@@ -230,53 +243,79 @@ func build(in Input) (*scene, error) {
 		win := newView(zb, r.x0, r.y0, r.x1, r.y1)
 		clip := s.addClip(zb)
 		s.rect(zb, &white, &zoomFrame, 1.5)
-		drawInterior(s, m, win, clip)
+		drawInterior(s, m, win, clip, MaxZoomFaces, meshLine, lineWidth)
+		// Flagged cells edged a shade darker, so that a band of them
+		// shows each cell's shape.
+		drawFlagged(s, m, in.Status, win, clip, MaxZoomFaces/2, true)
 		drawBoundary(s, m, colours, win, MaxZoomFaces, clip, 1.5)
-		drawFlagged(s, m, in.Status, win, clip, MaxZoomFaces/2)
 		cell := m.Cell(int(c))
 		pts := make([]float64, 0, 2*len(cell))
 		for _, v := range cell {
 			px, py := win.px(m.Nodes[v][0], m.Nodes[v][1])
 			pts = append(pts, px, py)
 		}
-		s.add(shape{kind: polygon, pts: pts, stroke: &zoomFrame, width: 1.2, clip: clip})
-		st := "selected"
-		if in.Status != nil {
-			st = [...]string{"pass", "warn", "fail"}[in.Status[c]]
+		s.add(shape{kind: polygon, pts: pts, stroke: &zoomFrame, width: 2, clip: clip})
+		s.text(zb.x, zb.y-8, 12, start, ink, true, zoomTitle(in, k, c))
+		frameOn(s, overview, win, strconv.Itoa(k+1))
+		// Beneath the window: the limits the cell is past, then its
+		// scale and the region shown.
+		y := zb.y + zb.h + rowH + 2
+		for _, t := range crossingLines(in, int(c)) {
+			for _, l := range wrap(t, zb.w, axisText, "  ") {
+				s.text(zb.x, y, axisText, start, ink, false, l)
+				y += rowH
+			}
 		}
-		s.text(zb.x, zb.y-8, 12, start, ink, true, fmt.Sprintf("zoom %d: cell %d (%s)", k+1, c, st))
-		// Frame and number on the overview.
-		ax, ay := overview.px(win.x0, win.y0)
-		bx, by := overview.px(win.x1, win.y1)
-		fb := clampBox(box{ax, by, bx - ax, ay - by}, overview.b)
-		s.rect(fb, nil, &zoomFrame, 1.5)
-		s.text(fb.x+fb.w+3, fb.y+10, 12, start, zoomFrame, true, strconv.Itoa(k+1))
-		bottom = zb.y + zb.h
+		drawScaleBar(s, win, zb.x, y+2)
+		y += rowH + 2
+		for _, t := range extentLines(win) {
+			s.text(zb.x, y, axisText, start, faint, false, t)
+			y += rowH
+		}
+		bottom = math.Max(bottom, y)
 	}
 
 	// The right column: counts, legend, histograms.
 	y := float64(viewTop + 14)
 	line := func(size float64, c rgb, bold bool, t string) {
-		s.text(columnX, y, size, start, c, bold, t)
-		y += size + 8
+		for _, l := range wrap(t, columnW, size, "") {
+			s.text(columnX, y, size, start, c, bold, l)
+			y += size + 8
+		}
 	}
 	line(13, ink, false, fmt.Sprintf("%d cells, %d nodes", m.NumCells(), len(m.Nodes)))
 	line(13, ink, false, fmt.Sprintf("%d faces, %d on the boundary", m.NumFaces(), m.NumBoundary()))
-	if dense {
-		line(12, faint, false, fmt.Sprintf("interior: %d faces, drawn as cell density", m.NumInterior))
-		line(12, faint, false, fmt.Sprintf("(darker: more cells per %d px square)", densityBin))
+	shaded := false
+	for _, v := range views {
+		shaded = shaded || v.d.shaded > 0
+	}
+	if shaded {
+		line(12, faint, false, fmt.Sprintf("grid lines where a cell spans %s px or more; smaller cells shaded by the ink of their lines (darker than a line: several lines a pixel)", short(minLinePx)))
+		for _, v := range views {
+			if v.d.shaded > 0 && v.d.threshold > minLinePx*1.001 {
+				line(12, faint, false, fmt.Sprintf("%s: lines for cells of %.3g px or more", v.name, v.d.threshold))
+			}
+		}
 	}
 	y += 6
 	if in.Conditions != nil {
-		line(14, ink, true, "Boundary conditions")
+		line(14, ink, true, "Boundary conditions and their tags")
 	} else {
 		line(14, ink, true, "Boundary tags")
 	}
-	for _, e := range legend {
-		c := e.colour
-		s.add(shape{kind: segments, pts: []float64{columnX, y - 5, columnX + 28, y - 5}, stroke: &c, width: 3})
-		s.text(columnX+38, y, 12, start, ink, false, fmt.Sprintf("%s (%d faces)", e.label, e.faces))
-		y += 20
+	for _, g := range legend {
+		indent := 0.0
+		if g.condition != "" {
+			s.text(columnX, y, 12, start, ink, true, g.condition)
+			y += 18
+			indent = 14
+		}
+		for _, e := range g.tags {
+			c := e.colour
+			s.add(shape{kind: segments, pts: []float64{columnX + indent, y - 5, columnX + indent + 28, y - 5}, stroke: &c, width: 3})
+			s.text(columnX+indent+38, y, 12, start, ink, false, fmt.Sprintf("%s (%d faces)", e.label, e.faces))
+			y += 18
+		}
 	}
 	y += 8
 	line(14, ink, true, "Cells")
@@ -291,7 +330,7 @@ func build(in Input) (*scene, error) {
 		y += 20
 	}
 	if binned {
-		line(12, faint, false, fmt.Sprintf("overview marks each %d px square holding one", flagBin))
+		line(12, faint, false, fmt.Sprintf("small cells: the %d px squares they touch", flagBin))
 	}
 	y += 12
 	for _, mt := range in.Metrics {
@@ -302,9 +341,27 @@ func build(in Input) (*scene, error) {
 	return s, nil
 }
 
+// frameOn outlines on the overview o the region view v shows, at least
+// frameMin pixels across so that a close zoom still shows where it is,
+// and names it.
+func frameOn(s *scene, o, v view, name string) {
+	ax, ay := o.px(v.x0, v.y0)
+	bx, by := o.px(v.x1, v.y1)
+	if w := bx - ax; w < frameMin {
+		ax, bx = ax-(frameMin-w)/2, bx+(frameMin-w)/2
+	}
+	if h := ay - by; h < frameMin {
+		ay, by = ay+(frameMin-h)/2, by-(frameMin-h)/2
+	}
+	fb := clampBox(box{ax, by, bx - ax, ay - by}, o.b)
+	s.rect(fb, nil, &zoomFrame, 1.5)
+	s.text(fb.x+fb.w+3, fb.y+10, 12, start, zoomFrame, true, name)
+}
+
 // Bounds of the view near the bodies: its height in canvas pixels, and
-// the interior faces it draws one by one (beyond that, the cell density),
-// so that the picture stays as bounded as the package comment says.
+// the interior faces it draws as lines (beyond that, the threshold cell
+// size for lines rises), so that the picture stays as bounded as the
+// package comment says.
 const (
 	maxBodiesH     = 420
 	maxBodiesFaces = 9000
@@ -380,21 +437,6 @@ func bodiesRegion(m *mesh.Mesh) ([4]float64, bool) {
 	return [4]float64{u.x0 - pad, u.y0 - pad, u.x1 + pad, u.y1 + pad}, true
 }
 
-// facesMeeting counts the interior faces that meet the view, stopping
-// past limit.
-func facesMeeting(m *mesh.Mesh, v view, limit int) int {
-	n := 0
-	for _, fn := range m.FaceNodes[:m.NumInterior] {
-		a, b := m.Nodes[fn[0]], m.Nodes[fn[1]]
-		if v.meets(a[0], a[1], b[0], b[1]) {
-			if n++; n > limit {
-				break
-			}
-		}
-	}
-	return n
-}
-
 // clampBox clips b to within c.
 func clampBox(b, c box) box {
 	x0, y0 := math.Max(b.x, c.x), math.Max(b.y, c.y)
@@ -412,7 +454,9 @@ func overviewOf(m *mesh.Mesh) view {
 	if x1 > x0 {
 		h = math.Min(math.Max(viewW*(y1-y0)/(x1-x0), minViewH), maxViewH)
 	}
-	return newView(box{margin, viewTop, viewW, math.Round(h)}, x0, y0, x1, y1)
+	v := newView(box{viewX, viewTop, viewW, math.Round(h)}, x0, y0, x1, y1)
+	v.whole = true
+	return v
 }
 
 func nodeBounds(m *mesh.Mesh) (x0, y0, x1, y1 float64) {
@@ -433,44 +477,6 @@ func statusCounts(st []Status) [3]int {
 		}
 	}
 	return n
-}
-
-// legendEntry is one line of the boundary legend.
-type legendEntry struct {
-	label  string
-	colour rgb
-	faces  int
-}
-
-// boundaryColours gives each tag its colour: by condition when conditions
-// are given (tags without one get their own entry), else by tag; untagged
-// faces are black.
-func boundaryColours(m *mesh.Mesh, conditions []string) ([]rgb, []legendEntry) {
-	colours := make([]rgb, len(m.Tags))
-	var legend []legendEntry
-	index := map[string]int{}
-	for t, tag := range m.Tags {
-		key, label := "tag:"+tag, tag
-		if conditions != nil {
-			if c := conditions[t]; c != "" {
-				key, label = "bc:"+c, c
-			} else {
-				label = tag + " (no condition)"
-			}
-		}
-		k, ok := index[key]
-		if !ok {
-			k = len(legend)
-			index[key] = k
-			legend = append(legend, legendEntry{label: label, colour: boundaryOf[k%len(boundaryOf)]})
-		}
-		colours[t] = legend[k].colour
-		legend[k].faces += int(m.TagStart[t+1] - m.TagStart[t])
-	}
-	if lo, hi := m.UntaggedRange(); hi > lo {
-		legend = append(legend, legendEntry{label: "untagged", colour: untagged, faces: hi - lo})
-	}
-	return colours, legend
 }
 
 // binner keeps at most one item per square screen bin of a box, so a
@@ -526,92 +532,6 @@ func faceSegments(m *mesh.Mesh, lo, hi int, v view, budget int) []float64 {
 	return pts
 }
 
-// drawInterior draws the interior faces that meet the view; callers use it
-// only where they number at most MaxInteriorFaces (small meshes, zoom
-// windows).
-func drawInterior(s *scene, m *mesh.Mesh, v view, clip int) {
-	pts := faceSegments(m, 0, m.NumInterior, v, m.NumInterior)
-	if len(pts) > 0 {
-		s.add(shape{kind: segments, pts: pts, stroke: &meshLine, width: 0.7, clip: clip})
-	}
-}
-
-// Bin sizes, in canvas pixels, of the decimated overview.
-const (
-	densityBin = 8
-	flagBin    = 6
-	levels     = 8
-)
-
-// binCounts counts the cell centroids per square bin of size px over the
-// view's box; keep selects the cells counted (nil: all).
-func binCounts(m *mesh.Mesh, v view, size int, keep func(c int) bool) (counts []int, nx int) {
-	nx, ny := int(v.b.w)/size+1, int(v.b.h)/size+1
-	counts = make([]int, nx*ny)
-	for c, p := range m.Geo.CellCentroid {
-		if keep != nil && !keep(c) {
-			continue
-		}
-		x, y := v.px(p[0], p[1])
-		i, j := int((x-v.b.x)/float64(size)), int((y-v.b.y)/float64(size))
-		if i >= 0 && j >= 0 && i < nx && j < ny {
-			counts[j*nx+i]++
-		}
-	}
-	return counts, nx
-}
-
-// drawDensity shades the overview by cell density for meshes too large to
-// draw face by face: each densityBin square is one of levels greys, from
-// log(1 + n) / log(1 + the largest n), n the cells whose centroid falls in
-// it. It draws at most (view area / densityBin²) squares.
-func drawDensity(s *scene, m *mesh.Mesh, v view) {
-	counts, nx := binCounts(m, v, densityBin, nil)
-	top := 0
-	for _, n := range counts {
-		top = max(top, n)
-	}
-	var sq [levels][]float64
-	for k, n := range counts {
-		if n == 0 {
-			continue
-		}
-		l := min(levels-1, int(float64(levels)*math.Log1p(float64(n))/math.Log1p(float64(top))))
-		sq[l] = append(sq[l], v.b.x+float64(k%nx*densityBin), v.b.y+float64(k/nx*densityBin))
-	}
-	for l, pts := range sq {
-		if len(pts) == 0 {
-			continue
-		}
-		// From a near-white grey to the mesh line grey, darker for denser.
-		f := float64(l+1) / levels
-		c := rgb{mix(240, 150, f), mix(243, 160, f), mix(247, 172, f)}
-		s.add(shape{kind: squares, pts: pts, fill: &c, width: densityBin, clip: s.viewClip(v)})
-	}
-}
-
-// drawFlaggedBins marks, when there are too many flagged cells to fill one
-// by one, each flagBin square holding a failing (red) or else a warning
-// (amber) cell's centroid.
-func drawFlaggedBins(s *scene, m *mesh.Mesh, st []Status, v view) {
-	for _, want := range []Status{Warn, Fail} {
-		counts, nx := binCounts(m, v, flagBin, func(c int) bool { return st[c] == want })
-		var pts []float64
-		for k, n := range counts {
-			if n > 0 {
-				pts = append(pts, v.b.x+float64(k%nx*flagBin), v.b.y+float64(k/nx*flagBin))
-			}
-		}
-		c := failFill
-		if want == Warn {
-			c = warnFill
-		}
-		if len(pts) > 0 {
-			s.add(shape{kind: squares, pts: pts, fill: &c, width: flagBin, clip: s.viewClip(v)})
-		}
-	}
-}
-
 func drawBoundary(s *scene, m *mesh.Mesh, colours []rgb, v view, budget, clip int, width float64) {
 	type group struct {
 		lo, hi int
@@ -633,176 +553,5 @@ func drawBoundary(s *scene, m *mesh.Mesh, colours []rgb, v view, budget, clip in
 			c := g.c
 			s.add(shape{kind: segments, pts: pts, stroke: &c, width: width, clip: clip})
 		}
-	}
-}
-
-// drawFlagged fills the failing, then the warning cells that show in the
-// view, at most budget of them.
-func drawFlagged(s *scene, m *mesh.Mesh, st []Status, v view, clip, budget int) {
-	if st == nil {
-		return
-	}
-	drawn := 0
-	for _, want := range []Status{Fail, Warn} {
-		c := failFill
-		if want == Warn {
-			c = warnFill
-		}
-		for cell, x := range st {
-			if x != want || drawn >= budget {
-				continue
-			}
-			nodes := m.Cell(cell)
-			pts := make([]float64, 0, 2*len(nodes))
-			in := false
-			for k, a := range nodes {
-				p, q := m.Nodes[a], m.Nodes[nodes[(k+1)%len(nodes)]]
-				in = in || v.meets(p[0], p[1], q[0], q[1])
-				px, py := v.px(p[0], p[1])
-				pts = append(pts, px, py)
-			}
-			if !in {
-				continue
-			}
-			// The outline in the fill colour keeps cells thinner than
-			// a pixel visible.
-			s.add(shape{kind: polygon, pts: pts, fill: &c, stroke: &c, width: 1, clip: clip})
-			drawn++
-		}
-	}
-}
-
-// drawMarkers rings failing cells whose bounding box is under 4 px on
-// the overview, too small to see as a fill.
-func drawMarkers(s *scene, m *mesh.Mesh, st []Status, v view) {
-	n := 0
-	for c, x := range st {
-		if x != Fail || n >= maxMarkers {
-			continue
-		}
-		if cellExtent(m, c)*v.scale >= 4 {
-			continue
-		}
-		cx, cy := v.px(m.Geo.CellCentroid[c][0], m.Geo.CellCentroid[c][1])
-		s.add(shape{kind: polygon, pts: ring(cx, cy, 6, 16), stroke: &failFill, width: 1.5})
-		n++
-	}
-}
-
-// cellExtent is the larger side of cell c's bounding box.
-func cellExtent(m *mesh.Mesh, c int) float64 {
-	x0, y0, x1, y1 := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
-	for _, v := range m.Cell(c) {
-		p := m.Nodes[v]
-		x0, x1 = math.Min(x0, p[0]), math.Max(x1, p[0])
-		y0, y1 = math.Min(y0, p[1]), math.Max(y1, p[1])
-	}
-	return math.Max(x1-x0, y1-y0)
-}
-
-// ring is a regular n-gon of radius r around (cx, cy).
-func ring(cx, cy, r float64, n int) []float64 {
-	pts := make([]float64, 0, 2*n)
-	for k := 0; k < n; k++ {
-		a := 2 * math.Pi * float64(k) / float64(n)
-		pts = append(pts, cx+r*math.Cos(a), cy+r*math.Sin(a))
-	}
-	return pts
-}
-
-// zoomCells picks the cells to zoom in on, up to MaxZoomWindows, each
-// outside the earlier windows: from in.Worst in its order; without it,
-// spread over the failing cells (or, if none fail, the warning ones) by
-// farthest-point sampling from the lowest-numbered one, so the windows
-// show different places. It returns the cells and the regions framing
-// them.
-func zoomCells(m *mesh.Mesh, in Input) ([]int32, []view) {
-	var out []int32
-	var wins []view
-	inside := func(c int32) bool {
-		p := m.Geo.CellCentroid[c]
-		for _, w := range wins {
-			if p[0] >= w.x0 && p[0] <= w.x1 && p[1] >= w.y0 && p[1] <= w.y1 {
-				return true
-			}
-		}
-		return false
-	}
-	pick := func(c int32) {
-		out = append(out, c)
-		wins = append(wins, zoomView(m, c, box{0, 0, zoomSize, zoomSize}))
-	}
-	if in.Worst != nil {
-		for _, c := range in.Worst {
-			if len(out) < MaxZoomWindows && !inside(c) {
-				pick(c)
-			}
-		}
-		return out, wins
-	}
-	var cand []int32
-	for _, want := range []Status{Fail, Warn} {
-		for c, x := range in.Status {
-			if x == want {
-				cand = append(cand, int32(c))
-			}
-		}
-		if len(cand) > 0 {
-			break
-		}
-	}
-	if len(cand) == 0 {
-		return nil, nil
-	}
-	dist := make([]float64, len(cand))
-	for i := range dist {
-		dist[i] = math.Inf(1)
-	}
-	next := cand[0]
-	for len(out) < MaxZoomWindows {
-		pick(next)
-		p := m.Geo.CellCentroid[next]
-		best, bestD := int32(-1), -1.0
-		for i, c := range cand {
-			q := m.Geo.CellCentroid[c]
-			dist[i] = math.Min(dist[i], math.Hypot(q[0]-p[0], q[1]-p[1]))
-			if dist[i] > bestD && !inside(c) {
-				best, bestD = c, dist[i]
-			}
-		}
-		if best < 0 {
-			break
-		}
-		next = best
-	}
-	return out, wins
-}
-
-// zoomView frames cell c: a square six cell sizes wide, shrunk until it
-// holds at most MaxZoomFaces faces.
-func zoomView(m *mesh.Mesh, c int32, b box) view {
-	x0, y0, x1, y1 := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
-	for _, v := range m.Cell(int(c)) {
-		p := m.Nodes[v]
-		x0, x1 = math.Min(x0, p[0]), math.Max(x1, p[0])
-		y0, y1 = math.Min(y0, p[1]), math.Max(y1, p[1])
-	}
-	cx, cy := 0.5*(x0+x1), 0.5*(y0+y1)
-	half := 3 * math.Max(math.Max(x1-x0, y1-y0), 1e-300)
-	for {
-		v := newView(b, cx-half, cy-half, cx+half, cy+half)
-		n := 0
-		for _, fn := range m.FaceNodes {
-			a, q := m.Nodes[fn[0]], m.Nodes[fn[1]]
-			if v.meets(a[0], a[1], q[0], q[1]) {
-				if n++; n > MaxZoomFaces {
-					break
-				}
-			}
-		}
-		if n <= MaxZoomFaces || half < 1e-300 {
-			return v
-		}
-		half *= 0.5
 	}
 }

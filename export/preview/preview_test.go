@@ -3,11 +3,13 @@ package preview
 import (
 	"bytes"
 	"encoding/xml"
+	"image"
 	"image/png"
 	"io"
 	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -89,7 +91,7 @@ func testInput(m *mesh.Mesh) Input {
 		Conditions: []string{"inflow", "outflow", "wall", "wall"},
 		Status:     st,
 		Metrics: []Metric{
-			{Name: "cell area", Values: m.Geo.CellArea},
+			{Name: "cell area", Unit: "m²", Lower: true, Values: m.Geo.CellArea},
 			{Name: "aspect ratio (bounding box)", Values: ar, Limits: []Limit{{5, Warn}, {9.5, Fail}}},
 		},
 	}
@@ -156,14 +158,28 @@ func TestPreviewSmall(t *testing.T) {
 	}
 	// Every flagged cell filled in the overview, and again in the zoom
 	// windows that show it; three zoom windows with their clip paths.
-	if n["clipPath"] != MaxZoomWindows || n["path"] < counts[Fail]+counts[Warn] {
+	if n["clipPath"] < MaxZoomWindows || n["path"] < counts[Fail]+counts[Warn] {
 		t.Fatalf("SVG elements %v; flagged %v", n, counts)
 	}
 	s := svg.String()
-	for _, want := range []string{"inflow (24 faces)", "outflow (24 faces)", "wall (160 faces)", "fail: past a limit (", "zoom 1: cell", "aspect ratio (bounding box)"} {
+	for _, want := range []string{
+		// Each tag under its condition.
+		">inflow<", ">inlet (24 faces)<", ">outflow<", ">outlet (24 faces)<", ">wall<", ">floor (80 faces)<", ">ceiling (80 faces)<",
+		"fail: past a limit (", "zoom 1: cell",
+		// The histogram's title names its unit, or that it has none.
+		">aspect ratio (bounding box) (no unit)<", ">cell area (m²)<", " m²<",
+		// Coordinates and scale: the overview spans x 0 to 4 m, y 0 to 1 m,
+		// and its scale bar is the round length under 22 % of its width.
+		">x (m)<", ">y (m)<", ">0.0<", ">4.0<", ">1.0<", ">500 mm<",
+		// Zoom windows name the limit their cell is past, and the region.
+		"fail: aspect ratio (bounding box)", "&gt; 9.5<",
+	} {
 		if !strings.Contains(s, want) {
 			t.Errorf("SVG lacks %q", want)
 		}
+	}
+	if !regexp.MustCompile(`>x -?[0-9.]+ to -?[0-9.]+ m<`).MatchString(s) {
+		t.Error("SVG names no zoom window's x range")
 	}
 	img, err := png.Decode(&pic)
 	if err != nil {
@@ -172,13 +188,32 @@ func TestPreviewSmall(t *testing.T) {
 	if b := img.Bounds(); b.Dx() != canvasW || b.Dy() < viewTop+minViewH {
 		t.Fatalf("PNG is %v", b)
 	}
-	// The centre of zoom window 1 lies inside its cell, which fails.
-	zb := overviewOf(m).b
-	cx, cy := margin+zoomSize/2, int(zb.y+zb.h)+36+zoomSize/2
-	r, g, b, _ := img.At(cx, cy).RGBA()
-	if uint8(r>>8) != failFill.r || uint8(g>>8) != failFill.g || uint8(b>>8) != failFill.b {
-		t.Fatalf("PNG pixel at the centre of zoom 1 is %d,%d,%d, want the fail colour", r>>8, g>>8, b>>8)
+	// The centroid of zoom window 1's cell, which fails, shows in the fail
+	// colour where the window draws it; the window's title sits 8 px
+	// above it.
+	at := regexp.MustCompile(`y="([0-9.]+)"[^>]*>zoom 1: cell ([0-9]+) `).FindStringSubmatch(s)
+	if at == nil {
+		t.Fatal("no zoom 1 title")
 	}
+	top, _ := strconv.ParseFloat(at[1], 64)
+	cell, _ := strconv.Atoi(at[2])
+	zooms, regions := zoomCells(m, in)
+	if len(zooms) == 0 || int(zooms[0]) != cell {
+		t.Fatalf("zoom cells %v, title names cell %d", zooms, cell)
+	}
+	r := regions[0]
+	win := newView(box{margin, top + 8, zoomSize, zoomSize}, r.x0, r.y0, r.x1, r.y1)
+	c := m.Geo.CellCentroid[cell]
+	px, py := win.px(c[0], c[1])
+	if got := pixel(img, int(px), int(py)); got != failFill {
+		t.Fatalf("PNG pixel at the centroid of zoom 1's cell is %v, want the fail colour %v", got, failFill)
+	}
+}
+
+// pixel is the colour of img at (x, y).
+func pixel(img image.Image, x, y int) rgb {
+	r, g, b, _ := img.At(x, y).RGBA()
+	return rgb{uint8(r >> 8), uint8(g >> 8), uint8(b >> 8)}
 }
 
 func TestPreviewErrors(t *testing.T) {
@@ -218,8 +253,8 @@ func TestPreviewLargeBounded(t *testing.T) {
 	}
 	keep(t, "large.svg", svg.Bytes())
 	keep(t, "large.png", pic.Bytes())
-	if !strings.Contains(svg.String(), "drawn as cell density") {
-		t.Fatal("no density note on a million-cell preview")
+	if !strings.Contains(svg.String(), "shaded by the ink of their lines") {
+		t.Fatal("no shading note on a million-cell preview")
 	}
 	t.Logf("%d cells: SVG %d bytes, PNG %d bytes", m.NumCells(), svg.Len(), pic.Len())
 }
@@ -272,7 +307,7 @@ func TestHistogramAxis(t *testing.T) {
 			if got := list(ax.below, ax.above); got != tc.off {
 				t.Errorf("off the axis: %q, want %q", got, tc.off)
 			}
-			if got := strings.Join(ax.offLines(), "|"); got != tc.text {
+			if got := strings.Join(ax.offLines(""), "|"); got != tc.text {
 				t.Errorf("text %q, want %q", got, tc.text)
 			}
 		})
@@ -333,4 +368,269 @@ func TestBodiesView(t *testing.T) {
 		t.Error("the SVG of a mesh with a small body has no view near it")
 	}
 	keep(t, "bodies.svg", b.Bytes())
+}
+
+// gradedChannel is [0, 4] × [0, 1] in nx columns whose widths grow
+// geometrically by ratio r from left to right and ny equal rows (our own
+// test scenario): on the overview the left columns are far under a pixel
+// wide and the right ones many pixels.
+func gradedChannel(t *testing.T, nx, ny int, r float64) *mesh.Mesh {
+	xs := make([]float64, nx+1)
+	for i := 1; i <= nx; i++ {
+		xs[i] = xs[i-1] + math.Pow(r, float64(i))
+	}
+	in := mesh.Input{CellStart: []int32{0}}
+	for j := 0; j <= ny; j++ {
+		for i := 0; i <= nx; i++ {
+			in.Nodes = append(in.Nodes, orb.Point{4 * xs[i] / xs[nx], float64(j) / float64(ny)})
+		}
+	}
+	id := func(i, j int) int32 { return int32(j*(nx+1) + i) }
+	for j := 0; j < ny; j++ {
+		for i := 0; i < nx; i++ {
+			in.CellNodes = append(in.CellNodes, id(i, j), id(i+1, j), id(i+1, j+1), id(i, j+1))
+			in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+		}
+	}
+	m, err := mesh.Build(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return m
+}
+
+// TestInteriorLinesAndShading: a mesh with more interior faces than the
+// overview draws gets lines for its large cells, at most the budget of
+// them, every face of a cell above the threshold among them, and
+// shading for its small cells, with no square of the domain left white
+// (the centroid-count drawing this replaced left white squares wherever
+// cells were about as wide as its bins).
+func TestInteriorLinesAndShading(t *testing.T) {
+	m := gradedChannel(t, 600, 100, 1.012)
+	if m.NumInterior <= MaxInteriorFaces {
+		t.Fatalf("scenario has %d interior faces, not more than the budget", m.NumInterior)
+	}
+	v := overviewOf(m)
+	s := &scene{w: canvasW, h: 1000}
+	d := drawInterior(s, m, v, 0, MaxInteriorFaces, meshLine, lineWidth)
+	if d.lines == 0 || d.shaded == 0 || d.lines > MaxInteriorFaces || d.lines+d.shaded != m.NumInterior {
+		t.Fatalf("drawn %+v of %d faces", d, m.NumInterior)
+	}
+	if d.threshold < minLinePx {
+		t.Fatalf("threshold %g px under the least, %g", d.threshold, minLinePx)
+	}
+	above := 0
+	for f := 0; f < m.NumInterior; f++ {
+		if faceKey(m, f, v.scale) >= math.Pow(d.threshold*math.Exp2(1.0/sizeSteps), 2) {
+			above++
+		}
+	}
+	if d.lines < above {
+		t.Fatalf("%d faces drawn as lines, but %d have cells over the threshold %g px", d.lines, above, d.threshold)
+	}
+	var pic, svg bytes.Buffer
+	if err := PNG(&pic, Input{Mesh: m}); err != nil {
+		t.Fatal(err)
+	}
+	keep(t, "graded.png", pic.Bytes())
+	// Lines at the budget beside shading: still within the stated bound.
+	if err := SVG(&svg, Input{Mesh: m}); err != nil {
+		t.Fatal(err)
+	}
+	if svg.Len() > 1500000 {
+		t.Fatalf("SVG of lines and shading is %d bytes, over the 1.5 MB bound", svg.Len())
+	}
+	t.Logf("SVG %d bytes", svg.Len())
+	img, err := png.Decode(&pic)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Inside the domain, away from its boundary lines, every 4 px square
+	// holds ink.
+	x0, y0 := v.px(0, 1)
+	x1, y1 := v.px(4, 0)
+	for y := int(y0) + 4; y+4 < int(y1)-4; y += 4 {
+		for x := int(x0) + 4; x+4 < int(x1)-4; x += 4 {
+			blank := true
+			for k := 0; k < 16 && blank; k++ {
+				blank = pixel(img, x+k%4, y+k/4) == white
+			}
+			if blank {
+				t.Fatalf("the 4 px square at (%d, %d) inside the domain is white", x, y)
+			}
+		}
+	}
+}
+
+// TestZoomShowsThinCell: a wall cell thousands of times longer than it is
+// thick is framed so that it is shapePx thick, around the face whose
+// value fails it, or its shortest face without face values.
+func TestZoomShowsThinCell(t *testing.T) {
+	m := bumpChannel(t, 80, 600)
+	c := int32(3) // the first row, on the floor
+	thick := math.Abs(m.Geo.CellArea[c]) / cellExtent(m, int(c))
+	if cellExtent(m, int(c))/thick < 1000 {
+		t.Fatalf("scenario cell is %g thick, %g long: not thin", thick, cellExtent(m, int(c)))
+	}
+	faceVals := make([]float64, m.NumFaces())
+	worst := -1
+	for f := range faceVals {
+		if m.Owner[f] == c && m.Neighbour[f] >= 0 && m.Neighbour[f] == c+1 {
+			worst = f
+		}
+	}
+	faceVals[worst] = 50
+	vals := make([]float64, m.NumCells())
+	vals[c] = 50
+	st := make([]Status, m.NumCells())
+	st[c] = Fail
+	in := Input{Mesh: m, Status: st, Metrics: []Metric{{Name: "skew", Values: vals, FaceValues: faceVals, Limits: []Limit{{1, Warn}, {10, Fail}}}}}
+	b := box{0, 0, zoomSize, zoomSize}
+	for _, tc := range []struct {
+		name string
+		in   Input
+		at   orb.Point
+	}{
+		{"worst face", in, m.Geo.FaceMid[worst]},
+		{"no face values", Input{Mesh: m, Status: st}, shortestFaceMid(m, c)},
+	} {
+		v := zoomView(m, c, focusOf(m, tc.in, c), b)
+		if got := thick * v.scale; got < shapePx*(1-1e-9) {
+			t.Errorf("%s: the cell is %g px thick in its zoom, want %d or more", tc.name, got, shapePx)
+		}
+		if math.Abs(v.cx-tc.at[0]) > 1e-12 || math.Abs(v.cy-tc.at[1]) > 1e-12 {
+			t.Errorf("%s: zoom centred on (%g, %g), want (%g, %g)", tc.name, v.cx, v.cy, tc.at[0], tc.at[1])
+		}
+	}
+	// A cell of ordinary shape (mid-channel, 0.05 by about 0.06) keeps
+	// the framing six cell sizes wide.
+	m = bumpChannel(t, 80, 24)
+	mid := int32(12*80 + 10)
+	v := zoomView(m, mid, focusOf(m, Input{Mesh: m}, mid), b)
+	if w := v.x1 - v.x0; math.Abs(w-6*cellExtent(m, int(mid))) > 1e-9 {
+		t.Errorf("a square-ish cell's zoom is %g wide, want six times its %g", w, cellExtent(m, int(mid)))
+	}
+}
+
+func shortestFaceMid(m *mesh.Mesh, c int32) orb.Point {
+	best := -1
+	for f := range m.FaceNodes {
+		if (m.Owner[f] == c || m.Neighbour[f] == c) && (best < 0 || m.Geo.FaceLength[f] < m.Geo.FaceLength[best]) {
+			best = f
+		}
+	}
+	return m.Geo.FaceMid[best]
+}
+
+// TestCrossingLines: a zoom window names each limit its cell is past,
+// failures first, with values in their units; a zero limit of a metric
+// where smaller is worse takes in zero; a failing cell past no metric's
+// fail limit is put down to a connectivity check.
+func TestCrossingLines(t *testing.T) {
+	m := bumpChannel(t, 4, 2)
+	n := m.NumCells()
+	fill := func(v float64, at float64) []float64 {
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = v
+		}
+		x[0] = at
+		return x
+	}
+	st := make([]Status, n)
+	st[0], st[1] = Fail, Fail
+	in := Input{Mesh: m, Status: st, Metrics: []Metric{
+		{Name: "max_angle", Unit: "°", Values: fill(90, 165), Limits: []Limit{{160, Warn}, {179, Fail}}},
+		{Name: "area", Unit: "m²", Lower: true, Values: fill(1, 0), Limits: []Limit{{0, Warn}, {0, Fail}}},
+		{Name: "ratio", Values: fill(1, 1), Limits: []Limit{{5, Warn}, {9, Fail}}},
+	}}
+	want := []string{"fail: area 0 m² ≤ 0 m²", "warn: max_angle 165° > 160°"}
+	if got := crossingLines(in, 0); !slices.Equal(got, want) {
+		t.Errorf("cell 0: %q, want %q", got, want)
+	}
+	want = []string{"fail: a connectivity check (see the report)"}
+	if got := crossingLines(in, 1); !slices.Equal(got, want) {
+		t.Errorf("cell 1: %q, want %q", got, want)
+	}
+	if got := crossingLines(in, 2); len(got) != 0 {
+		t.Errorf("cell 2 passes, yet %q", got)
+	}
+}
+
+// TestLegendGroups: each tag gets a colour of its own and is listed under
+// its condition, the conditions in the order of their first tag.
+func TestLegendGroups(t *testing.T) {
+	m := bumpChannel(t, 4, 2)
+	colours, groups := boundaryColours(m, []string{"inflow", "outflow", "wall", "wall"})
+	var got []string
+	for _, g := range groups {
+		var tags []string
+		for _, e := range g.tags {
+			tags = append(tags, e.label+" "+strconv.Itoa(e.faces))
+		}
+		got = append(got, g.condition+": "+strings.Join(tags, ", "))
+	}
+	want := []string{"inflow: inlet 2", "outflow: outlet 2", "wall: floor 4, ceiling 4"}
+	if !slices.Equal(got, want) {
+		t.Errorf("legend %q, want %q", got, want)
+	}
+	for i := range colours {
+		for j := range i {
+			if colours[i] == colours[j] {
+				t.Errorf("tags %s and %s share a colour", m.Tags[i], m.Tags[j])
+			}
+		}
+	}
+	if _, groups := boundaryColours(m, nil); len(groups) != 1 || len(groups[0].tags) != 4 || groups[0].condition != "" {
+		t.Errorf("without conditions: %+v, want one group of the four tags", groups)
+	}
+}
+
+// TestScaleAndTicks checks the round numbers behind the scale bars and
+// ticks, and the wrapping of labels.
+func TestScaleAndTicks(t *testing.T) {
+	for _, tc := range []struct{ raw, step, below float64 }{
+		{0.3, 0.5, 0.2}, {1, 1, 1}, {7.2, 10, 5}, {0.00042, 0.0005, 0.0002}, {1999, 2000, 1000},
+	} {
+		if got := niceStep(tc.raw); math.Abs(got-tc.step) > 1e-12*tc.step {
+			t.Errorf("niceStep(%g) = %g, want %g", tc.raw, got, tc.step)
+		}
+		if got := niceBelow(tc.raw); math.Abs(got-tc.below) > 1e-12*tc.below {
+			t.Errorf("niceBelow(%g) = %g, want %g", tc.raw, got, tc.below)
+		}
+	}
+	for l, want := range map[float64]string{0.5: "500 mm", 2e-5: "20 µm", 3000: "3 km", 1: "1 m", 0.002: "2 mm"} {
+		if got := lengthLabel(l); got != want {
+			t.Errorf("lengthLabel(%g) = %q, want %q", l, got, want)
+		}
+	}
+	if got := fixed(-1e-9, 2); got != "0.00" {
+		t.Errorf("fixed(-1e-9, 2) = %q", got)
+	}
+	if got := stepDecimals(0.05); got != 2 {
+		t.Errorf("stepDecimals(0.05) = %d", got)
+	}
+	// 8e-5 m wide about x = 1.5: enough decimals to tell the ends apart.
+	if dec := spanDecimals(8e-5); fixed(1.49996, dec) == fixed(1.50004, dec) {
+		t.Errorf("spanDecimals(8e-5) = %d cannot tell the ends apart", dec)
+	}
+	lines := wrap("fail: aspect ratio (bounding box) 9.874 > 9.5", 200, axisText, "  ")
+	if len(lines) != 2 || !strings.HasPrefix(lines[1], "  ") {
+		t.Errorf("wrap gave %q", lines)
+	}
+	for _, l := range lines {
+		if textWidth(l, axisText) > 200 {
+			t.Errorf("wrapped line %q is wider than 200 px", l)
+		}
+	}
+}
+
+// TestFontUnits: the raster font draws the unit and comparison signs the
+// pictures write, not as '?'.
+func TestFontUnits(t *testing.T) {
+	for _, c := range "°²µ≤≥×" {
+		if glyph(c) == glyph('?') || glyph(c) == ([7]uint8{}) {
+			t.Errorf("the raster font lacks %q", c)
+		}
+	}
 }

@@ -55,10 +55,10 @@ func writePNG(w io.Writer, s *scene) error {
 					cv.segment(pts[k], pts[k+1], pts[(k+2)%8], pts[(k+3)%8], *sh.stroke, sh.width, false)
 				}
 			}
-		case squares:
-			for k := 0; k+1 < len(sh.pts); k += 2 {
-				x, y, w := sh.pts[k], sh.pts[k+1], sh.width
-				cv.fill([]float64{x, y, x + w, y, x + w, y + w, x, y + w}, *sh.fill)
+		case runs:
+			for k := 0; k+2 < len(sh.pts); k += 3 {
+				x, y, w, h := sh.pts[k], sh.pts[k+1], sh.pts[k+2], sh.width
+				cv.fill([]float64{x, y, x + w, y, x + w, y + h, x, y + h}, *sh.fill)
 			}
 		case label:
 			cv.text(sh)
@@ -194,7 +194,7 @@ func (cv *canvas) wu(x0, y0, x1, y1 float64, c rgb, alpha float64) {
 func (cv *canvas) text(sh shape) {
 	scale := math.Max(sh.size/9, 1)
 	adv := 6 * scale
-	w := float64(len(sh.text))*adv - scale
+	w := textWidth(sh.text, sh.size)
 	x := sh.pts[0]
 	switch sh.anchor {
 	case middle:
@@ -204,8 +204,8 @@ func (cv *canvas) text(sh shape) {
 	}
 	x = math.Round(x)
 	top := math.Round(sh.pts[1] - 7*scale)
-	for i := 0; i < len(sh.text); i++ {
-		g := glyph(sh.text[i])
+	for i, ch := range []rune(sh.text) {
+		g := glyph(ch)
 		gx := x + float64(i)*adv
 		for py := int(top); py < int(top+7*scale); py++ {
 			r := int((float64(py) + 0.5 - top) / scale)

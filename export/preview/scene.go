@@ -19,9 +19,9 @@ const (
 	rect
 	// label: text at pts[0], pts[1] (baseline), anchored per anchor.
 	label
-	// squares: pts holds the top-left corner x y of squares of side
-	// width, filled.
-	squares
+	// runs: pts holds x y w for each run, a rectangle w wide and width
+	// tall with its top-left corner at x y, filled.
+	runs
 )
 
 // anchor is where a label's position sits on its text.
@@ -95,6 +95,8 @@ var (
 	panelLine  = rgb{206, 212, 218}
 	warnFill   = rgb{255, 196, 0}
 	failFill   = rgb{220, 38, 38}
+	warnEdge   = rgb{166, 110, 0}
+	failEdge   = rgb{140, 20, 20}
 	barFill    = rgb{96, 125, 160}
 	untagged   = rgb{0, 0, 0}
 	zoomFrame  = rgb{124, 58, 237}

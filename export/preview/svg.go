@@ -55,18 +55,19 @@ func writeSVG(w io.Writer, s *scene) error {
 			}
 			d = append(d, 'Z')
 			fmt.Fprintf(bw, "<path d=\"%s\"%s%s/>\n", d, paint(sh), clip)
-		case squares:
+		case runs:
 			d = d[:0]
-			side := appendNum(nil, sh.width)
-			for k := 0; k+1 < len(sh.pts); k += 2 {
+			tall := appendNum(nil, sh.width)
+			for k := 0; k+2 < len(sh.pts); k += 3 {
+				w := appendNum(nil, sh.pts[k+2])
 				d = append(d, 'M')
 				d = pair(d, sh.pts[k], sh.pts[k+1])
 				d = append(d, 'h')
-				d = append(d, side...)
+				d = append(d, w...)
 				d = append(d, 'v')
-				d = append(d, side...)
+				d = append(d, tall...)
 				d = append(d, 'h', '-')
-				d = append(d, side...)
+				d = append(d, w...)
 				d = append(d, 'z')
 			}
 			fmt.Fprintf(bw, "<path d=\"%s\" fill=\"%s\"%s/>\n", d, sh.fill.hex(), clip)
