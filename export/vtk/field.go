@@ -7,10 +7,13 @@ import (
 	"cvdeck/mesh"
 )
 
-// Field is one cell-data array: one value per cell of the mesh.
+// Field is one data array: one value per cell of the mesh (cell data), or,
+// with Point set, one value per node (point data, such as a metric of the
+// nodes' median-dual control volumes). Only WriteVTU takes point fields.
 type Field struct {
 	Name   string
 	Values []float64
+	Point  bool
 }
 
 // AreaName is the name of the cell-area array every mesh file carries.
@@ -44,10 +47,25 @@ func cellType(n int32) uint8 {
 }
 
 // checkFields checks that every field has one value per cell of a mesh of
-// nc cells and a usable, unique name.
-func checkFields(fields []Field, nc int) error {
+// nc cells (per node, of nn nodes, for a point field; nn < 0 when the
+// writer takes no point fields) and a usable name, unique among the fields
+// of its kind.
+func checkFields(fields []Field, nc, nn int) error {
 	seen := map[string]bool{AreaName: true}
+	seenPoint := map[string]bool{}
 	for i, f := range fields {
+		if f.Point {
+			switch {
+			case nn < 0:
+				return fmt.Errorf("vtk: field %q is point data, which only the VTU writer takes", f.Name)
+			case f.Name == "" || seenPoint[f.Name] || strings.ContainsAny(f.Name, "\x00\"<>&"):
+				return fmt.Errorf("vtk: point field %d name %q is empty, used twice or contains a NUL, quote, <, > or &", i, f.Name)
+			case len(f.Values) != nn:
+				return fmt.Errorf("vtk: point field %q has %d values; the mesh has %d nodes", f.Name, len(f.Values), nn)
+			}
+			seenPoint[f.Name] = true
+			continue
+		}
 		switch {
 		case f.Name == "":
 			return fmt.Errorf("vtk: field %d has no name", i)

@@ -31,7 +31,7 @@ func WriteLegacy(w io.Writer, m *mesh.Mesh, fields []Field, binary bool) error {
 		return err
 	}
 	nc := m.NumCells()
-	if err := checkFields(fields, nc); err != nil {
+	if err := checkFields(fields, nc, -1); err != nil {
 		return err
 	}
 	if !binary {

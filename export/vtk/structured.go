@@ -18,7 +18,7 @@ func WriteVTS(w io.Writer, m *mesh.Mesh, b int, fields []Field) error {
 	if err := checkArrays(m); err != nil {
 		return err
 	}
-	if err := checkFields(fields, m.NumCells()); err != nil {
+	if err := checkFields(fields, m.NumCells(), -1); err != nil {
 		return err
 	}
 	if b < 0 || b >= len(m.Blocks) {

@@ -12,7 +12,8 @@ import (
 // (x, y, 0); connectivity and offsets are Int32 (the mesh's own CSR
 // arrays), types UInt8: VTK_TRIANGLE (5), VTK_QUAD (9) or VTK_POLYGON (7)
 // by node count. Cell data: AreaName (the signed cell area from m.Geo) and
-// then each field in order, all Float64.
+// then each cell field in order; point data: the point fields in order;
+// all Float64.
 //
 // The data are streamed through one buffer; nothing is allocated per cell.
 func WriteVTU(w io.Writer, m *mesh.Mesh, fields []Field) error {
@@ -20,8 +21,16 @@ func WriteVTU(w io.Writer, m *mesh.Mesh, fields []Field) error {
 		return err
 	}
 	nc := m.NumCells()
-	if err := checkFields(fields, nc); err != nil {
+	if err := checkFields(fields, nc, len(m.Nodes)); err != nil {
 		return err
+	}
+	var cells, points []Field
+	for _, f := range fields {
+		if f.Point {
+			points = append(points, f)
+		} else {
+			cells = append(cells, f)
+		}
 	}
 	d := newAppendedDoc("UnstructuredGrid")
 	d.line(1, "<UnstructuredGrid>")
@@ -34,7 +43,14 @@ func WriteVTU(w io.Writer, m *mesh.Mesh, fields []Field) error {
 	d.array(4, int32Array("offsets", m.CellStart[1:]))
 	d.array(4, dataArray{name: "types", typ: "UInt8", nbytes: int64(nc), write: func(e *encoder) { e.cellTypes(m.CellStart) }})
 	d.line(3, "</Cells>")
-	writeCellData(d, m.Geo.CellArea, fields)
+	if len(points) > 0 {
+		d.line(3, "<PointData>")
+		for _, f := range points {
+			d.array(4, float64Array(f.Name, f.Values))
+		}
+		d.line(3, "</PointData>")
+	}
+	writeCellData(d, m.Geo.CellArea, cells)
 	d.line(2, "</Piece>")
 	d.line(1, "</UnstructuredGrid>")
 	if err := d.write(w); err != nil {

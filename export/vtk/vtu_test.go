@@ -10,7 +10,8 @@ import (
 )
 
 // readBackScript reads a VTK file with the VTK library's own reader for its
-// extension and prints counts, cell types, every cell-data array, the
+// extension and prints counts, cell types, every cell-data and point-data
+// array, the
 // field-data strings and the cell sizes of vtkCellSizeFilter.
 const readBackScript = `
 import sys, json, vtk
@@ -38,6 +39,8 @@ for i in range(cd.GetNumberOfArrays()):
         out['arrays'][a.GetName()] = [a.GetValue(k) for k in range(a.GetNumberOfValues())]
     else:
         out['arrays'][a.GetName()] = vtk_to_numpy(a).tolist()
+pd = d.GetPointData()
+out['pointarrays'] = {pd.GetArrayName(i): vtk_to_numpy(pd.GetArray(i)).tolist() for i in range(pd.GetNumberOfArrays())}
 fd = d.GetFieldData()
 out['fieldstrings'] = {}
 for i in range(fd.GetNumberOfArrays()):
@@ -61,15 +64,16 @@ print(json.dumps(out))
 
 // readBack is what readBackScript prints.
 type readBack struct {
-	Points       int                 `json:"points"`
-	Cells        int                 `json:"cells"`
-	Types        []int               `json:"types"`
-	XYZ          []float64           `json:"xyz"`
-	Arrays       map[string]any      `json:"arrays"`
-	FieldStrings map[string][]string `json:"fieldstrings"`
-	Conn         [][]int             `json:"conn"`
-	SizeArea     []float64           `json:"size_area"`
-	SizeLength   []float64           `json:"size_length"`
+	Points       int                  `json:"points"`
+	Cells        int                  `json:"cells"`
+	Types        []int                `json:"types"`
+	XYZ          []float64            `json:"xyz"`
+	Arrays       map[string]any       `json:"arrays"`
+	PointArrays  map[string][]float64 `json:"pointarrays"`
+	FieldStrings map[string][]string  `json:"fieldstrings"`
+	Conn         [][]int              `json:"conn"`
+	SizeArea     []float64            `json:"size_area"`
+	SizeLength   []float64            `json:"size_length"`
 }
 
 // floats returns the cell array name as float64s, failing if absent.
@@ -169,6 +173,38 @@ func TestVTUReadByVTK(t *testing.T) {
 	var got readBack
 	runPython(t, readBackScript, &got, p)
 	checkUnstructured(t, got, m, fields)
+}
+
+// A point field is written as point data, which the VTK library's reader
+// gives back node for node, beside the cell data; the legacy writer, which
+// takes cell data only, refuses it.
+func TestVTUPointData(t *testing.T) {
+	m := mixedMesh(t, 5, 4, 10)
+	x := make([]float64, len(m.Nodes))
+	for i, p := range m.Nodes {
+		x[i] = p[0] + 0.5*p[1]
+	}
+	fields := []Field{squareField(m.NumCells()), {Name: "node_x", Values: x, Point: true}}
+	p := writeTemp(t, "mesh.vtu", func(b *bytes.Buffer) error { return WriteVTU(b, m, fields) })
+	var got readBack
+	runPython(t, readBackScript, &got, p)
+	checkUnstructured(t, got, m, fields[:1])
+	if v := got.PointArrays["node_x"]; len(v) != len(x) {
+		t.Fatalf("VTK read point arrays %v, want node_x with %d values", got.PointArrays, len(x))
+	} else {
+		for i := range x {
+			if v[i] != x[i] {
+				t.Fatalf("node %d: VTK read %g, wrote %g", i, v[i], x[i])
+			}
+		}
+	}
+	if err := WriteLegacy(&bytes.Buffer{}, m, fields, false); err == nil || !bytes.Contains([]byte(err.Error()), []byte("only the VTU writer")) {
+		t.Errorf("legacy writer with a point field: %v", err)
+	}
+	short := []Field{{Name: "node_x", Values: x[1:], Point: true}}
+	if err := WriteVTU(&bytes.Buffer{}, m, short); err == nil || !bytes.Contains([]byte(err.Error()), []byte("nodes")) {
+		t.Errorf("short point field: %v", err)
+	}
 }
 
 func TestVTUFieldErrors(t *testing.T) {
