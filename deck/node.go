@@ -282,8 +282,11 @@ func (v value) count(lo int) (int, error) {
 	if err != nil {
 		return 0, err
 	}
-	if f != math.Trunc(f) || f < float64(lo) || f > 1e9 {
-		return 0, v.errf("must be a whole number of at least %d, got %g", lo, f)
+	switch {
+	case f != math.Trunc(f):
+		return 0, v.errf("must be a whole number, at least %d; got %g, which is not a whole number", lo, f)
+	case f < float64(lo) || f > 1e9:
+		return 0, v.errf("must be a whole number from %d to 1e9; got %g", lo, f)
 	}
 	return int(f), nil
 }

@@ -329,7 +329,7 @@ func (ms *meshSpec) buildStructured() (*mesh.Mesh, []string, error) {
 		n += k
 	}
 	if n > ms.maxCells {
-		return nil, nil, ms.at.errf("the blocks would make %d cells, more than the limit of %d (raise mesh.max_cells or --max-cells)", n, ms.maxCells)
+		return nil, nil, ms.at.errf("the blocks would make %d cells, more than the limit of %d (raise mesh.max_cells in the case file, or --max-cells for one `cvdeck mesh`)", n, ms.maxCells)
 	}
 	var blocks []*structured.Block
 	var notes []string

@@ -383,9 +383,9 @@ func (c *Case) cellLimitError(e *unstructured.CellLimitError) error {
 	}
 	fmt.Fprintf(&b, ", more than the limit of %d", e.Limit)
 	if e.Limit == DefaultMaxCells {
-		b.WriteString(" (the default; mesh.max_cells or --max-cells sets another)")
+		b.WriteString(" (the default; mesh.max_cells in the case file, or --max-cells for one `cvdeck mesh`, sets another)")
 	} else {
-		b.WriteString(" (mesh.max_cells or --max-cells)")
+		b.WriteString(" (mesh.max_cells in the case file, or --max-cells for one `cvdeck mesh`)")
 	}
 	if c.Refine != 1 {
 		fmt.Fprintf(&b, " at refinement factor %g", c.Refine)

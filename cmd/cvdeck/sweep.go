@@ -1,12 +1,14 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"os"
 	"os/signal"
 	"path/filepath"
 	"runtime"
+	"sync"
 	"syscall"
 
 	"github.com/spf13/cobra"
@@ -36,9 +38,13 @@ func newSweepCommand() *cobra.Command {
 		Long: `sweep builds one deck per variant of a sweep file into DIR/<variant folder>,
 on -j workers, and writes DIR/summary.csv and DIR/summary.json (with --shard
 K/N: DIR/summary-shard-K-of-N.csv and .json). A variant whose folder already
-holds a deck built from the same inputs is kept (--force rebuilds it), so an
-interrupted sweep continues where it stopped. A failing variant does not stop
-the others; the exit code is then 1.
+holds an intact deck built from the same inputs is kept, so an interrupted
+sweep continues where it stopped. Before writing anything, sweep refuses a
+DIR holding decks or summaries of another study (exit code 2), and decks it
+would replace because the base case or cvdeck changed or their files were
+changed since (--force rebuilds those). A failing variant does not stop the
+others; the exit code is then 1. The first Ctrl-C (or SIGTERM) starts no more
+variants and lets those being built finish; a second one stops them.
 
 --shard K/N runs only the K-th of N balanced slices (K from 1, as a job
 array's task id), so a scheduler can spread the sweep; 'cvdeck sweep merge'
@@ -56,7 +62,7 @@ joins the shard summaries.`,
 	f.StringVarP(&fl.out, "out", "o", "", "output folder (required)")
 	f.IntVarP(&fl.jobs, "jobs", "j", runtime.NumCPU(), "variants built at once")
 	f.StringVar(&fl.shard, "shard", "", "run only slice K of N (K/N, K from 1)")
-	f.BoolVar(&fl.force, "force", false, "rebuild decks whose inputs have not changed")
+	f.BoolVar(&fl.force, "force", false, "rebuild every deck of the run, also decks of an edited base case or with files changed since")
 	f.BoolVar(&fl.list, "list", false, "list the variants (of the shard) and build nothing")
 	cmd.AddCommand(newSweepMergeCommand())
 	return cmd
@@ -89,25 +95,47 @@ func runSweep(cmd *cobra.Command, path string, fl sweepFlags) error {
 	if err != nil {
 		return err
 	}
+	p := newPipeline(f, fl.jobs)
 	if fl.list {
+		// The same checks of the base case as a run makes, so that a list
+		// that succeeds is one a run can build.
+		if _, err := p.LoadBase(f); err != nil {
+			return err
+		}
 		return sweep.WriteList(cmd.OutOrStdout(), f, shard, jsonOut)
 	}
-	// The first Ctrl-C (or SIGTERM) lets the variants in hand finish and
-	// writes the summary; a second one ends the process at once.
-	ctx, stop := signal.NotifyContext(cmd.Context(), os.Interrupt, syscall.SIGTERM)
-	defer stop()
-	go func() {
-		<-ctx.Done()
-		stop()
-	}()
-	opt := sweep.Options{Workers: fl.jobs, Shard: shard, Force: fl.force}
 	stderr := cmd.ErrOrStderr()
 	var bar *sweep.Bar
 	if file, ok := stderr.(*os.File); ok && !quiet && sweep.IsTerminal(file) {
 		bar = sweep.NewBar(stderr)
-		opt.Progress = bar.Update
 	}
-	s, err := sweep.Run(ctx, f, fl.out, newPipeline(f, fl.jobs), opt)
+	ctx, cancel := context.WithCancel(cmd.Context())
+	defer cancel()
+	stop := make(chan struct{})
+	finished := make(chan struct{})
+	defer close(finished)
+	var mu sync.Mutex // the bar and the signal notes share stderr
+	note := func(msg string) {
+		if quiet {
+			return
+		}
+		mu.Lock()
+		defer mu.Unlock()
+		if bar != nil {
+			fmt.Fprint(stderr, "\r\033[K")
+		}
+		fmt.Fprintln(stderr, msg)
+	}
+	watchSignals(stop, cancel, finished, note)
+	opt := sweep.Options{Workers: fl.jobs, Shard: shard, Force: fl.force, Stop: stop}
+	if bar != nil {
+		opt.Progress = func(pr sweep.Progress) {
+			mu.Lock()
+			defer mu.Unlock()
+			bar.Update(pr)
+		}
+	}
+	s, err := sweep.Run(ctx, f, fl.out, p, opt)
 	if bar != nil {
 		bar.Finish()
 	}
@@ -118,6 +146,42 @@ func runSweep(cmd *cobra.Command, path string, fl sweepFlags) error {
 		return perr
 	}
 	return err
+}
+
+// watchSignals handles SIGINT (a terminal's Ctrl-C) and SIGTERM during a
+// sweep until finished is closed. The first one closes stop: no variant is
+// started after it and the builds in progress finish (the child processes
+// run in process groups of their own, so the terminal's signal does not
+// reach them). The second one calls cancel, which kills the builds in
+// progress. Either way the summary is written. A third signal meets Go's
+// default handling and ends the process.
+func watchSignals(stop chan<- struct{}, cancel func(), finished <-chan struct{}, note func(string)) {
+	sigs := make(chan os.Signal, 2)
+	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM)
+	go func() {
+		defer signal.Stop(sigs)
+		select {
+		case sig := <-sigs:
+			note(fmt.Sprintf("cvdeck: %s: starting no more variants and letting those being built finish; a second one stops them", signalName(sig)))
+			close(stop)
+		case <-finished:
+			return
+		}
+		select {
+		case sig := <-sigs:
+			note(fmt.Sprintf("cvdeck: %s again: stopping the builds in progress; their folders keep their previous decks or none", signalName(sig)))
+			cancel()
+		case <-finished:
+		}
+	}()
+}
+
+// signalName says which signal arrived in plain words.
+func signalName(sig os.Signal) string {
+	if sig == syscall.SIGTERM {
+		return "terminate signal (SIGTERM)"
+	}
+	return "interrupt (SIGINT, Ctrl-C)"
 }
 
 // printSweep writes a sweep's summary as JSON on stdout with --json, and
@@ -138,11 +202,15 @@ func printSweep(stdout, report io.Writer, s *sweep.Summary, out string, shard sw
 	return nil
 }
 
-// reportSweep prints the failures, the warnings and a closing line.
+// reportSweep prints the failures, the builds stopped half-way, the
+// warnings and a closing line.
 func reportSweep(w io.Writer, s *sweep.Summary, out string, shard sweep.Shard) {
 	for _, r := range s.Rows {
-		if r.Status == sweep.StatusFailed {
+		switch {
+		case r.Status == sweep.StatusFailed:
 			fmt.Fprintf(w, "%s failed: %s\n", r.Name, r.Error)
+		case r.Run == sweep.RunInterrupted:
+			fmt.Fprintf(w, "%s: %s\n", r.Name, r.Error)
 		}
 	}
 	for _, m := range s.Warnings {
@@ -161,8 +229,11 @@ func newSweepMergeCommand() *cobra.Command {
 		Long: `merge reads the shard summaries (summary-shard-K-of-N.json) of each DIR, or
 its summary.json when it has none, checks that they come from one sweep, and
 writes summary.json and summary.csv of the whole sweep into -o (default: the
-first DIR). It reports variants that no shard has (exit code 1) and variants
-found twice. The decks stay where the shards wrote them.`,
+first DIR). Summaries of another sweep, or built from another base case or
+by another cvdeck version, are refused (exit code 2). It reports variants
+that no shard has, variants that failed or were not run and decks that
+failed their checks (exit code 1), and variants found twice. The decks stay
+where the shards wrote them.`,
 		Example: `  cvdeck sweep merge out
   cvdeck sweep merge host1/out host2/out -o out`,
 		Args: cobra.MinimumNArgs(1),

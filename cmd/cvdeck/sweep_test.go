@@ -1,11 +1,18 @@
 package main
 
 import (
+	"bytes"
 	"encoding/json"
+	"fmt"
 	"os"
+	"os/exec"
 	"path/filepath"
+	"runtime"
+	"strconv"
 	"strings"
+	"syscall"
 	"testing"
+	"time"
 
 	"cvdeck/deck/sweep"
 )
@@ -117,5 +124,248 @@ func TestSweepList(t *testing.T) {
 	code, stdout, _ := cvdeck(t, "sweep", sampleSweep("nozzle-throat-exit.yaml"), "--list", "--shard", "1/5")
 	if code != 0 || !strings.HasPrefix(stdout, "5 of 24 variants (shard 1/5)\n") || strings.Count(stdout, "\n") != 6 {
 		t.Errorf("--list: exit %d\n%s", code, stdout)
+	}
+}
+
+// slowSweep writes a sweep of n variants of the sample nozzle whose block
+// is smoothed to a tolerance it never reaches, so that each variant takes
+// a second or two, and returns the sweep file.
+func slowSweep(t *testing.T, n int) string {
+	t.Helper()
+	dir := t.TempDir()
+	base, err := os.ReadFile(sampleSweep("nozzle.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	block := "{name: nozzle, south: axis, east: exit, north: wall, west: inlet}"
+	if !strings.Contains(string(base), block) {
+		t.Fatal("the sample nozzle's block line has changed; update slowSweep")
+	}
+	slow := strings.Replace(string(base), block, "{name: nozzle, south: axis, east: exit, north: wall, west: inlet, smooth: {iterations: 20000, tolerance: 1e-15}}", 1)
+	if err := os.WriteFile(filepath.Join(dir, "slow.yaml"), []byte(slow), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	var values []string
+	for i := 0; i < n; i++ {
+		values = append(values, strconv.Itoa(20+i))
+	}
+	sw := filepath.Join(dir, "slow-sweep.yaml")
+	text := "base: slow.yaml\nparameters:\n  throat_h: [" + strings.Join(values, ", ") + "]\n  cells_x: 121\n  cells_y: 33\n"
+	if err := os.WriteFile(sw, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return sw
+}
+
+// startSweep starts this test binary as `cvdeck sweep` (see TestMain) in
+// a process group of its own, as a shell starts a job, and waits until it
+// has two variants in child processes. It returns the command, its
+// stderr, and the children's process ids.
+func startSweep(t *testing.T, file, out string) (*exec.Cmd, *bytes.Buffer, []int) {
+	t.Helper()
+	if runtime.GOOS != "linux" {
+		t.Skip("process groups and parent-death signals are tested on Linux")
+	}
+	exe, err := os.Executable()
+	if err != nil {
+		t.Fatal(err)
+	}
+	cmd := exec.Command(exe, "sweep", file, "-o", out, "-j", "2")
+	var stderr bytes.Buffer
+	cmd.Stderr = &stderr
+	cmd.SysProcAttr = &syscall.SysProcAttr{Setpgid: true}
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() {
+		if cmd.ProcessState == nil {
+			cmd.Process.Kill()
+			cmd.Wait()
+		}
+	})
+	deadline := time.Now().Add(20 * time.Second)
+	for time.Now().Before(deadline) {
+		if kids := children(cmd.Process.Pid); len(kids) == 2 {
+			return cmd, &stderr, kids
+		}
+		time.Sleep(20 * time.Millisecond)
+	}
+	t.Fatalf("the sweep started no two children in 20 s\n%s", stderr.String())
+	return nil, nil, nil
+}
+
+// children returns the process ids of pid's children, from
+// /proc/PID/task/TID/children (Linux).
+func children(pid int) []int {
+	tasks, _ := filepath.Glob(fmt.Sprintf("/proc/%d/task/*/children", pid))
+	var out []int
+	for _, f := range tasks {
+		data, _ := os.ReadFile(f)
+		for _, field := range strings.Fields(string(data)) {
+			if n, err := strconv.Atoi(field); err == nil {
+				out = append(out, n)
+			}
+		}
+	}
+	return out
+}
+
+// alive reports whether process pid exists and is not a zombie.
+func alive(pid int) bool {
+	data, err := os.ReadFile(fmt.Sprintf("/proc/%d/stat", pid))
+	if err != nil {
+		return false
+	}
+	// The state follows the command name in parentheses.
+	i := bytes.LastIndexByte(data, ')')
+	return i > 0 && i+2 < len(data) && data[i+2] != 'Z'
+}
+
+// TestSweepInterrupts sends a terminal's Ctrl-C (SIGINT to the whole
+// process group) to a running sweep: the variants being built finish and
+// are kept, the others are reported not started, exit code 1. A second
+// SIGINT stops the builds in progress, which are reported as stopped, not
+// failed. SIGKILL of the sweep takes its children with it.
+func TestSweepInterrupts(t *testing.T) {
+	if testing.Short() {
+		t.Skip("runs slow variants in child processes")
+	}
+	file := slowSweep(t, 5)
+
+	t.Run("once", func(t *testing.T) {
+		out := t.TempDir()
+		cmd, stderr, _ := startSweep(t, file, out)
+		if err := syscall.Kill(-cmd.Process.Pid, syscall.SIGINT); err != nil {
+			t.Fatal(err)
+		}
+		err := cmd.Wait()
+		if cmd.ProcessState.ExitCode() != 1 {
+			t.Fatalf("exit %v\n%s", err, stderr)
+		}
+		s, err := sweep.ReadSummary(filepath.Join(out, "summary.json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		runs := map[string]int{}
+		for _, r := range s.Rows {
+			runs[r.Run]++
+		}
+		if runs[sweep.RunBuilt] != 2 || runs[sweep.RunNotRun] != 3 || len(runs) != 2 {
+			t.Errorf("runs %v, want the 2 in hand built and 3 not run\n%s", runs, stderr)
+		}
+		for _, want := range []string{"interrupt (SIGINT, Ctrl-C): starting no more variants and letting those being built finish",
+			"5 variants: 2 built, 0 reused, 0 failed, 3 not started",
+			"the sweep was stopped before its end: 3 of 5 variants not started"} {
+			if !strings.Contains(stderr.String(), want) {
+				t.Errorf("stderr lacks %q:\n%s", want, stderr)
+			}
+		}
+	})
+
+	t.Run("twice", func(t *testing.T) {
+		out := t.TempDir()
+		cmd, stderr, kids := startSweep(t, file, out)
+		syscall.Kill(-cmd.Process.Pid, syscall.SIGINT)
+		time.Sleep(200 * time.Millisecond)
+		syscall.Kill(-cmd.Process.Pid, syscall.SIGINT)
+		cmd.Wait()
+		if cmd.ProcessState.ExitCode() != 1 {
+			t.Fatalf("exit %d\n%s", cmd.ProcessState.ExitCode(), stderr)
+		}
+		s, err := sweep.ReadSummary(filepath.Join(out, "summary.json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		runs := map[string]int{}
+		for _, r := range s.Rows {
+			runs[r.Run]++
+			if r.Status == sweep.StatusFailed {
+				t.Errorf("%s failed: %s", r.Name, r.Error)
+			}
+		}
+		if runs[sweep.RunInterrupted] != 2 || runs[sweep.RunNotRun] != 3 {
+			t.Errorf("runs %v, want 2 interrupted and 3 not run\n%s", runs, stderr)
+		}
+		if strings.Contains(stderr.String(), "killed") || !strings.Contains(stderr.String(), "2 stopped while being built") {
+			t.Errorf("stderr:\n%s", stderr)
+		}
+		for _, k := range kids {
+			if alive(k) {
+				t.Errorf("child %d still runs", k)
+			}
+		}
+	})
+
+	t.Run("kill", func(t *testing.T) {
+		cmd, _, kids := startSweep(t, file, t.TempDir())
+		cmd.Process.Kill()
+		cmd.Wait()
+		// The variants have a second or more to go; killed with the sweep
+		// they end within milliseconds.
+		deadline := time.Now().Add(500 * time.Millisecond)
+		for _, k := range kids {
+			for alive(k) && time.Now().Before(deadline) {
+				time.Sleep(20 * time.Millisecond)
+			}
+			if alive(k) {
+				t.Errorf("child %d runs on after the sweep was killed", k)
+				syscall.Kill(k, syscall.SIGKILL)
+			}
+		}
+	})
+}
+
+// TestSweepListChecksTheBase: --list loads the base case and checks the
+// swept names as a run does, so a list that succeeds is one a run builds.
+func TestSweepListChecksTheBase(t *testing.T) {
+	dir := t.TempDir()
+	missing := filepath.Join(dir, "missing.yaml")
+	os.WriteFile(missing, []byte("base: nozzle-missing.yaml\nparameters:\n  throat_h: [30, 40]\n"), 0o644)
+	code, stdout, stderr := cvdeck(t, "sweep", missing, "--list")
+	if code != 2 || stdout != "" || !strings.Contains(stderr, "missing.yaml: the base case as written does not load") {
+		t.Errorf("missing base: exit %d\n%s%s", code, stdout, stderr)
+	}
+	base, _ := filepath.Abs(sampleSweep("nozzle.yaml"))
+	typo := filepath.Join(dir, "typo.yaml")
+	os.WriteFile(typo, []byte("base: "+base+"\nparameters:\n  throat: [30, 40]\n"), 0o644)
+	code, stdout, stderr = cvdeck(t, "sweep", typo, "--list")
+	if code != 2 || stdout != "" || !strings.Contains(stderr, `typo.yaml:3:3: the base case nozzle.yaml defines no parameter "throat"`) {
+		t.Errorf("unknown parameter: exit %d\n%s%s", code, stdout, stderr)
+	}
+}
+
+// TestSweepRefusesAnotherStudysFolder runs two studies without swept
+// parameters (the same folder names) into one folder: the second is
+// refused with exit code 2, naming the decks it would replace, and the
+// first study's decks and summary stay as they were.
+func TestSweepRefusesAnotherStudysFolder(t *testing.T) {
+	out := t.TempDir()
+	if code, _, stderr := cvdeck(t, "sweep", sampleSweep("nozzle-refine.yaml"), "-o", out, "--quiet"); code != 0 {
+		t.Fatalf("exit %d\n%s", code, stderr)
+	}
+	before, _ := os.ReadFile(filepath.Join(out, "summary.json"))
+	s, err := sweep.ReadSummary(filepath.Join(out, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	deck0, _ := os.ReadFile(filepath.Join(out, s.Rows[0].Name, "deck.yaml"))
+	other := filepath.Join(t.TempDir(), "naca-family.yaml")
+	naca, _ := filepath.Abs(filepath.Join("..", "..", "samples", "naca-ogrid.yaml"))
+	os.WriteFile(other, []byte("base: "+naca+"\nrefine: {levels: 2, ratio: 2}\n"), 0o644)
+	for _, force := range []bool{false, true} {
+		args := []string{"sweep", other, "-o", out}
+		if force {
+			args = append(args, "--force")
+		}
+		code, _, stderr := cvdeck(t, args...)
+		if code != 2 || !strings.Contains(stderr, "summary.json: the summary of a sweep of nozzle.yaml, not of this sweep's base case naca-ogrid.yaml") ||
+			!strings.Contains(stderr, s.Rows[0].Name+`: a deck of case "nozzle-sweep" (nozzle.yaml), not of this sweep's base case "naca-ogrid" (naca-ogrid.yaml)`) {
+			t.Errorf("force %v: exit %d\n%s", force, code, stderr)
+		}
+	}
+	after, _ := os.ReadFile(filepath.Join(out, "summary.json"))
+	deck1, _ := os.ReadFile(filepath.Join(out, s.Rows[0].Name, "deck.yaml"))
+	if !bytes.Equal(before, after) || !bytes.Equal(deck0, deck1) {
+		t.Error("the refused sweep changed the first study's summary or deck")
 	}
 }

@@ -1,6 +1,7 @@
 package sweep
 
 import (
+	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -22,15 +23,30 @@ type MergeReport struct {
 	Conflicts []string
 }
 
-// MergeError is returned by Merge when variants are missing or conflict;
-// the merged summary is still returned. Its exit code is 1.
+// MergeError is returned by Merge when variants are missing, conflict,
+// failed, were not run or failed their checks; the merged summary is
+// still returned. Its exit code is 1, as for a sweep with such variants.
 type MergeError struct {
 	Report MergeReport
 	Total  int
+	// Failed and NotRun are the folder names of the merged variants that
+	// have no deck: failed, or not run (stopped before or during their
+	// build); ChecksFailed counts the decks that failed their checks.
+	Failed, NotRun []string
+	ChecksFailed   int
 }
 
 func (e *MergeError) Error() string {
 	var parts []string
+	if n := len(e.Failed); n > 0 {
+		parts = append(parts, fmt.Sprintf("%d of %d variants failed (%s)", n, e.Total, strings.Join(first(e.Failed, 10), ", ")))
+	}
+	if n := len(e.NotRun); n > 0 {
+		parts = append(parts, fmt.Sprintf("%d of %d variants were not run (%s); run their shards again", n, e.Total, strings.Join(first(e.NotRun, 10), ", ")))
+	}
+	if e.ChecksFailed > 0 {
+		parts = append(parts, fmt.Sprintf("%d of %d decks failed their checks", e.ChecksFailed, e.Total))
+	}
 	if n := len(e.Report.Missing); n > 0 {
 		parts = append(parts, fmt.Sprintf("%d of %d variants are missing (summary indexes %s); run or merge the shards that hold them",
 			n, e.Total, indexRanges(e.Report.Missing)))
@@ -70,30 +86,84 @@ func indexRanges(idx []int) string {
 	return strings.Join(first(parts, 20), ", ")
 }
 
-// sameContent compares two rows apart from the run columns.
+// sameContent compares two rows apart from the run columns and the file
+// hashes, which differ between two builds of one deck.
 func sameContent(a, b Row) bool {
-	a.Run, a.Seconds, b.Run, b.Seconds = "", 0, "", 0
+	a.Run, a.Seconds, a.FileHashes = "", 0, nil
+	b.Run, b.Seconds, b.FileHashes = "", 0, nil
 	return reflect.DeepEqual(a, b)
 }
 
+// source names a summary in messages: its file, or its place in the list.
+func (s *Summary) source(k int) string {
+	if s.path != "" {
+		return s.path
+	}
+	return fmt.Sprintf("summary %d", k+1)
+}
+
+// baseKey is what must agree between the shards of one sweep besides the
+// plan: the base case file's name, its input hash and the cvdeck version.
+func (s *Summary) baseKey() string {
+	return s.Base + "\x00" + s.BaseHash + "\x00" + s.Version
+}
+
+// sameBase refuses summaries built from different base cases or by
+// different cvdeck versions, naming each group of summaries that agree.
+func sameBase(parts []*Summary) error {
+	var keys []string
+	groups := map[string][]string{}
+	for k, p := range parts {
+		key := p.baseKey()
+		if groups[key] == nil {
+			keys = append(keys, key)
+		}
+		groups[key] = append(groups[key], p.source(k))
+	}
+	if len(keys) == 1 {
+		return nil
+	}
+	var b strings.Builder
+	b.WriteString("merge: the summaries were built from different base cases, so their decks are not of one study:")
+	for _, key := range keys {
+		f := strings.SplitN(key, "\x00", 3)
+		hash, version := short(f[1]), f[2]
+		if hash == "" {
+			hash = "not recorded"
+		}
+		if version == "" {
+			version = "not recorded"
+		}
+		fmt.Fprintf(&b, "\n  %s (base input hash %s, cvdeck %s): %s", f[0], hash, version, strings.Join(first(groups[key], 10), ", "))
+	}
+	b.WriteString("\nrun the shards of the odd ones out again with the same base case and cvdeck (--force rebuilds their decks), then merge")
+	return errors.New(b.String())
+}
+
 // Merge joins the summaries of the shards of one sweep into the summary of
-// the whole sweep. Summaries of different sweeps (different plans) are an
-// error. Missing and conflicting variants give a *MergeError together
-// with the merged summary; duplicates are only reported.
+// the whole sweep. Summaries of different sweeps (different plans) or
+// built from different base cases (base file, base input hash or cvdeck
+// version) are an error. Missing, conflicting, failed and not-run
+// variants, and decks that failed their checks, give a *MergeError
+// together with the merged summary; duplicates are only reported.
 func Merge(parts []*Summary) (*Summary, MergeReport, error) {
 	var rep MergeReport
 	if len(parts) == 0 {
 		return nil, rep, fmt.Errorf("merge: no summaries given")
 	}
+	if err := sameBase(parts); err != nil {
+		return nil, rep, err
+	}
 	p0 := parts[0]
-	out := &Summary{Base: p0.Base, Parameters: p0.Parameters, Total: p0.Total, Plan: p0.Plan}
+	out := &Summary{Sweep: p0.Sweep, Base: p0.Base, BaseHash: p0.BaseHash, Version: p0.Version,
+		Parameters: p0.Parameters, Total: p0.Total, Plan: p0.Plan}
 	byIndex := map[int]Row{}
 	dup := map[string]bool{}
 	conflict := map[string]bool{}
 	for k, p := range parts {
 		if p.Plan != p0.Plan || p.Total != p0.Total {
-			return nil, rep, fmt.Errorf("merge: summary %d (shard %q, %d variants) is of another sweep than summary 1 (shard %q, %d variants): their plans %s and %s differ",
-				k+1, p.Shard, p.Total, p0.Shard, p0.Total, p.Plan, p0.Plan)
+			return nil, rep, fmt.Errorf("merge: %s (shard %q, %d variants) is of another sweep than %s (shard %q, %d variants): their plans %s and %s differ",
+				p.source(k), p.Shard, p.Total, p0.source(0), p0.Shard, p0.Total, p.Plan, p0.Plan)
 		}
 		for _, r := range p.Rows {
 			if r.Index < 0 || r.Index >= out.Total {
@@ -123,8 +193,19 @@ func Merge(parts []*Summary) (*Summary, MergeReport, error) {
 	rep.Duplicates = sortedKeys(dup)
 	rep.Conflicts = sortedKeys(conflict)
 	out.Finish()
-	if len(rep.Missing) > 0 || len(rep.Conflicts) > 0 {
-		return out, rep, &MergeError{Report: rep, Total: out.Total}
+	me := &MergeError{Report: rep, Total: out.Total}
+	for _, r := range out.Rows {
+		switch {
+		case r.Status == StatusFailed:
+			me.Failed = append(me.Failed, r.Name)
+		case r.Status == StatusNotRun:
+			me.NotRun = append(me.NotRun, r.Name)
+		case !r.Passed:
+			me.ChecksFailed++
+		}
+	}
+	if len(rep.Missing) > 0 || len(rep.Conflicts) > 0 || len(me.Failed) > 0 || len(me.NotRun) > 0 || me.ChecksFailed > 0 {
+		return out, rep, me
 	}
 	return out, rep, nil
 }
@@ -158,7 +239,8 @@ func FindSummaries(dir string) ([]string, error) {
 			continue
 		}
 		var k, n int
-		if _, err := fmt.Sscanf(name, "summary-shard-%d-of-%d.json", &k, &n); err == nil && name == fmt.Sprintf("summary-shard-%d-of-%d.json", k, n) {
+		if name != "summary.json" && isSummaryJSON(name) {
+			fmt.Sscanf(name, "summary-shard-%d-of-%d.json", &k, &n)
 			shards = append(shards, shardFile{k, n, filepath.Join(dir, name)})
 		}
 		if name == "summary.json" {

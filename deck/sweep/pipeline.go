@@ -3,8 +3,6 @@ package sweep
 import (
 	"bytes"
 	"context"
-	"crypto/sha256"
-	"encoding/hex"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -16,6 +14,7 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+	"syscall"
 
 	"gopkg.in/yaml.v3"
 
@@ -74,12 +73,12 @@ func NewPipeline(f *File) *Pipeline {
 	return &Pipeline{Base: f.Base}
 }
 
-// Check loads the base case as written and verifies that it defines every
+// LoadBase loads the base case as written and verifies that it defines every
 // swept parameter.
-func (p *Pipeline) Check(f *File) error {
+func (p *Pipeline) LoadBase(f *File) (BaseCase, error) {
 	c, err := deck.Load(p.Base, deck.LoadOptions{})
 	if err != nil {
-		return &Error{File: f.Path, Msg: "the base case as written does not load", Err: err}
+		return BaseCase{}, &Error{File: f.Path, Msg: "the base case as written does not load", Err: err}
 	}
 	defined := map[string]bool{}
 	for _, n := range c.ParamOrder {
@@ -91,11 +90,15 @@ func (p *Pipeline) Check(f *File) error {
 			if names == "" {
 				names = "none"
 			}
-			return &Error{File: f.Path, Line: pr.Pos.Line, Col: pr.Pos.Col,
+			return BaseCase{}, &Error{File: f.Path, Line: pr.Pos.Line, Col: pr.Pos.Col,
 				Msg: fmt.Sprintf("the base case %s defines no parameter %q (its parameters: %s)", filepath.Base(p.Base), pr.Name, names)}
 		}
 	}
-	return nil
+	b := BaseCase{File: filepath.Base(p.Base), Name: c.Name, InputHash: c.InputHash, Version: deck.Version}
+	for _, in := range c.Inputs {
+		b.Inputs = append(b.Inputs, InputFile{Path: in.Path, SHA256: in.SHA256})
+	}
+	return b, nil
 }
 
 type pipelineJob struct {
@@ -109,7 +112,10 @@ type pipelineJob struct {
 // leave a deck; any other outcome is an error carrying the child's
 // message. The parameter values and the refinement factor are written in
 // Go's shortest round-trip form, so the child loads exactly the case this
-// process loaded (the same input hash).
+// process loaded (the same input hash). The child runs in a process group
+// of its own, so that a terminal's Ctrl-C, which goes to the foreground
+// group, reaches the sweep alone and the sweep decides what becomes of the
+// builds in progress; cancelling ctx kills the child (see startChild).
 func (j *pipelineJob) buildInChild(ctx context.Context, dir string) error {
 	args := []string{"mesh", j.p.Base, "-o", dir, "--quiet", "--one-deck"}
 	params := j.v.ParamMap()
@@ -131,10 +137,18 @@ func (j *pipelineJob) buildInChild(ctx context.Context, dir string) error {
 	}
 	var stderr bytes.Buffer
 	cmd.Stderr = &stderr
-	err := cmd.Run()
+	err := runChild(cmd)
+	if ctx.Err() != nil {
+		return fmt.Errorf("%w: %w", errStopped, ctx.Err())
+	}
 	var exit *exec.ExitError
-	if errors.As(err, &exit) && exit.ExitCode() == 1 {
-		return nil
+	if errors.As(err, &exit) {
+		if ws, ok := exit.Sys().(syscall.WaitStatus); ok && ws.Signaled() {
+			return fmt.Errorf("the build (a child cvdeck mesh) was %w (%v) from outside the sweep", errSignalled, ws.Signal())
+		}
+		if exit.ExitCode() == 1 {
+			return nil
+		}
 	}
 	if err != nil {
 		msg := strings.TrimSpace(strings.TrimPrefix(stderr.String(), "cvdeck: "))
@@ -160,14 +174,15 @@ func (j *pipelineJob) InputHash() string { return j.c.InputHash }
 // Build runs the pipeline. A deck that was written but failed its checks
 // is an outcome with Passed false, not an error. The outcome is read back
 // from the deck's files, exactly as Existing reads it, so that a built and
-// a reused deck give the same summary row.
-func (j *pipelineJob) Build(ctx context.Context, dir string) (Outcome, error) {
+// a reused deck give the same summary row. A build in this process (no
+// Exe) is not stopped by ctx once started.
+func (j *pipelineJob) Build(ctx context.Context, dir string) (Found, error) {
 	if err := ctx.Err(); err != nil {
-		return Outcome{}, err
+		return Found{}, fmt.Errorf("%w: %w", errStopped, err)
 	}
 	if j.p.Exe != "" {
 		if err := j.buildInChild(ctx, dir); err != nil {
-			return Outcome{}, err
+			return Found{}, err
 		}
 	} else {
 		opts := j.p.Options
@@ -176,66 +191,40 @@ func (j *pipelineJob) Build(ctx context.Context, dir string) (Outcome, error) {
 		j.p.release(opts.Evaluator)
 		var checks *deck.CheckFailure
 		if err != nil && !errors.As(err, &checks) {
-			return Outcome{}, err
+			return Found{}, err
 		}
 	}
-	out, _, ok, err := readDeck(dir)
+	d, ok, err := readDeck(dir)
 	if err != nil {
-		return Outcome{}, err
+		return Found{}, err
 	}
 	if !ok {
-		return Outcome{}, fmt.Errorf("the pipeline wrote no %s into %s", manifest.FileName, filepath.Base(dir))
+		return Found{}, fmt.Errorf("the pipeline wrote no %s into %s", manifest.FileName, filepath.Base(dir))
 	}
-	return out, nil
+	return d, nil
 }
 
-// Existing reads the manifest and quality report of the deck in dir.
-// A deck counts only when it is intact: every file its manifest lists is
-// there with the recorded size and, for the files recorded by their bytes'
-// SHA-256 (all but CGNS, recorded by content), the recorded hash; a deck
-// damaged or edited by hand is rebuilt.
-func (p *Pipeline) Existing(dir string) (Outcome, bool, error) {
-	out, files, ok, err := readDeck(dir)
-	if err != nil || !ok {
-		return out, ok, err
-	}
-	for _, f := range files {
-		if !intact(dir, f) {
-			return Outcome{}, false, nil
-		}
-	}
-	return out, true, nil
-}
-
-// deckFile is one entry of the files list of deck.yaml.
-type deckFile struct {
-	Path   string `yaml:"path"`
-	Bytes  int64  `yaml:"bytes"`
-	SHA256 string `yaml:"sha256"`
-}
-
-// intact reports whether a listed file is inside the deck folder and has
-// its recorded size and hash.
-func intact(dir string, f deckFile) bool {
-	if !filepath.IsLocal(f.Path) {
-		return false
-	}
-	data, err := os.ReadFile(filepath.Join(dir, f.Path))
-	if err != nil || int64(len(data)) != f.Bytes {
-		return false
-	}
-	if f.SHA256 == "" {
-		return true
-	}
-	sum := sha256.Sum256(data)
-	return hex.EncodeToString(sum[:]) == f.SHA256
+// Existing reads the manifest and quality report of the deck in dir; the
+// sweep checks its files against the manifest (verifyFiles).
+func (p *Pipeline) Existing(dir string) (Found, bool, error) {
+	return readDeck(dir)
 }
 
 // manifestFile is the part of a deck's deck.yaml that the summary uses
 // (the keys of export/manifest.Manifest).
 type manifestFile struct {
-	InputHash string `yaml:"input_hash"`
-	Mesh      struct {
+	Version string `yaml:"cvdeck_version"`
+	Case    struct {
+		Name string `yaml:"name"`
+		File string `yaml:"file"`
+	} `yaml:"case"`
+	InputHash  string      `yaml:"input_hash"`
+	Inputs     []InputFile `yaml:"inputs"`
+	Parameters []struct {
+		Name  string  `yaml:"name"`
+		Value float64 `yaml:"value"`
+	} `yaml:"parameters"`
+	Mesh struct {
 		Nodes int `yaml:"nodes"`
 		Cells int `yaml:"cells"`
 		Faces int `yaml:"faces"`
@@ -250,9 +239,15 @@ type manifestFile struct {
 		} `yaml:"yplus_estimate"`
 	} `yaml:"boundary_tags"`
 	Checks struct {
-		Verdict string `yaml:"verdict"`
+		Verdict     string `yaml:"verdict"`
+		FailedCells int    `yaml:"failed_cells"`
+		WarnedCells int    `yaml:"warned_cells"`
+		Metrics     []struct {
+			Name   string `yaml:"name"`
+			Failed int    `yaml:"cells_failed"`
+		} `yaml:"metrics"`
 	} `yaml:"checks"`
-	Files []deckFile `yaml:"files"`
+	Files []FileRecord `yaml:"files"`
 }
 
 // qualityFile is the part of a deck's quality.json that the summary uses.
@@ -263,33 +258,56 @@ type qualityFile struct {
 		Min   *float64 `json:"min"`
 		Max   *float64 `json:"max"`
 	} `json:"metrics"`
+	Connectivity []struct {
+		Name   string `json:"name"`
+		Status string `json:"status"`
+	} `json:"connectivity"`
 }
 
-// readDeck reads a deck's outcome: counts, area and verdict from deck.yaml,
-// and each metric's worst value (its maximum, or its minimum for a metric
-// that gets worse as it falls) from quality.json, and the list of the
-// deck's files. ok is false when dir has no deck.yaml.
-func readDeck(dir string) (Outcome, []deckFile, bool, error) {
+// readDeck reads a deck: counts, area, verdict, failed cells and the
+// metrics that failed, where it came from and its files from deck.yaml;
+// each metric's worst value (its maximum, or its minimum for a metric that
+// gets worse as it falls) and the connectivity checks that failed from
+// quality.json. ok is false when dir has no deck.yaml.
+func readDeck(dir string) (Found, bool, error) {
 	path := filepath.Join(dir, manifest.FileName)
 	mdata, err := os.ReadFile(path)
 	if errors.Is(err, fs.ErrNotExist) {
-		return Outcome{}, nil, false, nil
+		return Found{}, false, nil
 	}
 	if err != nil {
-		return Outcome{}, nil, false, err
+		return Found{}, false, err
 	}
 	var m manifestFile
 	if err := yaml.Unmarshal(mdata, &m); err != nil {
-		return Outcome{}, nil, false, fmt.Errorf("%s: %w", path, err)
+		return Found{}, false, fmt.Errorf("%s: %w", path, err)
 	}
-	out := Outcome{
-		InputHash: m.InputHash,
-		Cells:     m.Mesh.Cells,
-		Faces:     m.Mesh.Faces,
-		Nodes:     m.Mesh.Nodes,
-		Area:      m.Mesh.Area.Value,
-		Verdict:   m.Checks.Verdict,
-		Passed:    m.Checks.Verdict != "fail", // pass, warn or fail
+	d := Found{
+		Outcome: Outcome{
+			InputHash:   m.InputHash,
+			Cells:       m.Mesh.Cells,
+			Faces:       m.Mesh.Faces,
+			Nodes:       m.Mesh.Nodes,
+			Area:        m.Mesh.Area.Value,
+			Verdict:     m.Checks.Verdict,
+			Passed:      m.Checks.Verdict != "fail", // pass, warn or fail
+			FailedCells: m.Checks.FailedCells,
+			WarnedCells: m.Checks.WarnedCells,
+		},
+		Case: m.Case.Name, File: filepath.Base(m.Case.File), Version: m.Version,
+		Inputs: m.Inputs, Files: m.Files,
+	}
+	out := &d.Outcome
+	for _, mt := range m.Checks.Metrics {
+		if mt.Failed > 0 {
+			out.Failing = append(out.Failing, mt.Name)
+		}
+	}
+	for _, p := range m.Parameters {
+		if d.Params == nil {
+			d.Params = map[string]float64{}
+		}
+		d.Params[p.Name] = p.Value
 	}
 	for _, tag := range m.Tags {
 		if tag.Yplus != nil {
@@ -301,11 +319,11 @@ func readDeck(dir string) (Outcome, []deckFile, bool, error) {
 	}
 	data, err := os.ReadFile(filepath.Join(dir, "quality.json"))
 	if err != nil {
-		return Outcome{}, nil, false, fmt.Errorf("reading the deck's quality report: %w", err)
+		return Found{}, false, fmt.Errorf("reading the deck's quality report: %w", err)
 	}
 	var q qualityFile
 	if err := json.NewDecoder(bytes.NewReader(data)).Decode(&q); err != nil {
-		return Outcome{}, nil, false, fmt.Errorf("%s: %w", filepath.Join(dir, "quality.json"), err)
+		return Found{}, false, fmt.Errorf("%s: %w", filepath.Join(dir, "quality.json"), err)
 	}
 	for _, mt := range q.Metrics {
 		v := mt.Max
@@ -320,5 +338,10 @@ func readDeck(dir string) (Outcome, []deckFile, bool, error) {
 		}
 		out.Worst[mt.Name] = *v
 	}
-	return out, m.Files, true, nil
+	for _, c := range q.Connectivity {
+		if c.Status == "fail" {
+			out.Failing = append(out.Failing, c.Name)
+		}
+	}
+	return d, true, nil
 }

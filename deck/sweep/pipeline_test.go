@@ -1,7 +1,9 @@
 package sweep
 
 import (
+	"bytes"
 	"context"
+	"errors"
 	"math"
 	"os"
 	"path/filepath"
@@ -62,26 +64,46 @@ func TestPipelineResumeKeepsDecks(t *testing.T) {
 			t.Errorf("%s changed on the second run", name)
 		}
 	}
-	// A deck damaged by hand is rebuilt, and only that one.
-	damaged := filepath.Join(dir, first.Rows[1].Name, "mesh.vtu")
-	if err := os.WriteFile(damaged, []byte("<VTKFile/>"), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	third, err := Run(context.Background(), f, dir, NewPipeline(f), Options{Workers: 2})
-	if err != nil {
-		t.Fatal(err)
-	}
-	for i, r := range third.Rows {
-		want := RunReused
-		if i == 1 {
-			want = RunBuilt
+	// A deck changed after the sweep built it is not rebuilt over: a
+	// file of another size, and a CGNS file of the same size (as a solver
+	// writing its solution into a copy of the same layout leaves it),
+	// which deck.yaml records by content only and the summary by its
+	// bytes. --force rebuilds that deck, and only that one.
+	cgns := filepath.Join(dir, first.Rows[2].Name, "mesh.cgns")
+	for _, c := range []struct{ path, want string }{
+		{filepath.Join(dir, first.Rows[1].Name, "mesh.vtu"), first.Rows[1].Name + ": mesh.vtu has 10 bytes where its deck.yaml records"},
+		{cgns, first.Rows[2].Name + ": mesh.cgns has the size but not the content the summary recorded"},
+	} {
+		old := before[strings.TrimPrefix(c.path, dir+string(filepath.Separator))]
+		changed := []byte("<VTKFile/>")
+		if strings.HasSuffix(c.path, ".cgns") {
+			changed = append([]byte(nil), old...)
+			changed[len(changed)-1] ^= 0xff
 		}
-		if r.Run != want {
-			t.Errorf("%s: %s after damaging level 2, want %s", r.Name, r.Run, want)
+		if err := os.WriteFile(c.path, changed, 0o644); err != nil {
+			t.Fatal(err)
 		}
-	}
-	if data, _ := os.ReadFile(damaged); string(data) != string(before[filepath.Join(first.Rows[1].Name, "mesh.vtu")]) {
-		t.Error("the damaged file was not rebuilt as it was")
+		_, err := Run(context.Background(), f, dir, NewPipeline(f), Options{Workers: 2})
+		var fe *FolderError
+		if !errors.As(err, &fe) || !strings.Contains(err.Error(), c.want) {
+			t.Fatalf("after changing %s: %v", c.path, err)
+		}
+		if data, _ := os.ReadFile(c.path); !bytes.Equal(data, changed) {
+			t.Errorf("the refused run replaced the changed %s", c.path)
+		}
+		forced, err := Run(context.Background(), f, dir, NewPipeline(f), Options{Workers: 2, Force: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, r := range forced.Rows {
+			if r.Run != RunBuilt {
+				t.Errorf("%s: %s with --force, want built", r.Name, r.Run)
+			}
+		}
+		if data, _ := os.ReadFile(c.path); bytes.Equal(data, changed) || (!strings.HasSuffix(c.path, ".cgns") && !bytes.Equal(data, old)) {
+			t.Errorf("--force did not rebuild %s as it was", c.path)
+		}
+		before = deckFiles(t, dir)
 	}
 	// Cell counts of the family: level l has 2^(l-1) times the cells in
 	// each direction of the 90 x 24 base mesh.

@@ -74,7 +74,7 @@ func clock(d time.Duration) string {
 
 // Tally counts what a run did, for the closing line of the command.
 func (s *Summary) Tally() string {
-	var built, reused, failed, notRun, checks int
+	var built, reused, failed, interrupted, notRun, checks int
 	for _, r := range s.Rows {
 		switch r.Run {
 		case RunBuilt:
@@ -83,6 +83,8 @@ func (s *Summary) Tally() string {
 			reused++
 		case RunFailed:
 			failed++
+		case RunInterrupted:
+			interrupted++
 		case RunNotRun:
 			notRun++
 		}
@@ -91,8 +93,11 @@ func (s *Summary) Tally() string {
 		}
 	}
 	out := fmt.Sprintf("%d variants: %d built, %d reused, %d failed", len(s.Rows), built, reused, failed)
+	if interrupted > 0 {
+		out += fmt.Sprintf(", %d stopped while being built", interrupted)
+	}
 	if notRun > 0 {
-		out += fmt.Sprintf(", %d not run", notRun)
+		out += fmt.Sprintf(", %d not started", notRun)
 	}
 	if checks > 0 {
 		out += fmt.Sprintf("; %d decks failed their checks", checks)

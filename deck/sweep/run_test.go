@@ -3,17 +3,22 @@ package sweep
 import (
 	"bytes"
 	"context"
+	"encoding/csv"
 	"encoding/json"
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
 	"reflect"
 	"sort"
+	"strconv"
 	"strings"
 	"sync"
 	"testing"
+
+	"cvdeck/deck"
 )
 
 const fakeSweep = `
@@ -95,7 +100,7 @@ func TestParseShard(t *testing.T) {
 func rowsWithoutRun(rows []Row) []Row {
 	out := append([]Row(nil), rows...)
 	for i := range out {
-		out[i].Run, out[i].Seconds = "", 0
+		out[i].Run, out[i].Seconds, out[i].FileHashes = "", 0, nil
 	}
 	return out
 }
@@ -271,20 +276,135 @@ func TestResumeRedoesNothing(t *testing.T) {
 	if _, err := Run(context.Background(), f, dir, r3, Options{Workers: 2, Force: true}); err != nil || int(r3.builds.Load()) != n {
 		t.Errorf("--force rebuilt %d of %d (%v)", r3.builds.Load(), n, err)
 	}
-	// A deck built from other inputs is rebuilt.
+}
+
+// TestChangedDecksAreNotRebuiltOver changes one file of a deck after the
+// sweep built it, three ways: a file recorded by its hash, with another
+// size and with the same size, and a file recorded by size only (as a
+// CGNS file is) with the same size, which only the summary's record of
+// its bytes reveals. Each time the next run refuses the folder, names the
+// file and writes nothing; --force rebuilds the deck.
+func TestChangedDecksAreNotRebuiltOver(t *testing.T) {
+	f := mustParse(t, fakeSweep)
+	dir := t.TempDir()
+	first, err := Run(context.Background(), f, dir, &fakeRunner{}, Options{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
 	victim := first.Rows[3]
-	os.WriteFile(filepath.Join(dir, victim.Name, "deck.json"), []byte(`{"hash":"old"}`), 0o644)
-	r4 := &fakeRunner{}
-	Run(context.Background(), f, dir, r4, Options{Workers: 2})
-	if r4.builds.Load() != 1 {
-		t.Errorf("after one stale deck, %d builds, want 1", r4.builds.Load())
+	for _, c := range []struct {
+		file, content, want string
+	}{
+		{"mesh.dat", "a solver's output", "mesh.dat has 17 bytes where its deck.yaml records"},
+		{"mesh.dat", "", "mesh.dat has the size but not the content its deck.yaml records"},
+		{"mesh.h5", "", "mesh.h5 has the size but not the content the summary recorded"},
+	} {
+		path := filepath.Join(dir, victim.Name, c.file)
+		old, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		changed := []byte(c.content)
+		if c.content == "" { // the same size, one byte other
+			changed = append([]byte(nil), old...)
+			changed[len(changed)/2] ^= 1
+		}
+		if err := os.WriteFile(path, changed, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		before := treeFiles(t, dir)
+		summary, _ := os.ReadFile(filepath.Join(dir, "summary.json"))
+		r := &fakeRunner{}
+		_, err = Run(context.Background(), f, dir, r, Options{Workers: 2})
+		var fe *FolderError
+		if !errors.As(err, &fe) || !errors.Is(err, deck.ErrInput) || fe.ExitCode() != 2 || !fe.Forceable ||
+			!strings.Contains(err.Error(), victim.Name+": "+c.want) || !strings.Contains(err.Error(), "--force") {
+			t.Fatalf("%s changed: %v", c.file, err)
+		}
+		if r.builds.Load() != 0 || !reflect.DeepEqual(before, treeFiles(t, dir)) {
+			t.Errorf("%s changed: the refused run built %d decks or changed a file", c.file, r.builds.Load())
+		}
+		if now, _ := os.ReadFile(filepath.Join(dir, "summary.json")); !bytes.Equal(now, summary) {
+			t.Errorf("%s changed: the refused run rewrote the summary", c.file)
+		}
+		r = &fakeRunner{}
+		if _, err := Run(context.Background(), f, dir, r, Options{Workers: 2, Force: true}); err != nil {
+			t.Fatal(err)
+		}
+		if data, _ := os.ReadFile(path); !bytes.Equal(data, old) {
+			t.Errorf("%s changed: --force did not rebuild it", c.file)
+		}
+	}
+}
+
+// TestFolderOfAnotherStudyIsRefused runs a sweep into a folder that holds
+// another study's decks and summary (the same folder names, another base
+// case), and one whose base case was edited since: the first is refused
+// even with --force, the second without it; nothing is written either way.
+func TestFolderOfAnotherStudyIsRefused(t *testing.T) {
+	// No swept parameters: every such study has the same folder names.
+	f := mustParse(t, "base: wedge.yaml\nrefine: {levels: 2, ratio: 2}\n")
+	dir := t.TempDir()
+	if _, err := Run(context.Background(), f, dir, &fakeRunner{}, Options{Workers: 2}); err != nil {
+		t.Fatal(err)
+	}
+	before := treeFiles(t, dir)
+	summary, _ := os.ReadFile(filepath.Join(dir, "summary.json"))
+	unchanged := func(what string) {
+		t.Helper()
+		now, _ := os.ReadFile(filepath.Join(dir, "summary.json"))
+		if !reflect.DeepEqual(before, treeFiles(t, dir)) || !bytes.Equal(now, summary) {
+			t.Errorf("%s: the refused run changed the folder", what)
+		}
+	}
+	for _, force := range []bool{false, true} {
+		r := &fakeRunner{name: "aerofoil"}
+		_, err := Run(context.Background(), f, dir, r, Options{Workers: 2, Force: force})
+		var fe *FolderError
+		if !errors.As(err, &fe) || fe.Forceable || r.builds.Load() != 0 ||
+			!strings.Contains(err.Error(), `level1-`+ID("")+`: a deck of case "wedge" (wedge.yaml), not of this sweep's base case "aerofoil" (wedge.yaml)`) ||
+			!strings.Contains(err.Error(), "never replaces another study's") {
+			t.Errorf("another case, force %v: %v", force, err)
+		}
+		unchanged("another case")
+	}
+	// Another base file: the summary says so, whatever the decks.
+	g := mustParse(t, "base: other.yaml\nparameters:\n  a: [1, 2]\n")
+	_, err := Run(context.Background(), g, dir, &fakeRunner{}, Options{Workers: 2, Force: true})
+	if err == nil || !strings.Contains(err.Error(), "summary.json: the summary of a sweep of wedge.yaml, not of this sweep's base case other.yaml") {
+		t.Errorf("another base file: %v", err)
+	}
+	unchanged("another base file")
+	// Another sweep file of the same base case.
+	h, err := Parse("/cases/other-sweep.yaml", []byte("base: wedge.yaml\nparameters:\n  a: [1, 2]\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = Run(context.Background(), h, dir, &fakeRunner{}, Options{Workers: 2})
+	if err == nil || !strings.Contains(err.Error(), "summary.json: the summary of the sweep file sweep.yaml, not of other-sweep.yaml") {
+		t.Errorf("another sweep file: %v", err)
+	}
+	unchanged("another sweep file")
+	// The base case edited: refused, naming what changed; --force rebuilds.
+	r := &fakeRunner{edit: "cells doubled"}
+	_, err = Run(context.Background(), f, dir, r, Options{Workers: 2})
+	var fe *FolderError
+	if !errors.As(err, &fe) || !fe.Forceable || r.builds.Load() != 0 ||
+		!strings.Contains(err.Error(), "summary.json: the summary of a sweep of wedge.yaml as it was before an edit") ||
+		!strings.Contains(err.Error(), ": a deck built from other inputs than this sweep's (wedge.yaml has changed since") {
+		t.Errorf("edited base: %v", err)
+	}
+	unchanged("edited base")
+	s, err := Run(context.Background(), f, dir, r, Options{Workers: 2, Force: true})
+	if err != nil || r.builds.Load() != 2 || s.BaseHash != r.base.InputHash {
+		t.Errorf("edited base with --force: %d builds, %v", r.builds.Load(), err)
 	}
 }
 
 func TestInterruptedSweepContinues(t *testing.T) {
 	f := mustParse(t, fakeSweep)
 	dir := t.TempDir()
-	ctx, cancel := context.WithCancel(context.Background())
+	stop := make(chan struct{})
 	var once sync.Once
 	var mu sync.Mutex
 	started := 0
@@ -292,24 +412,34 @@ func TestInterruptedSweepContinues(t *testing.T) {
 		mu.Lock()
 		started++
 		if started == 5 {
-			once.Do(cancel)
+			once.Do(func() { close(stop) })
 		}
 		mu.Unlock()
 	}}
-	s, err := Run(ctx, f, dir, r, Options{Workers: 2})
+	s, err := Run(context.Background(), f, dir, r, Options{Workers: 2, Stop: stop})
 	var fe *FailedError
-	if !errors.Is(err, context.Canceled) || !errors.As(err, &fe) || fe.ExitCode() != 1 {
-		t.Fatalf("interrupted run: %v", err)
+	if !errors.As(err, &fe) || fe.ExitCode() != 1 || !fe.Stopped || fe.Failed != 0 || fe.Interrupted != 0 {
+		t.Fatalf("stopped run: %v", err)
 	}
 	built := int(r.builds.Load())
 	notRun := 0
 	for _, row := range s.Rows {
-		if row.Status == StatusNotRun {
+		switch row.Run {
+		case RunNotRun:
 			notRun++
+			if row.Status != StatusNotRun || !strings.HasPrefix(row.Error, "not started") {
+				t.Errorf("%s: status %q, error %q", row.Name, row.Status, row.Error)
+			}
+		case RunBuilt: // the builds in hand when the stop came finish
+		default:
+			t.Errorf("%s: run %q after a stop", row.Name, row.Run)
 		}
 	}
-	if built+notRun != len(s.Rows) || notRun == 0 {
-		t.Fatalf("built %d, not run %d, of %d", built, notRun, len(s.Rows))
+	if built+notRun != len(s.Rows) || notRun == 0 || built < 5 || fe.NotRun != notRun {
+		t.Fatalf("built %d, not run %d (error says %d), of %d", built, notRun, fe.NotRun, len(s.Rows))
+	}
+	if !strings.Contains(err.Error(), fmt.Sprintf("the sweep was stopped before its end: %d of %d variants not started", notRun, len(s.Rows))) {
+		t.Errorf("error %q", err)
 	}
 	r2 := &fakeRunner{}
 	s2, err := Run(context.Background(), f, dir, r2, Options{Workers: 2})
@@ -323,6 +453,38 @@ func TestInterruptedSweepContinues(t *testing.T) {
 		if row.Status != StatusOK {
 			t.Errorf("%s: %s", row.Name, row.Status)
 		}
+	}
+}
+
+// TestCancelStopsBuildsInProgress cancels the run's context while two
+// builds wait for it, as the second Ctrl-C does: those rows say the build
+// was stopped, not that it failed, and the rest were not started.
+func TestCancelStopsBuildsInProgress(t *testing.T) {
+	f := mustParse(t, fakeSweep)
+	ctx, cancel := context.WithCancel(context.Background())
+	var waiting sync.WaitGroup
+	waiting.Add(2)
+	r := &fakeRunner{build: func(ctx context.Context, v Variant) error {
+		waiting.Done()
+		<-ctx.Done()
+		return fmt.Errorf("%w: %w", errStopped, ctx.Err())
+	}}
+	go func() {
+		waiting.Wait()
+		cancel()
+	}()
+	s, err := Run(ctx, f, t.TempDir(), r, Options{Workers: 2})
+	var fe *FailedError
+	if !errors.As(err, &fe) || !fe.Stopped || fe.Interrupted != 2 || fe.Failed != 0 || fe.NotRun != len(s.Rows)-2 {
+		t.Fatalf("cancelled run: %+v %v", fe, err)
+	}
+	for _, row := range s.Rows[:2] {
+		if row.Run != RunInterrupted || row.Status != StatusNotRun || !strings.HasPrefix(row.Error, "stopped while being built") {
+			t.Errorf("%s: run %q, status %q, error %q", row.Name, row.Run, row.Status, row.Error)
+		}
+	}
+	if !strings.Contains(s.Tally(), "2 stopped while being built") {
+		t.Errorf("tally %q", s.Tally())
 	}
 }
 
@@ -481,5 +643,96 @@ print(json.dumps(rows))`, path).Output()
 		rows[0]["h"] != FormatValue(math.Sqrt(0.2)) ||
 		rows[1]["error"] != s.Rows[1].Error || rows[1]["status"] != "failed" || rows[1]["a"] != "2" {
 		t.Errorf("Python read back %v", rows)
+	}
+}
+
+// TestMergeRefusesMixedBaseCases merges two shards built from different
+// states of the base case: the second shard's own run refuses the shared
+// folder, and merging the shards from separate folders is refused with
+// both summaries named.
+func TestMergeRefusesMixedBaseCases(t *testing.T) {
+	f := mustParse(t, fakeSweep)
+	shared, other := t.TempDir(), t.TempDir()
+	if _, err := Run(context.Background(), f, shared, &fakeRunner{}, Options{Workers: 2, Shard: Shard{1, 2}}); err != nil {
+		t.Fatal(err)
+	}
+	edited := &fakeRunner{edit: "the wall moved"}
+	_, err := Run(context.Background(), f, shared, edited, Options{Workers: 2, Shard: Shard{2, 2}})
+	if err == nil || !strings.Contains(err.Error(), "summary-shard-1-of-2.json: another shard's summary, of wedge.yaml as it was before an edit") {
+		t.Fatalf("second shard of an edited base into the shared folder: %v", err)
+	}
+	if _, err := Run(context.Background(), f, other, edited, Options{Workers: 2, Shard: Shard{2, 2}}); err != nil {
+		t.Fatal(err)
+	}
+	s, _, err := MergeDirs([]string{shared, other}, t.TempDir())
+	one, two := filepath.Join(shared, "summary-shard-1-of-2.json"), filepath.Join(other, "summary-shard-2-of-2.json")
+	if s != nil || err == nil || !strings.Contains(err.Error(), "built from different base cases") ||
+		!strings.Contains(err.Error(), "wedge.yaml (base input hash "+short(edited.base.InputHash)+", cvdeck test): "+two) ||
+		!strings.Contains(err.Error(), ": "+one) {
+		t.Errorf("merging shards of two base cases: summary %v, %v", s != nil, err)
+	}
+}
+
+// TestMergeReportsFailedAndNotRun merges shards in which a variant failed
+// and others were not started: the merge returns exit code 1 and names
+// them, as the sweep itself does.
+func TestMergeReportsFailedAndNotRun(t *testing.T) {
+	f := mustParse(t, "base: a.yaml\nparameters:\n  fail: [0, 1]\n  skew: [0.1, 0.2, 0.3]\n")
+	dir := t.TempDir()
+	Run(context.Background(), f, dir, &fakeRunner{}, Options{Workers: 1, Shard: Shard{1, 2}})
+	stop := make(chan struct{})
+	close(stop)
+	Run(context.Background(), f, dir, &fakeRunner{}, Options{Workers: 1, Shard: Shard{2, 2}, Stop: stop})
+	s, _, err := MergeDirs([]string{dir}, dir)
+	var me *MergeError
+	if !errors.As(err, &me) || me.ExitCode() != 1 || s == nil || len(s.Rows) != 6 {
+		t.Fatalf("merge: %v", err)
+	}
+	all, _ := f.Variants()
+	shard := Assign(all, 2)
+	var failed, notRun []string
+	for i, v := range all {
+		switch {
+		case shard[i] == 2:
+			notRun = append(notRun, v.Name)
+		case v.ParamMap()["fail"] == 1:
+			failed = append(failed, v.Name)
+		}
+	}
+	if !reflect.DeepEqual(me.Failed, failed) || !reflect.DeepEqual(me.NotRun, notRun) ||
+		!strings.Contains(err.Error(), fmt.Sprintf("%d of 6 variants failed (%s)", len(failed), strings.Join(failed, ", "))) ||
+		!strings.Contains(err.Error(), fmt.Sprintf("%d of 6 variants were not run (%s)", len(notRun), strings.Join(notRun, ", "))) {
+		t.Errorf("failed %v, not run %v: %v", me.Failed, me.NotRun, err)
+	}
+}
+
+// TestSummaryNamesFailingChecks checks the columns of a deck that fails
+// its checks (failed cells and the failing metrics) and the refinement
+// warning in summary.csv.
+func TestSummaryNamesFailingChecks(t *testing.T) {
+	f := mustParse(t, "base: a.yaml\nparameters:\n  skew: [0.95]\nrefine: {levels: 2, ratio: 1.2}\n")
+	s, err := Run(context.Background(), f, t.TempDir(), &fakeRunner{}, Options{Workers: 1})
+	var fe *FailedError
+	if !errors.As(err, &fe) || fe.ChecksFailed != 2 {
+		t.Fatalf("%v", err)
+	}
+	lines, err := csv.NewReader(bytes.NewReader(s.CSV())).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	col := map[string]int{}
+	for i, h := range lines[0] {
+		col[h] = i
+	}
+	for k, rec := range lines[1:] {
+		if rec[col["failed_cells"]] != strconv.Itoa(s.Rows[k].Cells/10) || rec[col["failing"]] != "skewness" || rec[col["warned_cells"]] != "0" {
+			t.Errorf("row %d: failed_cells %q, failing %q, warned_cells %q", k, rec[col["failed_cells"]], rec[col["failing"]], rec[col["warned_cells"]])
+		}
+	}
+	if w := lines[2][col["warning"]]; !strings.HasPrefix(w, "the effective refinement ratio from level 1 is 1.200") {
+		t.Errorf("level 2 warning %q", w)
+	}
+	if w := lines[1][col["warning"]]; w != "" {
+		t.Errorf("level 1 warning %q", w)
 	}
 }

@@ -18,49 +18,71 @@ import (
 const (
 	StatusOK     = "ok"      // the deck was written (its checks may still have failed: see Verdict)
 	StatusFailed = "failed"  // no deck: Error says why
-	StatusNotRun = "not run" // the sweep was interrupted before this variant
+	StatusNotRun = "not run" // the sweep was stopped before this variant was built
 )
 
 // Run values of a summary row: what this run did. Like Seconds, they
 // describe the run and are left out when two summaries are compared.
 const (
-	RunBuilt  = "built"
-	RunReused = "reused" // an existing deck with the same input hash was kept
-	RunFailed = "failed"
-	RunNotRun = "not run"
+	RunBuilt       = "built"
+	RunReused      = "reused" // an existing deck with the same input hash was kept
+	RunFailed      = "failed"
+	RunInterrupted = "interrupted" // the build was stopped while in progress
+	RunNotRun      = "not run"     // not started: the sweep was stopped first
 )
 
 // Row is one variant's line in the summary.
 type Row struct {
-	Index     int                `json:"index"` // 0-based sweep order
-	ID        string             `json:"id"`
-	Name      string             `json:"name"` // folder of the deck, inside the output folder
-	Params    map[string]float64 `json:"params"`
-	Level     int                `json:"level,omitempty"`
-	Refine    float64            `json:"refine"`
-	Family    string             `json:"family"`
-	Status    string             `json:"status"`
-	Passed    bool               `json:"passed"` // the deck's quality and boundary checks passed
-	Verdict   string             `json:"verdict,omitempty"`
-	Cells     int                `json:"cells,omitempty"`
-	Faces     int                `json:"faces,omitempty"`
-	Nodes     int                `json:"nodes,omitempty"`
-	Area      float64            `json:"area,omitempty"`
-	H         float64            `json:"h,omitempty"`     // representative cell size (A/N)^(1/2)
-	Ratio     float64            `json:"ratio,omitempty"` // h of the next coarser level over h
+	Index   int                `json:"index"` // 0-based sweep order
+	ID      string             `json:"id"`
+	Name    string             `json:"name"` // folder of the deck, inside the output folder
+	Params  map[string]float64 `json:"params"`
+	Level   int                `json:"level,omitempty"`
+	Refine  float64            `json:"refine"`
+	Family  string             `json:"family"`
+	Status  string             `json:"status"`
+	Passed  bool               `json:"passed"` // the deck's quality and boundary checks passed
+	Verdict string             `json:"verdict,omitempty"`
+	// FailedCells and WarnedCells count the cells past a fail or warn
+	// limit; Failing names the metrics and connectivity checks that failed.
+	FailedCells int      `json:"failed_cells,omitempty"`
+	WarnedCells int      `json:"warned_cells,omitempty"`
+	Failing     []string `json:"failing,omitempty"`
+	Cells       int      `json:"cells,omitempty"`
+	Faces       int      `json:"faces,omitempty"`
+	Nodes       int      `json:"nodes,omitempty"`
+	Area        float64  `json:"area,omitempty"`
+	H           float64  `json:"h,omitempty"`     // representative cell size (A/N)^(1/2)
+	Ratio       float64  `json:"ratio,omitempty"` // h of the next coarser level over h
+	// Warning is the refinement-ratio warning of this level, if any.
+	Warning   string             `json:"warning,omitempty"`
 	Worst     map[string]float64 `json:"worst,omitempty"`
 	YplusMax  map[string]float64 `json:"yplus_max,omitempty"` // by wall tag
 	InputHash string             `json:"input_hash,omitempty"`
 	Error     string             `json:"error,omitempty"`
-	Run       string             `json:"run"`
-	Seconds   float64            `json:"seconds"`
+	// FileHashes are the SHA-256 of the bytes of the deck's files that
+	// deck.yaml records by content only (mesh.cgns: HDF5 stamps times into
+	// it), as the sweep found them after building or reusing the deck, so
+	// that a later run notices a change of the same size. Like the run
+	// columns they differ between two builds of one deck.
+	FileHashes map[string]string `json:"file_sha256,omitempty"`
+	Run        string            `json:"run"`
+	Seconds    float64           `json:"seconds"`
 }
 
 // Summary is the result of a sweep or of one shard of it.
 type Summary struct {
+	// Sweep is the sweep file's name, without its folder.
+	Sweep string `json:"sweep,omitempty"`
 	// Base is the base case file name (without its folder, so that runs
 	// from different places compare equal).
 	Base string `json:"base"`
+	// BaseHash is the input hash of the base case as written (its files,
+	// its own parameter values and the cvdeck version): shards with
+	// different base hashes were built from different base cases.
+	BaseHash string `json:"base_input_hash,omitempty"`
+	// Version is the cvdeck version that wrote the summary.
+	Version string `json:"cvdeck_version,omitempty"`
 	// Parameters are the swept parameter names in the sweep file's order.
 	Parameters []string `json:"parameters"`
 	// Shard is "K/N" for one slice, "" for the whole sweep or a merge.
@@ -72,8 +94,12 @@ type Summary struct {
 	Plan string `json:"plan"`
 	// Rows are in sweep order.
 	Rows []Row `json:"variants"`
-	// Warnings are about refinement ratios below MinRatio.
+	// Warnings are about refinement ratios below MinRatio (each also in
+	// its row's Warning).
 	Warnings []string `json:"warnings,omitempty"`
+
+	// path is the file the summary was read from, for messages.
+	path string
 }
 
 // MinRatio is the smallest advised effective refinement ratio between two
@@ -102,7 +128,7 @@ func (s *Summary) Finish() {
 	byFamily := map[string]map[int]int{} // family -> level -> row position
 	for i := range s.Rows {
 		r := &s.Rows[i]
-		r.H, r.Ratio = 0, 0
+		r.H, r.Ratio, r.Warning = 0, 0, ""
 		if r.Status == StatusOK && r.Cells > 0 && r.Area > 0 {
 			r.H = math.Sqrt(r.Area / float64(r.Cells))
 		}
@@ -125,9 +151,9 @@ func (s *Summary) Finish() {
 		}
 		r.Ratio = s.Rows[j].H / r.H
 		if r.Ratio < MinRatio {
-			s.Warnings = append(s.Warnings, fmt.Sprintf(
-				"%s: the effective refinement ratio from level %d is %.3f, below %.1f (Celik et al. 2008); the levels are too close for a grid-convergence estimate",
-				r.Name, r.Level-1, r.Ratio, MinRatio))
+			r.Warning = fmt.Sprintf("the effective refinement ratio from level %d is %.3f, below %.1f (Celik et al. 2008); the levels are too close for a grid-convergence estimate",
+				r.Level-1, r.Ratio, MinRatio)
+			s.Warnings = append(s.Warnings, r.Name+": "+r.Warning)
 		}
 	}
 }
@@ -211,16 +237,19 @@ func (s *Summary) keys(of func(*Row) map[string]float64) []string {
 
 // CSV returns the summary as CSV: one header line, then one line per
 // variant in sweep order. The columns are index, id, name, one per
-// parameter, level, refine, status, passed, verdict, cells, faces, nodes,
-// area, h, ratio, one worst_<metric> per metric, one yplus_max_<tag> per
-// wall tag with a y+ estimate, input_hash, error, and last the run
-// columns run and seconds. Empty fields mean "not known".
+// parameter, level, refine, status, passed, verdict, failed_cells,
+// warned_cells, failing (the failed metrics and checks, separated by
+// spaces), cells, faces, nodes, area, h, ratio, warning (the refinement
+// ratio's), one worst_<metric> per metric, one yplus_max_<tag> per wall
+// tag with a y+ estimate, input_hash, error, and last the run columns run
+// and seconds. Empty fields mean "not known" (or none).
 func (s *Summary) CSV() []byte {
 	metrics := s.metricNames()
 	walls := s.yplusTags()
 	head := []string{"index", "id", "name"}
 	head = append(head, s.Parameters...)
-	head = append(head, "level", "refine", "status", "passed", "verdict", "cells", "faces", "nodes", "area", "h", "ratio")
+	head = append(head, "level", "refine", "status", "passed", "verdict", "failed_cells", "warned_cells", "failing",
+		"cells", "faces", "nodes", "area", "h", "ratio", "warning")
 	for _, m := range metrics {
 		head = append(head, "worst_"+m)
 	}
@@ -236,8 +265,15 @@ func (s *Summary) CSV() []byte {
 		for _, p := range s.Parameters {
 			rec = append(rec, FormatValue(r.Params[p]))
 		}
+		cellCount := func(n int) string { // 0 is a count of a deck, unknown without one
+			if r.Status != StatusOK {
+				return ""
+			}
+			return strconv.Itoa(n)
+		}
 		rec = append(rec, optInt(r.Level), FormatValue(r.Refine), r.Status, strconv.FormatBool(r.Passed), r.Verdict,
-			optInt(r.Cells), optInt(r.Faces), optInt(r.Nodes), optFloat(r.Area), optFloat(r.H), optFloat(r.Ratio))
+			cellCount(r.FailedCells), cellCount(r.WarnedCells), strings.Join(r.Failing, " "),
+			optInt(r.Cells), optInt(r.Faces), optInt(r.Nodes), optFloat(r.Area), optFloat(r.H), optFloat(r.Ratio), r.Warning)
 		for _, m := range metrics {
 			if v, ok := r.Worst[m]; ok {
 				rec = append(rec, FormatValue(v))
@@ -288,6 +324,7 @@ func ReadSummary(path string) (*Summary, error) {
 	if s.Plan == "" || s.Total < 1 {
 		return nil, fmt.Errorf("%s: not a cvdeck sweep summary (no plan or no variant count)", path)
 	}
+	s.path = path
 	return &s, nil
 }
 
