@@ -65,7 +65,7 @@ func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *q
 	}
 	if len(walls) > 0 {
 		for _, n := range walls[0].TargetNotes {
-			man.Mesh.Notes = append(man.Mesh.Notes, "first-cell height advice: "+n)
+			man.Mesh.Notes = append(man.Mesh.Notes, n) // each begins "first-cell height:"
 		}
 	}
 	man.Advice = c.advice(m)

@@ -199,7 +199,7 @@ func TestBCDataReadBack(t *testing.T) {
 	}{
 		{"quad", testDeck(quadMesh(t, 8, 4))},
 		{"mixed", testDeck(mixedMesh(t, 8, 5))},
-		{"twoblock", testDeck(twoBlockMesh(t, 8, 4, true))},
+		{"twoblock", testDeck(splitRectangle(t, 8, 4, true))},
 		{"cgrid", testDeck(cgridMesh(t, 6, 3, 2))},
 	} {
 		t.Run(c.name, func(t *testing.T) {

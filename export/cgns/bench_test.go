@@ -17,7 +17,7 @@ func BenchmarkWrite1M(b *testing.B) {
 	}{
 		{"quad", func() *Deck { return testDeck(quadMesh(b, 1000, 1000)) }},
 		{"tri", func() *Deck { return testDeck(triMesh(b, 500, 1000)) }},
-		{"structured", func() *Deck { return testDeck(twoBlockMesh(b, 1000, 1000, true)) }},
+		{"structured", func() *Deck { return testDeck(splitRectangle(b, 1000, 1000, true)) }},
 	} {
 		b.Run(c.name, func(b *testing.B) {
 			d := c.deck()

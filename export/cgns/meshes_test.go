@@ -124,10 +124,10 @@ func polygonMesh(tb testing.TB, nx, ny int) *mesh.Mesh {
 	return m
 }
 
-// twoBlockMesh is the rectangle split at x = 1 into two structured blocks
+// splitRectangle is the rectangle split at x = 1 into two structured blocks
 // of nx/2 × ny cells, the second block's i running right to left and its j
 // downward-free (i reversed), so the join needs a non-identity transform.
-func twoBlockMesh(tb testing.TB, nx, ny int, reverse bool) *mesh.Mesh {
+func splitRectangle(tb testing.TB, nx, ny int, reverse bool) *mesh.Mesh {
 	tb.Helper()
 	nodes := gridNodes(nx, ny)
 	id := func(i, j int) int32 { return int32(j*(nx+1) + i) }

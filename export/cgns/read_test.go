@@ -131,7 +131,7 @@ func TestWriteAsUnstructured(t *testing.T) {
 func TestReadInterfaces(t *testing.T) {
 	for _, reverse := range []bool{false, true} {
 		path := filepath.Join(t.TempDir(), "b.cgns")
-		if _, err := Write(path, testDeck(twoBlockMesh(t, 6, 3, reverse))); err != nil {
+		if _, err := Write(path, testDeck(splitRectangle(t, 6, 3, reverse))); err != nil {
 			t.Fatal(err)
 		}
 		m, err := Read(path)

@@ -28,8 +28,8 @@ func deckCases(t *testing.T) []struct {
 		{"quad", testDeck(quadMesh(t, 8, 4))},
 		{"mixed", testDeck(mixedMesh(t, 8, 5))},
 		{"poly", testDeck(polygonMesh(t, 8, 4))},
-		{"twoblock", testDeck(twoBlockMesh(t, 8, 4, true))},
-		{"twoblock-aligned", testDeck(twoBlockMesh(t, 8, 4, false))},
+		{"twoblock", testDeck(splitRectangle(t, 8, 4, true))},
+		{"twoblock-aligned", testDeck(splitRectangle(t, 8, 4, false))},
 		{"ring", testDeck(ringMesh(t, 12, 3))},
 		{"cgrid", testDeck(cgridMesh(t, 6, 3, 2))},
 		{"cgrid-names", renamed(testDeck(cgridMesh(t, 6, 3, 2)), "farfield", "outlet_2")},
@@ -202,7 +202,7 @@ func TestWriteRejects(t *testing.T) {
 		{"short node map", func(m *mesh.Mesh) { m.Blocks[1].Node = m.Blocks[1].Node[1:] }, "block 1 (block2) maps 14 nodes; 3×5 needs 15"},
 	}
 	for _, c := range blockCases {
-		d := testDeck(twoBlockMesh(t, 4, 4, false))
+		d := testDeck(splitRectangle(t, 4, 4, false))
 		c.edit(d.Mesh)
 		_, err := Write(filepath.Join(dir, "bad.cgns"), d)
 		if err == nil || !strings.Contains(err.Error(), c.want) {
