@@ -3,6 +3,7 @@ package vtk
 import (
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 
 	"cvdeck/mesh"
@@ -11,7 +12,8 @@ import (
 // Names of the boundary file's arrays.
 const (
 	// TagArray holds each line's index into TagNamesArray, -1 for an
-	// untagged face.
+	// untagged face; or, when every tag name is a whole number written
+	// plainly (numericTags), that number itself, with no TagNamesArray.
 	TagArray = "tag"
 	// ConditionArray holds each line's index into ConditionNamesArray, -1
 	// where no condition is given.
@@ -27,7 +29,11 @@ const (
 // one line cell per boundary face, in face order, over the boundary nodes
 // only (numbered in order of first use). Cell data: TagArray, FaceArray and,
 // when conditions is not nil, ConditionArray (Int32); FieldData:
-// TagNamesArray (m.Tags) and ConditionNamesArray.
+// TagNamesArray (m.Tags) and ConditionNamesArray. When every tag is a
+// number (a mesh from a file that numbered its boundaries), TagArray holds
+// the numbers themselves and TagNamesArray is left out, so that a viewer
+// colours the faces by the file's own numbers; the readers give such a
+// number back as the tag name, so either form reads back the same.
 //
 // conditions, if not nil, gives the boundary condition of each tag, indexed
 // like m.Tags ("" for none); its distinct names, in order of first use, make
@@ -69,10 +75,22 @@ func WriteBoundaryVTP(w io.Writer, m *mesh.Mesh, conditions []string) error {
 		}
 	}
 
+	tagValue := func(t int16) int32 { return int32(t) }
+	numbers, numeric := numericTags(m.Tags)
+	if numeric {
+		tagValue = func(t int16) int32 {
+			if t < 0 {
+				return -1
+			}
+			return numbers[t]
+		}
+	}
 	d := newAppendedDoc("PolyData")
 	d.line(1, "<PolyData>")
 	d.line(2, "<FieldData>")
-	d.array(3, stringArray(TagNamesArray, m.Tags))
+	if !numeric {
+		d.array(3, stringArray(TagNamesArray, m.Tags))
+	}
 	if conditions != nil {
 		d.array(3, stringArray(ConditionNamesArray, condNames))
 	}
@@ -92,7 +110,7 @@ func WriteBoundaryVTP(w io.Writer, m *mesh.Mesh, conditions []string) error {
 	d.line(3, fmt.Sprintf("<CellData Scalars=\"%s\">", TagArray))
 	d.array(4, dataArray{name: TagArray, typ: "Int32", nbytes: 4 * int64(nb), write: func(e *encoder) {
 		for f := lo; f < nf; f++ {
-			e.i32(int32(m.FaceTag[f]))
+			e.i32(tagValue(m.FaceTag[f]))
 		}
 	}})
 	if conditions != nil {
@@ -141,4 +159,23 @@ func indexNames(names []string) ([]int32, []string) {
 		idx[i] = k
 	}
 	return idx, distinct
+}
+
+// numericTags returns the tags as numbers when every one is a whole number
+// from 0 to 2³¹−1 in plain decimal (strconv.Itoa gives it back: no sign,
+// no leading zero), as files that number their boundaries name them; a
+// tag list holding any other name, or none, is not numeric.
+func numericTags(tags []string) ([]int32, bool) {
+	if len(tags) == 0 {
+		return nil, false
+	}
+	out := make([]int32, len(tags))
+	for i, name := range tags {
+		n, err := strconv.ParseInt(name, 10, 32)
+		if err != nil || n < 0 || strconv.FormatInt(n, 10) != name {
+			return nil, false
+		}
+		out[i] = int32(n)
+	}
+	return out, true
 }

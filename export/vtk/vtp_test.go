@@ -93,3 +93,48 @@ func TestBoundaryVTPRoundTrip(t *testing.T) {
 		t.Fatal("an UnstructuredGrid file was read as boundary polydata")
 	}
 }
+
+// Tags that are numbers (as a file that numbers its boundaries names them)
+// are written as those numbers, without a tag_names array, so that the
+// VTK library's reader sees each line's own number (untagged lines −1);
+// ReadBoundaryVTP gives the same names back. A list with any other name
+// keeps the index form.
+func TestBoundaryVTPNumericTags(t *testing.T) {
+	m := mixedMesh(t, 6, 5, -40) // west untagged
+	m.Tags = []string{"10", "2", "7"}
+	p := writeTemp(t, "boundary.vtp", func(b *bytes.Buffer) error { return WriteBoundaryVTP(b, m, nil) })
+	var got readBack
+	runPython(t, readBackScript, &got, p)
+	if _, ok := got.FieldStrings[TagNamesArray]; ok {
+		t.Fatalf("numeric tags written with %s %v", TagNamesArray, got.FieldStrings[TagNamesArray])
+	}
+	tag := got.floats(t, TagArray)
+	number := map[int16]float64{-1: -1, 0: 10, 1: 2, 2: 7}
+	for k := range tag {
+		if f := m.NumInterior + k; tag[k] != number[m.FaceTag[f]] {
+			t.Fatalf("line %d: VTK read tag %v, want %v", k, tag[k], number[m.FaceTag[f]])
+		}
+	}
+	var buf bytes.Buffer
+	if err := WriteBoundaryVTP(&buf, m, nil); err != nil {
+		t.Fatal(err)
+	}
+	lines, err := ReadBoundaryVTP(buf.Bytes(), "boundary.vtp")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, l := range lines {
+		want := ""
+		if tg := m.FaceTag[m.NumInterior+k]; tg >= 0 {
+			want = m.Tags[tg]
+		}
+		if l.Tag != want {
+			t.Fatalf("line %d read back as tag %q, want %q", k, l.Tag, want)
+		}
+	}
+	for _, tags := range [][]string{{"10", "02", "7"}, {"10", "-2", "7"}, {"10", "wall", "7"}} {
+		if _, ok := numericTags(tags); ok {
+			t.Errorf("tags %q taken as numbers", tags)
+		}
+	}
+}
