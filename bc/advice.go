@@ -3,6 +3,7 @@ package bc
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"cvdeck/mesh"
 
@@ -34,10 +35,10 @@ type WallSpacing struct {
 const (
 	// airPrandtl is the Prandtl number of air, 0.72 (common practice).
 	airPrandtl = 0.72
-	// transitionReynolds is the Reynolds number Re_x below which a flat
+	// TransitionReynolds is the Reynolds number Re_x below which a flat
 	// plate's boundary layer is usually laminar, 5e5 (common practice;
 	// it moves with free-stream turbulence, roughness and Mach number).
-	transitionReynolds = 5e5
+	TransitionReynolds = 5e5
 	// schlichtingMaxReynolds is the top of the range in which
 	// Schlichting's correlation is quoted, Re_x < 1e9.
 	schlichtingMaxReynolds = 1e9
@@ -116,8 +117,8 @@ func FirstCellHeight(s State, x, yplus float64) (WallSpacing, error) {
 		ReferenceTemperature: tref,
 		ReferenceReynoldsX:   reRef,
 	}
-	if w.ReynoldsX < transitionReynolds {
-		w.Notes = append(w.Notes, fmt.Sprintf("first-cell height: Re_x = %.3g at x = %g m is below about %g, where a flat plate's boundary layer turns turbulent (common practice): it would be laminar there unless tripped, with a lower wall shear, so the turbulent estimate gives a smaller height than a laminar wall needs", w.ReynoldsX, x, transitionReynolds))
+	if w.ReynoldsX < TransitionReynolds {
+		w.Notes = append(w.Notes, fmt.Sprintf("first-cell height: Re_x = %.3g at x = %g m is below about %g, where a flat plate's boundary layer turns turbulent (common practice): it would be laminar there unless tripped, with a lower wall shear, so the turbulent estimate gives a smaller height than a laminar wall needs", w.ReynoldsX, x, TransitionReynolds))
 	}
 	if reRef > schlichtingMaxReynolds {
 		w.Notes = append(w.Notes, fmt.Sprintf("first-cell height: Re_x = %.3g at x = %g m (at the reference temperature) is above %g, the range of Schlichting's skin-friction correlation: the height is extrapolated", reRef, x, schlichtingMaxReynolds))
@@ -126,7 +127,7 @@ func FirstCellHeight(s State, x, yplus float64) (WallSpacing, error) {
 		w.Notes = append(w.Notes, fmt.Sprintf("first-cell height: Eckert's reference temperature was fitted for air (gamma 1.4); for gamma %.4g its compressibility correction at M %.3g is rougher", s.Gas.Gamma, s.Mach))
 	}
 	if n := sutherlandNote(s.Gas, "the adiabatic wall temperature", taw, "the wall viscosity, and the first-cell height from it, are extrapolated"); n != "" {
-		w.Notes = append(w.Notes, "first-cell height: "+n)
+		w.Notes = append(w.Notes, "first-cell height: "+strings.TrimPrefix(n, ViscosityNote))
 	}
 	return w, nil
 }

@@ -284,7 +284,7 @@ func mutualPeriodic(m *mesh.Mesh, in []Condition, fail func(where, tag, format s
 		// A tolerance that is not positive is reported with its
 		// condition; nothing is compared against it.
 		if d := math.Hypot(ti[0]+tj[0], ti[1]+tj[1]); tol > 0 && d > tol {
-			fail(valueWhere(c, KeyTranslation), c.Tag, "declares the periodic pair with %q that %q declares too (at %s), but the translations are not opposite: (%g, %g) m here, (%g, %g) m there, %.3g m apart from opposite (tolerance %.3g m); declaring the pair on one side is enough (the partner's translation is the opposite one)",
+			fail(valueWhere(c, KeyTranslation), c.Tag, "declares the periodic pair with %q that %q declares too (at %s), but the translations are not opposite: (%.9g, %.9g) m here, (%.9g, %.9g) m there, %.3g m apart from opposite (tolerance %.3g m); declaring the pair on one side is enough (the partner's translation is the opposite one)",
 				c.Partner, c.Partner, whereOr(conds[i].Where), tj[0], tj[1], ti[0], ti[1], d, tol)
 		}
 	}

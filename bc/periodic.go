@@ -97,12 +97,12 @@ func matchPeriodic(m *mesh.Mesh, a, b string, aLo, aHi, bLo, bHi int, t orb.Poin
 		}
 		if !found && len(bad) < 3 {
 			near, nd := nearestFace(m, bLo, bHi, add(mid[f], t))
-			bad = append(bad, fmt.Sprintf("face %d at (%g, %g) moves to (%g, %g); the nearest face of %q, face %d, is %.3g m away (tolerance %.3g m)",
+			bad = append(bad, fmt.Sprintf("face %d at (%.9g, %.9g) moves to (%.9g, %.9g); the nearest face of %q, face %d, is %.3g m away (tolerance %.3g m)",
 				f, mid[f][0], mid[f][1], mid[f][0]+t[0], mid[f][1]+t[1], b, near, nd, ftol))
 		}
 	}
 	if miss := na - len(pm.Pairs); miss > 0 {
-		return pm, fmt.Errorf("%d of %d faces of tag %q have no matching face in %q after the translation (%g, %g) m; first: %s",
+		return pm, fmt.Errorf("%d of %d faces of tag %q have no matching face in %q after the translation (%.9g, %.9g) m; first: %s",
 			miss, na, a, b, t[0], t[1], strings.Join(bad, "; "))
 	}
 	return pm, nil

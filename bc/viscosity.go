@@ -33,6 +33,11 @@ const (
 // Sutherland law and the temperature t (K) of what (such as "the static
 // temperature") is outside the law's range, with the consequence, or ""
 // when there is nothing to say.
+// ViscosityNote begins every note on the viscosity law (sutherlandNote), so
+// that a caller with no viscous boundary, whose solver takes no viscosity,
+// can leave those notes out.
+const ViscosityNote = "viscosity: "
+
 func sutherlandNote(g Gas, what string, t float64, consequence string) string {
 	if g.ViscosityLaw() != AirSutherland || (t >= airSutherlandMin && t <= airSutherlandMax) {
 		return ""
@@ -41,7 +46,7 @@ func sutherlandNote(g Gas, what string, t float64, consequence string) string {
 	if t > airSutherlandMax {
 		side = fmt.Sprintf("above %g K, the top", airSutherlandMax)
 	}
-	return fmt.Sprintf("viscosity: %s, %.4g K, is %s of the range %g-%g K in which Sutherland's law with air's constants is within about 2 %% (White, Viscous Fluid Flow; from memory): %s",
+	return fmt.Sprintf(ViscosityNote+"%s, %.4g K, is %s of the range %g-%g K in which Sutherland's law with air's constants is within about 2 %% (White, Viscous Fluid Flow; from memory): %s",
 		what, t, side, airSutherlandMin, airSutherlandMax, consequence)
 }
 

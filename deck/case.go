@@ -105,11 +105,6 @@ type Case struct {
 	// sketch is the sketch file when the case was made from one in memory
 	// (SketchCase), "" for a case file.
 	sketch string
-	// sizedByYplus is set once a wall spacing of the case has been read
-	// as a target y+ (wallHeight), which the turbulent flat-plate
-	// estimate turns into a height: the case is then meant for turbulent
-	// flow (see cgnsTurbulent).
-	sizedByYplus bool
 }
 
 // Family is a refinement family of one case (the refine section).

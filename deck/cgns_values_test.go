@@ -141,8 +141,8 @@ func near(got, want, rel float64) bool { return math.Abs(got-want) <= rel*math.A
 // the BCDataSet "Values" of the tag's BC (the channel's wall temperature
 // 350 K, the inlet's total pressure 106443 Pa, total temperature 305.4 K
 // and direction (1, 0), the back pressure 100000 Pa), read back with
-// h5dump. The reference asks for y+ 1, which cvdeck meets with a
-// turbulent flat-plate estimate, so the equations are NSTurbulent, with
+// h5dump. The reference Reynolds number (M 0.3 at 100 kPa, 300 K over 1 m:
+// about 7e6) is past transition, so the equations are NSTurbulent, with
 // Sutherland's law and ConstantPrandtl 0.72 (air, common practice).
 func TestCGNSCarriesBoundaryValues(t *testing.T) {
 	path := runCGNS(t, "chan", strings.Replace(channelCase, "REFERENCE", "reference: {mach: 0.3, pressure: 100000, temperature: 300, length: 1, yplus: 1}", 1))
@@ -190,17 +190,37 @@ func TestCGNSCarriesBoundaryValues(t *testing.T) {
 	if got := nodeValue(t, path, es+"ThermalConductivityModel/Prandtl"); got != 0.72 {
 		t.Errorf("Prandtl %v, want 0.72", got)
 	}
+	// The per-cell metrics carry their units (SIDS DataClass,
+	// DimensionalExponents; DimensionalUnits of its own for an array in
+	// degrees, where the base's AngleUnits are Radian).
+	q := "/chan/b/CellQuality/"
+	if e, _ := nodeData(t, path, q+"face_length/DimensionalExponents"); len(e) != 5 || e[1] != 1 || e[0]+e[2]+e[3]+e[4] != 0 {
+		t.Errorf("face_length exponents %v, want 0 1 0 0 0", e)
+	}
+	if e, _ := nodeData(t, path, q+"min_angle/DimensionalExponents"); len(e) != 5 || e[4] != 1 || e[0]+e[1]+e[2]+e[3] != 0 {
+		t.Errorf("min_angle exponents %v, want 0 0 0 0 1", e)
+	}
+	if got := nodeText(t, path, q+"min_angle/DimensionalUnits"); !strings.Contains(got, "Degree") {
+		t.Errorf("min_angle DimensionalUnits %q, want AngleUnits Degree", got)
+	}
+	if got := nodeText(t, path, q+"skewness/DataClass"); got != "NondimensionalParameter" {
+		t.Errorf("skewness DataClass %q", got)
+	}
 }
 
-// TestCGNSGoverningEquations: without a y+ target the no-slip channel is
-// NSLaminar; without a reference block the file still has the flow
+// TestCGNSGoverningEquations: the no-slip channel is NSLaminar at a
+// reference Reynolds number below transition (M 0.3 at 100 kPa, 300 K over
+// 1 cm: Re about 7e4 < 5e5) and NSTurbulent above it (over 1 m: about 7e6);
+// without a reference block it is NSLaminar and the file still has the flow
 // equation set of the gas (air: γ 1.4, R 287.05287 J/(kg K), ISO 2533 from
 // memory, and White's Sutherland constants μref 1.716e-5 Pa s, Tref
 // 273.15 K, S 110.4 K) and no ReferenceState.
 func TestCGNSGoverningEquations(t *testing.T) {
-	laminar := runCGNS(t, "chan", strings.Replace(channelCase, "REFERENCE", "reference: {mach: 0.3, pressure: 100000, temperature: 300, length: 1}", 1))
-	if got := nodeText(t, laminar, "/chan/FlowEquationSet/GoverningEquations"); got != "NSLaminar" {
-		t.Errorf("without a y+ target: %q, want NSLaminar", got)
+	for length, want := range map[string]string{"0.01": "NSLaminar", "1": "NSTurbulent"} {
+		path := runCGNS(t, "chan", strings.Replace(channelCase, "REFERENCE", "reference: {mach: 0.3, pressure: 100000, temperature: 300, length: "+length+"}", 1))
+		if got := nodeText(t, path, "/chan/FlowEquationSet/GoverningEquations"); got != want {
+			t.Errorf("reference length %s m: %q, want %s", length, got, want)
+		}
 	}
 	noref := runCGNS(t, "chan", strings.Replace(channelCase, "REFERENCE", "", 1))
 	es := "/chan/FlowEquationSet/"
@@ -229,7 +249,8 @@ func TestCGNSGoverningEquations(t *testing.T) {
 // VelocityX, VelocityY and Temperature, the isothermal body's 400 K and the
 // farfield's full free-stream state at the reference angle of 10°: M 0.2,
 // p 100000 Pa, T 300 K, ρ = p/(R T), V = M √(γ R T) (ideal gas, air's
-// γ 1.4 and R 287.05287 J/(kg K)). Its layers' y+ makes it NSTurbulent.
+// γ 1.4 and R 287.05287 J/(kg K)). Its reference Reynolds number, past
+// transition, makes it NSTurbulent.
 func TestCGNSUnstructuredValues(t *testing.T) {
 	text := `name: cyl
 units: m

@@ -23,7 +23,9 @@ type outputSpec struct {
 //
 // vtu also writes boundary.vtp; vts writes one structured grid per block
 // and a multiblock index (structured meshes only); preview is preview.svg,
-// png preview.png; manifest is deck.yaml. quality.json is always written.
+// png preview.png; manifest is deck.yaml. quality.json and deck.yaml are
+// always written (deck.yaml carries the caution statement and the record a
+// check of the deck needs), so manifest may be named or left out alike.
 func decodeOutputs(top *object) (outputSpec, error) {
 	out := outputSpec{formats: DefaultFormats}
 	v, ok := top.get("outputs")

@@ -60,8 +60,14 @@ func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *q
 		man.Mesh.Notes = append(man.Mesh.Notes, fmt.Sprintf("the gas (gamma %g, R %g J/(kg K)) has no viscosity law of its own, so air's Sutherland constants (%s) give its viscosity, Reynolds number and first-cell heights; give reference.gas.sutherland for this gas", c.Reference.gas.Gamma, c.Reference.gas.R, bc.AirSutherland))
 	}
 	if c.Reference != nil {
-		// Where the reference state stretches the gas models (bc.State.Notes).
-		man.Mesh.Notes = append(man.Mesh.Notes, c.Reference.state.Notes()...)
+		// Where the reference state stretches the gas models
+		// (bc.State.Notes); those on the viscosity law only when a wall
+		// is viscous, since an inviscid solve takes no viscosity.
+		for _, n := range c.Reference.state.Notes() {
+			if viscous(assign) || !strings.HasPrefix(n, bc.ViscosityNote) {
+				man.Mesh.Notes = append(man.Mesh.Notes, n)
+			}
+		}
 	}
 	if len(walls) > 0 {
 		for _, n := range walls[0].TargetNotes {

@@ -278,10 +278,11 @@ func writeDeck(dir string, c *Case, m *mesh.Mesh, assign *bc.Assignment, rep *qu
 		man.Files = append(man.Files, recs[i]...)
 	}
 	sort.Slice(man.Files, func(i, j int) bool { return man.Files[i].Path < man.Files[j].Path })
-	if hasFormat(formats, "manifest") {
-		return atomic.WriteFile(filepath.Join(dir, manifest.FileName), func(w io.Writer) error { return manifest.Encode(w, man) })
-	}
-	return nil
+	// deck.yaml is written whatever the formats: it carries the caution
+	// statement, the inputs and the limits the deck was graded with, and
+	// without it a check of the deck's files could not tell the deck's
+	// verdict.
+	return atomic.WriteFile(filepath.Join(dir, manifest.FileName), func(w io.Writer) error { return manifest.Encode(w, man) })
 }
 
 // previewInput gathers what the preview pictures of the mesh called name
@@ -439,7 +440,16 @@ func cgnsDeck(c *Case, m *mesh.Mesh, assign *bc.Assignment, fields []vtk.Field) 
 	}
 	d.Flow = cgnsFlow(c, assign)
 	for _, f := range fields {
-		d.CellFields = append(d.CellFields, cgns.Field{Name: f.Name, Values: f.Values})
+		cf := cgns.Field{Name: f.Name, Values: f.Values}
+		switch quality.MetricUnit(f.Name) {
+		case "m":
+			cf.Exponents = [5]float64{0, 1, 0, 0, 0}
+		case "m²":
+			cf.Exponents = [5]float64{0, 2, 0, 0, 0}
+		case "°":
+			cf.Exponents, cf.Degrees = [5]float64{0, 0, 0, 0, 1}, true
+		}
+		d.CellFields = append(d.CellFields, cf)
 	}
 	return d
 }
@@ -486,17 +496,17 @@ func cgnsFlow(c *Case, assign *bc.Assignment) *cgns.FlowState {
 	return fs
 }
 
-// cgnsTurbulent reports whether the case sizes its wall cells for a
-// target y+: a reference yplus (the target of the first-cell height
-// advice and of the walls' y+ estimates), or any wall spacing given as a
-// y+ (first_yplus or last_yplus of a structured edge, a grown grid's or an
-// unstructured boundary layer's first height; Case.sizedByYplus). cvdeck
-// turns a y+ into a height by a turbulent flat-plate skin-friction
-// correlation (bc.FirstCellHeight), so such a case is meant to be solved
-// as turbulent flow, and a solver reading GoverningEquations should be
-// told NSTurbulent rather than NSLaminar.
+// cgnsTurbulent reports whether a viscous case is labelled turbulent: when
+// its reference Reynolds number at the reference length reaches
+// bc.TransitionReynolds (5e5, where a flat plate's boundary layer turns
+// turbulent; common practice), the regime the first-cell height advice
+// assumes, and in which a solver reading GoverningEquations would be run
+// with a turbulence model. Below it, or without a reference length, the
+// case is labelled laminar. The label is a first statement of intent; the
+// solver's own settings decide.
 func cgnsTurbulent(c *Case) bool {
-	return c.sizedByYplus || c.Reference != nil && c.Reference.yplus > 0
+	r := c.Reference
+	return r != nil && r.length > 0 && r.state.Reynolds(r.length) >= bc.TransitionReynolds
 }
 
 // cgnsBCValues are the values a condition imposes, under the SIDS

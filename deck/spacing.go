@@ -173,7 +173,6 @@ func (c *Case) wallHeight(x value) (float64, error) {
 	if err != nil {
 		return 0, x.wrap(err)
 	}
-	c.sizedByYplus = true
 	return ws.Height, nil
 }
 

@@ -117,6 +117,23 @@ func TestHangingNode(t *testing.T) {
 	}
 }
 
+// A triangle whose side carries the node its two neighbours share: the
+// advice for a triangle is to split it through the node (a fourth node on
+// its side would make a degenerate quadrilateral), and the mesh so split
+// has no hanging node and passes.
+func TestHangingNodeOnTriangle(t *testing.T) {
+	nodes := []orb.Point{{0, 0}, {2, 0}, {0, 2}, {1, 1}, {2, 2}}
+	r := evaluate(t, build(t, nodes, [][]int32{{0, 1, 2}, {1, 4, 3}, {3, 4, 2}}, true))
+	ps := problems(r, CheckHanging)
+	if len(ps) != 1 || ps[0].Cell != 0 || !strings.Contains(ps[0].Message, "triangle: split it in two through the node") {
+		t.Fatalf("hanging problems %+v, want node 3 on cell 0 with the triangle's advice", ps)
+	}
+	r = evaluate(t, build(t, nodes, [][]int32{{0, 1, 3}, {0, 3, 2}, {1, 4, 3}, {3, 4, 2}}, true))
+	if ps := problems(r, CheckHanging); len(ps) != 0 || r.Verdict == Fail {
+		t.Errorf("the advised split: hanging problems %+v, verdict %s", ps, r.Verdict)
+	}
+}
+
 // Two unit quads side by side that do not share their interface nodes: nodes
 // 1 and 4, and 2 and 7, coincide.
 func TestDuplicateNode(t *testing.T) {

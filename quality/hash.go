@@ -285,9 +285,19 @@ func findHanging(m *mesh.Mesh, bnodes []int32, relTol float64, cn *connectivity)
 			t := (px*ex + py*ey) / l2
 			dist := math.Abs(px*ey-py*ex) / math.Sqrt(l2)
 			if t > relTol && t < 1-relTol && dist <= relTol*math.Sqrt(l2) {
+				// The fix depends on the cell: a polygon of four or more
+				// nodes takes the node into its node list (its shape is
+				// measured by its true corners, see cellShape), while a
+				// triangle given a fourth node on a side would be a
+				// degenerate quadrilateral, so it is split in two through
+				// the node instead.
+				fix := "split that face at the node (add the node to the cell's node list)"
+				if o := int(m.Owner[f]); m.CellStart[o+1]-m.CellStart[o] == 3 {
+					fix = "the cell is a triangle: split it in two through the node, from the node to the corner opposite that face"
+				}
 				cn.add(Problem{Check: CheckHanging, Cell: int(m.Owner[f]), Face: f, Node: v, X: p[0], Y: p[1],
-					Message: fmt.Sprintf("node %d at (%.9g, %.9g) lies inside face %d (nodes %d-%d) of cell %d without being one of its nodes: a hanging node; split that face at the node",
-						v, p[0], p[1], f, fn[0], fn[1], m.Owner[f])})
+					Message: fmt.Sprintf("node %d at (%.9g, %.9g) lies inside face %d (nodes %d-%d) of cell %d without being one of its nodes: a hanging node; %s",
+						v, p[0], p[1], f, fn[0], fn[1], m.Owner[f], fix)})
 			}
 		}
 	}

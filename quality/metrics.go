@@ -46,6 +46,15 @@ func MetricNames() []string {
 	return out
 }
 
+// MetricUnit returns the unit of the named metric: "m²", "m", "°", or ""
+// for a dimensionless metric and for a name that is not a metric.
+func MetricUnit(name string) string {
+	if d := metricByName(name); d != nil {
+		return d.unit
+	}
+	return ""
+}
+
 func metricByName(name string) *metricDef {
 	for i := range metricDefs {
 		if metricDefs[i].name == name {

@@ -173,9 +173,6 @@ func writeWalls(w io.Writer, walls []deck.WallResolution) {
 	fmt.Fprintf(w, "\nno-slip walls\n")
 	if t := walls[0]; t.TargetHeight > 0 {
 		fmt.Fprintf(w, "  target y+ %.3g: first-cell height %.3g m by the flat-plate estimate at the reference length\n", t.TargetYplus, t.TargetHeight)
-		for _, n := range t.TargetNotes {
-			fmt.Fprintf(w, "    note: %s\n", n)
-		}
 	}
 	for _, wr := range walls {
 		h := wr.Height
@@ -194,9 +191,6 @@ type wallJSON struct {
 	TargetYplus     *float64        `json:"target_yplus"`
 	TargetHeight    *float64        `json:"target_first_cell_height"`
 	Yplus           *quality.Spread `json:"yplus_estimate"`
-	// TargetNotes are the advice's remarks on the target height (a plate
-	// station where the layer would be laminar, a model past its range).
-	TargetNotes []string `json:"target_notes,omitempty"`
 }
 
 // wallsJSON gives the walls for --json: the targets and y+ are null when
@@ -206,7 +200,7 @@ func wallsJSON(walls []deck.WallResolution) []wallJSON {
 	for _, w := range walls {
 		j := wallJSON{Tag: w.Tag, FirstCellHeight: w.Height}
 		if w.TargetHeight > 0 {
-			j.TargetYplus, j.TargetHeight, j.Yplus, j.TargetNotes = &w.TargetYplus, &w.TargetHeight, &w.Yplus, w.TargetNotes
+			j.TargetYplus, j.TargetHeight, j.Yplus = &w.TargetYplus, &w.TargetHeight, &w.Yplus
 		}
 		out = append(out, j)
 	}

@@ -167,7 +167,11 @@ func runState(cmd *cobra.Command, f stateFlags, out io.Writer) error {
 			bc.Entry{Key: "eckert_reference_temperature", Value: w.ReferenceTemperature, Unit: "K"})
 		wall = w
 	}
-	notes := append(st.Notes(), wall.Notes...)
+	var notes []string
+	if gas.BorrowsAirViscosity() {
+		notes = append(notes, "dynamic_viscosity: this gas has no Sutherland constants of its own (--sutherland MU_REF,T_REF,S), so air's are used, and the Reynolds number and first-cell height follow from them")
+	}
+	notes = append(append(notes, st.Notes()...), wall.Notes...)
 	var shock bc.Entries
 	if f.normalShock {
 		post, err := st.PostNormalShock()
@@ -187,9 +191,6 @@ func runState(cmd *cobra.Command, f stateFlags, out io.Writer) error {
 		return nil
 	}
 	fmt.Fprintf(out, "Reference state (%s)\n\n%s", source, entries.Table())
-	if gas.BorrowsAirViscosity() {
-		fmt.Fprintf(out, "\ndynamic_viscosity: this gas has no Sutherland constants of its own (--sutherland MU_REF,T_REF,S), so air's are used, and the Reynolds number and first-cell height follow from them\n")
-	}
 	if set("yplus") {
 		fmt.Fprintf(out, "\nfirst_cell_height: a first guess for y+ = %g at x = %g m on an adiabatic flat plate (wall at %.4g K): turbulent, Schlichting's C_f = [2 log10(Re_x) - 0.65]^-2.3 at Eckert's reference temperature %.4g K, y+ in wall units; the solution's own wall shear decides\n",
 			f.yplus, f.length, wall.WallTemperature, wall.ReferenceTemperature)

@@ -176,10 +176,14 @@ func TestStateNotes(t *testing.T) {
 	if tr := got.Post["static_temperature"] / got.T; math.Abs(tr/13.387-1) > 1e-4 {
 		t.Errorf("T2/T1 = %g, NACA 1135 13.387", tr)
 	}
+	borrowed, err := runStateCmd(t, "--mach", "0.3", "--pressure", "1e5", "--temperature", "300", "--gamma", "1.3", "--gas-constant", "300", "--json")
+	if err != nil || !strings.Contains(borrowed, `"notes":["dynamic_viscosity: this gas has no Sutherland constants of its own`) {
+		t.Errorf("--json of a gas without Sutherland constants: %v\n%s", err, borrowed)
+	}
 	all := strings.Join(got.Notes, "\n")
 	for _, want := range []string{"total temperature, 3126 K, is above 1900 K", "total temperature, 3126 K, is above about 2000 K",
 		"behind the normal shock: viscosity: the static temperature, 3032 K", "behind the normal shock: gas model: the static temperature, 3032 K",
-		"first-cell height: viscosity: the adiabatic wall temperature"} {
+		"first-cell height: the adiabatic wall temperature"} {
 		if !strings.Contains(all, want) {
 			t.Errorf("no %q in the notes:\n%s", want, all)
 		}
@@ -192,6 +196,7 @@ func TestStateNotes(t *testing.T) {
 		{[]string{"--mach", "0.5", "--pressure", "1e5", "--temperature", "300", "--gamma", "3", "--gas-constant", "287"}, "gamma = 3 is above 5/3"},
 		{[]string{"--mach", "0.3", "--altitude", "30000", "--length", "1", "--yplus", "1"}, "it would be laminar there"},
 		{[]string{"--mach", "0.8", "--altitude", "0", "--length", "2", "--yplus", "1"}, ""},
+		{[]string{"--mach", "0.3", "--pressure", "1e5", "--temperature", "300", "--gamma", "1.3", "--gas-constant", "300"}, "no Sutherland constants of its own"},
 	} {
 		out, err := runStateCmd(t, c.args...)
 		if err != nil {

@@ -153,6 +153,11 @@ type Field struct {
 	// metric (DataClass NondimensionalParameter). A cell area has
 	// {0, 2, 0, 0, 0}.
 	Exponents [5]float64
+	// Degrees marks angle values in degrees: the array then carries its
+	// own DimensionalUnits with AngleUnits Degree, overriding the base's
+	// Radian (SIDS lets a DataArray_t hold DimensionalUnits of its own).
+	// It needs an angle exponent.
+	Degrees bool
 }
 
 // checkName reports whether s can be a CGNS node name: non-empty, at most
@@ -281,6 +286,9 @@ func (d *Deck) validateTags() ([]C.BCType_t, [][]BCValue, error) {
 			return nil, nil, fmt.Errorf("cgns: cell field %d: name %q is used twice", i, f.Name)
 		}
 		seen[f.Name] = true
+		if f.Degrees && f.Exponents[4] == 0 {
+			return nil, nil, fmt.Errorf("cgns: cell field %q is marked as degrees but its exponents %v have no angle", f.Name, f.Exponents)
+		}
 		if len(f.Values) != m.NumCells() {
 			return nil, nil, fmt.Errorf("cgns: cell field %q has %d values; the mesh has %d cells", f.Name, len(f.Values), m.NumCells())
 		}

@@ -298,6 +298,10 @@ func (w *writer) cellFields(z C.int, zone string, d *Deck, dims []int32, values 
 		} else {
 			err = w.exponents(fp, f.Exponents)
 		}
+		if err == nil && f.Degrees {
+			w.sum.text(fp+"/DimensionalUnits", "Kilogram Meter Second Kelvin Degree")
+			err = libError(C.cg_units_write(C.Kilogram, C.Meter, C.Second, C.Kelvin, C.Degree), "write DimensionalUnits of "+fp)
+		}
 		if err != nil {
 			return err
 		}

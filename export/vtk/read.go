@@ -316,7 +316,7 @@ func mapPlane(pts []float64, axis int) (note, view string) {
 			p[0], p[1], p[2] = p[u], p[v], p[axis]
 		}
 	})
-	return fmt.Sprintf("a plane mesh on %s = %g, read as 2D with (%s, %s) taken as (x, y), seen from %s (%s dropped)", name, c, uv[u], uv[v], view, name), view
+	return fmt.Sprintf("a plane mesh on %s = %.9g, read as 2D with (%s, %s) taken as (x, y), seen from %s (%s dropped; files written from it, such as check -o's, are in that (x, y) plane)", name, c, uv[u], uv[v], view, name), view
 }
 
 // orient turns the cells of in counter-clockwise when every one of them
