@@ -16,8 +16,6 @@ import (
 	"strings"
 	"unsafe"
 
-	"github.com/paulmach/orb"
-
 	"cvdeck/mesh"
 )
 
@@ -25,12 +23,15 @@ import (
 // program and returns it as a face-based mesh built with mesh.Build.
 //
 // The file's first base must have cell dimension 2 (physical dimension 2,
-// or 3 with a constant CoordinateZ) and hold either one unstructured zone
-// or one or more structured zones; or it is a 3D base holding a 2D case
-// the way 3D solvers take one: structured zones one node plane or one cell
-// thick in k (see structured below), or one unstructured zone one cell
-// thick (HEXA_8 and PENTA_6 between two planes z = z0 < z1, read as the
-// lower plane: see slab.cells; QUAD_4 across the slab are its boundary
+// or 3 with the nodes on one plane x, y or z = constant: see planeAxis;
+// a mesh on x or y = c is read in the two coordinates that vary, with a
+// note, as the VTK reader reads one) and hold either one unstructured
+// zone or one or more structured zones; or it is a 3D base holding a 2D
+// case the way 3D solvers take one: structured zones one node plane
+// thick, or one cell thick in k (see structured below), or one
+// unstructured zone one cell thick (HEXA_8 and PENTA_6 between two planes
+// z = z0 < z1, read as the lower plane whichever face of an element lies
+// there: see slab.lowerFace; QUAD_4 across the slab are its boundary
 // faces, TRI_3 and QUAD_4 in its planes its front and back, left out with
 // their BCs):
 //
@@ -54,16 +55,22 @@ import (
 //     join (Periodic_t under its GridConnectivityProperty_t) merges
 //     nothing: its edges are boundary faces tagged with its BoundaryTag
 //     descriptor, or its name. A
-//     left-handed zone's cells are turned counter-clockwise. BCs are
+//     left-handed zone's cells are turned counter-clockwise. Nodes on the
+//     sides of two zones that coincide but that no join merges are merged
+//     too, with a note (see mergeTouching); the faces of BCs on sides so
+//     made interior are left out, with a note naming the BCs and zones,
+//     while a BC on a side the joins make interior is an error. BCs are
 //     Vertex point ranges or lists, or face ranges (EdgeCenter, the 2D
 //     face location, or IFaceCenter/JFaceCenter).
-//   - structured zones of a 3D base: each zone has one node plane in k,
-//     or two that differ only in z (one cell thick), and its k = 1 plane,
-//     at constant z, is read as above; joins must keep k along k
-//     (Transform ±3 third) and are read on the (i, j) plane, BCs on
-//     i- or j-faces likewise (FaceCenter, IFaceCenter, JFaceCenter or
-//     Vertex), and BCs on the k = const planes (the front and back of the
-//     slab) are left out.
+//   - structured zones of a 3D base: each zone is a single node plane in
+//     one index direction (of size 1), or has two node planes in k that
+//     differ only in z (one cell thick); that plane, or the k = 1 one, is
+//     read as above, its other two index directions in order taken as
+//     (i, j) (see readAcross). Joins must take the direction a zone is
+//     read across to the one its donor is, and are read in those planes
+//     (see joinPlane), BCs likewise (FaceCenter, IFaceCenter, JFaceCenter,
+//     KFaceCenter or Vertex), and BCs on the planes read (the front and
+//     back of the slab) are left out.
 //
 // Tags are the base's Family_t nodes that have a FamilyBC or are used by a
 // BC, in file order, then the other BC tags in the order BCs first use
@@ -169,7 +176,7 @@ func open(path string) (*reader, *mesh.Mesh, error) {
 		return nil, nil, err
 	}
 	defer C.cg_close(fn)
-	r := &reader{fn: fn, b: 1, bcTypes: map[string][]C.BCType_t{}, famBC: map[string]C.BCType_t{}}
+	r := &reader{fn: fn, b: 1, axis: 2, bcTypes: map[string][]C.BCType_t{}, famBC: map[string]C.BCType_t{}}
 	m, err := r.read()
 	if err != nil {
 		return nil, nil, fmt.Errorf("cgns: read %s: %w", path, err)
@@ -223,6 +230,11 @@ type reader struct {
 	// tags collects tag names in the order of families, then of use.
 	tags  []string
 	tagIx map[string]int16
+	// axis is the coordinate plane the mesh lies on, by the axis constant
+	// there (see planeAxis): 2 for z, 0 or 1 for a mesh read from x = c or
+	// y = c, whose coordinates and translations are mapped (see
+	// xyz.points).
+	axis int
 	// periodic are the periodic connections found, in file order.
 	periodic []periodicFound
 	// notes say how the file was read where the mesh does not show it.
@@ -323,26 +335,29 @@ func (r *reader) zoneName(z C.int, size []int32) (string, error) {
 	return C.GoString(&name[0]), nil
 }
 
-// coords reads the n Cartesian node positions of a zone, over the index
-// range [1, rmax] (one entry per index dimension). CoordinateZ, when the
-// physical dimension is 3, must be constant, unless slab is true: then it
-// is required, and returned.
-func (r *reader) coords(z C.int, zp string, rmax []int32, n int, slab bool) ([]orb.Point, []float64, error) {
+// coords reads the n Cartesian node coordinates of a zone, over the index
+// range [1, rmax] (one entry per index dimension): x and y, and z when the
+// physical dimension is 3 and the zone has one, which needZ requires.
+func (r *reader) coords(z C.int, zp string, rmax []int32, n int, needZ bool) (xyz, error) {
+	var c xyz
 	var nc C.int
 	if err := libError(C.cg_ncoords(r.fn, r.b, z, &nc), "count coordinates of "+zp); err != nil {
-		return nil, nil, err
+		return c, err
 	}
 	have := map[string]bool{}
 	var name [maxNameLen + 1]C.char
-	for c := C.int(1); c <= nc; c++ {
+	for k := C.int(1); k <= nc; k++ {
 		var dt C.DataType_t
-		if err := libError(C.cg_coord_info(r.fn, r.b, z, c, &dt, &name[0]), fmt.Sprintf("read coordinate %d of %s", c, zp)); err != nil {
-			return nil, nil, err
+		if err := libError(C.cg_coord_info(r.fn, r.b, z, k, &dt, &name[0]), fmt.Sprintf("read coordinate %d of %s", k, zp)); err != nil {
+			return c, err
 		}
 		have[C.GoString(&name[0])] = true
 	}
 	if !have["CoordinateX"] || !have["CoordinateY"] {
-		return nil, nil, fmt.Errorf("%s/GridCoordinates has no CoordinateX and CoordinateY; cvdeck reads Cartesian coordinates", zp)
+		return c, fmt.Errorf("%s/GridCoordinates has no CoordinateX and CoordinateY; cvdeck reads Cartesian coordinates", zp)
+	}
+	if needZ && !have["CoordinateZ"] {
+		return c, fmt.Errorf("%s/GridCoordinates has no CoordinateZ; a 3D zone needs one", zp)
 	}
 	rmin := make([]int32, len(rmax))
 	for i := range rmin {
@@ -355,33 +370,19 @@ func (r *reader) coords(z C.int, zp string, rmax []int32, n int, slab bool) ([]o
 		err := libError(C.cg_coord_read(r.fn, r.b, z, a, C.RealDouble, ip(rmin), ip(rmax), unsafe.Pointer(&v[0])), "read "+zp+"/GridCoordinates/"+axis)
 		return v, err
 	}
-	x, err := read("CoordinateX")
-	if err != nil {
-		return nil, nil, err
+	var err error
+	if c.x, err = read("CoordinateX"); err != nil {
+		return c, err
 	}
-	y, err := read("CoordinateY")
-	if err != nil {
-		return nil, nil, err
-	}
-	var zc []float64
-	if slab && !have["CoordinateZ"] {
-		return nil, nil, fmt.Errorf("%s/GridCoordinates has no CoordinateZ; a 3D zone needs one", zp)
+	if c.y, err = read("CoordinateY"); err != nil {
+		return c, err
 	}
 	if r.pdim == 3 && have["CoordinateZ"] {
-		if zc, err = read("CoordinateZ"); err != nil {
-			return nil, nil, err
-		}
-		for i, v := range zc {
-			if v != zc[0] && !slab {
-				return nil, nil, fmt.Errorf("%s/GridCoordinates/CoordinateZ varies (node %d has z = %g, node 1 has %g); cvdeck reads planar meshes", zp, i+1, v, zc[0])
-			}
+		if c.z, err = read("CoordinateZ"); err != nil {
+			return c, err
 		}
 	}
-	pts := make([]orb.Point, n)
-	for i := range pts {
-		pts[i] = orb.Point{x[i], y[i]}
-	}
-	return pts, zc, nil
+	return c, nil
 }
 
 // buildTagged orders the tags of the boundary edges found (see

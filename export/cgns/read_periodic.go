@@ -59,10 +59,11 @@ func (r *reader) connInfo(z, i C.int, zp string) (connInfo, error) {
 }
 
 // periodicOf reads the Periodic_t of a connection with read
-// (cg_conn_periodic_read or cg_1to1_periodic_read bound to it); ok is
-// false if the connection is not periodic. A rotation is kept as the
-// reason the pairs cannot be read.
-func periodicOf(path string, read func(centre, angle, tr *C.float) C.int) (f periodicFound, ok bool, err error) {
+// (cg_conn_periodic_read or cg_1to1_periodic_read bound to it), its
+// translation taken into the (x, y) of the plane of axis (see
+// planeVector); ok is false if the connection is not periodic. A rotation
+// is kept as the reason the pairs cannot be read.
+func periodicOf(path string, axis int, read func(centre, angle, tr *C.float) C.int) (f periodicFound, ok bool, err error) {
 	var centre, angle, tr [3]C.float
 	switch rc := read(&centre[0], &angle[0], &tr[0]); rc {
 	case 0:
@@ -71,7 +72,7 @@ func periodicOf(path string, read func(centre, angle, tr *C.float) C.int) (f per
 	default:
 		return f, false, libError(rc, "read Periodic_t of "+path)
 	}
-	f = periodicFound{path: path, t: [2]float64{float64(tr[0]), float64(tr[1])}}
+	f = periodicFound{path: path, t: planeVector(axis, [3]float64{float64(tr[0]), float64(tr[1]), float64(tr[2])})}
 	if angle[0] != 0 || angle[1] != 0 {
 		f.unsupported = fmt.Sprintf("a rotational periodic interface (RotationAngle %g, %g); cvdeck reads periodic translations", angle[0], angle[1])
 	}
@@ -120,7 +121,7 @@ func (r *reader) unstructuredConns(z C.int, zp, zone string, barOf func(int32) (
 			return nil, err
 		}
 		path := zp + "/ZoneGridConnectivity/" + ci.name
-		pf, ok, err := periodicOf(path, func(c, a, t *C.float) C.int { return C.cg_conn_periodic_read(r.fn, r.b, z, i, c, a, t) })
+		pf, ok, err := periodicOf(path, r.axis, func(c, a, t *C.float) C.int { return C.cg_conn_periodic_read(r.fn, r.b, z, i, c, a, t) })
 		if err != nil {
 			return nil, err
 		}

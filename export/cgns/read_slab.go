@@ -66,21 +66,33 @@ func (sl *slab) on(vs []int32, zp float64) bool {
 	return true
 }
 
+// The faces of HEXA_8 and PENTA_6 that may lie on a plane of the slab,
+// each listed so that its right-hand normal points into the element, and
+// the element's edges, by position in its node list. By the CGNS
+// numbering conventions (SIDS, unstructured element figures and face
+// lists; from memory) a HEXA_8 has nodes 1–4 on one face and 5–8 on the
+// opposite one, node k+4 joined to node k, and the right-hand normal of
+// 1–4 points towards 5–8 when the element has positive volume; a PENTA_6
+// has its triangles 1–3 and 4–6 likewise, the normal of 1–3 again towards
+// 4–6. (For PENTA_6 this is the opposite of the VTK wedge, whose first
+// face's normal points away from its second; VTK 9.1's CGNS reader and
+// the CGNS tools' cgns_to_vtk copy PENTA_6 nodes onto VTK wedges
+// unchanged, and so report negative volumes for prisms read here as
+// positive.) Any face of a HEXA_8 may be the lower one; a PENTA_6 stands
+// between the planes only on its triangles, its quadrilaterals being
+// opposite an edge, not a face.
+var (
+	hexaInward  = [][]int{{0, 1, 2, 3}, {7, 6, 5, 4}, {0, 4, 5, 1}, {1, 5, 6, 2}, {2, 6, 7, 3}, {3, 7, 4, 0}}
+	hexaEdges   = [][2]int{{0, 1}, {1, 2}, {2, 3}, {3, 0}, {4, 5}, {5, 6}, {6, 7}, {7, 4}, {0, 4}, {1, 5}, {2, 6}, {3, 7}}
+	pentaInward = [][]int{{0, 1, 2}, {5, 4, 3}}
+	pentaEdges  = [][2]int{{0, 1}, {1, 2}, {2, 0}, {3, 4}, {4, 5}, {5, 3}, {0, 3}, {1, 4}, {2, 5}}
+)
+
 // cells returns the mesh input of the lower plane: one cell per HEXA_8 or
-// PENTA_6 element, its face on the lower plane, counter-clockwise seen
-// from +z when the element has positive volume. By the CGNS numbering
-// conventions (SIDS, unstructured element figures; from memory) the
-// right-hand normal of an element's first face, nodes 1–4 of HEXA_8 or
-// 1–3 of PENTA_6, points towards its opposite face; so the lower face
-// keeps its order when it is the first face and is reversed when it is
-// the opposite one. (For PENTA_6 this is the opposite of the VTK wedge,
-// whose first face's normal points away from its second; VTK 9.1's CGNS
-// reader and the CGNS tools' cgns_to_vtk copy PENTA_6 nodes onto VTK
-// wedges unchanged, and so report negative volumes for prisms read here
-// as positive.) Each element's other nodes must stand straight above
-// (within 1e-12 of the extent). TRI_3 and QUAD_4 elements lying in a plane
-// are the front and back patches, QUAD_4 spanning the planes are side
-// faces, and BAR_2 are lines; none of them is a cell.
+// PENTA_6 element, its face on the lower plane (see lowerFace). TRI_3 and
+// QUAD_4 elements lying in a plane are the front and back patches, QUAD_4
+// spanning the planes are side faces, and BAR_2 are lines; none of them
+// is a cell.
 func (sl *slab) cells(secs []elemSection) (mesh.Input, error) {
 	in := mesh.Input{Nodes: sl.nodes, CellStart: []int32{0}}
 	nn := int32(len(sl.all))
@@ -94,35 +106,16 @@ func (sl *slab) cells(secs []elemSection) (mesh.Input, error) {
 					return in, fmt.Errorf("%s: element %d refers to node %d; the zone's nodes run from 1 to %d", s.path, id, v, nn)
 				}
 			}
-			var h int
 			switch typ {
-			case C.HEXA_8:
-				h = 4
-			case C.PENTA_6:
-				h = 3
+			case C.HEXA_8, C.PENTA_6:
 			case C.TRI_3, C.QUAD_4, C.BAR_2, C.NODE:
 				continue
 			default:
 				return in, fmt.Errorf("%s: element %d is %s; in a slab cvdeck reads HEXA_8 and PENTA_6 cells, with QUAD_4 side faces, TRI_3 and QUAD_4 front and back faces and BAR_2 lines", s.path, id, elementTypeName(typ))
 			}
-			first, second := vs[:h], vs[h:]
-			var face []int32
-			switch {
-			case sl.on(first, sl.lo) && sl.on(second, sl.hi):
-				face = first
-			case sl.on(first, sl.hi) && sl.on(second, sl.lo):
-				face = make([]int32, h)
-				for k := range face {
-					face[k] = second[h-1-k]
-				}
-			default:
-				return in, fmt.Errorf("%s: element %d (%s) does not stand between the planes z = %g and %g with one face on each", s.path, id, elementTypeName(typ), sl.lo, sl.hi)
-			}
-			for k := range first {
-				a, b := sl.all[first[k]-1], sl.all[second[k]-1]
-				if math.Abs(a[0]-b[0]) > 1e-12*sl.extent || math.Abs(a[1]-b[1]) > 1e-12*sl.extent {
-					return in, fmt.Errorf("%s: element %d (%s): nodes %d and %d are not straight above each other; cvdeck reads slabs extruded along z", s.path, id, elementTypeName(typ), first[k], second[k])
-				}
+			face, err := sl.lowerFace(s.path, id, typ, vs)
+			if err != nil {
+				return in, err
 			}
 			for _, v := range face {
 				in.CellNodes = append(in.CellNodes, sl.index[v-1])
@@ -134,6 +127,57 @@ func (sl *slab) cells(secs []elemSection) (mesh.Input, error) {
 		return in, fmt.Errorf("%s has no HEXA_8 or PENTA_6 elements to read as a slab", sl.zp)
 	}
 	return in, nil
+}
+
+// lowerFace returns the 1-based nodes of the face on the lower plane of
+// element id (of section path), a HEXA_8 or PENTA_6 with nodes vs:
+// whichever of its faces lies on z = sl.lo, the rest of its nodes lying on
+// z = sl.hi, in the order that is counter-clockwise seen from +z when the
+// element has positive volume. A HEXA_8 whose local numbering starts on
+// a side face is so read as it stands. Every edge between the planes must
+// be straight up (within 1e-12 of the extent, the largest coordinate of
+// the lower plane).
+func (sl *slab) lowerFace(path string, id int, typ C.ElementType_t, vs []int32) ([]int32, error) {
+	inward, edges := hexaInward, hexaEdges
+	if typ == C.PENTA_6 {
+		inward, edges = pentaInward, pentaEdges
+	}
+	low := 0
+	for _, v := range vs {
+		if sl.z[v-1] == sl.lo {
+			low++
+		}
+	}
+	var face []int32
+	if low == len(inward[0]) {
+		for _, f := range inward {
+			on := true
+			for _, k := range f {
+				on = on && sl.z[vs[k]-1] == sl.lo
+			}
+			if on {
+				face = make([]int32, len(f))
+				for i, k := range f {
+					face[i] = vs[k]
+				}
+				break
+			}
+		}
+	}
+	if face == nil {
+		return nil, fmt.Errorf("%s: element %d (%s) does not stand between the planes z = %g and %g with one face on each (its nodes on the lower plane: %d of %d)", path, id, elementTypeName(typ), sl.lo, sl.hi, low, len(vs))
+	}
+	for _, e := range edges {
+		a, b := vs[e[0]], vs[e[1]]
+		if sl.z[a-1] == sl.z[b-1] {
+			continue
+		}
+		p, q := sl.all[a-1], sl.all[b-1]
+		if math.Abs(p[0]-q[0]) > 1e-12*sl.extent || math.Abs(p[1]-q[1]) > 1e-12*sl.extent {
+			return nil, fmt.Errorf("%s: element %d (%s): nodes %d and %d are not straight above each other; cvdeck reads slabs extruded along z", path, id, elementTypeName(typ), a, b)
+		}
+	}
+	return face, nil
 }
 
 // faceEdge returns the function giving the lower-plane edge (mesh nodes)

@@ -15,6 +15,7 @@ import (
 
 	"github.com/paulmach/orb"
 
+	"cvdeck/internal/hugepage"
 	"cvdeck/mesh"
 )
 
@@ -22,8 +23,15 @@ import (
 type szone struct {
 	name   string
 	path   string
-	ni, nj int
-	nk     int   // node planes in k, in a 3D base (1 or 2); 0 in a 2D one
+	ni, nj int // nodes along the zone's 2D index directions
+	// In a 3D base, across is the index direction (0, 1, 2 for i, j, k)
+	// the zone is read across: the one in which it is a single node
+	// plane, or k of a zone one cell thick in k; depth is its nodes along
+	// it (1 or 2; 0 in a 2D base), and dirs the other two, in order, taken
+	// as the zone's 2D (i, j).
+	across int
+	depth  int
+	dirs   [2]int
 	first  int32 // global id of node (1, 1): nodes are first + j*ni + i
 	nodes  []orb.Point
 }
@@ -60,6 +68,7 @@ func (jn *join) donorOf(i, j int32) (int32, int32) {
 // structured reads nz structured zones and merges them (see Read).
 func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 	zones := make([]szone, nz)
+	raw, paths := make([]xyz, nz), make([]string, nz)
 	byName := map[string]int{}
 	total := int32(0)
 	for zi := range zones {
@@ -79,11 +88,13 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 			return nil, fmt.Errorf("%s is a structured zone of index dimension %d in a base of cell dimension %d; cvdeck reads zones of index dimension %d there", s.path, idim, want, want)
 		}
 		s.ni, s.nj = int(size[0]), int(size[1])
+		rmax := []int32{size[0], size[1]}
 		if r.thin {
-			s.nk = int(size[2])
-			if s.nk != 1 && s.nk != 2 {
-				return nil, fmt.Errorf("%s is %d×%d×%d nodes; in a 3D base cvdeck reads zones one node plane or one cell thick in k (nk = 1 or 2)", s.path, s.ni, s.nj, s.nk)
+			if err := s.readAcross(size[:3]); err != nil {
+				return nil, err
 			}
+			rmax = []int32{size[0], size[1], size[2]}
+			rmax[s.across] = 1 // the plane read
 		}
 		if s.ni < 2 || s.nj < 2 {
 			return nil, fmt.Errorf("%s is %d×%d nodes; a structured zone needs at least 2×2", s.path, s.ni, s.nj)
@@ -93,19 +104,28 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 		}
 		s.first = total
 		total += int32(s.ni * s.nj)
-		rmax := []int32{int32(s.ni), int32(s.nj)}
-		if r.thin {
-			rmax = append(rmax, 1) // the k = 1 plane
-		}
-		if s.nodes, _, err = r.coords(z, s.path, rmax, s.ni*s.nj, false); err != nil {
+		c, err := r.coords(z, s.path, rmax, s.ni*s.nj, false)
+		if err != nil {
 			return nil, err
 		}
-		if s.nk == 2 {
-			if err := r.sameSecondPlane(z, s); err != nil {
+		raw[zi], paths[zi] = c, s.path
+		byName[name] = zi
+	}
+	pts, err := r.plane(paths, raw)
+	if err != nil {
+		return nil, err
+	}
+	for zi := range zones {
+		s := &zones[zi]
+		s.nodes = pts[zi]
+		if s.depth == 2 {
+			if r.axis != 2 {
+				return nil, fmt.Errorf("%s is one cell thick in k, but its nodes lie on a plane %s = constant, not z; cvdeck reads zones one cell thick only as slabs extruded along z", s.path, [2]string{"x", "y"}[r.axis])
+			}
+			if err := r.sameSecondPlane(C.int(zi+1), s); err != nil {
 				return nil, err
 			}
 		}
-		byName[name] = zi
 	}
 
 	// Merge the nodes of every 1-to-1 join (union-find on global ids).
@@ -154,9 +174,19 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 		}
 		joins = append(joins, js...)
 	}
+	// joined is each node's root under the 1-to-1 joins alone, kept when
+	// the coincident-node merge joins more, so that the BCs on sides it
+	// makes interior can be told from those on sides the file joins.
+	var joined []int32
 	if len(zones) > 1 {
+		joined = hugepage.Make[int32](int(total))
+		for g := range joined {
+			joined[g] = find(int32(g))
+		}
 		if note := mergeTouching(zones, parent, find); note != "" {
 			r.notes = append(r.notes, note)
+		} else {
+			joined = nil
 		}
 	}
 	newID := make([]int32, total)
@@ -235,6 +265,17 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 		r.periodic = append(r.periodic, pf)
 	}
 	var left []string // the BCs on the front and back of the slab
+	// The faces on zone sides by their node pairs, with the zones they lie
+	// on (a face on two sides is interior); and where zones were merged
+	// where they touch, the same under the 1-to-1 joins alone. A BC face
+	// the joins make interior is an error, one the merge makes interior is
+	// left out with a note.
+	var sidesJoined map[[2]int32][]int
+	var interior []string // the BCs on sides the merge made interior
+	sides := sideFaces(zones, func(g int32) int32 { return newID[g] })
+	if joined != nil {
+		sidesJoined = sideFaces(zones, func(g int32) int32 { return joined[g] })
+	}
 	for zi := range zones {
 		s := &zones[zi]
 		bcs, err := r.bocos(C.int(zi+1), s.path, r.indexDim())
@@ -256,14 +297,46 @@ func (r *reader) structured(nz int) (*mesh.Mesh, error) {
 				return nil, err
 			}
 			t := taggedEdges{tag: b.tag}
+			// The zones its interior faces lie against, and how many of
+			// them the file's 1-to-1 connectivity joins.
+			var against []string
+			byJoin := 0
 			for _, e := range edges {
-				t.edges = append(t.edges, [2]int32{newID[e[0]], newID[e[1]]})
+				a := [2]int32{newID[e[0]], newID[e[1]]}
+				zs := sides[edgeKey(a[0], a[1])]
+				if len(zs) < 2 {
+					t.edges = append(t.edges, a)
+					continue
+				}
+				others := zs
+				if k := slices.Index(zs, zi); k >= 0 {
+					others = slices.Delete(slices.Clone(zs), k, k+1) // the BC's own side
+				}
+				for _, o := range others {
+					if !slices.Contains(against, zones[o].name) {
+						against = append(against, zones[o].name)
+					}
+				}
+				if joined == nil || len(sidesJoined[edgeKey(joined[e[0]], joined[e[1]])]) > 1 {
+					byJoin++
+				}
 			}
-			found = append(found, t)
+			if byJoin > 0 {
+				return nil, fmt.Errorf("%s: %d of its %d faces lie where the 1-to-1 connectivity joins zone %s to %s; they are interior faces, which take no BC", b.path, byJoin, len(edges), s.name, strings.Join(against, " and "))
+			}
+			if n := len(edges) - len(t.edges); n > 0 {
+				interior = append(interior, fmt.Sprintf("%s/%s (tag %s, %d of its %d faces, against %s)", s.name, b.name, b.tag, n, len(edges), strings.Join(against, " and ")))
+			}
+			if len(t.edges) > 0 || len(edges) == 0 {
+				found = append(found, t)
+			}
 		}
 	}
+	if len(interior) > 0 {
+		r.notes = append(r.notes, "BCs on zone sides that the coincident-node merge joins, left out there as those faces are interior (the sides are an interface the file does not connect): "+strings.Join(interior, ", "))
+	}
 	if r.thin {
-		r.notes = append(r.notes, planeNote("the k = 1 plane of each structured zone", left))
+		r.notes = append(r.notes, planeNote(acrossNote(zones), left))
 	}
 	return r.buildTagged(in, found, "/"+r.base)
 }
@@ -302,29 +375,21 @@ func (r *reader) joins(z C.int, s *szone, zones []szone, byName map[string]int) 
 			return nil, err
 		}
 		jn.path = s.path + "/ZoneGridConnectivity/" + C.GoString(&name[0])
-		jn.transform = [2]int32{int32(tr[0]), int32(tr[1])}
-		if r.thin {
-			// Read on the (i, j) plane: k must map to k.
-			if abs(int32(tr[2])) != 3 {
-				return nil, fmt.Errorf("%s: Transform %v does not keep k along k; cvdeck reads joins of 2D cases stored one plane thick", jn.path, tr)
-			}
-			for _, kk := range []int32{rng[2], rng[5]} {
-				if kk < 1 || int(kk) > s.nk {
-					return nil, fmt.Errorf("%s: PointRange %v reaches k = %d, outside the zone (%d×%d×%d)", jn.path, rng, kk, s.ni, s.nj, s.nk)
-				}
-			}
-			jn.rng = [4]int32{rng[0], rng[1], rng[3], rng[4]}
-			jn.drng = [4]int32{drng[0], drng[1], drng[3], drng[4]}
-		} else {
-			copy(jn.rng[:], rng[:4])
-			copy(jn.drng[:], drng[:4])
-		}
-		jn.a = int(z - 1)
 		d, ok := byName[C.GoString(&donor[0])]
 		if !ok {
 			return nil, fmt.Errorf("%s: donor zone %q is not a zone of /%s", jn.path, C.GoString(&donor[0]), r.base)
 		}
-		jn.b = d
+		jn.a, jn.b = int(z-1), d
+		if r.thin {
+			var err error
+			if jn.rng, jn.drng, jn.transform, err = s.joinPlane(jn.path, &zones[d], rng, drng, tr); err != nil {
+				return nil, err
+			}
+		} else {
+			copy(jn.rng[:], rng[:4])
+			copy(jn.drng[:], drng[:4])
+			jn.transform = [2]int32{int32(tr[0]), int32(tr[1])}
+		}
 		if t := jn.transform; t[0] == 0 || t[1] == 0 || abs(t[0]) > 2 || abs(t[1]) > 2 || abs(t[0]) == abs(t[1]) {
 			return nil, fmt.Errorf("%s: Transform %v is not a permutation of ±1, ±2", jn.path, t)
 		}
@@ -334,7 +399,7 @@ func (r *reader) joins(z C.int, s *szone, zones []szone, byName map[string]int) 
 		if di, dj := jn.donorOf(jn.rng[2], jn.rng[3]); di != jn.drng[2] || dj != jn.drng[3] {
 			return nil, fmt.Errorf("%s: the Transform %v maps the range end to (%d, %d), not to the donor range end (%d, %d)", jn.path, jn.transform, di, dj, jn.drng[2], jn.drng[3])
 		}
-		pf, ok, err := periodicOf(jn.path, func(c, a, t *C.float) C.int { return C.cg_1to1_periodic_read(r.fn, r.b, z, k, c, a, t) })
+		pf, ok, err := periodicOf(jn.path, r.axis, func(c, a, t *C.float) C.int { return C.cg_1to1_periodic_read(r.fn, r.b, z, k, c, a, t) })
 		if err != nil {
 			return nil, err
 		}
@@ -544,50 +609,61 @@ func (r *reader) sameSecondPlane(z C.int, s *szone) error {
 	return nil
 }
 
-// planeBCs turns the BCs of a zone of a 3D base into BCs of its (i, j)
-// plane: ranges and lists lose their k index, and FaceCenter ranges become
-// IFaceCenter or JFaceCenter by the index they hold constant. BCs on a
-// k = const plane (the front and back of the slab) are returned apart, as
-// left out: ranges at KFaceCenter or spanning i and j at one k, and vertex
-// lists on one plane only of a zone one cell thick (a side of the slab has
-// nodes on both), on the back plane only, or holding a node inside the
-// (i, j) plane (a side's nodes lie on its edges, i or j at its first or
-// last value). Kept, such a list would tag every boundary edge it covers.
+// planeBCs turns the BCs of a zone of a 3D base into BCs of the (i, j)
+// plane it is read as (see readAcross): ranges and lists lose the index
+// of the direction read across, the other two becoming (i, j) in order,
+// and FaceCenter ranges and the face locations of those two directions
+// become IFaceCenter or JFaceCenter of the plane. BCs on the plane itself
+// (the front and back of a slab, or the single node plane) are returned
+// apart, as left out: ranges at the face location of the direction read
+// across, or spanning both plane directions at one index of it, and
+// vertex lists on one plane only of a zone one cell thick (a side of the
+// slab has nodes on both), on the back plane only, or holding a node
+// inside the plane (a side's nodes lie on its edges, at the first or last
+// index of a plane direction). Kept, such a list would tag every boundary
+// edge it covers.
 func (s *szone) planeBCs(bcs []bcInfo) (kept, left []bcInfo, err error) {
+	faceLoc := [3]C.GridLocation_t{C.IFaceCenter, C.JFaceCenter, C.KFaceCenter}
+	u, v, w := s.dirs[0], s.dirs[1], s.across
 	for _, b := range bcs {
 		switch {
 		case b.set == C.PointRange:
 			if len(b.pts) != 6 {
 				return nil, nil, fmt.Errorf("%s: a PointRange needs 2 points of 3 indices, got %d values", b.path, len(b.pts))
 			}
-			i0, j0, k0, i1, j1, k1 := b.pts[0], b.pts[1], b.pts[2], b.pts[3], b.pts[4], b.pts[5]
-			if b.loc == C.KFaceCenter || k0 == k1 && i0 != i1 && j0 != j1 {
+			u0, v0, w0, u1, v1, w1 := b.pts[u], b.pts[v], b.pts[w], b.pts[3+u], b.pts[3+v], b.pts[3+w]
+			if b.loc == faceLoc[w] || w0 == w1 && u0 != u1 && v0 != v1 {
 				left = append(left, b)
 				continue
 			}
-			if b.loc == C.FaceCenter {
+			switch b.loc {
+			case C.Vertex:
+			case C.FaceCenter:
 				b.loc = C.JFaceCenter
-				if i0 == i1 {
+				if u0 == u1 {
 					b.loc = C.IFaceCenter
 				}
+			case faceLoc[u]:
+				b.loc = C.IFaceCenter
+			case faceLoc[v]:
+				b.loc = C.JFaceCenter
+			default:
+				return nil, nil, fmt.Errorf("%s: a range at %s; in a 3D base cvdeck reads structured BCs at Vertex, FaceCenter, IFaceCenter, JFaceCenter or KFaceCenter", b.path, C.GoString(C.cg_GridLocationName(b.loc)))
 			}
-			if b.loc != C.Vertex && b.loc != C.IFaceCenter && b.loc != C.JFaceCenter {
-				return nil, nil, fmt.Errorf("%s: a range at %s; in a 3D base cvdeck reads structured BCs at Vertex, FaceCenter, IFaceCenter or JFaceCenter", b.path, C.GoString(C.cg_GridLocationName(b.loc)))
-			}
-			b.pts = []int32{i0, j0, i1, j1}
+			b.pts = []int32{u0, v0, u1, v1}
 		case b.set == C.PointList && b.loc == C.Vertex:
 			var pts []int32
 			inside, back := false, false
 			for k := 0; k+2 < len(b.pts); k += 3 {
-				i, j := b.pts[k], b.pts[k+1]
+				i, j := b.pts[k+u], b.pts[k+v]
 				inside = inside || i > 1 && i < int32(s.ni) && j > 1 && j < int32(s.nj)
-				if b.pts[k+2] == 1 {
+				if b.pts[k+w] == 1 {
 					pts = append(pts, i, j)
 				} else {
 					back = true
 				}
 			}
-			if len(pts) == 0 || inside || s.nk == 2 && !back {
+			if len(pts) == 0 || inside || s.depth == 2 && !back {
 				left = append(left, b)
 				continue
 			}
@@ -596,6 +672,115 @@ func (s *szone) planeBCs(bcs []bcInfo) (kept, left []bcInfo, err error) {
 		kept = append(kept, b)
 	}
 	return kept, left, nil
+}
+
+// readAcross chooses the index direction a zone of a 3D base of n[0] ×
+// n[1] × n[2] nodes is read across (see szone): the one direction of a
+// single node plane, or k of a zone one cell thick in k (two node planes),
+// and sets its 2D sizes from the other two.
+func (s *szone) readAcross(n []int32) error {
+	var single []int
+	for d, v := range n {
+		if v == 1 {
+			single = append(single, d)
+		}
+	}
+	switch {
+	case len(single) == 1:
+		s.across, s.depth = single[0], 1
+	case len(single) > 1:
+		return fmt.Errorf("%s is %d×%d×%d nodes, a line or a point of nodes: no cells", s.path, n[0], n[1], n[2])
+	case n[2] == 2:
+		s.across, s.depth = 2, 2
+	default:
+		return fmt.Errorf("%s is %d×%d×%d nodes; in a 3D base cvdeck reads zones of one node plane (one index of size 1) or one cell thick in k (nk = 2)", s.path, n[0], n[1], n[2])
+	}
+	s.dirs = [2]int{(s.across + 1) % 3, (s.across + 2) % 3}
+	if s.dirs[0] > s.dirs[1] {
+		s.dirs[0], s.dirs[1] = s.dirs[1], s.dirs[0]
+	}
+	s.ni, s.nj = int(n[s.dirs[0]]), int(n[s.dirs[1]])
+	return nil
+}
+
+// ijk names index direction d.
+func ijk(d int) string { return [3]string{"i", "j", "k"}[d] }
+
+// joinPlane takes a 1-to-1 join of zone s (of a 3D base) to zone b, given
+// by its PointRange rng, PointRangeDonor drng and Transform tr in (i, j,
+// k), onto the 2D planes the zones are read as (see readAcross): the
+// Transform must take the direction s is read across to the one b is,
+// both ranges must stay within the node planes read, and the ranges and
+// Transform are returned in the planes' (i, j). A Transform that is no
+// permutation comes back with a 0, which the caller refuses.
+func (s *szone) joinPlane(path string, b *szone, rng, drng [6]int32, tr [3]C.int) (r2, d2 [4]int32, t2 [2]int32, err error) {
+	if abs(int32(tr[s.across])) != int32(b.across+1) {
+		return r2, d2, t2, fmt.Errorf("%s: Transform %v does not take %s, the direction zone %s is read across, to %s, donor zone %s's; cvdeck reads joins of 2D cases stored one node plane or one cell thick in the plane read", path, tr, ijk(s.across), s.name, ijk(b.across), b.name)
+	}
+	for _, end := range []struct {
+		z    *szone
+		r    [6]int32
+		what string
+	}{{s, rng, "PointRange"}, {b, drng, "PointRangeDonor"}} {
+		a := end.z.across
+		for _, w := range []int32{end.r[a], end.r[3+a]} {
+			if w < 1 || int(w) > end.z.depth {
+				return r2, d2, t2, fmt.Errorf("%s: %s %v reaches %s = %d, but zone %s has %d node plane(s) in %s", path, end.what, end.r, ijk(a), w, end.z.name, end.z.depth, ijk(a))
+			}
+		}
+	}
+	r2 = [4]int32{rng[s.dirs[0]], rng[s.dirs[1]], rng[3+s.dirs[0]], rng[3+s.dirs[1]]}
+	d2 = [4]int32{drng[b.dirs[0]], drng[b.dirs[1]], drng[3+b.dirs[0]], drng[3+b.dirs[1]]}
+	for c, d := range s.dirs {
+		t := int32(tr[d])
+		if pos := slices.Index(b.dirs[:], int(abs(t))-1); pos >= 0 {
+			t2[c] = int32(pos + 1)
+			if t < 0 {
+				t2[c] = -t2[c]
+			}
+		}
+	}
+	return r2, d2, t2, nil
+}
+
+// acrossNote says which plane of each zone of a 3D base is read: "the
+// k = 1 plane of each structured zone", or zone by zone where the zones
+// are read across different directions.
+func acrossNote(zones []szone) string {
+	same := true
+	parts := make([]string, len(zones))
+	for zi := range zones {
+		same = same && zones[zi].across == zones[0].across
+		parts[zi] = ijk(zones[zi].across) + " = 1 of " + zones[zi].name
+	}
+	if same {
+		return "the " + ijk(zones[0].across) + " = 1 plane of each structured zone"
+	}
+	return "the node plane of each structured zone (" + strings.Join(parts, ", ") + ")"
+}
+
+// sideFaces returns the faces on the four sides of every zone, keyed by
+// their node pair under id (from a global node id), each with the zones
+// it lies on, once per side it lies on: a face listed twice is interior.
+func sideFaces(zones []szone, id func(g int32) int32) map[[2]int32][]int {
+	out := map[[2]int32][]int{}
+	add := func(zi int, a, b int32) {
+		k := edgeKey(id(a), id(b))
+		out[k] = append(out[k], zi)
+	}
+	for zi := range zones {
+		s := &zones[zi]
+		ni, nj := int32(s.ni), int32(s.nj)
+		for i := int32(1); i < ni; i++ {
+			add(zi, s.id(i, 1), s.id(i+1, 1))
+			add(zi, s.id(i, nj), s.id(i+1, nj))
+		}
+		for j := int32(1); j < nj; j++ {
+			add(zi, s.id(1, j), s.id(1, j+1))
+			add(zi, s.id(ni, j), s.id(ni, j+1))
+		}
+	}
+	return out
 }
 
 // mergeTolerance is how close, relative to the local face length, nodes of

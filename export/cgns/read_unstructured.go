@@ -50,7 +50,7 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 	if nn < 3 {
 		return nil, fmt.Errorf("%s has %d nodes; a mesh needs at least 3", zp, nn)
 	}
-	nodes, zc, err := r.coords(z, zp, size[:1], nn, r.thin)
+	c, err := r.coords(z, zp, size[:1], nn, r.thin)
 	if err != nil {
 		return nil, err
 	}
@@ -74,7 +74,7 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 	patch := func(id int32) bool { return false } // a slab's front or back face
 	var slabLo, slabHi float64
 	if r.thin {
-		sl, err := newSlab(zp, nodes, zc)
+		sl, err := newSlab(zp, c.points(2), c.z)
 		if err != nil {
 			return nil, err
 		}
@@ -86,13 +86,17 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 		patch = sl.patch(secs)
 		slabLo, slabHi = sl.lo, sl.hi
 	} else {
-		if in, err = planarCells(zp, secs, nodes); err != nil {
+		nodes, err := r.plane([]string{zp}, []xyz{c})
+		if err != nil {
+			return nil, err
+		}
+		if in, err = planarCells(zp, secs, nodes[0]); err != nil {
 			return nil, err
 		}
 		barOf = planarBarOf(secs)
 	}
 	if n := mesh.OrientCounterClockwise(&in); n > 0 {
-		what := "run clockwise seen from +z (negative signed area)"
+		what := "run clockwise seen from " + planeView(r.axis) + " (negative signed area)"
 		if r.thin {
 			what = "have negative volume by the CGNS node-order conventions (their faces on the lower plane run clockwise seen from +z)"
 		}
