@@ -6,6 +6,15 @@ import (
 	"github.com/paulmach/orb"
 )
 
+// PlaneTolerance is how far, relative to the largest coordinate magnitude
+// of the nodes, a coordinate may stray from the first node's and still
+// count as constant, for the readers that take a mesh lying on a plane
+// x = c, y = c or z = c as 2D: a few units of roundoff in double
+// precision, so that a mesh written in such a plane is read while a
+// tilted one is not. One value for every reader, so that a mesh reads
+// alike from any format.
+const PlaneTolerance = 1e-12
+
 // SideNode is a node on a side of a structured block: where block
 // interfaces and seams lie, so where the readers of multi-block files look
 // for nodes that two blocks (or the two ends of one block) share.

@@ -6,16 +6,9 @@ import (
 	"slices"
 
 	"github.com/paulmach/orb"
-)
 
-// planeRelTol is how far, relative to the largest coordinate magnitude of
-// the nodes, the x or y of a node may stray from the first node's and
-// still count as lying on the plane x = c or y = c: a few units of
-// roundoff in double precision, so that a mesh written in such a plane is
-// read while a tilted one is not. It is the VTK reader's tolerance
-// (planeRelTol in export/vtk/read.go), so that a mesh reads alike from
-// either format.
-const planeRelTol = 1e-12
+	"cvdeck/mesh"
+)
 
 // xyz are the coordinates of a zone's nodes as the file gives them; z is
 // nil in a base of physical dimension 2 or a zone without CoordinateZ.
@@ -37,7 +30,7 @@ func (c xyz) zStep() int {
 // as the axis whose coordinate is constant there (0 for x, 1 for y, 2 for
 // z): z if every zone's nodes share one z exactly (each zone its own, as
 // the reader has always taken them), else y or x if every node's lies
-// within planeRelTol of the largest coordinate magnitude of the first
+// within mesh.PlaneTolerance of the largest coordinate magnitude of the first
 // node's, the same test in the same order as the VTK reader's; −1 if none
 // does (a tilted plane, or not a plane).
 func planeAxis(cs []xyz) int {
@@ -65,7 +58,7 @@ func planeAxis(cs []xyz) int {
 				if math.IsNaN(first) {
 					first = v
 				}
-				same = same && math.Abs(v-first) <= planeRelTol*extent
+				same = same && math.Abs(v-first) <= mesh.PlaneTolerance*extent
 			}
 		}
 		if same {

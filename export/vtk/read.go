@@ -259,17 +259,10 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 	return m, nil
 }
 
-// planeRelTol is how far, relative to the largest coordinate magnitude,
-// the x or y of a point may stray from the first point's and still count
-// as lying on the plane x = c or y = c: a few units of roundoff in double
-// precision, so that a mesh written in such a plane is read while a tilted
-// one is not.
-const planeRelTol = 1e-12
-
 // planeAxis returns the axis (0 for x, 1 for y, 2 for z) whose coordinate
 // every point of pts (x, y, z each) shares: z if every z is equal (exactly,
 // as a plane mesh of VTK files usually is), else y or x if every point's
-// lies within planeRelTol of the largest coordinate magnitude of the
+// lies within mesh.PlaneTolerance of the largest coordinate magnitude of the
 // first point's; −1 if none does (a tilted plane, or not a plane).
 func planeAxis(pts []float64) int {
 	same := func(a int, tol float64) bool {
@@ -289,7 +282,7 @@ func planeAxis(pts []float64) int {
 		extent = max(extent, math.Abs(v))
 	}
 	for _, a := range []int{1, 0} {
-		if same(a, planeRelTol*extent) {
+		if same(a, mesh.PlaneTolerance*extent) {
 			return a
 		}
 	}
