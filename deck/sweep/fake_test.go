@@ -29,6 +29,9 @@ type fakeRunner struct {
 	edit string
 	// name is the base case's name, "wedge" when empty.
 	name string
+	// version is the cvdeck build, "test" when empty; the input hashes
+	// cover it, as deck.Build is in the real ones.
+	version string
 	// build, if set, runs before the fake's own build (after onBuild);
 	// its error is the build's.
 	build func(ctx context.Context, v Variant) error
@@ -68,8 +71,12 @@ func (r *fakeRunner) caseName() string {
 func (r *fakeRunner) LoadBase(f *File) (BaseCase, error) {
 	sum := sha256.Sum256([]byte("case " + r.caseName() + " " + r.edit))
 	in := InputFile{Path: filepath.Base(f.Base), SHA256: hex.EncodeToString(sum[:])}
-	r.base = BaseCase{File: in.Path, Name: r.caseName(), Version: "test", Inputs: []InputFile{in},
-		InputHash: ID("base\n" + in.SHA256)}
+	version := r.version
+	if version == "" {
+		version = "test"
+	}
+	r.base = BaseCase{File: in.Path, Name: r.caseName(), Version: version, Inputs: []InputFile{in},
+		InputHash: ID("base\n" + version + "\n" + in.SHA256)}
 	return r.base, nil
 }
 

@@ -15,11 +15,12 @@ import (
 type MergeReport struct {
 	// Missing are the 0-based indexes of variants that no summary has.
 	Missing []int
-	// Duplicates are the ids of variants found in more than one summary
-	// with the same content (apart from the run columns); one is kept.
+	// Duplicates are the folder names of variants found in more than one
+	// summary with the same content (apart from the run columns); one is
+	// kept.
 	Duplicates []string
-	// Conflicts are the ids of variants found more than once with
-	// different content; the first one (in argument order) is kept.
+	// Conflicts are the folder names of variants found more than once
+	// with different content; the first one (in argument order) is kept.
 	Conflicts []string
 }
 
@@ -31,29 +32,44 @@ type MergeError struct {
 	Total  int
 	// Failed and NotRun are the folder names of the merged variants that
 	// have no deck: failed, or not run (stopped before or during their
-	// build); ChecksFailed counts the decks that failed their checks.
-	Failed, NotRun []string
-	ChecksFailed   int
+	// build); ChecksFailed those of the decks that failed their checks.
+	Failed, NotRun, ChecksFailed []string
+	// MissingNames are the folder names of the missing variants, in sweep
+	// order, when a shard summary lists the names of the whole sweep
+	// (Summary.PlanNames); nil otherwise, and the indexes say which.
+	MissingNames []string
+	// AbsentShards are the shards ("K/N") of which no summary was given,
+	// when every summary given is a shard of one split.
+	AbsentShards []string
 }
 
 func (e *MergeError) Error() string {
 	var parts []string
 	if n := len(e.Failed); n > 0 {
-		parts = append(parts, fmt.Sprintf("%d of %d variants failed (%s)", n, e.Total, strings.Join(first(e.Failed, 10), ", ")))
+		parts = append(parts, fmt.Sprintf("%d of %d variants failed: %s", n, e.Total, nameList(e.Failed)))
 	}
 	if n := len(e.NotRun); n > 0 {
-		parts = append(parts, fmt.Sprintf("%d of %d variants were not run (%s); run their shards again", n, e.Total, strings.Join(first(e.NotRun, 10), ", ")))
+		parts = append(parts, fmt.Sprintf("%d of %d variants were not run, so run their shards again: %s", n, e.Total, nameList(e.NotRun)))
 	}
-	if e.ChecksFailed > 0 {
-		parts = append(parts, fmt.Sprintf("%d of %d decks failed their checks", e.ChecksFailed, e.Total))
+	if n := len(e.ChecksFailed); n > 0 {
+		parts = append(parts, fmt.Sprintf("%d of %d decks failed their checks: %s", n, e.Total, nameList(e.ChecksFailed)))
 	}
 	if n := len(e.Report.Missing); n > 0 {
-		parts = append(parts, fmt.Sprintf("%d of %d variants are missing (summary indexes %s); run or merge the shards that hold them",
-			n, e.Total, indexRanges(e.Report.Missing)))
+		which := nameList(e.MissingNames)
+		if e.MissingNames == nil {
+			which = "summary indexes " + indexRanges(e.Report.Missing)
+		}
+		msg := fmt.Sprintf("%d of %d variants are missing: %s; ", n, e.Total, which)
+		if len(e.AbsentShards) > 0 {
+			msg += fmt.Sprintf("no summary of shard %s was given, so run or merge it", strings.Join(e.AbsentShards, ", "))
+		} else {
+			msg += "run or merge the shards that hold them"
+		}
+		parts = append(parts, msg)
 	}
 	if n := len(e.Report.Conflicts); n > 0 {
-		parts = append(parts, fmt.Sprintf("%d variants differ between summaries (%s); the first summary given was kept",
-			n, strings.Join(first(e.Report.Conflicts, 10), ", ")))
+		parts = append(parts, fmt.Sprintf("%d variants differ between summaries, and the first summary given was kept: %s",
+			n, nameList(e.Report.Conflicts)))
 	}
 	return strings.Join(parts, "; ")
 }
@@ -61,14 +77,20 @@ func (e *MergeError) Error() string {
 // ExitCode is 1.
 func (e *MergeError) ExitCode() int { return 1 }
 
-func first(s []string, n int) []string {
-	if len(s) > n {
-		return append(s[:n:n], "...")
+// maxNames bounds the names a message lists before "and N more".
+const maxNames = 10
+
+// nameList joins names for a message: the first maxNames, then "and N
+// more".
+func nameList(names []string) string {
+	if len(names) <= maxNames {
+		return strings.Join(names, ", ")
 	}
-	return s
+	return strings.Join(names[:maxNames], ", ") + fmt.Sprintf(" and %d more", len(names)-maxNames)
 }
 
-// indexRanges writes indexes as ranges: "3, 5-9".
+// indexRanges writes indexes as ranges: "3, 5-9", the first maxNames
+// ranges, then "and N more".
 func indexRanges(idx []int) string {
 	var parts []string
 	for i := 0; i < len(idx); {
@@ -83,7 +105,51 @@ func indexRanges(idx []int) string {
 		}
 		i = j + 1
 	}
-	return strings.Join(first(parts, 20), ", ")
+	return nameList(parts)
+}
+
+// planNames returns the folder names of every variant of the sweep of
+// parts, in sweep order, from the first summary that lists them for its
+// plan (each name ends in its variant's id, and the ids in order give the
+// plan), or nil when none does.
+func planNames(parts []*Summary) []string {
+	for _, p := range parts {
+		if len(p.PlanNames) != p.Total {
+			continue
+		}
+		var b strings.Builder
+		for _, name := range p.PlanNames {
+			b.WriteString(name[max(0, len(name)-IDLength):])
+			b.WriteByte('\n')
+		}
+		if ID(b.String()) == p.Plan {
+			return p.PlanNames
+		}
+	}
+	return nil
+}
+
+// absentShards returns the shards of one split ("K/N") of which parts
+// holds no summary, or nil when the summaries are not all shards of one
+// split of the sweep.
+func absentShards(parts []*Summary) []string {
+	n := 0
+	have := map[int]bool{}
+	for _, p := range parts {
+		sh, err := ParseShard(p.Shard)
+		if p.Shard == "" || err != nil || (n != 0 && sh.N != n) {
+			return nil
+		}
+		n = sh.N
+		have[sh.K] = true
+	}
+	var out []string
+	for k := 1; k <= n; k++ {
+		if !have[k] {
+			out = append(out, Shard{K: k, N: n}.String())
+		}
+	}
+	return out
 }
 
 // sameContent compares two rows apart from the run columns and the file
@@ -109,14 +175,21 @@ func (s *Summary) baseKey() string {
 }
 
 // sameBase refuses summaries built from different base cases or by
-// different cvdeck versions, naming each group of summaries that agree.
+// different cvdeck builds, naming each group of summaries that agree. The
+// base input hash covers the build, so when every group has its own build
+// the message says the builds differ and does not blame an edit of the
+// case file, which cannot be told apart.
 func sameBase(parts []*Summary) error {
 	var keys []string
 	groups := map[string][]string{}
+	versions := map[string]bool{}
+	files := map[string]bool{}
 	for k, p := range parts {
 		key := p.baseKey()
 		if groups[key] == nil {
 			keys = append(keys, key)
+			versions[p.Version] = true
+			files[p.Base] = true
 		}
 		groups[key] = append(groups[key], p.source(k))
 	}
@@ -124,20 +197,34 @@ func sameBase(parts []*Summary) error {
 		return nil
 	}
 	var b strings.Builder
-	b.WriteString("merge: the summaries were built from different base cases, so their decks are not of one study:")
+	builds := len(files) == 1 && len(versions) == len(keys)
+	if builds {
+		var vs []string
+		for _, key := range keys {
+			vs = append(vs, orNotRecorded(strings.SplitN(key, "\x00", 3)[2]))
+		}
+		fmt.Fprintf(&b, "merge: the summaries were written by another cvdeck build (%s), so their decks are not of one study:", strings.Join(vs, " vs "))
+	} else {
+		b.WriteString("merge: the summaries were built from different base cases, so their decks are not of one study:")
+	}
 	for _, key := range keys {
 		f := strings.SplitN(key, "\x00", 3)
-		hash, version := short(f[1]), f[2]
-		if hash == "" {
-			hash = "not recorded"
-		}
-		if version == "" {
-			version = "not recorded"
-		}
-		fmt.Fprintf(&b, "\n  %s (base input hash %s, cvdeck %s): %s", f[0], hash, version, strings.Join(first(groups[key], 10), ", "))
+		fmt.Fprintf(&b, "\n  %s, base input hash %s, cvdeck %s: %s", f[0], orNotRecorded(short(f[1])), orNotRecorded(f[2]), nameList(groups[key]))
 	}
-	b.WriteString("\nrun the shards of the odd ones out again with the same base case and cvdeck (--force rebuilds their decks), then merge")
+	if builds {
+		b.WriteString("\nrun the shards of the odd ones out again with one cvdeck build (--force rebuilds their decks), then merge")
+	} else {
+		b.WriteString("\nrun the shards of the odd ones out again with the same base case and cvdeck build (--force rebuilds their decks), then merge")
+	}
 	return errors.New(b.String())
+}
+
+// orNotRecorded is s, or "not recorded" when s is empty.
+func orNotRecorded(s string) string {
+	if s == "" {
+		return "not recorded"
+	}
+	return s
 }
 
 // Merge joins the summaries of the shards of one sweep into the summary of
@@ -176,9 +263,9 @@ func Merge(parts []*Summary) (*Summary, MergeReport, error) {
 			case old.ID != r.ID:
 				return nil, rep, fmt.Errorf("merge: summary %d has variant %s at index %d where another summary has %s, although their plans agree", k+1, r.ID, r.Index, old.ID)
 			case sameContent(old, r):
-				dup[r.ID] = true
+				dup[old.Name] = true
 			default:
-				conflict[r.ID] = true
+				conflict[old.Name] = true
 			}
 		}
 	}
@@ -201,10 +288,18 @@ func Merge(parts []*Summary) (*Summary, MergeReport, error) {
 		case r.Status == StatusNotRun:
 			me.NotRun = append(me.NotRun, r.Name)
 		case !r.Passed:
-			me.ChecksFailed++
+			me.ChecksFailed = append(me.ChecksFailed, r.Name)
 		}
 	}
-	if len(rep.Missing) > 0 || len(rep.Conflicts) > 0 || len(me.Failed) > 0 || len(me.NotRun) > 0 || me.ChecksFailed > 0 {
+	if len(rep.Missing) > 0 {
+		if names := planNames(parts); names != nil {
+			for _, i := range rep.Missing {
+				me.MissingNames = append(me.MissingNames, names[i])
+			}
+		}
+		me.AbsentShards = absentShards(parts)
+	}
+	if len(rep.Missing) > 0 || len(rep.Conflicts) > 0 || len(me.Failed) > 0 || len(me.NotRun) > 0 || len(me.ChecksFailed) > 0 {
 		return out, rep, me
 	}
 	return out, rep, nil

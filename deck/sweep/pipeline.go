@@ -94,7 +94,7 @@ func (p *Pipeline) LoadBase(f *File) (BaseCase, error) {
 				Msg: fmt.Sprintf("the base case %s defines no parameter %q (its parameters: %s)", filepath.Base(p.Base), pr.Name, names)}
 		}
 	}
-	b := BaseCase{File: filepath.Base(p.Base), Name: c.Name, InputHash: c.InputHash, Version: deck.Version}
+	b := BaseCase{File: filepath.Base(p.Base), Name: c.Name, InputHash: c.InputHash, Version: deck.Build}
 	for _, in := range c.Inputs {
 		b.Inputs = append(b.Inputs, InputFile{Path: in.Path, SHA256: in.SHA256})
 	}

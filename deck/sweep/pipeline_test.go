@@ -9,6 +9,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"cvdeck/deck"
 )
 
 // TestPipelineSweepIsDeterministic runs the sample sweep through the real
@@ -42,9 +44,13 @@ func TestPipelineSweepIsDeterministic(t *testing.T) {
 }
 
 // TestPipelineResumeKeepsDecks runs the refinement family twice: the second
-// run reuses every deck and leaves every file as it was.
+// run reuses every deck and leaves every file as it was. The summary
+// records the cvdeck build as the decks' deck.yaml do.
 func TestPipelineResumeKeepsDecks(t *testing.T) {
 	f, dir, first := runSampleSweep(t, "nozzle-refine.yaml")
+	if d, ok, err := readDeck(filepath.Join(dir, first.Rows[0].Name)); !ok || err != nil || first.Version != deck.Build || d.Version != deck.Build {
+		t.Errorf("the summary records cvdeck %q, the deck %q, want the build %q (%v)", first.Version, d.Version, deck.Build, err)
+	}
 	before := deckFiles(t, dir)
 	second, err := Run(context.Background(), f, dir, NewPipeline(f), Options{Workers: 2})
 	if err != nil {
@@ -72,7 +78,7 @@ func TestPipelineResumeKeepsDecks(t *testing.T) {
 	cgns := filepath.Join(dir, first.Rows[2].Name, "mesh.cgns")
 	for _, c := range []struct{ path, want string }{
 		{filepath.Join(dir, first.Rows[1].Name, "mesh.vtu"), first.Rows[1].Name + ": mesh.vtu has 10 bytes where its deck.yaml records"},
-		{cgns, first.Rows[2].Name + ": mesh.cgns has the size but not the content the summary recorded"},
+		{cgns, first.Rows[2].Name + ": mesh.cgns has the size but not the content the sweep recorded"},
 	} {
 		old := before[strings.TrimPrefix(c.path, dir+string(filepath.Separator))]
 		changed := []byte("<VTKFile/>")

@@ -51,7 +51,9 @@ type BaseCase struct {
 	// InputHash is the input hash of the case as written (its files, its
 	// own parameter values and the cvdeck version).
 	InputHash string
-	// Version is the cvdeck version.
+	// Version is the cvdeck build (deck.Build: the version with the
+	// commit it was built from), as deck.yaml records it: the input hash
+	// covers it, so decks of two builds are never taken for each other.
 	Version string
 	// Inputs are the files the case reads, the case file first.
 	Inputs []InputFile
@@ -79,7 +81,7 @@ type FileRecord struct {
 type Found struct {
 	Outcome
 	// Case is the case's name, File its case file's name, Version the
-	// cvdeck that built the deck.
+	// cvdeck build that built the deck.
 	Case, File, Version string
 	// Inputs are the files the case read; Params its resolved parameters.
 	Inputs []InputFile
@@ -162,6 +164,10 @@ type Progress struct {
 // has been written.
 type FailedError struct {
 	Failed, ChecksFailed, Total int
+	// FailedNames and ChecksFailedNames are the folder names of the
+	// variants that failed and of the decks that failed their checks, in
+	// sweep order.
+	FailedNames, ChecksFailedNames []string
 	// Interrupted counts the builds stopped while in progress, NotRun the
 	// variants never started.
 	Interrupted, NotRun int
@@ -179,10 +185,10 @@ func (e *FailedError) Error() string {
 		parts = append(parts, msg+"; run the same command again to build the rest")
 	}
 	if e.Failed > 0 {
-		parts = append(parts, fmt.Sprintf("%d of %d variants failed", e.Failed, e.Total))
+		parts = append(parts, fmt.Sprintf("%d of %d variants failed: %s", e.Failed, e.Total, nameList(e.FailedNames)))
 	}
 	if e.ChecksFailed > 0 {
-		parts = append(parts, fmt.Sprintf("%d of %d decks failed their checks", e.ChecksFailed, e.Total))
+		parts = append(parts, fmt.Sprintf("%d of %d decks failed their checks: %s", e.ChecksFailed, e.Total, nameList(e.ChecksFailedNames)))
 	}
 	return strings.Join(parts, "; ") + " (see the summary)"
 }
@@ -231,7 +237,14 @@ func Run(ctx context.Context, f *File, outDir string, r Runner, opt Options) (*S
 	for i, p := range f.Params {
 		s.Parameters[i] = p.Name
 	}
-	s.Rows = execute(ctx, vs, priors, outDir, r, opt)
+	if !opt.Shard.Whole() {
+		for _, v := range all {
+			s.PlanNames = append(s.PlanNames, v.Name)
+		}
+	}
+	log := &hashLog{path: filepath.Join(outDir, HashLogName(opt.Shard))}
+	s.Rows = execute(ctx, vs, priors, outDir, r, log, opt)
+	log.close()
 	s.Finish()
 	if err := s.WriteFiles(outDir, opt.Shard); err != nil {
 		return s, err
@@ -247,6 +260,12 @@ func Run(ctx context.Context, f *File, outDir string, r Runner, opt Options) (*S
 			case RunNotRun:
 				e.NotRun++
 			}
+			switch {
+			case row.Status == StatusFailed:
+				e.FailedNames = append(e.FailedNames, row.Name)
+			case row.Status == StatusOK && !row.Passed:
+				e.ChecksFailedNames = append(e.ChecksFailedNames, row.Name)
+			}
 		}
 		return s, e
 	}
@@ -258,7 +277,7 @@ func Run(ctx context.Context, f *File, outDir string, r Runner, opt Options) (*S
 // what the survey found in their folders. Once the run is stopped the
 // workers finish the variants in hand and take no more; the others are
 // marked not run.
-func execute(ctx context.Context, vs []Variant, priors []prior, outDir string, r Runner, opt Options) []Row {
+func execute(ctx context.Context, vs []Variant, priors []prior, outDir string, r Runner, log *hashLog, opt Options) []Row {
 	workers := opt.Workers
 	if workers <= 0 {
 		workers = runtime.NumCPU()
@@ -278,7 +297,7 @@ func execute(ctx context.Context, vs []Variant, priors []prior, outDir string, r
 				if i >= len(vs) {
 					return
 				}
-				rows[i] = runOne(ctx, vs[i], priors[i], outDir, r, opt)
+				rows[i] = runOne(ctx, vs[i], priors[i], outDir, r, log, opt)
 				finished[i] = true
 				done <- i
 			}
@@ -316,8 +335,9 @@ func newRow(v Variant) Row {
 // runOne builds or reuses one variant's deck and never panics: a panic in
 // the pipeline becomes that variant's error, so the sweep goes on. A build
 // stopped by the run's cancellation gives a row that says so, not a
-// failure: the folder keeps its previous deck or none.
-func runOne(ctx context.Context, v Variant, pr prior, outDir string, r Runner, opt Options) (row Row) {
+// failure: the folder keeps its previous deck or none. A deck built is
+// recorded in log as soon as its files are hashed.
+func runOne(ctx context.Context, v Variant, pr prior, outDir string, r Runner, log *hashLog, opt Options) (row Row) {
 	start := time.Now()
 	row = newRow(v)
 	dir := filepath.Join(outDir, v.Name)
@@ -363,10 +383,11 @@ func runOne(ctx context.Context, v Variant, pr prior, outDir string, r Runner, o
 	if d.InputHash != job.InputHash() {
 		return fail(errors.New("internal error: the deck's input hash differs from the prepared one"))
 	}
-	problem, hashes := verifyFiles(dir, d.Files, nil)
+	problem, hashes := verifyFiles(dir, d.Files, nil, true)
 	if problem != "" {
 		return fail(fmt.Errorf("internal error: the deck just built does not match its manifest: %s", problem))
 	}
+	log.add(hashRecord{ID: v.ID, InputHash: d.InputHash, Files: hashes})
 	row.fill(d.Outcome)
 	row.FileHashes = hashes
 	row.Run = RunBuilt

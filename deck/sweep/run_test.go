@@ -297,7 +297,7 @@ func TestChangedDecksAreNotRebuiltOver(t *testing.T) {
 	}{
 		{"mesh.dat", "a solver's output", "mesh.dat has 17 bytes where its deck.yaml records"},
 		{"mesh.dat", "", "mesh.dat has the size but not the content its deck.yaml records"},
-		{"mesh.h5", "", "mesh.h5 has the size but not the content the summary recorded"},
+		{"mesh.h5", "", "mesh.h5 has the size but not the content the sweep recorded"},
 	} {
 		path := filepath.Join(dir, victim.Name, c.file)
 		old, err := os.ReadFile(path)
@@ -391,7 +391,7 @@ func TestFolderOfAnotherStudyIsRefused(t *testing.T) {
 	var fe *FolderError
 	if !errors.As(err, &fe) || !fe.Forceable || r.builds.Load() != 0 ||
 		!strings.Contains(err.Error(), "summary.json: the summary of a sweep of wedge.yaml as it was before an edit") ||
-		!strings.Contains(err.Error(), ": a deck built from other inputs than this sweep's (wedge.yaml has changed since") {
+		!strings.Contains(err.Error(), ": a deck built from other inputs than this sweep's: wedge.yaml has changed since, SHA-256 ") {
 		t.Errorf("edited base: %v", err)
 	}
 	unchanged("edited base")
@@ -667,7 +667,7 @@ func TestMergeRefusesMixedBaseCases(t *testing.T) {
 	s, _, err := MergeDirs([]string{shared, other}, t.TempDir())
 	one, two := filepath.Join(shared, "summary-shard-1-of-2.json"), filepath.Join(other, "summary-shard-2-of-2.json")
 	if s != nil || err == nil || !strings.Contains(err.Error(), "built from different base cases") ||
-		!strings.Contains(err.Error(), "wedge.yaml (base input hash "+short(edited.base.InputHash)+", cvdeck test): "+two) ||
+		!strings.Contains(err.Error(), "wedge.yaml, base input hash "+short(edited.base.InputHash)+", cvdeck test: "+two) ||
 		!strings.Contains(err.Error(), ": "+one) {
 		t.Errorf("merging shards of two base cases: summary %v, %v", s != nil, err)
 	}
@@ -700,8 +700,8 @@ func TestMergeReportsFailedAndNotRun(t *testing.T) {
 		}
 	}
 	if !reflect.DeepEqual(me.Failed, failed) || !reflect.DeepEqual(me.NotRun, notRun) ||
-		!strings.Contains(err.Error(), fmt.Sprintf("%d of 6 variants failed (%s)", len(failed), strings.Join(failed, ", "))) ||
-		!strings.Contains(err.Error(), fmt.Sprintf("%d of 6 variants were not run (%s)", len(notRun), strings.Join(notRun, ", "))) {
+		!strings.Contains(err.Error(), fmt.Sprintf("%d of 6 variants failed: %s;", len(failed), strings.Join(failed, ", "))) ||
+		!strings.Contains(err.Error(), fmt.Sprintf("%d of 6 variants were not run, so run their shards again: %s", len(notRun), strings.Join(notRun, ", "))) {
 		t.Errorf("failed %v, not run %v: %v", me.Failed, me.NotRun, err)
 	}
 }

@@ -81,7 +81,8 @@ type Summary struct {
 	// its own parameter values and the cvdeck version): shards with
 	// different base hashes were built from different base cases.
 	BaseHash string `json:"base_input_hash,omitempty"`
-	// Version is the cvdeck version that wrote the summary.
+	// Version is the cvdeck build that wrote the summary (deck.Build, as
+	// deck.yaml records it).
 	Version string `json:"cvdeck_version,omitempty"`
 	// Parameters are the swept parameter names in the sweep file's order.
 	Parameters []string `json:"parameters"`
@@ -92,6 +93,10 @@ type Summary struct {
 	// Plan is a hash of the whole sweep's variant ids in order; summaries
 	// with different plans are of different sweeps and cannot be merged.
 	Plan string `json:"plan"`
+	// PlanNames are the folder names of every variant of the whole sweep,
+	// in sweep order, in a shard's summary only: a merge that lacks some
+	// shard names the variants missing with them.
+	PlanNames []string `json:"plan_names,omitempty"`
 	// Rows are in sweep order.
 	Rows []Row `json:"variants"`
 	// Warnings are about refinement ratios below MinRatio (each also in

@@ -11,6 +11,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"slices"
 	"strings"
 	"sync"
 
@@ -101,7 +102,12 @@ func survey(ctx context.Context, outDir, sweepName string, base BaseCase, vs []V
 	}
 	var hard, soft []string
 	own, _ := SummaryFiles(opt.Shard)
-	records := map[string]Row{} // rows with recorded file hashes, by variant id
+	// The bytes' hashes of files recorded by content only that this
+	// sweep found after building or reusing a deck, by variant id, from
+	// the summaries and the hash logs of the folder. Every one of them is
+	// of a deck this sweep built, so a file that matches any of them with
+	// the same input hash is one it built.
+	records := map[string][]hashRecord{}
 	for _, e := range ents {
 		name := e.Name()
 		if e.IsDir() || !isSummaryJSON(name) {
@@ -110,7 +116,7 @@ func survey(ctx context.Context, outDir, sweepName string, base BaseCase, vs []V
 		s, err := ReadSummary(filepath.Join(outDir, name))
 		switch {
 		case err != nil:
-			hard = append(hard, fmt.Sprintf("%s: not a sweep summary cvdeck can read (%v)", name, errors.Unwrap(err)))
+			hard = append(hard, fmt.Sprintf("%s: not a sweep summary cvdeck can read: %v", name, errors.Unwrap(err)))
 		case s.Base != base.File:
 			hard = append(hard, fmt.Sprintf("%s: the summary of a sweep of %s, not of this sweep's base case %s", name, s.Base, base.File))
 		case s.Sweep != "" && s.Sweep != sweepName:
@@ -122,8 +128,19 @@ func survey(ctx context.Context, outDir, sweepName string, base BaseCase, vs []V
 		default:
 			for _, row := range s.Rows {
 				if len(row.FileHashes) > 0 {
-					records[row.ID] = row
+					records[row.ID] = append(records[row.ID], hashRecord{ID: row.ID, InputHash: row.InputHash, Files: row.FileHashes})
 				}
+			}
+		}
+	}
+	for _, e := range ents {
+		if !e.IsDir() && isHashLog(e.Name()) {
+			recs, err := readHashLog(filepath.Join(outDir, e.Name()))
+			if err != nil {
+				soft = append(soft, fmt.Sprintf("%s: this hash log cannot be read, so the decks it records cannot be verified: %v", e.Name(), err))
+			}
+			for _, rec := range recs {
+				records[rec.ID] = append(records[rec.ID], rec)
 			}
 		}
 	}
@@ -154,7 +171,7 @@ func survey(ctx context.Context, outDir, sweepName string, base BaseCase, vs []V
 		d, ok, err := r.Existing(dir)
 		if err != nil {
 			if it.idx >= 0 {
-				it.problem = fmt.Sprintf("%s: its deck cannot be read (%v); rebuilding would replace it", it.name, err)
+				it.problem = fmt.Sprintf("%s: its deck cannot be read, and rebuilding would replace it: %v", it.name, err)
 			}
 			return
 		}
@@ -176,14 +193,18 @@ func survey(ctx context.Context, outDir, sweepName string, base BaseCase, vs []V
 		}
 		priors[it.idx].job = job
 		if d.InputHash != job.InputHash() {
-			it.problem = fmt.Sprintf("%s: a deck built from other inputs than this sweep's (%s); rebuilding would replace it", it.name, inputChange(d, base, v, job.InputHash()))
+			it.problem = fmt.Sprintf("%s: %s; rebuilding would replace it", it.name, inputChange(d, base, v, job.InputHash()))
 			return
 		}
-		var known map[string]string
-		if rec, ok := records[v.ID]; ok && rec.InputHash == d.InputHash {
-			known = rec.FileHashes
+		known := map[string][]string{}
+		for _, rec := range records[v.ID] {
+			if rec.InputHash == d.InputHash {
+				for path, sum := range rec.Files {
+					known[path] = append(known[path], sum)
+				}
+			}
 		}
-		problem, hashes := verifyFiles(dir, d.Files, known)
+		problem, hashes := verifyFiles(dir, d.Files, known, false)
 		if problem != "" {
 			it.problem = fmt.Sprintf("%s: %s; rebuilding would replace it", it.name, problem)
 			return
@@ -235,21 +256,37 @@ func isSummaryJSON(name string) bool {
 }
 
 // baseChange says how a summary's base case differs from base: another
-// cvdeck version, or other inputs.
+// cvdeck build, or other inputs. The base input hash covers the build, so
+// when the builds differ an edit of the case file cannot be told apart and
+// is not blamed; but a summary that records the bare version, as cvdeck
+// wrote them before it recorded its build, may be of this very build.
 func baseChange(version, hash string, base BaseCase) string {
 	if version != base.Version {
-		return fmt.Sprintf("written by cvdeck %s (this is cvdeck %s)", version, base.Version)
+		msg := "written by " + otherBuild(version, base.Version)
+		if strings.HasPrefix(base.Version, version+"+") {
+			msg += ", or before an edit of the base case: a summary that records the bare version cannot tell"
+		}
+		return msg
 	}
-	return fmt.Sprintf("as it was before an edit (base input hash %s then, %s now)", short(hash), short(base.InputHash))
+	return fmt.Sprintf("as it was before an edit: base input hash %s then, %s now", short(hash), short(base.InputHash))
+}
+
+// otherBuild says that a deck or summary made by cvdeck then is of another
+// cvdeck build than this one, now: "another cvdeck build (0.1.0+3f2a9c1b7e4d
+// vs this 0.1.0+8d0e5a7c6b21)".
+func otherBuild(then, now string) string {
+	return fmt.Sprintf("another cvdeck build (%s vs this %s)", orNotRecorded(then), now)
 }
 
 // inputChange says how a deck's inputs differ from those of variant v of
-// the sweep of base, whose input hash is hash: the cvdeck version, the
+// the sweep of base, whose input hash is hash: the cvdeck build, the
 // input files that changed, appeared or went, and the swept parameters
-// whose values differ.
+// whose values differ ("a deck built from other inputs than this sweep's:
+// nozzle.yaml has changed since, ...").
 func inputChange(d Found, base BaseCase, v Variant, hash string) string {
+	build := ""
 	if d.Version != base.Version {
-		return fmt.Sprintf("built by cvdeck %s, this is cvdeck %s", d.Version, base.Version)
+		build = "a deck built by " + otherBuild(d.Version, base.Version)
 	}
 	var diffs []string
 	now := map[string]string{}
@@ -264,7 +301,7 @@ func inputChange(d Found, base BaseCase, v Variant, hash string) string {
 		case !ok:
 			diffs = append(diffs, in.Path+" is no longer read")
 		case sum != in.SHA256:
-			diffs = append(diffs, fmt.Sprintf("%s has changed since (SHA-256 %s then, %s now)", in.Path, short(in.SHA256), short(sum)))
+			diffs = append(diffs, fmt.Sprintf("%s has changed since, SHA-256 %s then and %s now", in.Path, short(in.SHA256), short(sum)))
 		}
 	}
 	for _, in := range base.Inputs {
@@ -277,10 +314,15 @@ func inputChange(d Found, base BaseCase, v Variant, hash string) string {
 			diffs = append(diffs, fmt.Sprintf("%s is %s there and %s in this sweep", p.Name, FormatValue(got), FormatValue(p.Value)))
 		}
 	}
-	if len(diffs) == 0 {
-		diffs = append(diffs, fmt.Sprintf("input hash %s, this variant's is %s", short(d.InputHash), short(hash)))
+	switch {
+	case build != "" && len(diffs) == 0:
+		return build
+	case build != "":
+		return build + ", and from other inputs: " + strings.Join(diffs, "; ")
+	case len(diffs) == 0:
+		diffs = append(diffs, fmt.Sprintf("its input hash is %s, this variant's %s", short(d.InputHash), short(hash)))
 	}
-	return strings.Join(diffs, "; ")
+	return "a deck built from other inputs than this sweep's: " + strings.Join(diffs, "; ")
 }
 
 // short is the first 12 hex digits of a hash, enough to tell two apart
@@ -294,13 +336,18 @@ func short(hash string) string {
 
 // verifyFiles checks a deck's files against its manifest: every listed
 // file is inside the deck folder and has its recorded size and, where the
-// manifest records one, its bytes' SHA-256. A file the manifest records
-// by content only (CGNS) is compared with known, the bytes' hashes a
-// summary recorded after an earlier run, when there is one; without one
-// only its size is checked. It returns "" when everything agrees,
-// otherwise the first difference, and the bytes' SHA-256 of the files
-// recorded by content only, to be recorded in the summary.
-func verifyFiles(dir string, files []FileRecord, known map[string]string) (string, map[string]string) {
+// manifest records one, its bytes' SHA-256. A file the manifest records by
+// content only (CGNS: content_sha256 is a hash of the arrays the writer
+// stored, which cannot be recomputed from the file) must have the bytes'
+// SHA-256 that a summary or hash log recorded for it, one of known[path];
+// a deck just built (built true) has nothing to match and is only hashed.
+// A file of a found deck for which nothing is recorded cannot be told
+// from one changed in place, so it is a problem, not a reuse: rebuilding
+// it would lose whatever was written into it. It returns "" when
+// everything agrees, otherwise the first difference, and the bytes'
+// SHA-256 of the files recorded by content only, to be recorded in the
+// summary.
+func verifyFiles(dir string, files []FileRecord, known map[string][]string, built bool) (string, map[string]string) {
 	var hashes map[string]string
 	for _, f := range files {
 		if !filepath.IsLocal(f.Path) {
@@ -312,25 +359,34 @@ func verifyFiles(dir string, files []FileRecord, known map[string]string) (strin
 			return fmt.Sprintf("%s, which its deck.yaml lists, is missing", f.Path), nil
 		}
 		if err != nil {
-			return fmt.Sprintf("%s cannot be read (%v)", f.Path, err), nil
+			return fmt.Sprintf("%s cannot be read: %v", f.Path, err), nil
 		}
 		if fi.Size() != f.Bytes {
 			return fmt.Sprintf("%s has %d bytes where its deck.yaml records %d: it was changed after the sweep built it", f.Path, fi.Size(), f.Bytes), nil
 		}
 		sum, err := hashFile(path)
 		if err != nil {
-			return fmt.Sprintf("%s cannot be read (%v)", f.Path, err), nil
+			return fmt.Sprintf("%s cannot be read: %v", f.Path, err), nil
 		}
-		want, where := f.SHA256, "its deck.yaml records"
-		if want == "" {
-			want, where = known[f.Path], "the summary recorded"
-			if hashes == nil {
-				hashes = map[string]string{}
+		if f.SHA256 != "" {
+			if sum != f.SHA256 {
+				return fmt.Sprintf("%s has the size but not the content its deck.yaml records, SHA-256 %s where it records %s: it was changed after the sweep built it", f.Path, short(sum), short(f.SHA256)), nil
 			}
-			hashes[f.Path] = sum
+			continue
 		}
-		if want != "" && sum != want {
-			return fmt.Sprintf("%s has the size but not the content %s (SHA-256 %s, recorded %s): it was changed after the sweep built it", f.Path, where, short(sum), short(want)), nil
+		if hashes == nil {
+			hashes = map[string]string{}
+		}
+		hashes[f.Path] = sum
+		if built {
+			continue
+		}
+		want := known[f.Path]
+		if len(want) == 0 {
+			return fmt.Sprintf("%s cannot be verified: its deck.yaml records only a hash of its content, which cannot be recomputed from the file, and no summary or hash log in the output folder records the SHA-256 of its bytes, so a change of the same size would go unseen", f.Path), nil
+		}
+		if !slices.Contains(want, sum) {
+			return fmt.Sprintf("%s has the size but not the content the sweep recorded, SHA-256 %s where it recorded %s: it was changed after the sweep built it", f.Path, short(sum), short(want[len(want)-1])), nil
 		}
 	}
 	return "", hashes
