@@ -39,7 +39,8 @@ func newSweepCommand() *cobra.Command {
 on -j workers, and writes DIR/summary.csv and DIR/summary.json (with --shard
 K/N: DIR/summary-shard-K-of-N.csv and .json). A variant whose folder already
 holds an intact deck built from the same inputs is kept, so an interrupted
-sweep continues where it stopped. Before writing anything, sweep refuses a
+sweep continues where it stopped (DIR/summary-hashes.jsonl records the bytes
+of each mesh.cgns as it is built, for a run killed before its summary). Before writing anything, sweep refuses a
 DIR holding decks or summaries of another study (exit code 2), and decks it
 would replace because the base case or cvdeck changed or their files were
 changed since (--force rebuilds those). A failing variant does not stop the
@@ -230,10 +231,10 @@ func newSweepMergeCommand() *cobra.Command {
 its summary.json when it has none, checks that they come from one sweep, and
 writes summary.json and summary.csv of the whole sweep into -o (default: the
 first DIR). Summaries of another sweep, or built from another base case or
-by another cvdeck version, are refused (exit code 2). It reports variants
-that no shard has, variants that failed or were not run and decks that
-failed their checks (exit code 1), and variants found twice. The decks stay
-where the shards wrote them.`,
+by another cvdeck build, are refused (exit code 2). It names the variants
+that no shard has (and the shards missing), variants that failed or were
+not run and decks that failed their checks (exit code 1), and counts
+variants found twice. The decks stay where the shards wrote them.`,
 		Example: `  cvdeck sweep merge out
   cvdeck sweep merge host1/out host2/out -o out`,
 		Args: cobra.MinimumNArgs(1),

@@ -113,10 +113,19 @@ func TestMergeCommand(t *testing.T) {
 	if code != 0 || !strings.Contains(stderr, "merged 3 of 3 variants") {
 		t.Fatalf("merge: exit %d\n%s", code, stderr)
 	}
+	second, err := sweep.ReadSummary(filepath.Join(out, "summary-shard-2-of-2.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var names []string
+	for _, r := range second.Rows {
+		names = append(names, r.Name)
+	}
 	os.Remove(filepath.Join(out, "summary-shard-2-of-2.json"))
 	code, _, stderr = cvdeck(t, "sweep", "merge", out, "-o", t.TempDir())
-	if code != 1 || !strings.Contains(stderr, "missing") {
-		t.Errorf("merge with a missing shard: exit %d\n%s", code, stderr)
+	want := fmt.Sprintf("%d of 3 variants are missing: %s; no summary of shard 2/2 was given", len(names), strings.Join(names, ", "))
+	if code != 1 || !strings.Contains(stderr, want) {
+		t.Errorf("merge with a missing shard: exit %d, want %q in\n%s", code, want, stderr)
 	}
 }
 
