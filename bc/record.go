@@ -201,6 +201,18 @@ func (a *Assignment) Record() Record {
 		if _, given := r.Value(KeyMach); !given && r.Mach >= 0 {
 			br.Values = append(br.Values, Entry{"mach", r.Mach, "1"})
 		}
+		if st := r.State; st != nil {
+			// The full state the condition imposes (a farfield's is the
+			// reference's, in the free stream's direction), as the CGNS
+			// file's BCDataSet carries it.
+			for _, e := range []Entry{{KeyPressure, st.Pressure, "Pa"}, {KeyTemperature, st.Temperature, "K"}} {
+				if _, given := r.Value(e.Key); !given {
+					br.Values = append(br.Values, e)
+				}
+			}
+			br.Values = append(br.Values, Entry{"density", st.Density, "kg/m^3"},
+				Entry{"velocity_x", st.Velocity * r.Direction[0], "m/s"}, Entry{"velocity_y", st.Velocity*r.Direction[1] + 0, "m/s"})
+		}
 		if r.Periodic >= 0 {
 			pm := a.Periodic[r.Periodic]
 			br.Values = append(br.Values, Entry{"paired_faces", float64(len(pm.Pairs)), "1"}, Entry{"max_mismatch", pm.MaxMismatch, "m"})

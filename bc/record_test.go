@@ -123,6 +123,26 @@ func TestRecordReferenceDirectionAndNotes(t *testing.T) {
 	if strings.Join(keys, " ") != "speed_of_sound velocity flow_angle velocity_x velocity_y" {
 		t.Errorf("reference keys %v", keys)
 	}
+	// A farfield records the full state it imposes, the reference's (as
+	// the CGNS BCDataSet does); the supersonic inflow its given values and
+	// the density and velocity they give: ρ = p/(R T), V = M √(γ R T)
+	// (ideal gas).
+	for _, b := range rec.Boundaries {
+		want := map[string]float64{}
+		switch b.Tag {
+		case "far":
+			vx, _ := entry(rec.Reference, "velocity_x")
+			vy, _ := entry(rec.Reference, "velocity_y")
+			want = map[string]float64{"pressure": ref.Pressure, "temperature": ref.Temperature, "density": ref.Density, "velocity_x": vx.Value, "velocity_y": vy.Value}
+		case "far4":
+			want = map[string]float64{"pressure": 1e5, "temperature": 300, "density": 1e5 / (Air.R * 300), "velocity_x": 2 * math.Sqrt(Air.Gamma*Air.R*300), "velocity_y": 0}
+		}
+		for key, w := range want {
+			if e, ok := entry(b.Values, key); !ok || math.Abs(e.Value-w) > 1e-12*max(1, math.Abs(w)) {
+				t.Errorf("%s: %s = %v (recorded %v), want %.17g", b.Tag, key, e.Value, ok, w)
+			}
+		}
+	}
 	// The inflow-supersonic under the subsonic reference has its note in
 	// its record, the farfields none.
 	for _, b := range rec.Boundaries {
