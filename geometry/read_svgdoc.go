@@ -16,12 +16,16 @@ import (
 // §9). Each closed subpath becomes a loop, its default tag the id of its
 // element. Transforms are not applied: an element with a transform
 // attribute (on itself or an enclosing group) is refused, so coordinates
-// are never silently misplaced. Errors name the element, its index among
-// the shapes read and its line in the document.
+// are never silently misplaced. Shapes a viewer never draws where they
+// stand, inside defs, symbol, marker, pattern, clipPath or mask elements
+// (SVG 1.1 §5.3, §5.5, §11.6, §13.3, §14.3, §14.4: their content is only
+// drawn when referenced), are not read. Errors name the element, its
+// index among the shapes read and its line in the document.
 func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 	dec := xml.NewDecoder(r)
 	var subs []svgSubpath
 	var transformed []bool // per open element: has a transform attribute
+	var hidden []bool      // per open element: inside content not drawn in place
 	shapes := 0
 	for {
 		tok, err := dec.Token()
@@ -41,6 +45,11 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 			}
 			_, tr := attrs["transform"]
 			transformed = append(transformed, tr)
+			hide := len(hidden) > 0 && hidden[len(hidden)-1] || svgUndrawn[t.Name.Local]
+			hidden = append(hidden, hide)
+			if hide {
+				continue
+			}
 			line, _ := dec.InputPos()
 			d, isShape, err := shapePathData(t.Name.Local, attrs)
 			where := fmt.Sprintf("SVG %s element %d (line %d", t.Name.Local, shapes, line)
@@ -71,6 +80,7 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 		case xml.EndElement:
 			if len(transformed) > 0 {
 				transformed = transformed[:len(transformed)-1]
+				hidden = hidden[:len(hidden)-1]
 			}
 		}
 	}
@@ -79,6 +89,10 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 	}
 	return buildSVG(subs, opt)
 }
+
+// svgUndrawn are the elements whose content is drawn only where another
+// element refers to it, never in place.
+var svgUndrawn = map[string]bool{"defs": true, "symbol": true, "marker": true, "pattern": true, "clipPath": true, "mask": true}
 
 // shapePathData returns the path data equivalent to a shape element
 // (SVG 1.1 §9.2–9.4, §9.7), and false for elements that are not shapes.
