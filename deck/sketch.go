@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"slices"
@@ -174,7 +175,9 @@ func decodeSketchRef(c *Case, g *geometrySpec, o *object, fv value) error {
 }
 
 // respace gives every segment that has no spacing law of its own the
-// spacing sp.
+// spacing sp, or, on a curve (a polyline of a sketch: a flattened SVG
+// curve, a point file), more edges where sp would cut across its bends
+// (curveEdges).
 func respace(o geometry.Outline, sp geometry.Spacing) geometry.Outline {
 	fix := func(l geometry.Loop) geometry.Loop {
 		r := geometry.Loop{Name: l.Name, Flipped: l.Flipped, Segments: make([]geometry.Segment, len(l.Segments))}
@@ -182,6 +185,15 @@ func respace(o geometry.Outline, sp geometry.Spacing) geometry.Outline {
 			a := s.Attr()
 			if a.Spacing.KeepsVertices() {
 				a.Spacing = sp
+				if v, ok := s.(interface{ Vertices() []orb.Point }); ok {
+					if n := curveEdges(v.Vertices()); n > 0 {
+						if e, err := sp.Edges(s.Length()); err == nil && float64(n) > e {
+							if c, err := geometry.Count(n + 1); err == nil {
+								a.Spacing = c
+							}
+						}
+					}
+				}
 				s = s.WithAttr(a)
 			}
 			r.Segments[i] = s
@@ -193,6 +205,51 @@ func respace(o geometry.Outline, sp geometry.Spacing) geometry.Outline {
 		out.Inner = append(out.Inner, fix(l))
 	}
 	return out
+}
+
+// Curve resolution of sketches: a face of a curved boundary turns by at
+// most maxFaceTurn, 10° (36 faces round a circle), so that a curve keeps
+// its shape and area when the sketch's size is coarse beside its radius
+// (common practice for walls; a finer size is kept). A vertex of a
+// polyline turning by more than featureTurn, 60°, is a corner of the
+// drawing, not a sample of a curve, and does not count.
+const (
+	maxFaceTurn = 10 * math.Pi / 180
+	featureTurn = 60 * math.Pi / 180
+)
+
+// curveEdges returns the number of equal edges a polyline through pts
+// needs so that none turns by more than maxFaceTurn where the polyline
+// bends most: L κ_max / maxFaceTurn, with the curvature at each interior
+// vertex taken as its turning angle over the mean length of its two edges
+// (the discrete curvature of a polygonal curve; common practice). It is
+// never more than the polyline's own edges, which already resolve the
+// curve (a flattened SVG curve is within its tolerance), and 0 for a
+// straight polyline.
+func curveEdges(pts []orb.Point) int {
+	if len(pts) < 3 {
+		return 0
+	}
+	length, kmax := 0.0, 0.0
+	for i := 1; i < len(pts); i++ {
+		length += math.Hypot(pts[i][0]-pts[i-1][0], pts[i][1]-pts[i-1][1])
+	}
+	for i := 1; i+1 < len(pts); i++ {
+		ux, uy := pts[i][0]-pts[i-1][0], pts[i][1]-pts[i-1][1]
+		vx, vy := pts[i+1][0]-pts[i][0], pts[i+1][1]-pts[i][1]
+		lu, lv := math.Hypot(ux, uy), math.Hypot(vx, vy)
+		turn := math.Abs(math.Atan2(ux*vy-uy*vx, ux*vx+uy*vy))
+		if lu == 0 || lv == 0 || turn > featureTurn {
+			continue
+		}
+		kmax = max(kmax, turn/(0.5*(lu+lv)))
+	}
+	if kmax == 0 {
+		return 0
+	}
+	// Less a hair, so that rounding does not add an edge to a curve that
+	// needs a whole number of them.
+	return min(int(math.Ceil(length*kmax/maxFaceTurn-1e-9)), len(pts)-1)
 }
 
 // SketchOptions say how `cvdeck mesh SKETCH` meshes a bare geometry file.

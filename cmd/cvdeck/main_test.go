@@ -225,7 +225,7 @@ func TestSketchRunSaysWhereItsCaseComes(t *testing.T) {
 	if err := os.WriteFile(wkt, []byte("POLYGON ((0 0, 10 0, 10 10, 0 10, 0 0), (4 4, 6 4, 6 6, 4 6, 4 4))\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	// A disc of two arcs, too small for the size asked: the mesher's
+	// A disc of two arcs, far too large for the size asked: the mesher's
 	// error is located in the case made from the flags.
 	disc := filepath.Join(dir, "disc.svg")
 	if err := os.WriteFile(disc, []byte("M 0 0 A 5 5 0 0 1 10 0 A 5 5 0 0 1 0 0 Z\n"), 0o644); err != nil {
@@ -238,7 +238,7 @@ func TestSketchRunSaysWhereItsCaseComes(t *testing.T) {
 	}{
 		{[]string{wkt, "--size", "1", "--min-angle", "40"}, "--min-angle 40"},
 		{[]string{wkt, "--size", "1", "--growth", "0.5"}, "--growth 0.5"},
-		{[]string{disc, "--size", "100"}, "disc.svg: "},
+		{[]string{disc, "--size", "1e-5"}, "disc.svg: "},
 	} {
 		code, _, errs := cvdeck(t, append([]string{"mesh", "-o", deckDir}, c.args...)...)
 		if code != 2 || !strings.Contains(errs, c.want) || strings.Contains(errs, ".yaml") || strings.Contains(errs, "flags):") || regexp.MustCompile(`(plate\.wkt|disc\.svg):\d`).MatchString(errs) {
