@@ -321,7 +321,7 @@ func topLayerNote(m *mesh.Mesh, r unstructured.LayerReport) string {
 		return ""
 	}
 	ratio := func(s float64) float64 { e := math.Sqrt(3) / 4 * s / h; return math.Max(e, 1/e) }
-	return fmt.Sprintf("; the top layer, about %.3g m thick on wall faces %.3g to %.3g m long, differs in area from the triangles above it by up to about %.2g times", h, lo, hi, math.Max(ratio(lo), ratio(hi)))
+	return fmt.Sprintf("; the top layer, about %.3g m thick on wall faces %.3g to %.3g m long, differs in area from near-equilateral triangles on those faces by about %.2g times at most (the growth metric gives the measured jumps, larger where the triangles grow)", h, lo, hi, math.Max(ratio(lo), ratio(hi)))
 }
 
 // layerNote says in one line how many layers a request asked for and how

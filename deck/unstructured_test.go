@@ -49,7 +49,7 @@ func TestLayerNotesReachTheManifest(t *testing.T) {
 		// Top layer 0.25 mm × 1.2⁹ = 1.29 mm on faces 2 × 40 mm × sin(π/96)
 		// = 2.62 mm long; (√3/4) × 2.62 / 1.29 = 0.879, so 1.1 times
 		// (elementary geometry).
-		{10, "layers on cylinder: 10 asked, 10 built on all 96 wall faces", "; the top layer, about 0.00129 m thick on wall faces 0.00262 to 0.00262 m long, differs in area from the triangles above it by up to about 1.1 times"},
+		{10, "layers on cylinder: 10 asked, 10 built on all 96 wall faces", "; the top layer, about 0.00129 m thick on wall faces 0.00262 to 0.00262 m long, differs in area from near-equilateral triangles on those faces by about 1.1 times at most (the growth metric gives the measured jumps, larger where the triangles grow)"},
 		{100, "layers on cylinder: 100 asked, ", "(all 100 on none of 96 wall faces); fewer on 96 faces where another boundary is near"},
 	} {
 		cs := cylinderChannel(t, "count: 10}", fmt.Sprintf("count: %d}", c.count))
