@@ -177,6 +177,8 @@ func TestValidateBadInput(t *testing.T) {
 			ErrOutside, `inner loop 1 "stray", segment 0 (line) at (2, 2): this point lies outside the outer loop`},
 		{"loops cross", Outline{Outer: Loop{Segments: sq(0, 0, 1)}, Inner: []Loop{{Segments: sq(0.5, 0.5, 1)}}},
 			ErrLoopsCross, "outer loop, segment 2 (line) at (0.5, 1): meets inner loop 1, segment 3 (line)"},
+		{"holes touch", Outline{Outer: Loop{Segments: sq(0, 0, 10)}, Inner: []Loop{{Segments: sq(2, 2, 2)}, {Segments: sq(4, 4, 2)}}},
+			ErrLoopsCross, "inner loop 1, segment 2 (line) at (4, 4): meets inner loop 2, segment 0 (line) at a vertex of both, so the loops touch there"},
 		{"nested", Outline{Outer: Loop{Segments: sq(0, 0, 10)}, Inner: []Loop{{Segments: sq(1, 1, 5)}, {Segments: sq(2, 2, 1)}}},
 			ErrNested, "inner loop 2, segment 0 (line) at (2, 2): this point lies inside inner loop 1"},
 		{"zero-length", Outline{Outer: Loop{Segments: append(sq(0, 0, 1), mustLine(t, 0, 0, 0, 0, "", sp))}},

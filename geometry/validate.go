@@ -212,10 +212,22 @@ func checkRings(rings []ring, loops []Loop, size float64) ([]float64, error) {
 		if ra.loop > rb.loop || (ra.loop == rb.loop && (ra.seg > rb.seg || (ra.seg == rb.seg && ra.vert > rb.vert))) {
 			ra, rb = rb, ra
 		}
+		// Where the two edges meet at a vertex of each, the loops (or the
+		// loop's two parts) touch at a point rather than cross; the domain
+		// would be pinched there to nothing, which no mesh can fill.
+		touches := isEnd(rings[a[0]], a[1], p) && isEnd(rings[b[0]], b[1], p)
 		if ra.loop == rb.loop {
-			return nil, locate(ra, p, "meets "+describe(rb, true), ErrSelfCrossing)
+			touch := ""
+			if touches {
+				touch = " at a vertex of both, so the loop touches itself there, pinching the region it bounds"
+			}
+			return nil, locate(ra, p, "meets "+describe(rb, true)+touch, ErrSelfCrossing)
 		}
-		return nil, locate(ra, p, "meets "+describe(rb, false), ErrLoopsCross)
+		touch := ""
+		if touches {
+			touch = " at a vertex of both, so the loops touch there: keep them apart, or draw them as one loop"
+		}
+		return nil, locate(ra, p, "meets "+describe(rb, false)+touch, ErrLoopsCross)
 	}
 	areas := make([]float64, len(rings))
 	for i, r := range rings {
@@ -438,4 +450,10 @@ func (d DiscreteOutline) Validate() error {
 		}
 	}
 	return nil
+}
+
+// isEnd reports whether p is an end of edge e of ring r (from pts[e] to
+// the next point, the last edge closing the ring).
+func isEnd(r ring, e int, p orb.Point) bool {
+	return p == r.pts[e] || p == r.pts[(e+1)%len(r.pts)]
 }
