@@ -20,16 +20,8 @@ import (
 // wrote through the library's raw calls (conventions listed in foreign.c).
 func foreignFiles(t *testing.T) string {
 	t.Helper()
-	cc := "cc"
-	if out, err := exec.Command("go", "env", "CC").Output(); err == nil && strings.TrimSpace(string(out)) != "" {
-		cc = strings.Fields(string(out))[0]
-	}
-	cc = tool(t, cc)
 	dir := t.TempDir()
-	bin := filepath.Join(dir, "foreign")
-	if out, err := exec.Command(cc, "-o", bin, filepath.Join("testdata", "foreign.c"), "-lcgns").CombinedOutput(); err != nil {
-		t.Fatalf("compile testdata/foreign.c: %v\n%s", err, out)
-	}
+	bin := compileC(t, filepath.Join("testdata", "foreign.c"), "testdata/foreign.c")
 	if out, err := exec.Command(bin, dir).CombinedOutput(); err != nil {
 		t.Fatalf("run foreign: %v\n%s", err, out)
 	}

@@ -4,7 +4,6 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
-	"strings"
 	"testing"
 )
 
@@ -206,19 +205,12 @@ int main(int argc, char **argv) {
 // wrote.
 func readerFiles(t *testing.T) string {
 	t.Helper()
-	cc := "cc"
-	if out, err := exec.Command("go", "env", "CC").Output(); err == nil && strings.TrimSpace(string(out)) != "" {
-		cc = strings.Fields(string(out))[0]
-	}
-	cc = tool(t, cc)
 	dir := t.TempDir()
-	src, bin := filepath.Join(dir, "files.c"), filepath.Join(dir, "files")
+	src := filepath.Join(dir, "files.c")
 	if err := os.WriteFile(src, []byte(readerFilesC), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	if out, err := exec.Command(cc, "-o", bin, src, "-lcgns").CombinedOutput(); err != nil {
-		t.Fatalf("compile the reader test files' writer: %v\n%s", err, out)
-	}
+	bin := compileC(t, src, "the reader test files' writer")
 	if out, err := exec.Command(bin, dir).CombinedOutput(); err != nil {
 		t.Fatalf("run the reader test files' writer: %v\n%s", err, out)
 	}

@@ -63,19 +63,12 @@ func h5dump(t *testing.T, path string, args ...string) string {
 // cg_exponents_read), independent of this package's reader.
 func libraryReader(t *testing.T) func(path string) []string {
 	t.Helper()
-	cc := "cc"
-	if out, err := exec.Command("go", "env", "CC").Output(); err == nil && strings.TrimSpace(string(out)) != "" {
-		cc = strings.Fields(string(out))[0]
-	}
-	cc = tool(t, cc)
 	dir := t.TempDir()
-	src, bin := filepath.Join(dir, "read.c"), filepath.Join(dir, "read")
+	src := filepath.Join(dir, "read.c")
 	if err := os.WriteFile(src, []byte(readerC), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	if out, err := exec.Command(cc, "-Wall", "-o", bin, src, "-lcgns").CombinedOutput(); err != nil {
-		t.Fatalf("compile the CGNS reader: %v\n%s", err, out)
-	}
+	bin := compileC(t, src, "the CGNS reader")
 	return func(path string) []string {
 		t.Helper()
 		out, err := exec.Command(bin, path).CombinedOutput()
@@ -233,3 +226,20 @@ int main(int argc, char **argv) {
 	return 0;
 }
 `
+
+// compileC compiles the C source file src against the CGNS library, with
+// the C compiler cgo uses, into a program beside it, and returns its path;
+// what names the program in a failure.
+func compileC(t *testing.T, src, what string) string {
+	t.Helper()
+	cc := "cc"
+	if out, err := exec.Command("go", "env", "CC").Output(); err == nil && strings.TrimSpace(string(out)) != "" {
+		cc = strings.Fields(string(out))[0]
+	}
+	cc = tool(t, cc)
+	bin := filepath.Join(t.TempDir(), strings.TrimSuffix(filepath.Base(src), ".c"))
+	if out, err := exec.Command(cc, "-Wall", "-o", bin, src, "-lcgns").CombinedOutput(); err != nil {
+		t.Fatalf("compile %s: %v\n%s", what, err, out)
+	}
+	return bin
+}
