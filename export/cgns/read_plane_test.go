@@ -16,14 +16,15 @@ import (
 	"cvdeck/mesh"
 )
 
-// TestReadPlaneZonesPlot3D: single-block Plot3D grids of our own lying on
-// y = 0.25 (9 × 1 × 6 nodes) and on x = −0.75 (1 × 7 × 5 nodes, its (j, k)
+// TestReadPlaneZonesConverted: single-block structured grid files of our
+// own (the whole-grid format plot3d_to_cgns reads) lying on y = 0.25
+// (9 × 1 × 6 nodes) and on x = −0.75 (1 × 7 × 5 nodes, its (j, k)
 // left-handed in (y, z)), converted by the CGNS tools' plot3d_to_cgns into
 // a 3D base, read as 2D meshes on the two coordinates that vary, with the
 // notes saying so. Each cell's area equals the shoelace area of its four
 // corners computed here from the grid formulas, and every cell is
 // counter-clockwise.
-func TestReadPlaneZonesPlot3D(t *testing.T) {
+func TestReadPlaneZonesConverted(t *testing.T) {
 	cases := []struct {
 		name       string
 		n          [3]int

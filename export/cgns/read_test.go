@@ -150,7 +150,7 @@ func TestReadInterfaces(t *testing.T) {
 
 // TestReadTouchingZones: two structured zones that share a side but carry
 // no 1-to-1 connectivity, as the CGNS tools' plot3d_to_cgns writes a
-// multi-block Plot3D grid of our own (a 5 × 4 and a 5 × 4 block of unit
+// multi-block structured grid file of our own (a 5 × 4 and a 5 × 4 block of unit
 // squares side by side, one cell thick), read as one mesh: the 5 nodes of
 // the shared side merged, with a note naming the zones, the shared side
 // interior faces, and nothing left untagged but the outer boundary.
