@@ -74,8 +74,10 @@ type BoundaryTag struct {
 	FirstCellHeight Spread `json:"first_cell_height"`
 	// QuadLayers spreads, over the faces, the number of quadrilaterals
 	// stacked on each face (see quadStack): on a wall of a hybrid mesh the
-	// boundary layers it carries, on a structured grid its cells across;
-	// all zero on triangles.
+	// boundary layers it carries, on a structured grid its cells across
+	// where its first cell is no thicker than the face is long; zero on
+	// triangles and where the first cell is entered through its short
+	// side.
 	QuadLayers Spread `json:"quad_layers"`
 }
 
@@ -87,6 +89,12 @@ const maxStack = 1000
 // node with the face it was entered by), and so on while the cells are
 // quadrilaterals of four faces, up to maxStack. Layer cells on a wall
 // are such a stack; the count is what a user checks a wall's layers by.
+// A stack starts only where the face's own cell is no thicker across (from
+// the face's midpoint to its opposite face's) than the face is long: a
+// layer's first cell is thin on its wall, while the face at the end of a
+// row of layers (an inlet beside a layered floor) enters its first cell
+// through the cell's short side, and the row along the wall is no stack
+// on it.
 func quadStack(m *mesh.Mesh, cf *cellFaces, f int) int {
 	c, cur, n := int(m.Owner[f]), f, 0
 	for n < maxStack {
@@ -105,6 +113,12 @@ func quadStack(m *mesh.Mesh, cf *cellFaces, f int) int {
 		}
 		if opp < 0 {
 			break
+		}
+		if n == 1 {
+			a, b := m.Geo.FaceMid[f], m.Geo.FaceMid[opp]
+			if math.Hypot(b[0]-a[0], b[1]-a[1]) > m.Geo.FaceLength[f]*(1+1e-9) {
+				return 0
+			}
 		}
 		next := int(m.Owner[opp])
 		if next == c {

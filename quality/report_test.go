@@ -300,3 +300,35 @@ func floorAndLid(t *testing.T, nx, ny int, h float64, cells [][]int32, extra ...
 	}
 	return m
 }
+
+// TestQuadLayersNotAlongARow: three rows of layer cells 1 long and 0.1
+// thick on a floor of four faces, triangles above (a strip 4 wide): each
+// floor face carries the 3 layers, while the end faces of the layer rows
+// enter their first cell through its 0.1 side and carry none (not the 4
+// cells of the row along the floor); the lid and the triangles' sides
+// none. Over the 16 boundary faces: min 0, mean 12/16, max 3 (counted by
+// hand).
+func TestQuadLayersNotAlongARow(t *testing.T) {
+	ys := []float64{0, 0.1, 0.2, 0.3, 1.3}
+	var nodes []orb.Point
+	for _, y := range ys {
+		for i := 0; i <= 4; i++ {
+			nodes = append(nodes, orb.Point{float64(i), y})
+		}
+	}
+	id := func(i, j int) int32 { return int32(j*5 + i) }
+	var cells [][]int32
+	for j := 0; j < 4; j++ {
+		for i := 0; i < 4; i++ {
+			if j < 3 {
+				cells = append(cells, []int32{id(i, j), id(i+1, j), id(i+1, j+1), id(i, j+1)})
+			} else {
+				cells = append(cells, []int32{id(i, j), id(i+1, j), id(i+1, j+1)}, []int32{id(i, j), id(i+1, j+1), id(i, j+1)})
+			}
+		}
+	}
+	r := evaluate(t, build(t, nodes, cells, true))
+	if got, want := fmt.Sprint(r.Boundary[0].QuadLayers), fmt.Sprint(Spread{0, 0.75, 3}); got != want {
+		t.Errorf("quadrilaterals stacked %s, want %s", got, want)
+	}
+}
