@@ -47,6 +47,43 @@ type svgSubpath struct {
 	cmd    int    // index of its moveto
 	where  string // the path it belongs to, for messages
 	tag    string // default tag (a path element's id), or ""
+	// m maps the path's coordinates to the document's (the transforms of
+	// its element and the groups around it); nil is the identity.
+	m *svgMatrix
+}
+
+// svgMatrix is an SVG transform matrix [a b c d e f] (SVG 1.1 §7.4): it
+// maps (x, y) to (a x + c y + e, b x + d y + f).
+type svgMatrix [6]float64
+
+// apply maps p by m; a nil m leaves p as it is.
+func (m *svgMatrix) apply(p orb.Point) orb.Point {
+	if m == nil {
+		return p
+	}
+	return orb.Point{m[0]*p[0] + m[2]*p[1] + m[4], m[1]*p[0] + m[3]*p[1] + m[5]}
+}
+
+// times returns m × n: the transform that applies n, then m.
+func (m svgMatrix) times(n svgMatrix) svgMatrix {
+	return svgMatrix{
+		m[0]*n[0] + m[2]*n[1], m[1]*n[0] + m[3]*n[1],
+		m[0]*n[2] + m[2]*n[3], m[1]*n[2] + m[3]*n[3],
+		m[0]*n[4] + m[2]*n[5] + m[4], m[1]*n[4] + m[3]*n[5] + m[5],
+	}
+}
+
+// stretch returns the largest factor by which m lengthens a vector, the
+// larger singular value of its linear part: √((s + √(s² − 4 det²))/2)
+// with s the sum of the squared entries (elementary linear algebra), 1
+// for a nil m.
+func (m *svgMatrix) stretch() float64 {
+	if m == nil {
+		return 1
+	}
+	sum := m[0]*m[0] + m[1]*m[1] + m[2]*m[2] + m[3]*m[3]
+	det := m[0]*m[3] - m[1]*m[2]
+	return math.Sqrt((sum + math.Sqrt(max(0, sum*sum-4*det*det))) / 2)
 }
 
 // ReadSVGPath reads SVG path data (the d attribute of a path element,
@@ -108,15 +145,20 @@ func buildSVG(subs []svgSubpath, opt SVGOptions) (Outline, error) {
 		if len(sp.segs) == 0 {
 			continue
 		}
-		if end := svgEnd(sp.segs[len(sp.segs)-1]); !sp.closed && math.Hypot(end[0]-sp.start[0], end[1]-sp.start[1]) > ClosureTolerance*extent {
+		if end, start := sp.m.apply(svgEnd(sp.segs[len(sp.segs)-1])), sp.m.apply(sp.start); !sp.closed && math.Hypot(end[0]-start[0], end[1]-start[1]) > ClosureTolerance*extent {
+			end, start = svgEnd(sp.segs[len(sp.segs)-1]), sp.start // as the path data gives them
 			return Outline{}, fmt.Errorf("%s: subpath from command %d is open: it starts at (%g, %g) and ends at (%g, %g); close it with Z: %w",
 				sp.where, sp.cmd, sp.start[0], sp.start[1], end[0], end[1], ErrFormat)
 		}
 		var l Loop
 		var ring []orb.Point
 		cur := sp.start
+		// The curves are flattened in the path's own coordinates, to the
+		// tolerance divided by the most the transform stretches, so that
+		// the chords stay within the tolerance in the document's.
+		local := tol / sp.m.stretch()
 		for _, s := range sp.segs {
-			pts, err := flattenSVG(cur, s, tol, &budget, sp.where)
+			pts, err := flattenSVG(cur, s, local, &budget, sp.where)
 			if err != nil {
 				return Outline{}, err
 			}
@@ -125,7 +167,7 @@ func buildSVG(subs []svgSubpath, opt SVGOptions) (Outline, error) {
 				continue
 			}
 			for i := range pts {
-				pts[i] = transform(pts[i])
+				pts[i] = transform(sp.m.apply(pts[i]))
 			}
 			ring = append(ring, pts[:len(pts)-1]...)
 			if s.op == 'L' {
@@ -204,10 +246,10 @@ func svgEnd(s svgSeg) orb.Point { return s.pts[len(s.pts)-1] }
 func svgExtent(subs []svgSubpath) float64 {
 	b := orb.Bound{Min: orb.Point{math.Inf(1), math.Inf(1)}, Max: orb.Point{math.Inf(-1), math.Inf(-1)}}
 	for _, sp := range subs {
-		b = b.Extend(sp.start)
+		b = b.Extend(sp.m.apply(sp.start))
 		for _, s := range sp.segs {
 			for _, p := range s.pts {
-				b = b.Extend(p)
+				b = b.Extend(sp.m.apply(p))
 			}
 		}
 	}

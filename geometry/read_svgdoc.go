@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 	"strings"
 )
@@ -14,9 +15,12 @@ import (
 // attribute, and the basic shapes rect (without rounded corners), circle,
 // ellipse and polygon, each turned into the equivalent path data (SVG 1.1
 // §9). Each closed subpath becomes a loop, its default tag the id of its
-// element. Transforms are not applied: an element with a transform
-// attribute (on itself or an enclosing group) is refused, so coordinates
-// are never silently misplaced. Shapes a viewer never draws where they
+// element. The transform attributes of an element and of the groups
+// around it are applied (SVG 1.1 §7.6: matrix, translate, scale, rotate,
+// skewX and skewY, a list applied right to left, a group's before its
+// parent's), the curves flattened so that they stay within the tolerance
+// after the transform; a transform that cannot be read is refused, so
+// coordinates are never silently misplaced. Shapes a viewer never draws where they
 // stand, inside defs, symbol, marker, pattern, clipPath or mask elements
 // (SVG 1.1 §5.3, §5.5, §11.6, §13.3, §14.3, §14.4: their content is only
 // drawn when referenced), are not read. Errors name the element, its
@@ -24,8 +28,8 @@ import (
 func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 	dec := xml.NewDecoder(r)
 	var subs []svgSubpath
-	var transformed []bool // per open element: has a transform attribute
-	var hidden []bool      // per open element: inside content not drawn in place
+	var matrices []*svgMatrix // per open element: its transform to the document, nil for none
+	var hidden []bool         // per open element: inside content not drawn in place
 	shapes := 0
 	for {
 		tok, err := dec.Token()
@@ -43,14 +47,27 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 					attrs[a.Name.Local] = a.Value
 				}
 			}
-			_, tr := attrs["transform"]
-			transformed = append(transformed, tr)
+			line, _ := dec.InputPos()
+			var m *svgMatrix
+			if len(matrices) > 0 {
+				m = matrices[len(matrices)-1]
+			}
+			if tr, ok := attrs["transform"]; ok {
+				own, err := parseSVGTransform(tr)
+				if err != nil {
+					return Outline{}, fmt.Errorf("SVG %s element (line %d): transform %q: %w", t.Name.Local, line, tr, err)
+				}
+				if m != nil {
+					own = m.times(own)
+				}
+				m = &own
+			}
+			matrices = append(matrices, m)
 			hide := len(hidden) > 0 && hidden[len(hidden)-1] || svgUndrawn[t.Name.Local]
 			hidden = append(hidden, hide)
 			if hide {
 				continue
 			}
-			line, _ := dec.InputPos()
 			d, isShape, err := shapePathData(t.Name.Local, attrs)
 			where := fmt.Sprintf("SVG %s element %d (line %d", t.Name.Local, shapes, line)
 			if id := attrs["id"]; id != "" {
@@ -64,22 +81,18 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 				continue
 			}
 			shapes++
-			for _, tr := range transformed {
-				if tr {
-					return Outline{}, fmt.Errorf("%s: has a transform (on itself or an enclosing group), which cvdeck does not apply; apply the transform to the coordinates in the drawing first: %w", where, ErrFormat)
-				}
-			}
 			ps, err := parseSVGPath(d, where)
 			if err != nil {
 				return Outline{}, err
 			}
 			for i := range ps {
 				ps[i].tag = attrs["id"]
+				ps[i].m = m
 			}
 			subs = append(subs, ps...)
 		case xml.EndElement:
-			if len(transformed) > 0 {
-				transformed = transformed[:len(transformed)-1]
+			if len(matrices) > 0 {
+				matrices = matrices[:len(matrices)-1]
 				hidden = hidden[:len(hidden)-1]
 			}
 		}
@@ -88,6 +101,94 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 		return Outline{}, fmt.Errorf("SVG document: no path, rect, circle, ellipse or polygon element found: %w", ErrFormat)
 	}
 	return buildSVG(subs, opt)
+}
+
+// parseSVGTransform reads a transform list (SVG 1.1 §7.6): transforms
+// separated by white space or commas, each a name and its numbers in
+// parentheses, the list meaning their product in the order written (so
+// the last is applied first). Angles are in degrees.
+func parseSVGTransform(list string) (svgMatrix, error) {
+	m := svgMatrix{1, 0, 0, 1, 0, 0}
+	rest := strings.TrimSpace(list)
+	for rest != "" {
+		open := strings.IndexByte(rest, '(')
+		shut := strings.IndexByte(rest, ')')
+		if open < 0 || shut < open {
+			return m, fmt.Errorf("%q is not a name(numbers) transform: %w", rest, ErrFormat)
+		}
+		name := strings.TrimSpace(rest[:open])
+		var args []float64
+		for _, f := range strings.FieldsFunc(rest[open+1:shut], func(r rune) bool { return r == ',' || r == ' ' || r == '\t' || r == '\n' || r == '\r' }) {
+			x, err := strconv.ParseFloat(f, 64)
+			if err != nil || math.IsInf(x, 0) || math.IsNaN(x) {
+				return m, fmt.Errorf("%s: %q is not a finite number: %w", name, f, ErrFormat)
+			}
+			args = append(args, x)
+		}
+		rest = strings.TrimLeft(rest[shut+1:], " \t\n\r,")
+		arity := func(counts ...int) error {
+			for _, c := range counts {
+				if len(args) == c {
+					return nil
+				}
+			}
+			return fmt.Errorf("%s takes %v numbers, not %d: %w", name, counts, len(args), ErrFormat)
+		}
+		var t svgMatrix
+		rad := func(deg float64) float64 { return deg * math.Pi / 180 }
+		switch name {
+		case "matrix":
+			if err := arity(6); err != nil {
+				return m, err
+			}
+			t = svgMatrix(args)
+		case "translate":
+			if err := arity(1, 2); err != nil {
+				return m, err
+			}
+			t = svgMatrix{1, 0, 0, 1, args[0], 0}
+			if len(args) == 2 {
+				t[5] = args[1]
+			}
+		case "scale":
+			if err := arity(1, 2); err != nil {
+				return m, err
+			}
+			sy := args[0]
+			if len(args) == 2 {
+				sy = args[1]
+			}
+			t = svgMatrix{args[0], 0, 0, sy, 0, 0}
+		case "rotate":
+			if err := arity(1, 3); err != nil {
+				return m, err
+			}
+			c, s := math.Cos(rad(args[0])), math.Sin(rad(args[0]))
+			t = svgMatrix{c, s, -s, c, 0, 0}
+			if len(args) == 3 {
+				// rotate(a, cx, cy) = translate(cx, cy) rotate(a) translate(−cx, −cy).
+				cx, cy := args[1], args[2]
+				t = svgMatrix{1, 0, 0, 1, cx, cy}.times(t).times(svgMatrix{1, 0, 0, 1, -cx, -cy})
+			}
+		case "skewX":
+			if err := arity(1); err != nil {
+				return m, err
+			}
+			t = svgMatrix{1, 0, math.Tan(rad(args[0])), 1, 0, 0}
+		case "skewY":
+			if err := arity(1); err != nil {
+				return m, err
+			}
+			t = svgMatrix{1, math.Tan(rad(args[0])), 0, 1, 0, 0}
+		default:
+			return m, fmt.Errorf("unknown transform %q (matrix, translate, scale, rotate, skewX, skewY): %w", name, ErrFormat)
+		}
+		m = m.times(t)
+	}
+	if m[0]*m[3]-m[1]*m[2] == 0 {
+		return m, fmt.Errorf("the transform flattens the drawing to a line or a point (determinant 0): %w", ErrFormat)
+	}
+	return m, nil
 }
 
 // svgUndrawn are the elements whose content is drawn only where another

@@ -436,7 +436,10 @@ func TestReadSVGDocument(t *testing.T) {
 		t.Errorf("document area %g want %g", a, want)
 	}
 	for _, c := range []struct{ doc, says string }{
-		{`<svg><g transform="scale(2)"><rect width="1" height="1"/></g></svg>`, "SVG rect element 0 (line 1): has a transform"},
+		{`<svg><g transform="skew(2)"><rect width="1" height="1"/></g></svg>`, `SVG g element (line 1): transform "skew(2)": unknown transform "skew"`},
+		{`<svg><rect transform="scale(1, 0)" width="1" height="1"/></svg>`, "determinant 0"},
+		{`<svg><rect transform="translate(1 2 3)" width="1" height="1"/></svg>`, "translate takes [1 2] numbers, not 3"},
+		{`<svg><rect transform="rotate(30" width="1" height="1"/></svg>`, "is not a name(numbers) transform"},
 		{`<svg><rect width="10mm" height="1"/></svg>`, `attribute width="10mm" must be a plain number`},
 		{`<svg><rect width="1" height="1" rx="0.1"/></svg>`, "rounded corners"},
 		{`<svg><text>nothing</text></svg>`, "no path, rect, circle, ellipse or polygon element"},
@@ -446,5 +449,60 @@ func TestReadSVGDocument(t *testing.T) {
 		if _, err := ReadSVGDocument(strings.NewReader(c.doc), SVGOptions{}); err == nil || !strings.Contains(err.Error(), c.says) {
 			t.Errorf("%s: got %v, want %q", c.doc, err, c.says)
 		}
+	}
+}
+
+// Transforms are applied as SVG 1.1 §7.6 defines them: a unit square under
+// translate(10,5) rotate(90) scale(2,3) (applied right to left) has its
+// corners at (10,5), (10,7), (7,7) and (7,5) and area 6, worked by hand;
+// inside a group translated by (100, 0), a circle of radius 1 scaled by 3
+// has its centre at (100, 0) and area π·9 within the flattening
+// tolerance, which holds in the document's units after the scaling.
+func TestReadSVGDocumentTransforms(t *testing.T) {
+	doc := `<svg xmlns="http://www.w3.org/2000/svg">
+  <rect id="box" transform="translate(10,5) rotate(90) scale(2,3)" width="1" height="1"/>
+</svg>`
+	o, err := ReadSVGDocument(strings.NewReader(doc), SVGOptions{Scale: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a := outlineArea(t, o); math.Abs(a-6) > 1e-12 {
+		t.Errorf("area %g, want 6", a)
+	}
+	corners := map[orb.Point]bool{}
+	for _, s := range o.Outer.Segments {
+		l, ok := s.(*Line)
+		if !ok {
+			t.Fatalf("segment %T, want lines", s)
+		}
+		corners[orb.Point{math.Round(l.A[0]*1e9) / 1e9, math.Round(l.A[1]*1e9) / 1e9}] = true
+	}
+	for _, p := range []orb.Point{{10, 5}, {10, 7}, {7, 7}, {7, 5}} {
+		if !corners[p] {
+			t.Errorf("no corner at %v among %v", p, corners)
+		}
+	}
+	doc = `<svg xmlns="http://www.w3.org/2000/svg">
+  <rect id="duct" x="-200" y="-100" width="400" height="200"/>
+  <g transform="translate(100 0)"><circle id="rod" transform="scale(3)" cx="0" cy="0" r="1"/></g>
+</svg>`
+	tol := 1e-3
+	o, err = ReadSVGDocument(strings.NewReader(doc), SVGOptions{Scale: 1, Tolerance: tol})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rod := 400*200 - outlineArea(t, o)
+	if want := 9 * math.Pi; rod > want || rod < want-tol*2*math.Pi*3 {
+		t.Errorf("rod area %g, want π·9 = %g less at most the tolerance times its perimeter", rod, want)
+	}
+	var sx, sy float64
+	var n int
+	for _, s := range o.Inner[0].Segments {
+		for _, p := range s.(interface{ Vertices() []orb.Point }).Vertices() {
+			sx, sy, n = sx+p[0], sy+p[1], n+1
+		}
+	}
+	if cx, cy := sx/float64(n), sy/float64(n); math.Abs(cx-100) > 0.05 || math.Abs(cy) > 0.05 {
+		t.Errorf("rod centred at (%g, %g), want (100, 0)", cx, cy)
 	}
 }
