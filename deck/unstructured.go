@@ -399,6 +399,9 @@ func (c *Case) cellLimitError(e *unstructured.CellLimitError) error {
 		what, change = fmt.Sprintf("the spacing along the walls with boundary layers (%s at the finest, kept along the layers' top)", length(e.Size)), "a spacing of about %s there would fit"
 	case e.Tag != "":
 		what, change = fmt.Sprintf("the spacing along boundary %s (%s at the finest)", e.Tag, length(e.Size)), "a spacing of about %s there would fit"
+	case !math.IsInf(e.Size, 1) && c.sketch != "":
+		// A sketch run's max_size is its --size, in metres after --scale.
+		what, change = fmt.Sprintf("--size, %s,", length(e.Size)), "a --size of about %s would fit"
 	case !math.IsInf(e.Size, 1):
 		what, change = fmt.Sprintf("max_size, %s,", length(e.Size)), "a max_size of about %s would fit"
 	default:

@@ -239,6 +239,7 @@ func TestSketchRunSaysWhereItsCaseComes(t *testing.T) {
 		{[]string{wkt, "--size", "1", "--min-angle", "40"}, "--min-angle 40"},
 		{[]string{wkt, "--size", "1", "--growth", "0.5"}, "--growth 0.5"},
 		{[]string{disc, "--size", "1e-5"}, "disc.svg: "},
+		{[]string{disc, "--size", "1e-5"}, "a --size of about 0.00215 m would fit"}, // the flag, not the case's max_size
 	} {
 		code, _, errs := cvdeck(t, append([]string{"mesh", "-o", deckDir}, c.args...)...)
 		if code != 2 || !strings.Contains(errs, c.want) || strings.Contains(errs, ".yaml") || strings.Contains(errs, "flags):") || regexp.MustCompile(`(plate\.wkt|disc\.svg):\d`).MatchString(errs) {
