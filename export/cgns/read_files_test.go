@@ -216,3 +216,76 @@ func readerFiles(t *testing.T) string {
 	}
 	return dir
 }
+
+// gridFileC writes structured zones given as text through the CGNS
+// library's own calls, as a converter of a plain grid file would: the
+// number of zones, each zone's node counts ni nj nk, then for each zone
+// all its x, then all its y, then all its z (i fastest, then j, then k).
+// The zones go into a base "Base" of cell and physical dimension 3, named
+// Zone1, Zone2, …, with no connectivity between them.
+const gridFileC = `#include <stdio.h>
+#include <stdlib.h>
+#include <cgnslib.h>
+
+static void ck(int rc, const char *what) {
+    if (rc) {
+        fprintf(stderr, "%s: %s\n", what, cg_get_error());
+        exit(1);
+    }
+}
+
+int main(int argc, char **argv) {
+    FILE *in = fopen(argv[1], "r");
+    int nz, fn, B;
+    if (!in || fscanf(in, "%d", &nz) != 1 || nz < 1 || nz > 100) {
+        fprintf(stderr, "%s: no zone count\n", argv[1]);
+        return 1;
+    }
+    int n[100][3];
+    for (int z = 0; z < nz; z++)
+        if (fscanf(in, "%d %d %d", &n[z][0], &n[z][1], &n[z][2]) != 3) {
+            fprintf(stderr, "%s: zone %d has no node counts\n", argv[1], z + 1);
+            return 1;
+        }
+    ck(cg_open(argv[2], CG_MODE_WRITE, &fn), argv[2]);
+    ck(cg_base_write(fn, "Base", 3, 3, &B), "base");
+    const char *names[3] = {"CoordinateX", "CoordinateY", "CoordinateZ"};
+    for (int z = 0; z < nz; z++) {
+        cgsize_t size[9] = {n[z][0], n[z][1], n[z][2], n[z][0] - 1, n[z][1] - 1, n[z][2] - 1, 0, 0, 0};
+        char name[33];
+        int Z, C;
+        snprintf(name, sizeof name, "Zone%d", z + 1);
+        ck(cg_zone_write(fn, B, name, size, Structured, &Z), name);
+        long count = (long)n[z][0] * n[z][1] * n[z][2];
+        double *v = malloc(count * sizeof *v);
+        for (int a = 0; a < 3; a++) {
+            for (long k = 0; k < count; k++)
+                if (fscanf(in, "%lf", &v[k]) != 1) {
+                    fprintf(stderr, "%s: zone %d: %s cut short\n", argv[1], z + 1, names[a]);
+                    return 1;
+                }
+            ck(cg_coord_write(fn, B, Z, RealDouble, names[a], v, &C), names[a]);
+        }
+        free(v);
+    }
+    ck(cg_close(fn), "close");
+    return 0;
+}
+`
+
+// gridToCGNS writes the grid text (see gridFileC) as the CGNS file path,
+// through a program compiled against the CGNS library.
+func gridToCGNS(t *testing.T, text, path string) {
+	t.Helper()
+	dir := t.TempDir()
+	src, grid := filepath.Join(dir, "grid.c"), filepath.Join(dir, "grid.txt")
+	if err := os.WriteFile(src, []byte(gridFileC), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(grid, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if out, err := exec.Command(compileC(t, src, "the grid writer"), grid, path).CombinedOutput(); err != nil {
+		t.Fatalf("write %s from the grid: %v\n%s", filepath.Base(path), err, out)
+	}
+}

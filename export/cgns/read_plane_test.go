@@ -3,7 +3,6 @@ package cgns
 import (
 	"math"
 	"os"
-	"os/exec"
 	"path/filepath"
 	"slices"
 	"strconv"
@@ -16,11 +15,10 @@ import (
 	"cvdeck/mesh"
 )
 
-// TestReadPlaneZonesConverted: single-block structured grid files of our
-// own (the whole-grid format plot3d_to_cgns reads) lying on y = 0.25
-// (9 × 1 × 6 nodes) and on x = −0.75 (1 × 7 × 5 nodes, its (j, k)
-// left-handed in (y, z)), converted by the CGNS tools' plot3d_to_cgns into
-// a 3D base, read as 2D meshes on the two coordinates that vary, with the
+// TestReadPlaneZonesConverted: single structured zones of our own lying
+// on y = 0.25 (9 × 1 × 6 nodes) and on x = −0.75 (1 × 7 × 5 nodes, its
+// (j, k) left-handed in (y, z)), written through the CGNS library into a
+// 3D base (gridToCGNS), read as 2D meshes on the two coordinates that vary, with the
 // notes saying so. Each cell's area equals the shoelace area of its four
 // corners computed here from the grid formulas, and every cell is
 // counter-clockwise.
@@ -68,14 +66,8 @@ func TestReadPlaneZonesConverted(t *testing.T) {
 				}
 				b.WriteString("\n")
 			}
-			dir := t.TempDir()
-			xyz, file := filepath.Join(dir, c.name+".p3d"), filepath.Join(dir, c.name+".cgns")
-			if err := os.WriteFile(xyz, []byte(b.String()), 0o644); err != nil {
-				t.Fatal(err)
-			}
-			if out, err := exec.Command(tool(t, "plot3d_to_cgns"), "-f", "-d", xyz, file).CombinedOutput(); err != nil {
-				t.Fatalf("plot3d_to_cgns: %v\n%s", err, out)
-			}
+			file := filepath.Join(t.TempDir(), c.name+".cgns")
+			gridToCGNS(t, b.String(), file)
 			m, notes, err := ReadNotes(file)
 			if err != nil {
 				t.Fatal(err)

@@ -2,7 +2,6 @@ package cgns
 
 import (
 	"os"
-	"os/exec"
 	"path/filepath"
 	"slices"
 	"strconv"
@@ -149,9 +148,9 @@ func TestReadInterfaces(t *testing.T) {
 }
 
 // TestReadTouchingZones: two structured zones that share a side but carry
-// no 1-to-1 connectivity, as the CGNS tools' plot3d_to_cgns writes a
-// multi-block structured grid file of our own (a 5 × 4 and a 5 × 4 block of unit
-// squares side by side, one cell thick), read as one mesh: the 5 nodes of
+// no 1-to-1 connectivity, as a converter of a plain multi-block grid
+// writes them (gridToCGNS; a 5 × 4 and a 5 × 4 block of unit squares side
+// by side, one cell thick), read as one mesh: the 5 nodes of
 // the shared side merged, with a note naming the zones, the shared side
 // interior faces, and nothing left untagged but the outer boundary.
 func TestReadTouchingZones(t *testing.T) {
@@ -170,13 +169,8 @@ func TestReadTouchingZones(t *testing.T) {
 			b.WriteString("\n")
 		}
 	}
-	xyz, file := filepath.Join(dir, "two.p3d"), filepath.Join(dir, "two.cgns")
-	if err := os.WriteFile(xyz, []byte(b.String()), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	if out, err := exec.Command(tool(t, "plot3d_to_cgns"), "-f", "-d", xyz, file).CombinedOutput(); err != nil {
-		t.Fatalf("plot3d_to_cgns: %v\n%s", err, out)
-	}
+	file := filepath.Join(dir, "two.cgns")
+	gridToCGNS(t, b.String(), file)
 	m, notes, err := ReadNotes(file)
 	if err != nil {
 		t.Fatal(err)
