@@ -81,12 +81,10 @@ func (sl *slab) on(vs []int32, zp float64) bool {
 // positive.) Any face of a HEXA_8 may be the lower one; a PENTA_6 stands
 // between the planes only on its triangles, its quadrilaterals being
 // opposite an edge, not a face.
-var (
-	hexaInward  = [][]int{{0, 1, 2, 3}, {7, 6, 5, 4}, {0, 4, 5, 1}, {1, 5, 6, 2}, {2, 6, 7, 3}, {3, 7, 4, 0}}
-	hexaEdges   = [][2]int{{0, 1}, {1, 2}, {2, 3}, {3, 0}, {4, 5}, {5, 6}, {6, 7}, {7, 4}, {0, 4}, {1, 5}, {2, 6}, {3, 7}}
-	pentaInward = [][]int{{0, 1, 2}, {5, 4, 3}}
-	pentaEdges  = [][2]int{{0, 1}, {1, 2}, {2, 0}, {3, 4}, {4, 5}, {5, 3}, {0, 3}, {1, 4}, {2, 5}}
-)
+//
+// The hexahedron's faces and edges are mesh.HexFaces and mesh.HexEdges.
+// Only the prism's triangles are listed here.
+var pentaInward = [][]int{{0, 1, 2}, {5, 4, 3}}
 
 // cells returns the mesh input of the lower plane: one cell per HEXA_8 or
 // PENTA_6 element, its face on the lower plane (see lowerFace). TRI_3 and
@@ -138,9 +136,9 @@ func (sl *slab) cells(secs []elemSection) (mesh.Input, error) {
 // be straight up (within 1e-12 of the extent, the largest coordinate of
 // the lower plane).
 func (sl *slab) lowerFace(path string, id int, typ C.ElementType_t, vs []int32) ([]int32, error) {
-	inward, edges := hexaInward, hexaEdges
+	inward, edges := mesh.HexFaces, mesh.HexEdges
 	if typ == C.PENTA_6 {
-		inward, edges = pentaInward, pentaEdges
+		inward, edges = pentaInward, mesh.PrismEdges
 	}
 	low := 0
 	for _, v := range vs {
@@ -150,18 +148,8 @@ func (sl *slab) lowerFace(path string, id int, typ C.ElementType_t, vs []int32) 
 	}
 	var face []int32
 	if low == len(inward[0]) {
-		for _, f := range inward {
-			on := true
-			for _, k := range f {
-				on = on && sl.z[vs[k]-1] == sl.lo
-			}
-			if on {
-				face = make([]int32, len(f))
-				for i, k := range f {
-					face[i] = vs[k]
-				}
-				break
-			}
+		for _, k := range mesh.LowerFace(inward, func(k int) bool { return sl.z[vs[k]-1] == sl.lo }) {
+			face = append(face, vs[k])
 		}
 	}
 	if face == nil {

@@ -195,13 +195,13 @@ func (l *leftOut) String(what, where string) string {
 // from 3–5 (VTK file-format document, figure of linear cell types; VTK's
 // vtkHexahedron and vtkWedge face lists give the same, outward, from
 // memory).
+//
+// The hexahedron's faces and edges, and the wedge's edges, are
+// mesh.HexFaces, mesh.HexEdges and mesh.PrismEdges.
 var (
-	hexInward = [][]int{{0, 1, 2, 3}, {7, 6, 5, 4}, {0, 4, 5, 1}, {1, 5, 6, 2}, {2, 6, 7, 3}, {3, 7, 4, 0}}
-	hexEdges  = [][2]int{{0, 1}, {1, 2}, {2, 3}, {3, 0}, {4, 5}, {5, 6}, {6, 7}, {7, 4}, {0, 4}, {1, 5}, {2, 6}, {3, 7}}
 	// A wedge stands between the planes only on its triangles; its
 	// quadrilateral faces are opposite an edge, not a face.
 	wedgeInward = [][]int{{2, 1, 0}, {3, 4, 5}}
-	wedgeEdges  = [][2]int{{0, 1}, {1, 2}, {2, 0}, {3, 4}, {4, 5}, {5, 3}, {0, 3}, {1, 4}, {2, 5}}
 	voxelAsHex  = []int{0, 1, 3, 2, 4, 5, 7, 6}
 )
 
@@ -215,7 +215,7 @@ var (
 // extent, the largest coordinate of the lower plane).
 func (g *grid) lowerFace(c int, t int64, nodes []int64, sl slabPlanes, extent float64) ([]int64, error) {
 	pts := nodes
-	inward, edges := hexInward, hexEdges
+	inward, edges := mesh.HexFaces, mesh.HexEdges
 	switch t {
 	case cellVoxel:
 		pts = make([]int64, 8)
@@ -223,7 +223,7 @@ func (g *grid) lowerFace(c int, t int64, nodes []int64, sl slabPlanes, extent fl
 			pts[k] = nodes[p]
 		}
 	case cellWedge:
-		inward, edges = wedgeInward, wedgeEdges
+		inward, edges = wedgeInward, mesh.PrismEdges
 	}
 	z := func(v int64) float64 { return g.points[3*v+2] }
 	low := 0
@@ -241,18 +241,8 @@ func (g *grid) lowerFace(c int, t int64, nodes []int64, sl slabPlanes, extent fl
 	}
 	var face []int64
 	if low == len(inward[0]) {
-		for _, f := range inward {
-			on := true
-			for _, k := range f {
-				on = on && z(pts[k]) == sl.lo
-			}
-			if on {
-				face = make([]int64, len(f))
-				for i, k := range f {
-					face[i] = pts[k]
-				}
-				break
-			}
+		for _, k := range mesh.LowerFace(inward, func(k int) bool { return z(pts[k]) == sl.lo }) {
+			face = append(face, pts[k])
 		}
 	}
 	if face == nil {
