@@ -112,7 +112,11 @@ const (
 	columnW   = canvasW - columnX - margin
 	histH     = 96
 	histBlock = histH + 114
-	bins      = 40
+	// gridColumns histograms of the right column's width, gridGap apart,
+	// fill the page's width below the pictures.
+	gridColumns = 3
+	gridGap     = (canvasW - 2*margin - gridColumns*columnW) / (gridColumns - 1)
+	bins        = 40
 )
 
 // SVG writes the preview as an SVG document.
@@ -333,12 +337,32 @@ func build(in Input) (*scene, error) {
 		line(12, faint, false, fmt.Sprintf("small cells: the %d px squares they touch", flagBin))
 	}
 	y += 12
-	for _, mt := range in.Metrics {
-		drawHistogram(s, mt, box{columnX, y + 22, columnW, histH})
+	s.h = int(math.Ceil(drawHistograms(s, in.Metrics, y, bottom) + margin))
+	return s, nil
+}
+
+// drawHistograms draws the metrics' histograms down the right column from
+// y while they fit beside the pictures, which end at bottom, and the rest
+// in rows of gridColumns across the page below both, so that a report of
+// many metrics does not run a long column past an empty left side. It
+// returns the lowest y drawn on.
+func drawHistograms(s *scene, metrics []Metric, y, bottom float64) float64 {
+	k := 0
+	for ; k < len(metrics) && y+histBlock <= bottom; k++ {
+		drawHistogram(s, metrics[k], box{columnX, y + 22, columnW, histH})
 		y += histBlock
 	}
-	s.h = int(math.Ceil(math.Max(bottom, y) + margin))
-	return s, nil
+	low := math.Max(bottom, y)
+	if k == len(metrics) {
+		return low
+	}
+	top := low + panelGap/2
+	for i, mt := range metrics[k:] {
+		x := float64(margin + (i%gridColumns)*(columnW+gridGap))
+		drawHistogram(s, mt, box{x, top + float64(i/gridColumns)*histBlock + 22, columnW, histH})
+	}
+	rows := (len(metrics) - k + gridColumns - 1) / gridColumns
+	return top + float64(rows)*histBlock
 }
 
 // frameOn outlines on the overview o the region view v shows, at least

@@ -3,6 +3,7 @@ package preview
 import (
 	"bytes"
 	"encoding/xml"
+	"fmt"
 	"image"
 	"image/png"
 	"io"
@@ -632,5 +633,69 @@ func TestFontUnits(t *testing.T) {
 		if glyph(c) == glyph('?') || glyph(c) == ([7]uint8{}) {
 			t.Errorf("the raster font lacks %q", c)
 		}
+	}
+}
+
+// TestHistogramsFillThePage: with more metrics than fit beside the
+// pictures, the histograms continue in rows across the page below them.
+// Every histogram frame (a white box columnW × histH) lies on the canvas,
+// overlaps no other and no view of the mesh, and the page is no taller
+// than the rows need.
+func TestHistogramsFillThePage(t *testing.T) {
+	in := testInput(bumpChannel(t, 40, 12))
+	base := in.Metrics[1]
+	for k := range 12 {
+		mt := base
+		mt.Name = fmt.Sprintf("metric %d", k)
+		in.Metrics = append(in.Metrics, mt)
+	}
+	s, err := build(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var hists, views []box
+	for _, sh := range s.shapes {
+		if sh.kind != rect || sh.fill == nil || *sh.fill != white {
+			continue
+		}
+		b := box{sh.pts[0], sh.pts[1], sh.pts[2], sh.pts[3]}
+		if b.w == columnW && b.h == histH {
+			hists = append(hists, b)
+		} else {
+			views = append(views, b)
+		}
+	}
+	if len(hists) != len(in.Metrics) {
+		t.Fatalf("%d histogram frames for %d metrics", len(hists), len(in.Metrics))
+	}
+	overlap := func(a, b box) bool {
+		return a.x < b.x+b.w && b.x < a.x+a.w && a.y < b.y+b.h && b.y < a.y+a.h
+	}
+	low, below := 0.0, 0
+	for i, h := range hists {
+		if h.x < 0 || h.x+h.w > float64(s.w) || h.y < 0 || h.y+h.h > float64(s.h) {
+			t.Errorf("histogram %d at %+v is off the %d × %d canvas", i, h, s.w, s.h)
+		}
+		for j := range i {
+			if overlap(h, hists[j]) {
+				t.Errorf("histograms %d and %d overlap: %+v, %+v", j, i, hists[j], h)
+			}
+		}
+		for _, v := range views {
+			if overlap(h, v) {
+				t.Errorf("histogram %d at %+v overlaps the view at %+v", i, h, v)
+			}
+		}
+		low = math.Max(low, h.y+h.h)
+		if h.x < columnX {
+			below++
+		}
+	}
+	if below == 0 {
+		t.Errorf("no histogram went below the pictures: the column runs on alone")
+	}
+	// Below the last frame: its caption lines and the margin.
+	if room := float64(s.h) - low; room > histBlock-histH+margin {
+		t.Errorf("%.0f px below the last histogram frame; at most %d expected", room, histBlock-histH+margin)
 	}
 }
