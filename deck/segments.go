@@ -2,6 +2,7 @@ package deck
 
 import (
 	"bytes"
+	"errors"
 	"math"
 
 	"github.com/paulmach/orb"
@@ -245,11 +246,17 @@ func (c *Case) chainPoints(shape value, cur orb.Point) ([]orb.Point, error) {
 	if err != nil {
 		return nil, err
 	}
-	pl, _, err := geometry.ReadPoints(bytes.NewReader(data), geometry.Attr{}, false)
+	// The table's numbers are in the case's units, which a unit named in
+	// its header must match.
+	scale := shape.d.scale
+	f, err := geometry.ReadPointFile(bytes.NewReader(data), geometry.PointOptions{Unit: scale})
+	if ue := (*geometry.UnitError)(nil); errors.As(err, &ue) {
+		return nil, fv.errf("%s: %v; give the case units: %s, or convert the table to the case's units", rel, err, ue.Unit)
+	}
 	if err != nil {
 		return nil, fv.errf("%s: %v", rel, err)
 	}
-	scale := shape.d.scale
+	pl := f.Polyline
 	pts := []orb.Point{cur}
 	for i, p := range pl.Vertices() {
 		q := orb.Point{p[0] * scale, p[1] * scale}

@@ -36,14 +36,16 @@ func IsSketch(path string) bool {
 type sketchRead struct {
 	scale float64  // metres per file unit
 	flipY bool     // SVG drawings grow y downwards
-	tags  []string // SVG: tag of each closed subpath, in path order
+	tags  []string // SVG: tag of each loop, in path order
 }
 
 // readSketch reads a sketch file into one validated, oriented outline in
 // metres. A GeoJSON or WKT file must hold exactly one polygon (with any
 // number of holes); an SVG file is either raw path data or an SVG document
-// whose path elements' d attributes are read in document order; a point
-// file is one closed polyline.
+// whose shapes are read in document order, closed ones as loops and open
+// strokes joined end to end into loops, each element's data-tag or id
+// tagging its edges; a point file is one closed polyline, its title (if
+// any) the loop's name and a unit in its header checked against r.scale.
 func readSketch(path string, data []byte, r sketchRead) (geometry.Outline, error) {
 	kind := sketchKinds[strings.ToLower(filepath.Ext(path))]
 	var outs []geometry.Outline
@@ -64,15 +66,21 @@ func readSketch(path string, data []byte, r sketchRead) (geometry.Outline, error
 		}
 		outs = []geometry.Outline{o}
 	case "points":
-		var pl *geometry.Polyline
-		var closed bool
-		pl, closed, err = geometry.ReadPoints(bytes.NewReader(data), geometry.Attr{Tag: "outer"}, true)
-		if err == nil && closed {
+		// The file's numbers are read at r.scale metres to the unit, which
+		// a unit named in its header must match.
+		var f geometry.PointFile
+		f, err = geometry.ReadPointFile(bytes.NewReader(data), geometry.PointOptions{Attr: geometry.Attr{Tag: "outer"}, Close: true, Unit: r.scale})
+		if err == nil {
 			// One line segment per edge, as the polygon readers make, so
 			// that a spacing law places nodes edge by edge and every
-			// corner of the drawing stays a node.
+			// corner of the drawing stays a node. The file's title, if
+			// any, names the loop; its edges keep the tag "outer".
+			name := f.Title
+			if name == "" {
+				name = "outer"
+			}
 			var loop geometry.Loop
-			loop, err = edgeLoop(pl.Vertices(), "outer")
+			loop, err = edgeLoop(f.Polyline.Vertices(), "outer", name)
 			if err == nil {
 				var o geometry.Outline
 				o, err = geometry.Outline{Outer: loop}.Normalise()
@@ -97,10 +105,26 @@ func readSketch(path string, data []byte, r sketchRead) (geometry.Outline, error
 	return o, nil
 }
 
+// unitAdvice adds to a point file's unit disagreement (geometry.UnitError)
+// how to read the file in the unit its header names: with --scale for a
+// bare sketch (caseUnit 0), with the sketch reference's scale for a case
+// file whose lengths are caseUnit metres (the file's numbers are read at
+// caseUnit × scale metres). Other errors pass unchanged.
+func unitAdvice(err error, caseUnit float64) error {
+	var ue *geometry.UnitError
+	if !errors.As(err, &ue) || ue.ReadAt == 0 {
+		return err
+	}
+	if caseUnit == 0 {
+		return fmt.Errorf("%w; to read it in %s, give --scale %g", err, ue.Unit, ue.Metres)
+	}
+	return fmt.Errorf("%w; to read it in %s, give the sketch scale: %g (the case's lengths are in %g m)", err, ue.Unit, ue.Metres/caseUnit, caseUnit)
+}
+
 // SketchExtensions lists the sketch file extensions and their formats,
 // for messages.
 func SketchExtensions() string {
-	return ".geojson/.json (GeoJSON), .wkt (WKT), .svg (SVG path data) or .xy/.txt/.dat/.csv (x y points)"
+	return ".geojson/.json (GeoJSON), .wkt (WKT), .svg (SVG document or path data) or .xy/.txt/.dat/.csv (x y points)"
 }
 
 // decodeSketchRef reads a geometry section that points at a sketch file:
@@ -109,7 +133,7 @@ func SketchExtensions() string {
 //	  file: data/fins.geojson   # relative to the case file
 //	  scale: 1                  # extra factor on the file's coordinates (after units)
 //	  flip_y: false             # SVG: flip the y axis
-//	  tags: [duct, fin]         # SVG: the tag of each closed subpath
+//	  tags: [duct, fin]         # SVG: the tag of each loop, in path order
 //	  spacing: {size: 2}        # the spacing of every edge (case units)
 //
 // The file's coordinates are in the case's units.
@@ -150,7 +174,7 @@ func decodeSketchRef(c *Case, g *geometrySpec, o *object, fv value) error {
 	}
 	out, err := readSketch(full, data, r)
 	if err != nil {
-		return fv.wrap(err)
+		return fv.wrap(unitAdvice(err, fv.d.scale))
 	}
 	if spacing != nil {
 		out = respace(out, *spacing)
@@ -334,7 +358,7 @@ func sketchCaseText(path, rel string, so SketchOptions) (string, error) {
 	// error, located at its ring and vertex.
 	o, err := readSketch(path, data, sketchRead{scale: so.Scale, flipY: so.FlipY})
 	if err != nil {
-		return "", fmt.Errorf("%w: %w", ErrInput, err)
+		return "", fmt.Errorf("%w: %w", ErrInput, unitAdvice(err, 0))
 	}
 	name := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 	var b strings.Builder
@@ -381,7 +405,7 @@ func InitFromSketch(sketch, dir string, so SketchOptions) (string, error) {
 	if so.Size == 0 {
 		o, err := readSketch(sketch, data, sketchRead{scale: so.Scale, flipY: so.FlipY})
 		if err != nil {
-			return "", fmt.Errorf("%w: %w", ErrInput, err)
+			return "", fmt.Errorf("%w: %w", ErrInput, unitAdvice(err, 0))
 		}
 		so.Size = outlineSize(o) / 50
 	}
@@ -451,10 +475,10 @@ func outlineSize(o geometry.Outline) float64 {
 	return dist(lo, hi)
 }
 
-// edgeLoop makes a closed loop of one line per edge of the closed vertex
-// list (first == last), every edge tagged tag.
-func edgeLoop(pts []orb.Point, tag string) (geometry.Loop, error) {
-	loop := geometry.Loop{Name: tag}
+// edgeLoop makes a closed loop named name of one line per edge of the
+// closed vertex list (first == last), every edge tagged tag.
+func edgeLoop(pts []orb.Point, tag, name string) (geometry.Loop, error) {
+	loop := geometry.Loop{Name: name}
 	for k := 0; k+1 < len(pts); k++ {
 		a, b := pts[k], pts[k+1]
 		if a == b {

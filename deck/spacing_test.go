@@ -100,4 +100,15 @@ mesh:
 	if !errors.Is(err, ErrInput) || !strings.Contains(err.Error(), "none.xy") {
 		t.Errorf("a missing point file: got %v", err)
 	}
+	// A header naming the case's unit (mm) is read; one naming another is
+	// refused at the file key, with the unit to give the case.
+	write("mm.xy", "x [mm] y [mm]\n4 4\n4 6\n6 6\n6 4\n4 4\n")
+	if _, err := Load(write("mm.yaml", strings.Replace(holed, "hole.xy", "mm.xy", 1)), LoadOptions{}); err != nil {
+		t.Errorf("a table whose header names the case's unit: %v", err)
+	}
+	write("metres.xy", "x [m] y [m]\n0.004 0.004\n0.004 0.006\n0.006 0.006\n0.006 0.004\n0.004 0.004\n")
+	_, err = Load(write("metres.yaml", strings.Replace(holed, "hole.xy", "metres.xy", 1)), LoadOptions{})
+	if !errors.Is(err, ErrInput) || !strings.Contains(err.Error(), "metres.xy: line 1") || !strings.Contains(err.Error(), "give the case units: m,") {
+		t.Errorf("a table in metres in a case in mm: got %v, want a refusal naming metres.xy line 1 and units: m", err)
+	}
 }

@@ -3,6 +3,7 @@ package geometry
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 
 	"github.com/paulmach/orb"
@@ -19,10 +20,11 @@ type SVGOptions struct {
 	// (C S Q T A) and the chords that replace it; 0 means 1e-4 × the
 	// diagonal of the bounding box of the path's points.
 	Tolerance float64
-	// Tags gives the tag of each closed subpath, in path order; a missing
-	// or empty entry takes the path element's id (ReadSVGDocument) or the
-	// default ("outer" for the outer loop, "inner1", "inner2", ... for the
-	// others in path order).
+	// Tags gives the tag of each loop, in path order (a loop joined from
+	// open subpaths counts at its first); a missing or empty entry leaves
+	// each piece of the loop its element's data-tag or id
+	// (ReadSVGDocument), or else the default ("outer" for the outer loop,
+	// "inner1", "inner2", ... for the others in path order).
 	Tags []string
 }
 
@@ -46,7 +48,8 @@ type svgSubpath struct {
 	closed bool
 	cmd    int    // index of its moveto
 	where  string // the path it belongs to, for messages
-	tag    string // default tag (a path element's id), or ""
+	whole  bool   // the subpath is all its element draws, so where names it
+	tag    string // default tag (its element's data-tag or id), or ""
 	// m maps the path's coordinates to the document's (the transforms of
 	// its element and the groups around it); nil is the identity.
 	m *svgMatrix
@@ -90,10 +93,16 @@ func (m *svgMatrix) stretch() float64 {
 // SVG 1.1 §8.3: commands M L H V C S Q T A Z, absolute and relative,
 // repeated parameters meaning repeated commands, a moveto's extra pairs
 // meaning linetos) into an outline. Each closed subpath (closed by Z, or
-// ending where it starts within ClosureTolerance) becomes a loop; the
-// one enclosing the largest area is the outer loop, the others inner
-// loops. Each drawing command becomes one segment: lines stay lines,
-// curves become polylines whose chords stay within the tolerance (cubic
+// ending where it starts within ClosureTolerance) becomes a loop. Open
+// subpaths, which end without a closepath (SVG 1.1 §8.3.3: a subpath is
+// closed only by Z or z; from memory), are joined end to end into loops
+// where their ends meet within JoinTolerance of the drawing's size
+// (JoinStrokes: two ends to a point, every end meeting another); a loop
+// so joined counts, among the loops in path order, at its first
+// subpath. The loop enclosing the largest area is the outer loop, the
+// others inner loops. Each drawing command becomes one segment: lines
+// stay lines, curves become polylines (a line where one chord is close
+// enough) whose chords stay within the tolerance (cubic
 // and quadratic Béziers by recursive halving until the control points lie
 // within it of the chord; arcs by the endpoint-to-centre conversion of
 // SVG 1.1 Appendix F.6.5, with out-of-range radii scaled up as F.6.6
@@ -108,7 +117,25 @@ func ReadSVGPath(d string, opt SVGOptions) (Outline, error) {
 	return buildSVG(subs, opt)
 }
 
-// buildSVG turns parsed subpaths into a validated, oriented outline.
+// svgPiece is a closed subpath or one open subpath of a joined loop: its
+// drawing commands as runs of points in the document's coordinates, its
+// tag from the file and its name in messages.
+type svgPiece struct {
+	runs  [][]orb.Point
+	tag   string
+	where string
+}
+
+// svgLoop is one loop of a drawing before it is tagged.
+type svgLoop struct {
+	order  int // the index of its first subpath
+	pieces []svgPiece
+}
+
+// buildSVG turns parsed subpaths into a validated, oriented outline:
+// closed subpaths are loops by themselves, and open ones are joined end
+// to end into loops (JoinStrokes, ends meeting within JoinTolerance of
+// the drawing's size, in the document's coordinates).
 func buildSVG(subs []svgSubpath, opt SVGOptions) (Outline, error) {
 	scale := opt.Scale
 	if scale == 0 {
@@ -137,21 +164,12 @@ func buildSVG(subs []svgSubpath, opt SVGOptions) (Outline, error) {
 		}
 		return orb.Point{p[0] * scale, p[1] * scale}
 	}
-	var loops []Loop
-	var idTags []string
-	var areas []float64
+	var loops []svgLoop
+	var strokes []Stroke
+	var strokeAt []int // the subpath of each stroke
 	budget := MaxSVGPoints
-	for _, sp := range subs {
-		if len(sp.segs) == 0 {
-			continue
-		}
-		if end, start := sp.m.apply(svgEnd(sp.segs[len(sp.segs)-1])), sp.m.apply(sp.start); !sp.closed && math.Hypot(end[0]-start[0], end[1]-start[1]) > ClosureTolerance*extent {
-			end, start = svgEnd(sp.segs[len(sp.segs)-1]), sp.start // as the path data gives them
-			return Outline{}, fmt.Errorf("%s: subpath from command %d is open: it starts at (%g, %g) and ends at (%g, %g); close it with Z: %w",
-				sp.where, sp.cmd, sp.start[0], sp.start[1], end[0], end[1], ErrFormat)
-		}
-		var l Loop
-		var ring []orb.Point
+	for si, sp := range subs {
+		var runs [][]orb.Point
 		cur := sp.start
 		// The curves are flattened in the path's own coordinates, to the
 		// tolerance divided by the most the transform stretches, so that
@@ -167,68 +185,137 @@ func buildSVG(subs []svgSubpath, opt SVGOptions) (Outline, error) {
 				continue
 			}
 			for i := range pts {
-				pts[i] = transform(sp.m.apply(pts[i]))
+				pts[i] = sp.m.apply(pts[i])
 			}
-			ring = append(ring, pts[:len(pts)-1]...)
-			if s.op == 'L' {
-				l.Segments = append(l.Segments, &Line{A: pts[0], B: pts[1]})
-				continue
-			}
-			pl, err := NewPolyline(pts, Attr{})
-			if err != nil {
-				return Outline{}, fmt.Errorf("%s: command %d: %w", sp.where, s.cmd, err)
-			}
-			l.Segments = append(l.Segments, pl)
+			runs = append(runs, pts)
 		}
-		if len(l.Segments) == 0 {
+		if len(runs) == 0 {
 			continue
 		}
-		loops = append(loops, l)
-		idTags = append(idTags, sp.tag)
-		areas = append(areas, math.Abs(signedArea(ring)))
+		last := runs[len(runs)-1]
+		start, end := runs[0][0], last[len(last)-1]
+		if sp.closed || math.Hypot(end[0]-start[0], end[1]-start[1]) <= ClosureTolerance*extent {
+			loops = append(loops, svgLoop{order: si, pieces: []svgPiece{{runs, sp.tag, sp.where}}})
+			continue
+		}
+		where := sp.where
+		if !sp.whole {
+			where = fmt.Sprintf("%s: subpath from command %d", sp.where, sp.cmd)
+		}
+		strokes = append(strokes, Stroke{Runs: runs, Tag: sp.tag, Where: where})
+		strokeAt = append(strokeAt, si)
+	}
+	if len(strokes) > 0 {
+		joined, err := JoinStrokes(strokes, JoinTolerance*extent)
+		if err != nil {
+			return Outline{}, err
+		}
+		for _, jl := range joined {
+			l := svgLoop{order: strokeAt[jl.Parts[0].Stroke]}
+			for _, p := range jl.Parts {
+				l.pieces = append(l.pieces, svgPiece{p.Runs, strokes[p.Stroke].Tag, strokes[p.Stroke].Where})
+			}
+			loops = append(loops, l)
+		}
+		slices.SortStableFunc(loops, func(a, b svgLoop) int { return a.order - b.order })
 	}
 	if len(loops) == 0 {
 		return Outline{}, fmt.Errorf("SVG path: no closed subpath that draws anything: %w", ErrFormat)
 	}
-	outer := 0
-	for i, a := range areas {
-		if a > areas[outer] {
-			outer = i
+	outer, outerArea := 0, -1.0
+	for i, l := range loops {
+		var ring []orb.Point
+		for _, pc := range l.pieces {
+			for _, r := range pc.runs {
+				ring = append(ring, r[:len(r)-1]...)
+			}
+		}
+		if a := math.Abs(signedArea(ring)); a > outerArea {
+			outer, outerArea = i, a
 		}
 	}
 	var o Outline
 	inner := 0
 	for i, l := range loops {
-		tag := ""
+		given := ""
 		if i < len(opt.Tags) {
-			tag = opt.Tags[i]
-		}
-		if tag == "" {
-			tag = idTags[i]
+			given = opt.Tags[i]
 		}
 		if i != outer {
 			inner++
 		}
-		if tag == "" {
-			tag = "outer"
-			if i != outer {
-				tag = fmt.Sprintf("inner%d", inner)
+		fallback := "outer"
+		if i != outer {
+			fallback = fmt.Sprintf("inner%d", inner)
+		}
+		if err := svgLoopTags(l.pieces, given, fallback); err != nil {
+			return Outline{}, err
+		}
+		var loop Loop
+		for _, pc := range l.pieces {
+			tag := given
+			if tag == "" {
+				tag = pc.tag
+			}
+			if tag == "" {
+				tag = fallback
+			}
+			for _, r := range pc.runs {
+				pts := make([]orb.Point, len(r))
+				for k, p := range r {
+					pts[k] = transform(p)
+				}
+				if len(pts) == 2 {
+					loop.Segments = append(loop.Segments, &Line{A: pts[0], B: pts[1], attr: Attr{Tag: tag}})
+					continue
+				}
+				pl, err := NewPolyline(pts, Attr{Tag: tag})
+				if err != nil {
+					return Outline{}, fmt.Errorf("%s: %w", pc.where, err)
+				}
+				loop.Segments = append(loop.Segments, pl)
 			}
 		}
-		for k, s := range l.Segments {
-			l.Segments[k] = s.WithAttr(Attr{Tag: tag})
-		}
 		if i == outer {
-			o.Outer = l
+			o.Outer = loop
 		} else {
-			o.Inner = append(o.Inner, l)
+			o.Inner = append(o.Inner, loop)
 		}
 	}
 	n, err := o.Normalise()
 	if err != nil {
-		return Outline{}, fmt.Errorf("SVG path (subpath k is loop k in path order, outer first; its drawing commands are its segments): %w", err)
+		return Outline{}, fmt.Errorf("SVG path (loops in path order, the largest first as the outer loop; a loop's segments are its drawing commands, piece by piece): %w", err)
 	}
 	return n, nil
+}
+
+// svgLoopTags refuses a loop joined from pieces of which some carry a tag
+// from the file and others do not, unless the caller gives the loop a
+// tag (given): a piece without one would take the loop's default tag
+// (fallback), which the drawing's tags do not intend.
+func svgLoopTags(pieces []svgPiece, given, fallback string) error {
+	if given != "" {
+		return nil
+	}
+	var tags []string
+	bare := ""
+	for _, p := range pieces {
+		t := p.tag
+		if t == "" && bare == "" {
+			bare = p.where
+		}
+		if t != "" && !slices.Contains(tags, t) {
+			tags = append(tags, t)
+		}
+	}
+	if bare == "" || len(tags) == 0 {
+		return nil
+	}
+	quoted := make([]string, len(tags))
+	for i, t := range tags {
+		quoted[i] = strconv.Quote(t)
+	}
+	return fmt.Errorf("%s has no data-tag or id, while the other pieces of its loop are tagged %s: give it a data-tag or an id (as it stands its edges would take the loop's default tag %q): %w", bare, listWords(quoted), fallback, ErrFormat)
 }
 
 // signedArea is the shoelace area of an open ring, shifted to its first

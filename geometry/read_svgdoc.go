@@ -13,9 +13,17 @@ import (
 // ReadSVGDocument reads the shapes of an SVG document into one outline,
 // as ReadSVGPath does for one path's data: every path element's d
 // attribute, and the basic shapes rect (without rounded corners), circle,
-// ellipse and polygon, each turned into the equivalent path data (SVG 1.1
-// §9). Each closed subpath becomes a loop, its default tag the id of its
-// element. The transform attributes of an element and of the groups
+// ellipse, polygon, line and polyline, each turned into the equivalent
+// path data (SVG 1.1 §9). Each closed subpath becomes a loop; open ones
+// (lines, polylines, paths not closed by Z) are joined end to end into
+// loops where their ends meet, as ReadSVGPath says, so that an inlet, a
+// wall and an outlet drawn as separate strokes make one loop. The edges
+// an element draws take its data-tag attribute as their default tag, or
+// its id when it has none (data-* attributes are SVG 2's way of carrying
+// an application's own data, from memory; ids must be unique in a
+// document, a data-tag need not be, so two strokes may both be "wall");
+// within a loop joined from pieces, either every piece has a tag or none
+// has. The transform attributes of an element and of the groups
 // around it are applied (SVG 1.1 §7.6: matrix, translate, scale, rotate,
 // skewX and skewY, a list applied right to left, a group's before its
 // parent's), the curves flattened so that they stay within the tolerance
@@ -73,6 +81,15 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 			if id := attrs["id"]; id != "" {
 				where += fmt.Sprintf(", id %q", id)
 			}
+			tag, given := attrs["data-tag"]
+			if given {
+				if strings.TrimSpace(tag) == "" {
+					return Outline{}, fmt.Errorf("%s): data-tag is empty; give it the boundary tag of the element's edges, or leave it out to tag them by the id: %w", where, ErrFormat)
+				}
+				where += fmt.Sprintf(", data-tag %q", tag)
+			} else {
+				tag = attrs["id"]
+			}
 			where += ")"
 			if err != nil {
 				return Outline{}, fmt.Errorf("%s: %w", where, err)
@@ -86,8 +103,9 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 				return Outline{}, err
 			}
 			for i := range ps {
-				ps[i].tag = attrs["id"]
+				ps[i].tag = tag
 				ps[i].m = m
+				ps[i].whole = len(ps) == 1
 			}
 			subs = append(subs, ps...)
 		case xml.EndElement:
@@ -98,7 +116,7 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 		}
 	}
 	if shapes == 0 {
-		return Outline{}, fmt.Errorf("SVG document: no path, rect, circle, ellipse or polygon element found: %w", ErrFormat)
+		return Outline{}, fmt.Errorf("SVG document: no path, rect, circle, ellipse or polygon element found, nor a line or polyline: %w", ErrFormat)
 	}
 	return buildSVG(subs, opt)
 }
@@ -196,7 +214,8 @@ func parseSVGTransform(list string) (svgMatrix, error) {
 var svgUndrawn = map[string]bool{"defs": true, "symbol": true, "marker": true, "pattern": true, "clipPath": true, "mask": true}
 
 // shapePathData returns the path data equivalent to a shape element
-// (SVG 1.1 §9.2–9.4, §9.7), and false for elements that are not shapes.
+// (SVG 1.1 §9.2–9.7: a line and a polyline are open, the others closed),
+// and false for elements that are not shapes.
 func shapePathData(name string, a map[string]string) (string, bool, error) {
 	num := func(key string, def *float64) (float64, error) {
 		s, ok := a[key]
@@ -257,12 +276,21 @@ func shapePathData(name string, a map[string]string) (string, bool, error) {
 		}
 		cx, cy, rx, ry := v[0], v[1], v[2], v[3]
 		return fmt.Sprintf("M %g %g A %g %g 0 0 1 %g %g A %g %g 0 0 1 %g %g z", cx+rx, cy, rx, ry, cx-rx, cy, rx, ry, cx+rx, cy), true, nil
-	case "polygon":
+	case "polygon", "polyline":
 		pts, ok := a["points"]
 		if !ok {
-			return "", false, fmt.Errorf("polygon has no points attribute: %w", ErrFormat)
+			return "", false, fmt.Errorf("%s has no points attribute: %w", name, ErrFormat)
+		}
+		if name == "polyline" {
+			return "M " + pts, true, nil
 		}
 		return "M " + pts + " z", true, nil
+	case "line":
+		v, err := nums([]string{"x1", "y1", "x2", "y2"}, []*float64{&zero, &zero, &zero, &zero})
+		if err != nil {
+			return "", false, err
+		}
+		return fmt.Sprintf("M %g %g L %g %g", v[0], v[1], v[2], v[3]), true, nil
 	}
 	return "", false, nil
 }

@@ -350,7 +350,7 @@ func TestReadSVGPathErrors(t *testing.T) {
 
 func TestReadPoints(t *testing.T) {
 	text := "# section of our own\n0 0\n\n1.0, 0   # trailing comment\n1\t1\n0,1\n0 0\n"
-	p, closed, err := ReadPoints(strings.NewReader(text), Attr{Tag: "hull"}, false)
+	p, closed, err := readPoints(strings.NewReader(text), Attr{Tag: "hull"}, false)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -358,11 +358,11 @@ func TestReadPoints(t *testing.T) {
 		t.Errorf("closed %v, %d points", closed, len(p.Vertices()))
 	}
 	open := "0 0\n2 0\n2 1\n"
-	p, closed, err = ReadPoints(strings.NewReader(open), Attr{}, false)
+	p, closed, err = readPoints(strings.NewReader(open), Attr{}, false)
 	if err != nil || closed || p.Length() != 3 {
 		t.Errorf("open polyline: closed %v length %v err %v", closed, p.Length(), err)
 	}
-	p, closed, _ = ReadPoints(strings.NewReader(open), Attr{}, true)
+	p, closed, _ = readPoints(strings.NewReader(open), Attr{}, true)
 	if !closed || p.Length() != 3+math.Sqrt(5) {
 		t.Errorf("closed by option: %v length %g", closed, p.Length())
 	}
@@ -377,7 +377,7 @@ func TestReadPoints(t *testing.T) {
 		{"# nothing\n", "found 0 points"},
 		{"0 0\n1 1\n0 0\n", "closed polyline has 2 distinct points"},
 	} {
-		_, _, err := ReadPoints(strings.NewReader(c.text), Attr{}, false)
+		_, _, err := readPoints(strings.NewReader(c.text), Attr{}, false)
 		if !errors.Is(err, ErrFormat) || !strings.Contains(err.Error(), c.says) {
 			t.Errorf("%q: got %v, want %q", c.text, err, c.says)
 		}
@@ -390,6 +390,9 @@ func FuzzSVGPath(f *testing.F) {
 		"M 0 0 L 10 0 L 10 10 Z", "m0 0h10v10h-10z", "M10 0A10 10 0 0 1-10 0A10 10 0 1 1 10 0Z",
 		"M0 0Q5 10 10 0T20 0L20-20L0-20Z", "M0 0C0 10 10 10 10 0S20-10 20 0Z", "M0 0L1.5.5L1-2z",
 		"M 0 0 A 0 0 0 0 0 1 1 Z", "M0 0 a1e308 1e308 0 1 1 1 1z",
+		// Open subpaths that join end to end, or do not.
+		"M0 0L10 0M10 0L10 10L0 10M0 10L0 0", "M0 0H10M0 0V10H10V0", "M0 0L1 0M1 0L1 1M1 1L0 0M0 0L0 -1",
+		"M0 0H10V10M0 0V10.00001", "M0 0Q5 10 10 0M10 0L0 0",
 	} {
 		f.Add(s)
 	}

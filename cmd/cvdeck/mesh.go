@@ -37,10 +37,11 @@ checks the mesh and writes the deck folder DIR as a whole: an interrupted run
 leaves the previous deck or none.
 
 Instead of a case file it also takes a bare sketch (GeoJSON .geojson/.json,
-WKT .wkt, SVG path data .svg, x-y points .xy/.txt/.dat/.csv) and meshes it with
-the unstructured mesher: --size sets the target cell size in the sketch's
-units after --scale, --min-angle and --growth tune the mesher, and boundary
-tags come from the GeoJSON property "tag" or are one per loop.
+WKT .wkt, an SVG document or path data .svg, x-y points .xy/.txt/.dat/.csv) and
+meshes it with the unstructured mesher: --size sets the target cell size in
+the sketch's units after --scale, --min-angle and --growth tune the mesher, and
+boundary tags come from the GeoJSON property "tag", from the data-tag or id of
+the SVG elements that draw each edge, or are one per loop.
 
 Exit codes: 0 deck written and checks pass; 1 deck written but a check
 failed (the report names the cells); 2 bad input, nothing written.`,

@@ -50,7 +50,7 @@ func newInitCommand() *cobra.Command {
 		Short: "Write a sample's case file (and the files it refers to) as DIR/NAME.yaml, or a case around a sketch",
 		Long: `init NAME DIR writes the sample NAME as DIR/NAME.yaml, plus any data files it
 refers to. init --from SKETCH DIR writes DIR/<sketch name>.yaml, a case file
-that meshes the sketch (GeoJSON, WKT, SVG path data or x-y points) with the
+that meshes the sketch (GeoJSON, WKT, SVG or x-y points) with the
 unstructured mesher, ready for editing; the sketch is copied beside it.
 Existing files are never overwritten.`,
 		RunE: func(cmd *cobra.Command, args []string) error {
