@@ -278,10 +278,17 @@ func curveEdges(pts []orb.Point) int {
 
 // SketchOptions say how `cvdeck mesh SKETCH` meshes a bare geometry file.
 type SketchOptions struct {
-	// Size is the target cell size in the sketch's units after Scale.
+	// Size is the target cell size in the sketch's units after Scale:
+	// the length of every boundary edge, and of every cell unless MaxSize
+	// is larger.
 	Size float64
+	// MaxSize is the largest cell size away from the boundary; 0 means
+	// Size. Above Size, cells grow from the boundary's Size to it by
+	// Growth.
+	MaxSize float64
 	// MinAngle (degrees) and Growth tune the unstructured mesher; 0 keeps
-	// its defaults.
+	// its defaults. Growth needs a MaxSize above Size: with every cell
+	// at Size there is nothing to grow.
 	MinAngle, Growth float64
 	// Scale multiplies the sketch's coordinates to give metres.
 	Scale float64
@@ -290,8 +297,8 @@ type SketchOptions struct {
 }
 
 // SketchCase builds the case that meshes a bare sketch file with the
-// unstructured mesher: edges of size Size, cells up to Size, the given
-// angle and growth, boundary tags from the file (GeoJSON "tag" and
+// unstructured mesher: edges of size Size, cells up to MaxSize (Size when
+// not given), the given angle and growth, boundary tags from the file (GeoJSON "tag" and
 // "edge_tags" properties) or one per loop. It is the case that `cvdeck init
 // --from` writes out, run without writing it.
 //
@@ -350,6 +357,12 @@ func sketchCaseText(path, rel string, so SketchOptions) (string, error) {
 	if so.Growth != 0 && !(so.Growth >= 1) {
 		return "", fmt.Errorf("%w: --growth %g: the size growth ratio away from the boundary is at least 1", ErrInput, so.Growth)
 	}
+	if so.MaxSize != 0 && !(so.MaxSize >= so.Size) {
+		return "", fmt.Errorf("%w: --max-size %g is below --size %g; the largest cell size away from the boundary is at least the boundary's", ErrInput, so.MaxSize, so.Size)
+	}
+	if so.Growth != 0 && !(so.MaxSize > so.Size) {
+		return "", fmt.Errorf("%w: --growth %g would change nothing: every cell is --size %g across unless --max-size is larger; give --max-size too, the largest cell size the growth may reach", ErrInput, so.Growth, so.Size)
+	}
 	data, err := os.ReadFile(path)
 	if err != nil {
 		return "", fmt.Errorf("%w: %w", ErrInput, err)
@@ -365,12 +378,19 @@ func sketchCaseText(path, rel string, so SketchOptions) (string, error) {
 	fmt.Fprintf(&b, "# Mesh of the sketch %s, made by cvdeck init --from; edit freely.\n", filepath.Base(path))
 	fmt.Fprintf(&b, "name: %q\nunits: m\n", name)
 	fmt.Fprintf(&b, "parameters:\n  size: %g        # target cell size, m\n", so.Size)
+	if so.MaxSize > so.Size {
+		fmt.Fprintf(&b, "  max_size: %g    # largest cell size away from the boundary, m\n", so.MaxSize)
+	}
 	fmt.Fprintf(&b, "geometry:\n  file: %q\n  scale: %g\n", rel, so.Scale)
 	if so.FlipY {
 		b.WriteString("  flip_y: true\n")
 	}
 	b.WriteString("  spacing: {size: size}\n")
-	b.WriteString("mesh:\n  unstructured:\n    max_size: size\n")
+	if so.MaxSize > so.Size {
+		b.WriteString("mesh:\n  unstructured:\n    max_size: max_size\n")
+	} else {
+		b.WriteString("mesh:\n  unstructured:\n    max_size: size\n")
+	}
 	if so.MinAngle > 0 {
 		fmt.Fprintf(&b, "    min_angle: %g\n", so.MinAngle)
 	}

@@ -116,3 +116,52 @@ func TestSketchPointTitle(t *testing.T) {
 		t.Errorf("got %v, want the loop named by the title", err)
 	}
 }
+
+// Without MaxSize every cell of a sketch run is about Size across; with
+// it, cells grow away from the boundary towards MaxSize by Growth, so a
+// 1 m square at Size 0.05 takes far fewer cells, its largest are far
+// above Size and none passes MaxSize by more than a mesher's margin, and
+// a slower growth takes more cells than a faster one. The equilateral
+// triangle of side h has area √3 h²/4 (elementary geometry), so the
+// uniform mesh has about 1/(√3 · 0.05²/4) ≈ 924 cells. A growth with no
+// room to grow, and a MaxSize below Size, are refused naming the flags.
+func TestSketchMaxSize(t *testing.T) {
+	const square = "0 0\n1 0\n1 1\n0 1\n0 0\n"
+	cells := func(so SketchOptions) (int, float64) {
+		res, _ := runSketch(t, "square.xy", square, so)
+		largest := 0.0
+		for _, l := range res.Mesh.Geo.FaceLength {
+			largest = max(largest, l)
+		}
+		return res.Mesh.NumCells(), largest
+	}
+	uniform, uniformLargest := cells(SketchOptions{Size: 0.05})
+	if want := 4 / (math.Sqrt(3) * 0.05 * 0.05); math.Abs(float64(uniform)-want) > 0.25*want {
+		t.Errorf("uniform sketch mesh: %d cells, want about %.0f", uniform, want)
+	}
+	fast, fastLargest := cells(SketchOptions{Size: 0.05, MaxSize: 0.4, Growth: 1.3})
+	slow, _ := cells(SketchOptions{Size: 0.05, MaxSize: 0.4, Growth: 1.1})
+	if !(fast < uniform/2 && slow > fast) {
+		t.Errorf("cells: uniform %d, growth 1.3 to 0.4 m %d, growth 1.1 %d; want the graded meshes far smaller and the slower growth larger", uniform, fast, slow)
+	}
+	if !(fastLargest > 2*uniformLargest && fastLargest < 1.5*0.4) {
+		t.Errorf("largest face %g m graded (uniform %g m), want well above --size and near --max-size 0.4 at most", fastLargest, uniformLargest)
+	}
+	dir := t.TempDir()
+	path := filepath.Join(dir, "square.xy")
+	if err := os.WriteFile(path, []byte(square), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		so   SketchOptions
+		says string
+	}{
+		{SketchOptions{Size: 0.05, Growth: 1.2}, "--growth 1.2 would change nothing"},
+		{SketchOptions{Size: 0.05, MaxSize: 0.05, Growth: 1.2}, "give --max-size too"},
+		{SketchOptions{Size: 0.05, MaxSize: 0.01}, "--max-size 0.01 is below --size 0.05"},
+	} {
+		if _, err := SketchCase(path, c.so, LoadOptions{}); !errors.Is(err, ErrInput) || !strings.Contains(err.Error(), c.says) {
+			t.Errorf("%+v: got %v, want an input error saying %q", c.so, err, c.says)
+		}
+	}
+}

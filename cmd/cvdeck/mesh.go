@@ -39,9 +39,10 @@ leaves the previous deck or none.
 Instead of a case file it also takes a bare sketch (GeoJSON .geojson/.json,
 WKT .wkt, an SVG document or path data .svg, x-y points .xy/.txt/.dat/.csv) and
 meshes it with the unstructured mesher: --size sets the target cell size in
-the sketch's units after --scale, --min-angle and --growth tune the mesher, and
-boundary tags come from the GeoJSON property "tag", from the data-tag or id of
-the SVG elements that draw each edge, or are one per loop.
+the sketch's units after --scale, --max-size lets cells grow away from the
+boundary by --growth, --min-angle tunes the mesher, and boundary tags come
+from the GeoJSON property "tag", from the data-tag or id of the SVG elements
+that draw each edge, or are one per loop.
 
 Exit codes: 0 deck written and checks pass; 1 deck written but a check
 failed (the report names the cells); 2 bad input, nothing written.`,
@@ -52,7 +53,7 @@ failed (the report names the cells); 2 bad input, nothing written.`,
 			return nil
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if err := positiveFlags(cmd, "refine", "max-cells", "size", "scale", "min-angle", "growth"); err != nil {
+			if err := positiveFlags(cmd, "refine", "max-cells", "size", "max-size", "scale", "min-angle", "growth"); err != nil {
 				return err
 			}
 			return runMesh(cmd, g, f, args[0])
@@ -66,9 +67,10 @@ failed (the report names the cells); 2 bad input, nothing written.`,
 	fl.StringVar(&f.limits, "limits", "", "a limits file overriding the case's quality limits")
 	fl.Float64Var(&f.refine, "refine", 1, "scale every spacing: 2 halves every cell size")
 	fl.BoolVar(&f.oneDeck, "one-deck", false, "build one deck even when the case defines a refinement family")
-	fl.Float64Var(&f.sketch.Size, "size", 0, "sketch only: target cell size in metres (the sketch's units after --scale)")
+	fl.Float64Var(&f.sketch.Size, "size", 0, "sketch only: target cell size in metres (the sketch's units after --scale): every boundary edge, and every cell unless --max-size is larger")
+	fl.Float64Var(&f.sketch.MaxSize, "max-size", 0, "sketch only: largest cell size away from the boundary, metres (default --size); cells grow to it by --growth")
 	fl.Float64Var(&f.sketch.MinAngle, "min-angle", 0, "sketch only: smallest triangle angle in degrees (default the mesher's)")
-	fl.Float64Var(&f.sketch.Growth, "growth", 0, "sketch only: size growth ratio away from the boundary (default the mesher's)")
+	fl.Float64Var(&f.sketch.Growth, "growth", 0, "sketch only: size growth ratio away from the boundary, up to --max-size (default the mesher's)")
 	fl.Float64Var(&f.sketch.Scale, "scale", 1, "sketch only: multiply sketch coordinates by this to get metres")
 	fl.BoolVar(&f.sketch.FlipY, "flip-y", false, "sketch only: flip the y axis (SVG drawings grow y downwards)")
 	_ = cmd.MarkFlagRequired("output")
@@ -105,7 +107,7 @@ func runMesh(cmd *cobra.Command, g *globals, f *meshFlags, path string) error {
 		c, err = deck.SketchCase(path, f.sketch, deck.LoadOptions{Params: overrides, Refine: f.refine})
 	} else {
 		if f.sketch != (deck.SketchOptions{Scale: 1}) {
-			return fmt.Errorf("%w: --size, --min-angle, --growth, --scale and --flip-y apply to sketch files, and %s is read as a case file (sketches are known by their extension: %s); set a case file's mesh in the file", deck.ErrInput, path, deck.SketchExtensions())
+			return fmt.Errorf("%w: --size, --max-size, --min-angle, --growth, --scale and --flip-y apply to sketch files, and %s is read as a case file (sketches are known by their extension: %s); set a case file's mesh in the file", deck.ErrInput, path, deck.SketchExtensions())
 		}
 		c, err = deck.Load(path, deck.LoadOptions{Params: overrides, Refine: f.refine})
 	}

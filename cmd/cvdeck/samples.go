@@ -54,7 +54,7 @@ that meshes the sketch (GeoJSON, WKT, SVG or x-y points) with the
 unstructured mesher, ready for editing; the sketch is copied beside it.
 Existing files are never overwritten.`,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if err := positiveFlags(cmd, "size", "scale", "min-angle", "growth"); err != nil {
+			if err := positiveFlags(cmd, "size", "max-size", "scale", "min-angle", "growth"); err != nil {
 				return err
 			}
 			var path string
@@ -87,8 +87,9 @@ Existing files are never overwritten.`,
 	}
 	cmd.Flags().StringVar(&from, "from", "", "write a case file around this sketch file")
 	cmd.Flags().Float64Var(&so.Size, "size", 0, "with --from: target cell size in metres (default a fiftieth of the sketch)")
+	cmd.Flags().Float64Var(&so.MaxSize, "max-size", 0, "with --from: largest cell size away from the boundary, metres (default --size)")
 	cmd.Flags().Float64Var(&so.MinAngle, "min-angle", 0, "with --from: smallest triangle angle, degrees")
-	cmd.Flags().Float64Var(&so.Growth, "growth", 0, "with --from: size growth ratio away from the boundary")
+	cmd.Flags().Float64Var(&so.Growth, "growth", 0, "with --from: size growth ratio away from the boundary, up to --max-size")
 	cmd.Flags().Float64Var(&so.Scale, "scale", 1, "with --from: multiply sketch coordinates by this to get metres")
 	cmd.Flags().BoolVar(&so.FlipY, "flip-y", false, "with --from: flip the y axis (SVG drawings grow y downwards)")
 	return cmd
