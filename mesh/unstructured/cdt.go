@@ -20,6 +20,11 @@ type pslg struct {
 	loopOf  []int32 // loop index of each point
 	edgeTag []int16 // tag index of each input edge
 	tags    []string
+	// user, when not nil, numbers the points as the caller's outline
+	// does: user[i] ≥ 0 is point i's index in the flattened outline, and
+	// −1−k marks a point the corner grading added after outline point k
+	// (see gradeCorners).
+	user []int32
 }
 
 // flatten validates the outline and flattens it: at least one loop, each
@@ -82,14 +87,21 @@ func flatten(out geometry.DiscreteOutline) (*pslg, error) {
 	return g, nil
 }
 
-// where names input point i as "loop L point K".
+// where names input point i as "loop L point K", K counting the
+// caller's points (see pslg.user).
 func (g *pslg) where(i int32) string {
 	l := g.loopOf[i]
 	first := i
 	for first > 0 && g.loopOf[first-1] == l {
 		first--
 	}
-	return fmt.Sprintf("loop %d point %d", l, i-first)
+	if g.user == nil {
+		return fmt.Sprintf("loop %d point %d", l, i-first)
+	}
+	if u := g.user[i]; u < 0 {
+		return fmt.Sprintf("the point the corner grading added after loop %d point %d", l, -1-u-g.user[first])
+	}
+	return fmt.Sprintf("loop %d point %d", l, g.user[i]-g.user[first])
 }
 
 // constrainedTriangulation builds the constrained Delaunay triangulation

@@ -25,6 +25,10 @@ const (
 	fanMaxStep = 25 * math.Pi / 180
 	// fanMinStep is the least angle between two rays of a fan.
 	fanMinStep = 2 * math.Pi / 180
+	// fanSpread and fanSpreadPoints: the rays of the fanSpreadPoints − 1
+	// wall points on each side of a fan lean towards it (see fanLean).
+	fanSpread       = 2.5
+	fanSpreadPoints = 4
 	// slideCos: a layer whose wall ends beside a non-wall edge at most
 	// acos(slideCos) from the layer normal grows along that edge.
 	slideCos = 0.64 // cos 50°
@@ -57,6 +61,13 @@ type ray struct {
 	n     int        // layer count after limits
 	why   StopReason // what last lowered n below the count asked, or StopNone
 	nodes []int32    // node ids, nodes[0] = base
+	// tie ≥ 1: the ray belongs to tied corner tie−1 (see tieCorner): its
+	// corner ray when tieJ = 0, else the ray of zone point tieJ, which
+	// ends on the bisector after tieJ layers. meet: it ends there now,
+	// at a node shared with the zone ray j of the other wall.
+	tie  int32
+	tieJ int
+	meet bool
 }
 
 // layerPlan is the boundary-layer part of a mesh and the outline of the
@@ -91,32 +102,10 @@ func heights(l Layers) []float64 {
 	return s
 }
 
-// buildLayers plans quadrilateral layers on the input edges whose tag is
-// in a layer request (Options.Layers):
-//
-//   - every wall point gets a ray along the averaged normal of its two
-//     wall edges, lengthened by 1/cos of the half-turn so each layer keeps
-//     its height from both edges; corners turning away from the domain by
-//     more than fanTurn get a fan of rays, fanStep apart, whose
-//     innermost cells are triangles;
-//   - at the end of a wall beside a non-wall edge the ray runs along that
-//     edge when it lies within 50° of the normal (layers slide along
-//     inflow and outflow edges), otherwise the layers taper to nothing;
-//   - layer termination: each ray's layers stop at gapShare of the
-//     distance to the nearest other boundary edge and crossShare of the
-//     distance to where it crosses a neighbouring ray, and neighbouring
-//     rays differ by at most one layer; a layer that ends is closed by a
-//     triangle;
-//   - any cell that would still be inverted or not convex, and any front
-//     edge that crosses another, lowers the layer count of its rays, until
-//     none is left.
-//
-// The result is the layer cells and the outline of the remaining region,
-// whose edges along the layers' top are tagged frontTag, and a report per
-// layer request of the layers built on its wall faces and why some got
-// fewer than asked (see LayerReport). Each ray keeps the reason that last
-// lowered its count, so the report follows the steps above.
-func buildLayers(g *pslg, opt Options) (*layerPlan, []LayerReport, error) {
+// wallSpecs returns, per tag of g, the index of the layer request whose
+// walls carry it (the one with the thinnest first layer when several
+// name it), or −1; an error names a request's tag that no edge carries.
+func wallSpecs(g *pslg, opt Options) ([]int, error) {
 	specOf := make([]int, len(g.tags))
 	for i := range specOf {
 		specOf[i] = -1
@@ -133,9 +122,52 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, []LayerReport, error) {
 				}
 			}
 			if !found {
-				return nil, nil, fmt.Errorf("layers %d: no boundary edge is tagged %q; tags are %q", li, tag, g.tags)
+				return nil, fmt.Errorf("layers %d: no boundary edge is tagged %q; tags are %q", li, tag, g.tags)
 			}
 		}
+	}
+	return specOf, nil
+}
+
+// buildLayers plans quadrilateral layers on the input edges whose tag is
+// in a layer request (Options.Layers):
+//
+//   - every wall point gets a ray along the averaged normal of its two
+//     wall edges, lengthened by 1/cos of the half-turn so each layer keeps
+//     its height from both edges; corners turning away from the domain by
+//     more than fanTurn get a fan of rays about fanStep apart (fanPlan),
+//     whose innermost cells are triangles, and the rays of the next
+//     fanSpreadPoints − 1 wall points on either side lean towards the
+//     fan (fanLean), which takes the rest of the turn;
+//   - at the end of a wall beside a non-wall edge the ray runs along that
+//     edge when it lies within 50° of the normal (layers slide along
+//     inflow and outflow edges), otherwise the layers taper to nothing;
+//   - at a tied concave corner (ties, from gradeCorners) the corner's own
+//     ray gets no layers and the ray of zone point j at most j, ending on
+//     the bisector at a node both walls share, so that the layers of the
+//     two walls meet along the bisector in mirror-image triangles; when
+//     the zone is shorter than the stack, rays farther out whose stack
+//     would cross the bisector stop a layer below it, and where some zone
+//     ray gets fewer layers (see tieCaps) the walls stop sharing nodes
+//     from there on;
+//   - layer termination: each ray's layers stop at gapShare of the
+//     distance to the nearest other boundary edge and crossShare of the
+//     distance to where it crosses a neighbouring ray, and neighbouring
+//     rays differ by at most one layer; a layer that ends is closed by a
+//     triangle;
+//   - any cell that would still be inverted or not convex, and any front
+//     edge that crosses another, lowers the layer count of its rays, until
+//     none is left.
+//
+// The result is the layer cells and the outline of the remaining region,
+// whose edges along the layers' top are tagged frontTag, and a report per
+// layer request of the layers built on its wall faces and why some got
+// fewer than asked (see LayerReport). Each ray keeps the reason that last
+// lowered its count, so the report follows the steps above.
+func buildLayers(g *pslg, opt Options, ties []tieCorner) (*layerPlan, []LayerReport, error) {
+	specOf, err := wallSpecs(g, opt)
+	if err != nil {
+		return nil, nil, err
 	}
 	wall := func(e int32) int { return specOf[g.edgeTag[e]] }
 	hs := make([][]float64, len(opt.Layers))
@@ -163,9 +195,16 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, []LayerReport, error) {
 			}
 			turn := math.Atan2(d1[0]*d2[1]-d1[1]*d2[0], d1[0]*d2[0]+d1[1]*d2[1])
 			if turn < -fanTurn {
-				m := int(math.Ceil(-turn / fanStep(hs[spec], pp, pa, pb)))
+				m, theta := fanPlan(turn, fanStep(hs[spec], pp, pa, pb))
+				// From n1 turned a lean towards n2, to n2 turned a lean back;
+				// the first and last rays keep the heights above their walls.
+				lean := fanLean(0, theta)
 				for r := 0; r <= m; r++ {
-					rays = append(rays, ray{base: p, dir: rotate(n1, turn*float64(r)/float64(m)), scale: 1, spec: spec, slide: -1})
+					sc := 1.0
+					if r == 0 || r == m {
+						sc = 1 / math.Cos(lean)
+					}
+					rays = append(rays, ray{base: p, dir: rotate(n1, -lean-theta*float64(r)), scale: sc, spec: spec, slide: -1})
 				}
 			} else {
 				n := unit(orb.Point{n1[0] + n2[0], n1[1] + n2[1]})
@@ -196,6 +235,49 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, []LayerReport, error) {
 	}
 	if len(rays) == 0 {
 		return nil, nil, nil
+	}
+	// A tied corner and its zone points each have one ray (the corner is
+	// concave, the zone points lie inside straight wall edges).
+	for ti, t := range ties {
+		rays[raysAt[t.p][0]].tie = int32(ti + 1)
+		for side := range 2 {
+			for j, pt := range t.side[side] {
+				r := &rays[raysAt[pt][0]]
+				r.tie, r.tieJ = int32(ti+1), j+1
+			}
+		}
+	}
+	// The wall points beside each fan lean towards it (see fanLean); a
+	// point between two fans leans by the sum.
+	for i := range g.pts {
+		p := int32(i)
+		if raysAt[p][1]-raysAt[p][0] < 2 {
+			continue
+		}
+		a, b := rays[raysAt[p][0]].dir, rays[raysAt[p][0]+1].dir
+		theta := math.Acos(math.Max(-1, math.Min(1, a[0]*b[0]+a[1]*b[1])))
+		for side, sign := range [2]float64{-1, 1} {
+			q := p
+			for j := 1; j < fanSpreadPoints; j++ {
+				if side == 0 {
+					q = g.prevPt[q]
+				} else {
+					q = g.nextPt[q]
+				}
+				if raysAt[q][1]-raysAt[q][0] != 1 {
+					break
+				}
+				r := &rays[raysAt[q][0]]
+				if r.zero || r.slide >= 0 || r.tie != 0 || wall(g.prevPt[q]) < 0 || wall(q) < 0 {
+					break
+				}
+				// Before the fan the lean turns clockwise (the fan's way),
+				// after it back.
+				lean := fanLean(j, theta)
+				r.dir = rotate(r.dir, sign*lean)
+				r.scale /= math.Cos(lean)
+			}
+		}
 	}
 	// connected(j): rays j and j+1 of the same loop bound layer cells: a fan
 	// at one point, or the two ends of a wall edge.
@@ -253,18 +335,58 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, []LayerReport, error) {
 	}
 	for j := range rays {
 		k, ok := connected(int32(j))
-		if !ok || rays[k].base == rays[j].base {
-			continue
+		if !ok || rays[k].base == rays[j].base || (rays[j].tie != 0 && rays[j].tie == rays[k].tie) {
+			continue // a fan, or a tied corner's rays that meet by design
 		}
 		if t, s, ok := rayCross(g.pts[rays[j].base], rays[j].dir, g.pts[rays[k].base], rays[k].dir); ok {
 			rays[j].lower(crossShare*t, StopCross)
 			rays[k].lower(crossShare*s, StopCross)
 		}
 	}
+	for _, t := range ties {
+		c := &rays[raysAt[t.p][0]]
+		if len(t.side[0]) == len(hs[c.spec])-1 {
+			continue // the zone holds the whole stack
+		}
+		for side := range 2 {
+			// The points beyond the zone, outwards from its last point.
+			q := t.side[side][len(t.side[side])-1]
+			for range len(g.pts) {
+				if side == 0 {
+					q = g.prevPt[q]
+				} else {
+					q = g.nextPt[q]
+				}
+				lo, hi := raysAt[q][0], raysAt[q][1]
+				if lo != hi-1 || rays[lo].tie != 0 {
+					break // a wall end, a fan or another corner
+				}
+				r := &rays[lo]
+				_, d, ok := rayCross(g.pts[c.base], c.dir, g.pts[r.base], r.dir)
+				s := hs[r.spec]
+				if !ok || d >= r.scale*s[len(s)-1] {
+					break // the whole stack stays below the bisector
+				}
+				// The top stays a layer below the bisector, where the other
+				// wall's rays end as near.
+				k := 0
+				for k+2 < len(s) && r.scale*s[k+2] <= d {
+					k++
+				}
+				r.lower(r.scale*s[k], StopCorner)
+			}
+		}
+	}
 	for j := range rays {
 		r := &rays[j]
 		s := hs[r.spec]
 		r.n, r.why = 0, StopNone
+		if r.tie != 0 && r.tieJ == 0 {
+			if len(s) > 1 {
+				r.why = StopCorner
+			}
+			continue
+		}
 		if r.zero {
 			if len(s) > 1 {
 				r.why = StopWallEnd
@@ -277,11 +399,17 @@ func buildLayers(g *pslg, opt Options) (*layerPlan, []LayerReport, error) {
 		if r.n+1 < len(s) {
 			r.why = r.limitWhy
 		}
+		if r.tie != 0 && r.n > r.tieJ {
+			r.n, r.why = r.tieJ, StopCorner
+		}
 	}
 
 	for {
 		smoothCounts(rays, connected)
-		plan, bad := assemble(g, rays, hs, raysAt, connected, wall)
+		for tieCaps(rays, ties, raysAt) {
+			smoothCounts(rays, connected)
+		}
+		plan, bad := assemble(g, rays, hs, raysAt, connected, wall, ties)
 		crossing := false
 		if len(bad) == 0 {
 			// Layers of different walls may still overlap where their
@@ -322,30 +450,69 @@ func (r *ray) lower(d float64, why StopReason) {
 	}
 }
 
+// fanPlan returns the number of steps m and the step θ of a fan at a
+// corner turning by |turn|, with at most step between rays: the fan's own
+// rays cover |turn| − 2·fanLean(0, θ), the rest of the turn being taken
+// by the leaning rays beside it, so |turn| = (m + 2ā)θ with
+// ā = fanLean(0, 1), and m = ⌈|turn|/step − 2ā⌉ (at least 1). The 1e-9
+// keeps a step that divides the turn so (see gradeCorners, whose wall
+// spacing gives fanStep that step) from adding a ray by rounding.
+func fanPlan(turn, step float64) (int, float64) {
+	a := fanLean(0, 1)
+	m := max(1, int(math.Ceil(math.Abs(turn)/step-2*a-1e-9)))
+	return m, math.Abs(turn) / (float64(m) + 2*a)
+}
+
+// fanLean returns the lean towards a fan of step θ of the ray of the j-th
+// wall point beside it (j = 0 is the fan's own first or last ray, leaning
+// from its wall's normal towards the other wall):
+//
+//	lean_j = θ Σ_{i=j+1}^{M−1} q^(−i),   q = fanSpread, M = fanSpreadPoints
+//
+// so the column between points j−1 and j widens by about θ s / q^j at
+// the height s above the wall: the top of the first column is about 1/q
+// as wide as a fan sector's, of the next 1/q of that, until the wall
+// spacing takes over. The fan's top cells then differ from the column
+// beside them by about q, not by √((s_n + s_{n−1})/s₁) as with straight
+// columns at fanSpacing (8.5 for 12 layers growing by 1.2), and the
+// front does not jump from a fan sector's width to the wall spacing in
+// one edge (our own construction). A leaning ray keeps the layer heights
+// normal to the wall by lengthening its steps by 1/cos(lean).
+func fanLean(j int, theta float64) float64 {
+	l := 0.0
+	for i := fanSpreadPoints - 1; i > j; i-- {
+		l += math.Pow(fanSpread, -float64(i))
+	}
+	return theta * l
+}
+
 // fanStep returns the angle between the rays of the fan at wall point p,
 // between wall points a before and b after it, for layers whose tops lie
 // at heights s (s[0] = 0, see heights).
 // Beside the fan, the wall columns are Δ wide (the shorter wall edge at
-// p); a fan of step θ has innermost triangles of area about s₁²θ/2 next to
-// first-layer cells of area s₁Δ, and top cells about s_nθ wide next to
-// columns Δ wide. Their area ratios, 2Δ/(s₁θ) and s_nθ/Δ, multiply to
-// 2s_n/s₁ whatever θ is, so the step that makes them equal,
-// θ = Δ √(2/(s₁ s_n)), keeps the larger one least, √(2s_n/s₁) (our own
-// estimate; growth across faces is a quality metric, see the quality
-// package). It is held within [fanMinStep, fanMaxStep]: on the usual
-// coarse walls the step is fanMaxStep, and where refinement makes the
-// wall spacing tiny beside a thick stack of layers (the cosine-clustered
-// trailing edge of an aerofoil) the fan gets more rays.
+// p); a fan of step θ has innermost triangles of area s₁²θ/2 next to
+// first-layer cells of area s₁Δ, and top cells of area
+// θ(s_n² − s_{n−1}²)/2 next to column cells of area (s_n − s_{n−1})Δ.
+// Their area ratios, 2Δ/(s₁θ) and θ(s_n + s_{n−1})/(2Δ), multiply to
+// (s_n + s_{n−1})/s₁ whatever θ is, so the step that makes them equal,
+// θ = 2Δ/√(s₁(s_n + s_{n−1})), keeps the larger one least,
+// √((s_n + s_{n−1})/s₁) (our own estimate; growth across faces is a
+// quality metric, see the quality package; fanSpacing is the inverse).
+// It is held within [fanMinStep, fanMaxStep]: on coarse walls the step
+// is fanMaxStep (gradeCorners then makes the spacing beside the fan
+// fanSpacing of the step), and where refinement makes the wall spacing
+// tiny beside a thick stack of layers (the cosine-clustered trailing
+// edge of an aerofoil) the fan gets more rays.
 func fanStep(s []float64, p, a, b orb.Point) float64 {
 	if len(s) < 2 {
 		return fanMaxStep // no layers
 	}
 	d := math.Min(math.Hypot(p[0]-a[0], p[1]-a[1]), math.Hypot(b[0]-p[0], b[1]-p[1]))
-	s1, sn := s[1], s[len(s)-1]
-	if !(d > 0 && s1 > 0) {
+	n := len(s) - 1
+	if !(d > 0 && s[1] > 0) {
 		return fanMaxStep
 	}
-	return math.Min(fanMaxStep, math.Max(fanMinStep, d*math.Sqrt(2/(s1*sn))))
+	return math.Min(fanMaxStep, math.Max(fanMinStep, 2*d/math.Sqrt(s[1]*(s[n]+s[n-1]))))
 }
 
 // edgeGrid buckets the input edges in a uniform grid by their bounding
@@ -525,6 +692,36 @@ func segmentsMeet(a, b, c, d orb.Point) bool {
 	return (o1 == 0 && on(a, b, c)) || (o2 == 0 && on(a, b, d)) || (o3 == 0 && on(c, d, a)) || (o4 == 0 && on(c, d, b))
 }
 
+// tieCaps marks the zone rays of tied corners that end on the bisector
+// at a shared node (meet), and reports whether it lowered any count.
+// Walking out from each corner, zone ray j of both walls meets while
+// both have j layers (they have at most j) and every ray nearer the
+// corner met. After the first j where they do not, the two walls' tops
+// may not both reach the bisector at one j, where they would coincide
+// without sharing a node: both are lowered to j − 1 layers there.
+func tieCaps(rays []ray, ties []tieCorner, raysAt [][2]int32) bool {
+	lowered := false
+	for _, t := range ties {
+		chain := true
+		for j := 1; j <= len(t.side[0]); j++ {
+			a, b := &rays[raysAt[t.side[0][j-1]][0]], &rays[raysAt[t.side[1][j-1]][0]]
+			a.meet, b.meet = false, false
+			both := a.n >= j && b.n >= j
+			switch {
+			case chain && both:
+				a.meet, b.meet = true, true
+			case chain:
+				chain = false
+			case both:
+				a.n, a.why = j-1, StopCorner
+				b.n, b.why = j-1, StopCorner
+				lowered = true
+			}
+		}
+	}
+	return lowered
+}
+
 // smoothCounts lowers layer counts until connected rays differ by at most
 // one layer. A ray lowered so takes the reason of the neighbour that
 // lowered it (see causeOf), so that the report names the first cause, not
@@ -550,14 +747,31 @@ func smoothCounts(rays []ray, connected func(int32) (int32, bool)) {
 
 // assemble makes the nodes, cells, boundary faces and front outline for
 // the current layer counts. It returns the rays of cells that came out
-// inverted or not convex.
-func assemble(g *pslg, rays []ray, hs [][]float64, raysAt [][2]int32, connected func(int32) (int32, bool), wall func(int32) int) (*layerPlan, []int32) {
+// inverted or not convex. The zone rays of tied corners that meet end
+// at one node per corner and layer, on the corner's ray at that layer's
+// height; the front then runs down the bisector and back, and that
+// spike (a, b, a) is cut from it.
+func assemble(g *pslg, rays []ray, hs [][]float64, raysAt [][2]int32, connected func(int32) (int32, bool), wall func(int32) int, ties []tieCorner) (*layerPlan, []int32) {
 	p := &layerPlan{nodes: append([]orb.Point(nil), g.pts...), cellStart: []int32{0}}
+	shared := map[[2]int32]int32{} // (tie, layer) → node
 	for j := range rays {
 		r := &rays[j]
 		r.nodes = append(r.nodes[:0], r.base)
 		o := g.pts[r.base]
 		for k := 1; k <= r.n; k++ {
+			if r.meet && k == r.tieJ {
+				key := [2]int32{r.tie, int32(k)}
+				id, ok := shared[key]
+				if !ok {
+					c := &rays[raysAt[ties[r.tie-1].p][0]]
+					at, d := g.pts[c.base], c.scale*hs[c.spec][k]
+					id = int32(len(p.nodes))
+					p.nodes = append(p.nodes, orb.Point{at[0] + d*c.dir[0], at[1] + d*c.dir[1]})
+					shared[key] = id
+				}
+				r.nodes = append(r.nodes, id)
+				continue
+			}
 			d := r.scale * hs[r.spec][k]
 			p.nodes = append(p.nodes, orb.Point{o[0] + d*r.dir[0], o[1] + d*r.dir[1]})
 			r.nodes = append(r.nodes, int32(len(p.nodes)-1))
@@ -627,8 +841,15 @@ func assemble(g *pslg, rays []ray, hs [][]float64, raysAt [][2]int32, connected 
 		var loop geometry.DiscreteLoop
 		var ids []int32
 		emit := func(id int32, tag string) {
-			if n := len(ids); n > 0 && ids[n-1] == id {
+			n := len(ids)
+			if n > 0 && ids[n-1] == id {
 				loop.Tags[n-1] = tag
+				return
+			}
+			if n > 1 && ids[n-2] == id {
+				// A spike down a tied corner's bisector and back.
+				ids, loop.Points, loop.Tags = ids[:n-1], loop.Points[:n-1], loop.Tags[:n-1]
+				loop.Tags[n-2] = tag
 				return
 			}
 			ids = append(ids, id)
@@ -660,8 +881,19 @@ func assemble(g *pslg, rays []ray, hs [][]float64, raysAt [][2]int32, connected 
 				emit(top, tag)
 			}
 		}
-		if n := len(ids); n > 1 && ids[n-1] == ids[0] {
-			ids, loop.Points, loop.Tags = ids[:n-1], loop.Points[:n-1], loop.Tags[:n-1]
+		// The same across the loop's start: a repeated point, or a spike
+		// whose tip is the last point or the first.
+		for {
+			n := len(ids)
+			if n > 1 && ids[n-1] == ids[0] {
+				ids, loop.Points, loop.Tags = ids[:n-1], loop.Points[:n-1], loop.Tags[:n-1]
+			} else if n > 2 && ids[n-2] == ids[0] {
+				ids, loop.Points, loop.Tags = ids[:n-2], loop.Points[:n-2], loop.Tags[:n-2]
+			} else if n > 2 && ids[n-1] == ids[1] {
+				ids, loop.Points, loop.Tags = ids[1:n-1], loop.Points[1:n-1], loop.Tags[1:n-1]
+			} else {
+				break
+			}
 		}
 		p.front.Loops = append(p.front.Loops, loop)
 		p.frontID = append(p.frontID, ids)
@@ -715,7 +947,8 @@ func rayCross(a, u, b, v orb.Point) (t, s float64, ok bool) {
 // StopReason says why a wall face got fewer boundary layers than asked.
 type StopReason int
 
-// The reasons, in the order buildLayers applies its limits.
+// The reasons, in the order buildLayers applies its limits (StopCorner,
+// which the tied corners set, came last).
 const (
 	// StopNone: the face got every layer asked for.
 	StopNone StopReason = iota
@@ -740,6 +973,11 @@ const (
 	// StopNeighbour: a neighbouring wall of another request asks for
 	// fewer layers, and neighbours differ by at most one.
 	StopNeighbour
+	// StopCorner: at a concave corner the layers of the two walls meet
+	// along its bisector, so the faces beside it carry only the layers
+	// below the bisector (the rest of the stack belongs to the other
+	// wall's faces; see gradeCorners).
+	StopCorner
 )
 
 // String says the reason in plain words, to follow "fewer where".
@@ -761,6 +999,8 @@ func (r StopReason) String() string {
 		return "the layers would overlap layers grown from another part of the walls"
 	case StopNeighbour:
 		return "a neighbouring wall asks for fewer layers (neighbours differ by at most one)"
+	case StopCorner:
+		return "the layers of two walls meet along the bisector of a concave corner (the faces beside it carry the layers below the bisector)"
 	}
 	return fmt.Sprintf("StopReason(%d)", int(r))
 }
@@ -777,10 +1017,11 @@ func causeOf(r *ray) StopReason {
 
 // LayerReport compares the boundary layers built for one layer request
 // with the layers it asked for. It counts wall faces, the outline's edges
-// tagged with one of the request's Tags, and the layers on a face are the
-// quadrilaterals stacked on it (a thinner layer request on the same tag
-// takes its faces; a face with no layers may be split by refinement, so
-// the mesh can have more faces there).
+// tagged with one of the request's Tags as the corner grading cut them
+// (see gradeCorners), and the layers on a face are the quadrilaterals
+// stacked on it (a thinner layer request on the same tag takes its
+// faces; a face with no layers may be split by refinement, so the mesh
+// can have more faces there).
 type LayerReport struct {
 	// Tags are the request's wall tags.
 	Tags []string

@@ -15,9 +15,13 @@
 //     concentric-shell segment splits and the sharp-corner rule for small
 //     input angles, and a size field of cones from the boundary spacing,
 //     growth ratio, regions and maximum size;
-//   - boundary layers: rays along averaged wall normals with fans at convex
-//     corners, layers sliding along neighbouring edges or tapering at wall
-//     ends, termination by free distance and crossings;
+//   - boundary layers: the wall spacing graded towards corners (by
+//     equidistribution, keeping the outline's points), rays along
+//     averaged wall normals with fans at convex corners and the rays
+//     beside a fan leaning towards it, the layers of two walls meeting
+//     along the bisector of a concave corner, layers sliding along
+//     neighbouring edges or ramping down at wall ends, termination by
+//     free distance and crossings;
 //   - quad-dominant: greedy pairing of triangles by angle quality.
 package unstructured
 
@@ -55,7 +59,9 @@ type Report struct {
 // tag, and cells are counter-clockwise.
 //
 // The steps: validate and flatten the outline; boundary layers when asked
-// for, which leave a smaller region whose top edges may not be split;
+// for, on walls whose spacing is first graded toward their corners
+// (gradeCorners), which leave a smaller region whose top edges may not
+// be split;
 // an estimate of the cell count from the size field, refused above
 // MaxCells before anything large is allocated (a *CellLimitError); the
 // constrained Delaunay triangulation of the region; Delaunay refinement
@@ -63,8 +69,9 @@ type Report struct {
 // quad pairing when asked for; mesh.Build.
 //
 // Node order: the outline's points first, loop by loop in outline order,
-// then the other nodes in the order the cells first use them. Cell order:
-// along a Hilbert curve (see localOrder).
+// then the other nodes (the points the corner grading adds on walls
+// among them) in the order the cells first use them. Cell order: along a
+// Hilbert curve (see localOrder).
 func MeshWithReport(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, *Report, error) {
 	opt, err := opt.withDefaults()
 	if err != nil {
@@ -79,10 +86,20 @@ func MeshWithReport(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, *Rep
 	limit := opt.MaxCells
 	var plan *layerPlan
 	if len(opt.Layers) > 0 {
-		if plan, rep.Layers, err = buildLayers(g, opt); err != nil {
+		var specOf []int
+		if specOf, err = wallSpecs(g, opt); err != nil {
+			return nil, nil, fmt.Errorf("unstructured: %w", err)
+		}
+		var walls *pslg
+		var ties []tieCorner
+		if walls, ties, err = gradeCorners(g, opt, specOf); err != nil {
+			return nil, nil, fmt.Errorf("unstructured: %w", err)
+		}
+		if plan, rep.Layers, err = buildLayers(walls, opt, ties); err != nil {
 			return nil, nil, fmt.Errorf("unstructured: %w", err)
 		}
 		if plan != nil {
+			plan.userFirst(walls)
 			nl := len(plan.cellStart) - 1
 			if nl >= opt.MaxCells {
 				return nil, nil, fmt.Errorf("unstructured: the boundary layers alone have %d cells, above the limit of %d; raise the limit or use fewer layers", nl, opt.MaxCells)
@@ -422,6 +439,51 @@ func RoundUp3(x float64) float64 {
 	}
 	p := math.Pow(10, math.Floor(math.Log10(x))-2)
 	return math.Ceil(x/p*(1-1e-12)) * p
+}
+
+// userFirst renumbers the plan's nodes so that the caller's outline
+// points come first, in their order (see pslg.user), then the points the
+// corner grading added, in loop order, then the layer nodes; g is the
+// outline the plan was built on. Without added points it does nothing.
+func (p *layerPlan) userFirst(g *pslg) {
+	if g.user == nil {
+		return
+	}
+	newID := make([]int32, len(p.nodes))
+	nu := int32(0)
+	for _, u := range g.user {
+		if u >= 0 {
+			nu++
+		}
+	}
+	added := nu
+	for i, u := range g.user {
+		if u >= 0 {
+			newID[i] = u
+		} else {
+			newID[i] = added
+			added++
+		}
+	}
+	for i := len(g.pts); i < len(p.nodes); i++ {
+		newID[i] = int32(i)
+	}
+	nodes := make([]orb.Point, len(p.nodes))
+	for i, q := range p.nodes {
+		nodes[newID[i]] = q
+	}
+	p.nodes = nodes
+	for i, v := range p.cellNodes {
+		p.cellNodes[i] = newID[v]
+	}
+	for i := range p.edges {
+		p.edges[i].A, p.edges[i].B = newID[p.edges[i].A], newID[p.edges[i].B]
+	}
+	for _, ids := range p.frontID {
+		for i, v := range ids {
+			ids[i] = newID[v]
+		}
+	}
 }
 
 // meshInput assembles the mesh: the layer plan's nodes and cells (when

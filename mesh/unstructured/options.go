@@ -67,8 +67,12 @@ type Region struct {
 // another boundary or of other layers. Where a wall ends beside an edge
 // that is not a wall, within 50° of the layer normal, the layers grow
 // along that edge's first piece (up to 45% of its length); otherwise they
-// taper to nothing at the wall's end. MeshWithReport says how many layers
-// each request got, and why fewer where fewer (LayerReport).
+// taper to nothing at the wall's end. Beside the walls' corners and
+// tapering ends the mesher adds wall points, the spacing falling from
+// the outline's to one set by the layer heights, so that the layer cells
+// there stay within the everyday quality limits; the outline's own
+// points stay. MeshWithReport says how many layers each request got, and
+// why fewer where fewer (LayerReport).
 type Layers struct {
 	// Tags are the boundary tags the layers grow from.
 	Tags []string
