@@ -287,41 +287,27 @@ func (c *Case) buildUnstructured() (*mesh.Mesh, []string, error) {
 	}
 	var notes []string
 	for _, l := range rep.Layers {
-		notes = append(notes, layerNote(l)+topLayerNote(m, l))
+		notes = append(notes, layerNote(l)+topLayerNote(l))
 	}
 	return m, notes, nil
 }
 
-// topLayerNote says how the thickest stack of a layer request meets the
-// triangles above it: its top layer's thickness h = h₁ G^(n−1)
-// (LayerReport.Top, n the most layers built) beside the length s of the
-// wall faces, and the area ratio across the front that follows, about
-// (√3/4) s² / (s h) = 0.433 s/h for
-// triangles near equilateral on a front edge about as long as the wall
-// face (our own estimate; the growth metric of the report measures it).
-// Where the ratio is large the layers end too thin for the triangles (or
-// too thick, below 1): more or faster-growing layers, or a finer wall
-// spacing, bring it near 1. "" when nothing was built.
-func topLayerNote(m *mesh.Mesh, r unstructured.LayerReport) string {
-	h := r.Top
-	if !(h > 0) {
+// topLayerNote says how the layers of a request meet the triangles above
+// them: the top layer's thickness h = h₁ G^(n−1) (LayerReport.Top, n the
+// most layers built), the lengths f of the edges along the layers' top
+// that the triangles are built on (FrontMin, FrontMax), and the largest
+// area ratio between a top layer cell and the equilateral triangle on its
+// top edge, √3 f²/4 (TopJump; our own estimate for near-equilateral
+// triangles, about 0.433 f/h for a cell f wide; the growth metric of the
+// report measures the jumps themselves). Where the ratio is large the
+// layers end too thin for the triangles (or too thick): more or
+// faster-growing layers, or a finer wall spacing, bring it near 1. "" when
+// nothing was built.
+func topLayerNote(r unstructured.LayerReport) string {
+	if !(r.Top > 0) || !(r.FrontMax > 0) {
 		return ""
 	}
-	lo, hi := math.Inf(1), 0.0
-	for _, tag := range r.Tags {
-		a, b, ok := m.TagRange(tag)
-		if !ok {
-			continue
-		}
-		for _, s := range m.Geo.FaceLength[a:b] {
-			lo, hi = math.Min(lo, s), math.Max(hi, s)
-		}
-	}
-	if !(hi > 0) {
-		return ""
-	}
-	ratio := func(s float64) float64 { e := math.Sqrt(3) / 4 * s / h; return math.Max(e, 1/e) }
-	return fmt.Sprintf("; the top layer, about %.3g m thick on wall faces %.3g to %.3g m long, differs in area from near-equilateral triangles on those faces by about %.2g times at most (the growth metric gives the measured jumps, larger where the triangles grow)", h, lo, hi, math.Max(ratio(lo), ratio(hi)))
+	return fmt.Sprintf("; the top layer, about %.3g m thick under top edges %.3g to %.3g m long, differs in area from near-equilateral triangles on those edges by about %.3g times at most (the growth metric gives the measured jumps, larger where the triangles grow)", r.Top, r.FrontMin, r.FrontMax, r.TopJump)
 }
 
 // layerNote says in one line how many layers a request asked for and how

@@ -46,10 +46,13 @@ func TestLayerNotesReachTheManifest(t *testing.T) {
 		count      int
 		want, also string
 	}{
-		// Top layer 0.25 mm × 1.2⁹ = 1.29 mm on faces 2 × 40 mm × sin(π/96)
-		// = 2.62 mm long; (√3/4) × 2.62 / 1.29 = 0.879, so 1.1 times
-		// (elementary geometry).
-		{10, "layers on cylinder: 10 asked, 10 built on all 96 wall faces", "; the top layer, about 0.00129 m thick on wall faces 0.00262 to 0.00262 m long, differs in area from near-equilateral triangles on those faces by about 1.1 times at most (the growth metric gives the measured jumps, larger where the triangles grow)"},
+		// Top layer 0.25 mm × 1.2⁹ = 1.29 mm thick, between radii
+		// r₉ = 40 + 0.25 (1.2⁹ − 1)/0.2 = 45.20 mm and r₁₀ = 46.49 mm; its
+		// top edge is the chord 2 r₁₀ sin(π/96) = 3.04 mm, its cell the
+		// trapezoid of area sin(π/96) cos(π/96) (r₁₀² − r₉²) = 3.87 mm²,
+		// and the equilateral triangle on the edge has (√3/4) 3.04² =
+		// 4.01 mm², 1.04 times as much (elementary geometry).
+		{10, "layers on cylinder: 10 asked, 10 built on all 96 wall faces", "; the top layer, about 0.00129 m thick under top edges 0.00304 to 0.00304 m long, differs in area from near-equilateral triangles on those edges by about 1.04 times at most (the growth metric gives the measured jumps, larger where the triangles grow)"},
 		{100, "layers on cylinder: 100 asked, ", "(all 100 on none of 96 wall faces); fewer on 96 faces where another boundary is near"},
 	} {
 		cs := cylinderChannel(t, "count: 10}", fmt.Sprintf("count: %d}", c.count))

@@ -416,7 +416,7 @@ func buildLayers(g *pslg, opt Options, ties []tieCorner) (*layerPlan, []LayerRep
 			// fans and sides meet: lower the rays at crossing front edges.
 			bad = crossingRays(plan, rays, int32(len(g.pts)))
 			if len(bad) == 0 {
-				return plan, layerReports(g, opt, hs, rays, raysAt, nextRay, wall), nil
+				return plan, layerReports(g, opt, hs, rays, raysAt, nextRay, wall, plan.nodes), nil
 			}
 			crossing = true
 		}
@@ -436,7 +436,7 @@ func buildLayers(g *pslg, opt Options, ties []tieCorner) (*layerPlan, []LayerRep
 			// Every layer count is already zero where the trouble is.
 			if crossing {
 				// The outline itself crosses: the triangulation says where.
-				return plan, layerReports(g, opt, hs, rays, raysAt, nextRay, wall), nil
+				return plan, layerReports(g, opt, hs, rays, raysAt, nextRay, wall, plan.nodes), nil
 			}
 			return nil, nil, fmt.Errorf("boundary layers at %s: cells are inverted even with no layers there (internal error)", g.where(rays[bad[0]].base))
 		}
@@ -1042,6 +1042,16 @@ type LayerReport struct {
 	// Top is the thickness of the last of Max layers, h₁ G^(Max−1) (see
 	// heights), in metres; 0 when none was built.
 	Top float64
+	// FrontMin and FrontMax are the shortest and the longest edge of the
+	// layers' top where two neighbouring rays carry the same number of
+	// layers (the edges the triangles are built on, over wall faces and
+	// fan sectors alike), in metres; TopJump is the largest ratio, either
+	// way round, between the area of the top layer cell under such an
+	// edge and that of the equilateral triangle on it, √3 f²/4: an
+	// estimate, for near-equilateral triangles, of the area jump the
+	// growth metric meets across the top of the layers. All three are 0
+	// when no layer was built.
+	FrontMin, FrontMax, TopJump float64
 
 	built []int // layers on each wall face, in outline order
 }
@@ -1055,7 +1065,8 @@ type Shortfall struct {
 // layerReports tallies the layers on every wall face: the face from point
 // e to the next has the last ray of e and the first of the next point as
 // its sides, and min of their counts quadrilaterals on it (see assemble).
-func layerReports(g *pslg, opt Options, hs [][]float64, rays []ray, raysAt [][2]int32, nextRay func(int32) int32, wall func(int32) int) []LayerReport {
+// It measures the top of the layers on the assembled nodes.
+func layerReports(g *pslg, opt Options, hs [][]float64, rays []ray, raysAt [][2]int32, nextRay func(int32) int32, wall func(int32) int, nodes []orb.Point) []LayerReport {
 	reps := make([]LayerReport, len(opt.Layers))
 	for i, l := range opt.Layers {
 		reps[i] = LayerReport{Tags: slices.Clone(l.Tags), Asked: len(hs[i]) - 1}
@@ -1089,6 +1100,42 @@ func layerReports(g *pslg, opt Options, hs [][]float64, rays []ray, raysAt [][2]
 		finishReport(&reps[i])
 		if n := reps[i].Max; n > 0 {
 			reps[i].Top = hs[i][n] - hs[i][n-1]
+		}
+		reps[i].FrontMin = math.Inf(1)
+	}
+	// The top edges: between two rays that bound layer cells (a fan's
+	// neighbouring rays, or the two ends of a wall face) and carry the
+	// same count n, from top node to top node, over the quadrilateral of
+	// layer n.
+	for j := range rays {
+		a := &rays[j]
+		k := nextRay(int32(j))
+		if k < 0 || a.n == 0 || (rays[k].base != a.base && wall(a.base) < 0) {
+			continue
+		}
+		b := &rays[k]
+		if b.n != a.n {
+			continue
+		}
+		n := a.n
+		p, q := nodes[a.nodes[n]], nodes[b.nodes[n]]
+		f := math.Hypot(q[0]-p[0], q[1]-p[1])
+		cell := []orb.Point{nodes[a.nodes[n-1]], nodes[b.nodes[n-1]], q, p}
+		area := 0.0
+		for c := range cell {
+			u, v := cell[c], cell[(c+1)%len(cell)]
+			area += u[0]*v[1] - v[0]*u[1]
+		}
+		area = math.Abs(area) / 2
+		rep := &reps[a.spec]
+		rep.FrontMin, rep.FrontMax = math.Min(rep.FrontMin, f), math.Max(rep.FrontMax, f)
+		if e := math.Sqrt(3) / 4 * f * f / area; area > 0 {
+			rep.TopJump = math.Max(rep.TopJump, math.Max(e, 1/e))
+		}
+	}
+	for i := range reps {
+		if math.IsInf(reps[i].FrontMin, 1) {
+			reps[i].FrontMin = 0
 		}
 	}
 	return reps
