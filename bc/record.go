@@ -135,9 +135,20 @@ func (s State) Entries() Entries {
 // Record is the resolved boundary conditions and reference state as they go
 // into deck.yaml, units beside every value.
 type Record struct {
-	Gas        Entries          `yaml:"gas"`
-	Reference  Entries          `yaml:"reference,omitempty"`
+	Gas       Entries `yaml:"gas"`
+	Reference Entries `yaml:"reference,omitempty"`
+	// Equations are the governing equations the deck states, set by its
+	// writer (Record leaves them nil).
+	Equations  *EquationsRecord `yaml:"equations,omitempty"`
 	Boundaries []BoundaryRecord `yaml:"boundaries"`
+}
+
+// EquationsRecord names the governing equations a deck states, by their
+// CGNS GoverningEquationsType name (Euler, NSLaminar, NSTurbulent), and
+// says on what basis they were chosen.
+type EquationsRecord struct {
+	Name  string `yaml:"name"`
+	Basis string `yaml:"basis"`
 }
 
 // BoundaryRecord is one tag's resolved condition in the deck manifest.

@@ -208,6 +208,9 @@ func Parse(path string, data []byte, opts LoadOptions) (*Case, error) {
 			return nil, err
 		}
 	}
+	if r := c.Reference; r != nil && r.regime != "" && !c.Boundaries.hasNoSlipWall() {
+		return nil, r.regimeAt.errf("regime %s applies to the boundary layers of no-slip walls (wall-adiabatic, wall-isothermal), and this case has none: its equations are Euler; remove regime", r.regime)
+	}
 	// Whole refined counts are chosen once the blocks and periodic pairs
 	// that tie segments together are known.
 	if err := c.roundCounts(); err != nil {

@@ -9,6 +9,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"cvdeck/export/manifest"
 )
 
 // channelCase is a 2 m × 1 m channel, one structured block: an isothermal
@@ -241,6 +243,43 @@ func TestCGNSGoverningEquations(t *testing.T) {
 	}
 	if got := nodeValue(t, noref, "/chan/b/ZoneBC/bottom/Values/DirichletData/Temperature"); got != 350 {
 		t.Errorf("without a reference the wall temperature is %v, want 350", got)
+	}
+}
+
+// TestStatedRegime: reference.regime overrides the Reynolds-number rule
+// both ways (turbulent at Re about 7e4, laminar at about 7e6), in the CGNS
+// file and in deck.yaml, whose conditions.equations give the name and its
+// basis; without it deck.yaml gives the Reynolds number behind the choice.
+// A regime in a case without a no-slip wall is refused at its key.
+func TestStatedRegime(t *testing.T) {
+	for _, c := range []struct{ length, regime, want, basis string }{
+		{"0.01", "turbulent", "NSTurbulent", "regime: turbulent in the case"},
+		{"1", "laminar", "NSLaminar", "regime: laminar in the case"},
+		// ρ = p/(R T) = 1.1613 kg/m³, V = 0.3 √(γ R T) = 104.2 m/s, μ by
+		// Sutherland's law 1.8459e-5 Pa s, so Re over 1 m is 6.55e6 (worked
+		// by hand with the constants above).
+		{"1", "", "NSTurbulent", "reference Reynolds number 6.55e+06 at the reference length reaches 5e+05"},
+	} {
+		ref := "reference: {mach: 0.3, pressure: 100000, temperature: 300, length: " + c.length
+		if c.regime != "" {
+			ref += ", regime: " + c.regime
+		}
+		path := runCGNS(t, "chan", strings.Replace(channelCase, "REFERENCE", ref+"}", 1))
+		if got := nodeText(t, path, "/chan/FlowEquationSet/GoverningEquations"); got != c.want {
+			t.Errorf("length %s, regime %q: CGNS %q, want %s", c.length, c.regime, got, c.want)
+		}
+		man, err := manifest.Read(filepath.Dir(path))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if eq := man.Conditions.Equations; eq == nil || eq.Name != c.want || !strings.HasPrefix(eq.Basis, c.basis) {
+			t.Errorf("length %s, regime %q: deck.yaml equations %+v, want %s on %q", c.length, c.regime, eq, c.want, c.basis)
+		}
+	}
+	inviscid := strings.ReplaceAll(strings.Replace(channelCase, "REFERENCE", "reference: {mach: 0.3, pressure: 100000, temperature: 300, regime: turbulent}", 1), "{kind: wall-isothermal, temperature: 350}", "{kind: wall-slip}")
+	_, err := Parse("chan.yaml", []byte(inviscid), LoadOptions{})
+	if !errors.Is(err, ErrInput) || !strings.Contains(err.Error(), "regime turbulent applies to the boundary layers of no-slip walls") {
+		t.Errorf("a regime without no-slip walls: got %v", err)
 	}
 }
 

@@ -127,7 +127,26 @@ type referenceSpec struct {
 	yplus float64
 	// cfl is the CFL number for the time-step advice.
 	cfl float64
-	at  value
+	// regime is the flow regime the case states for its viscous walls,
+	// "laminar" or "turbulent", or "" to take it from the Reynolds number
+	// (see governingEquations); regimeAt is its case-file place.
+	regime   string
+	regimeAt value
+	at       value
+}
+
+// hasNoSlipWall reports whether any condition is a no-slip wall (false
+// for a case without boundaries).
+func (bs *boundarySpec) hasNoSlipWall() bool {
+	if bs == nil {
+		return false
+	}
+	for _, c := range bs.conditions {
+		if c.Kind.FrictionWall() {
+			return true
+		}
+	}
+	return false
 }
 
 // direction is the free-stream unit vector.
@@ -150,6 +169,8 @@ func (r *referenceSpec) direction() orb.Point {
 //	  length: 1                # reference length (case units) for the Reynolds number
 //	  yplus: 1                 # target y+ for the first-cell height advice
 //	  cfl: 1                   # CFL number for the explicit time-step estimate
+//	  regime: turbulent        # or laminar: the equations of a case with no-slip walls
+//	                           # (default: turbulent from a reference Reynolds number of 5e5)
 func decodeReference(v value) (*referenceSpec, error) {
 	o, err := v.object()
 	if err != nil {
@@ -282,6 +303,12 @@ func decodeReference(v value) (*referenceSpec, error) {
 		if r.cfl, err = cv.positive(); err != nil {
 			return nil, err
 		}
+	}
+	if rv, ok := o.get("regime"); ok {
+		if r.regime, err = rv.oneOf("laminar", "turbulent"); err != nil {
+			return nil, err
+		}
+		r.regimeAt = rv
 	}
 	o.known("altitude")
 	return r, o.done()

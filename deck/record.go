@@ -52,6 +52,8 @@ func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *q
 				rec.Boundaries[i].Where = filepath.Base(c.File) + ":" + rest
 			}
 		}
+		eq := governingEquations(c, assign)
+		rec.Equations = &bc.EquationsRecord{Name: eq.name, Basis: eq.basis}
 		man.Conditions = &rec
 	} else {
 		man.Mesh.Notes = append(man.Mesh.Notes, "no boundary conditions are assigned: the deck carries boundary tags only")

@@ -464,11 +464,9 @@ const cgnsPrandtl = 0.72
 // or nil when the case states nothing of its gas (no reference state and
 // no boundary conditions). The gas is the assignment's (the reference
 // state's, or air without one). Without a reference state only the
-// equation set is written. The governing equations follow the walls: Euler
-// without a no-slip wall; with one, NSTurbulent when the case sizes its
-// wall cells for a target y+ (cgnsTurbulent), NSLaminar otherwise; a
-// viscous deck gets the gas's Sutherland law and a constant Prandtl number
-// (cgnsPrandtl).
+// equation set is written. The governing equations are governingEquations';
+// a viscous deck gets the gas's Sutherland law and a constant Prandtl
+// number (cgnsPrandtl).
 func cgnsFlow(c *Case, assign *bc.Assignment) *cgns.FlowState {
 	var gas bc.Gas
 	switch {
@@ -491,22 +489,44 @@ func cgnsFlow(c *Case, assign *bc.Assignment) *cgns.FlowState {
 		v := gas.ViscosityLaw()
 		fs.Sutherland = &cgns.Sutherland{ViscosityRef: v.MuRef, TemperatureRef: v.TRef, Constant: v.S}
 		fs.Prandtl = cgnsPrandtl
-		fs.Turbulent = cgnsTurbulent(c)
+		fs.Turbulent = governingEquations(c, assign).name == "NSTurbulent"
 	}
 	return fs
 }
 
-// cgnsTurbulent reports whether a viscous case is labelled turbulent: when
-// its reference Reynolds number at the reference length reaches
-// bc.TransitionReynolds (5e5, where a flat plate's boundary layer turns
-// turbulent; common practice), the regime the first-cell height advice
-// assumes, and in which a solver reading GoverningEquations would be run
-// with a turbulence model. Below it, or without a reference length, the
-// case is labelled laminar. The label is a first statement of intent; the
-// solver's own settings decide.
-func cgnsTurbulent(c *Case) bool {
+// equations are the governing equations a deck states (the CGNS
+// GoverningEquationsType names, SIDS §10.2) and why.
+type equations struct {
+	name, basis string
+}
+
+// governingEquations decides the equations the deck states: Euler without
+// a no-slip wall; with one, the regime the case gives (reference.regime),
+// or else NSTurbulent when the reference Reynolds number at the reference
+// length reaches bc.TransitionReynolds (5e5, where a flat plate's boundary
+// layer turns turbulent; common practice), the regime the first-cell
+// height advice assumes and in which a solver reading GoverningEquations
+// would be run with a turbulence model, and NSLaminar below it or without
+// a reference length. It is a first statement of intent, written to the
+// CGNS file and to deck.yaml with its basis; the solver's own settings
+// decide.
+func governingEquations(c *Case, assign *bc.Assignment) equations {
 	r := c.Reference
-	return r != nil && r.length > 0 && r.state.Reynolds(r.length) >= bc.TransitionReynolds
+	switch {
+	case !viscous(assign):
+		return equations{"Euler", "no no-slip wall"}
+	case r != nil && r.regime == "turbulent":
+		return equations{"NSTurbulent", "regime: turbulent in the case"}
+	case r != nil && r.regime == "laminar":
+		return equations{"NSLaminar", "regime: laminar in the case"}
+	case r == nil || r.length == 0:
+		return equations{"NSLaminar", "no reference length to set a Reynolds number; give reference.regime to state it"}
+	}
+	re := r.state.Reynolds(r.length)
+	if re >= bc.TransitionReynolds {
+		return equations{"NSTurbulent", fmt.Sprintf("reference Reynolds number %.3g at the reference length reaches %.0e (flat-plate transition); give reference.regime to state it", re, bc.TransitionReynolds)}
+	}
+	return equations{"NSLaminar", fmt.Sprintf("reference Reynolds number %.3g at the reference length is below %.0e (flat-plate transition); give reference.regime to state it", re, bc.TransitionReynolds)}
 }
 
 // cgnsBCValues are the values a condition imposes, under the SIDS
@@ -578,7 +598,7 @@ func viscous(assign *bc.Assignment) bool {
 		return false
 	}
 	for _, r := range assign.Conditions {
-		if r.Kind == bc.WallAdiabatic || r.Kind == bc.WallIsothermal {
+		if r.Kind.FrictionWall() {
 			return true
 		}
 	}
