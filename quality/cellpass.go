@@ -100,10 +100,29 @@ func cellPass(m *mesh.Mesh, cf *cellFaces, ff *faceFields, lim *Limits, status [
 			for k, v := range out {
 				parts[k][lo/chunk].scan(&metricDefs[k], bounds[k], lim.WorstCells, v, b, status)
 			}
+			for _, k := range thinMetrics {
+				fail, n := bounds[k].Fail, 0
+				for i, x := range out[k] {
+					n += b2i(x > fail && aspect[i] >= ThinAspect)
+				}
+				parts[k][lo/chunk].thin += n
+			}
 		}
 	})
 	return vals, parts
 }
+
+// ThinAspect is the aspect ratio from which a cell counts as thin in the
+// report (MetricSummary.FailedThin): a cell ten times as long as it is
+// high, as wall layers and stretched structured cells are (common
+// practice).
+const ThinAspect = 10
+
+// thinMetrics are the metrics measured from cell centroids across faces,
+// whose failures on thin cells the report counts apart: on a thin cell
+// the centroids lie far from the short faces compared with their length,
+// so these values grow large by construction (see WriteText).
+var thinMetrics = [...]int{mNonOrth, mSkewness, mGradient}
 
 // tile is the number of cells computed before their values are scanned:
 // 13 metrics × 256 cells × 8 bytes = 26 KiB, within a first-level cache.

@@ -44,6 +44,11 @@ type MetricSummary struct {
 	// but not the fail one, and past the fail threshold.
 	Warned int `json:"warned"`
 	Failed int `json:"failed"`
+	// FailedThin counts, for the metrics measured from the cell centroids
+	// across faces (non_orthogonality, skewness, gradient_error), the
+	// failed cells whose aspect ratio is ThinAspect or more (see
+	// WriteText's note on them); 0 for the other metrics.
+	FailedThin int `json:"failed_thin,omitempty"`
 	// Worst lists the worst cells (nodes), worst first, ties by index.
 	Worst []Located `json:"worst"`
 }

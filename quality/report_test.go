@@ -332,3 +332,52 @@ func TestQuadLayersNotAlongARow(t *testing.T) {
 		t.Errorf("quadrilaterals stacked %s, want %s", got, want)
 	}
 }
+
+// TestThinCellsCounted: a grid of parallelograms L = 20 h long, their
+// short sides sheared by α = 10°, has on its sheared boundary faces the
+// skewness (L/2) sin α / (h / cos α) = L sin α cos α / (2h) = 1.68
+// (elementary geometry: the foot of the perpendicular from the centroid
+// to the side lies (L/2) sin α from the side's midpoint), past the
+// everyday fail limit of 1, and an aspect ratio of L cos α / h = 19.7; so
+// every failing cell is counted thin, and the text report says so.
+func TestThinCellsCounted(t *testing.T) {
+	const nx, ny, L, h = 4, 6, 20.0, 1.0
+	alpha := 10 * math.Pi / 180
+	m := build(t, gridNodes(nx, ny, orb.Point{0, 0}, orb.Point{L, 0}, orb.Point{h * math.Tan(alpha), h}, 0), quadCells(nx, ny, false), true)
+	r, err := Evaluate(m, everyday(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, ok := r.Metric("skewness")
+	if !ok {
+		t.Fatal("no skewness summary")
+	}
+	want := L * math.Sin(alpha) * math.Cos(alpha) / (2 * h)
+	if math.Abs(float64(s.Max)-want) > 1e-12*want {
+		t.Errorf("largest skewness %.15g, want %.15g", float64(s.Max), want)
+	}
+	// The cells on the two sheared sides, i = 0 and i = nx − 1.
+	if s.Failed != 2*ny || s.FailedThin != s.Failed {
+		t.Errorf("skewness: %d failed, %d of them thin; want %d and all", s.Failed, s.FailedThin, 2*ny)
+	}
+	if a, _ := r.Metric("aspect_ratio"); math.Abs(float64(a.Max)-L*math.Cos(alpha)/h) > 1e-12*L {
+		t.Errorf("aspect ratio %g, want %g", float64(a.Max), L*math.Cos(alpha)/h)
+	}
+	var b strings.Builder
+	if err := WriteText(&b, r); err != nil {
+		t.Fatal(err)
+	}
+	if line := fmt.Sprintf("skewness: %d of the %d failing cells have an aspect ratio of 10 or more", 2*ny, 2*ny); !strings.Contains(b.String(), line) {
+		t.Errorf("the text report lacks %q:\n%s", line, b.String())
+	}
+	// A square grid's few failures, if any, are not thin.
+	sq, err := Evaluate(build(t, gridNodes(3, 3, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0), quadCells(3, 3, false), true), everyday(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, ms := range sq.Metrics {
+		if ms.FailedThin != 0 {
+			t.Errorf("square grid: %s counts %d thin failures", ms.Name, ms.FailedThin)
+		}
+	}
+}

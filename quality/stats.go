@@ -5,8 +5,11 @@ import "math"
 // partial is the summary of one chunk of values of one metric.
 type partial struct {
 	count, warned, failed int
-	min, max, sum, sumsq  float64
-	worst                 []Located
+	// thin counts the failed cells that are thin (see ThinAspect), for
+	// the metrics of thinMetrics.
+	thin                 int
+	min, max, sum, sumsq float64
+	worst                []Located
 }
 
 // start empties p, ready for scan.
@@ -166,6 +169,7 @@ func summary(d *metricDef, b Bound, k int, parts []partial, pos func(int) (float
 		s.Count += p.count
 		s.Warned += p.warned
 		s.Failed += p.failed
+		s.FailedThin += p.thin
 		lo, hi = min(lo, p.min), max(hi, p.max)
 		sum += p.sum
 		sumsq += p.sumsq

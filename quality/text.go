@@ -38,6 +38,25 @@ func WriteText(w io.Writer, r *Report) error {
 			fmt.Sprint(s.Warned), fmt.Sprint(s.Failed))
 	}
 
+	thin := false
+	for _, s := range r.Metrics {
+		if s.FailedThin == 0 {
+			continue
+		}
+		if !thin {
+			fmt.Fprintf(b, "\nthin cells\n")
+			thin = true
+		}
+		fmt.Fprintf(b, "  %s: %d of the %d failing cells have an aspect ratio of %d or more\n", s.Name, s.FailedThin, s.Failed, ThinAspect)
+	}
+	if thin {
+		fmt.Fprintf(b, "  A thin cell's centroid lies far from its short faces compared with their length, so a slight\n"+
+			"  taper, curve or shear of the cell carries the line from the centroid across such a face (to the\n"+
+			"  neighbour's centroid, or square to a boundary face) well off the face's midpoint: these values\n"+
+			"  are then large by construction, and the cell may still serve. Look at the cells (preview,\n"+
+			"  mesh.vtu) and judge them before raising a limit for them with --limits.\n")
+	}
+
 	a := r.Audit
 	fmt.Fprintf(b, "\nconservation audit\n")
 	fmt.Fprintf(b, "  boundary  |Σ S n| / Σ |S| over all boundary faces    %s\n", num(float64(a.BoundaryClosure)))
