@@ -215,6 +215,7 @@ func build(in Input) (*scene, error) {
 	}
 	views := []drawnView{{"overview", drawInterior(s, m, overview, 0, MaxInteriorFaces, meshLine, lineWidth)}}
 	drawBoundary(s, m, colours, overview, MaxBoundaryFaces, 0, 2.2)
+	blocks := drawBlocks(s, m, overview, s.viewClip(overview))
 	// Flagged cells go on top of the lines: they are what the picture
 	// is for.
 	binned := drawFlagged(s, m, in.Status, overview, 0, MaxFlaggedCells, false)
@@ -234,6 +235,7 @@ func build(in Input) (*scene, error) {
 		s.rect(near.b, &white, &zoomFrame, 1.5)
 		views = append(views, drawnView{"near the bodies", drawInterior(s, m, near, clip, maxBodiesFaces, meshLine, lineWidth)})
 		drawBoundary(s, m, colours, near, MaxBoundaryFaces, clip, 1.8)
+		blocks = drawBlocks(s, m, near, clip) || blocks
 		binned = drawFlagged(s, m, in.Status, near, clip, MaxFlaggedCells, false) || binned
 		s.text(near.b.x, near.b.y-8, 12, start, ink, true, "near the bodies: the boundaries inside the domain and their surroundings")
 		frameOn(s, overview, near, "B")
@@ -335,6 +337,11 @@ func build(in Input) (*scene, error) {
 	}
 	if binned {
 		line(12, faint, false, fmt.Sprintf("small cells: the %d px squares they touch", flagBin))
+	}
+	if blocks {
+		y += 6
+		line(14, ink, true, "Blocks")
+		line(12, faint, false, "dashed outlines, each block named at its middle; a dot marks its first node, from which its south side runs along i and its west side along j")
 	}
 	y += 12
 	s.h = int(math.Ceil(drawHistograms(s, in.Metrics, y, bottom) + margin))

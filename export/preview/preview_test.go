@@ -699,3 +699,69 @@ func TestHistogramsFillThePage(t *testing.T) {
 		t.Errorf("%.0f px below the last histogram frame; at most %d expected", room, histBlock-histH+margin)
 	}
 }
+
+// TestBlockOutlines: the bump channel read as two blocks side by side,
+// split at i = nx/2, is outlined dashed, one segment per node step round
+// each block, 2 (NI − 1) + 2 (NJ − 1) of them (so the shared side is drawn
+// by both), each block named at its middle node and dotted at its first
+// node; a mesh with no blocks draws neither, nor the legend entry.
+func TestBlockOutlines(t *testing.T) {
+	const nx, ny = 40, 12
+	m := bumpChannel(t, nx, ny)
+	id := func(i, j int) int32 { return int32(j*(nx+1) + i) }
+	var cell int32
+	for k, name := range []string{"upstream", "downstream"} {
+		i0 := k * nx / 2
+		b := mesh.Block{Name: name, NI: nx/2 + 1, NJ: ny + 1, FirstCell: cell}
+		for j := 0; j <= ny; j++ {
+			for i := 0; i <= nx/2; i++ {
+				b.Node = append(b.Node, id(i0+i, j))
+			}
+		}
+		m.Blocks = append(m.Blocks, b)
+		cell += int32(nx / 2 * ny)
+	}
+	in := testInput(m)
+	s, err := build(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	v := overviewOf(m)
+	dashed, legend := 0, false
+	names := map[string]bool{}
+	for _, sh := range s.shapes {
+		switch {
+		case sh.kind == segments && sh.dashed && *sh.stroke == blockLine:
+			dashed += len(sh.pts) / 4
+		case sh.kind == label && sh.text == "Blocks":
+			legend = true
+		case sh.kind == label && (sh.text == "upstream" || sh.text == "downstream"):
+			b := m.Blocks[0]
+			if sh.text == "downstream" {
+				b = m.Blocks[1]
+			}
+			c := m.Nodes[b.Node[(b.NJ/2)*b.NI+b.NI/2]]
+			x, y := v.px(c[0], c[1])
+			if math.Abs(sh.pts[0]-x) > 1e-9 || math.Abs(sh.pts[1]-(y+4)) > 1e-9 {
+				t.Errorf("block %s named at (%g, %g), want its middle node at (%g, %g)", sh.text, sh.pts[0], sh.pts[1], x, y+4)
+			}
+			names[sh.text] = true
+		}
+	}
+	if want := 2 * (2*(nx/2) + 2*ny); dashed != want {
+		t.Errorf("%d dashed outline segments on the overview, want %d", dashed, want)
+	}
+	if !legend || len(names) != 2 {
+		t.Errorf("legend %v, names %v: want the Blocks entry and both names", legend, names)
+	}
+	m.Blocks = nil
+	s, err = build(testInput(m))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, sh := range s.shapes {
+		if (sh.kind == segments && sh.dashed && *sh.stroke == blockLine) || (sh.kind == label && sh.text == "Blocks") {
+			t.Fatalf("a mesh without blocks draws block outlines or their legend")
+		}
+	}
+}

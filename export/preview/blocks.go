@@ -1,0 +1,79 @@
+package preview
+
+import (
+	"cvdeck/mesh"
+)
+
+// blockLine is the colour of the dashed block outlines.
+var blockLine = rgb{52, 58, 64}
+
+// maxBlockSegments bounds the outline segments one view draws for the
+// blocks of a structured mesh, whatever their size.
+const maxBlockSegments = 8000
+
+// drawBlocks outlines each block of a structured mesh's view (Mesh.Blocks)
+// in v, dashed, names it at its middle node, and marks its first node
+// (i = j = 0, where its south and west sides meet) with a dot, so that a
+// reader can tell the blocks apart, see the interfaces between them, and
+// find the side an error names: south runs from the dot along i, west
+// along j. A side with more nodes than its share of maxBlockSegments is
+// drawn through every k-th node and its last. It reports whether anything
+// was drawn.
+func drawBlocks(s *scene, m *mesh.Mesh, v view, clip int) bool {
+	total := 0
+	for _, b := range m.Blocks {
+		total += 2 * (b.NI + b.NJ)
+	}
+	if total == 0 {
+		return false
+	}
+	stride := max(1, (total+maxBlockSegments-1)/maxBlockSegments)
+	var pts []float64
+	side := func(b mesh.Block, n int, at func(k int) int32) {
+		prev := int32(-1)
+		for k := 0; k < n; k += stride {
+			prev = segmentTo(m, v, &pts, prev, at(k))
+		}
+		if (n-1)%stride != 0 {
+			segmentTo(m, v, &pts, prev, at(n-1))
+		}
+	}
+	for _, b := range m.Blocks {
+		node := func(i, j int) int32 { return b.Node[j*b.NI+i] }
+		side(b, b.NI, func(k int) int32 { return node(k, 0) })
+		side(b, b.NI, func(k int) int32 { return node(k, b.NJ-1) })
+		side(b, b.NJ, func(k int) int32 { return node(0, k) })
+		side(b, b.NJ, func(k int) int32 { return node(b.NI-1, k) })
+	}
+	if len(pts) > 0 {
+		s.add(shape{kind: segments, pts: pts, stroke: &blockLine, width: 1.2, dashed: true, clip: clip})
+	}
+	inView := func(x, y float64) bool {
+		return x >= v.b.x && x <= v.b.x+v.b.w && y >= v.b.y && y <= v.b.y+v.b.h
+	}
+	for _, b := range m.Blocks {
+		p := m.Nodes[b.Node[0]]
+		if x, y := v.px(p[0], p[1]); inView(x, y) {
+			s.add(shape{kind: polygon, pts: ring(x, y, 3, 8), fill: &blockLine, clip: clip})
+		}
+		c := m.Nodes[b.Node[(b.NJ/2)*b.NI+b.NI/2]]
+		if x, y := v.px(c[0], c[1]); b.Name != "" && inView(x, y) {
+			s.text(x, y+4, 11, middle, blockLine, true, b.Name)
+		}
+	}
+	return len(pts) > 0
+}
+
+// segmentTo adds the segment from node prev to node next (if prev ≥ 0
+// and the segment meets v) to pts in v's pixels, and returns next.
+func segmentTo(m *mesh.Mesh, v view, pts *[]float64, prev, next int32) int32 {
+	if prev >= 0 {
+		a, b := m.Nodes[prev], m.Nodes[next]
+		if v.meets(a[0], a[1], b[0], b[1]) {
+			ax, ay := v.px(a[0], a[1])
+			bx, by := v.px(b[0], b[1])
+			*pts = append(*pts, ax, ay, bx, by)
+		}
+	}
+	return next
+}
