@@ -218,6 +218,7 @@ func sideEdges(side []sideCurve) (int, error) {
 // turned as needed so that it begins where the previous one ended.
 func sideChain(side []sideCurve) (geometry.Chain, error) {
 	var segs []geometry.Segment
+	var names []string // the curve of each segment, for messages
 	var end orb.Point
 	for k, sc := range side {
 		cs := sc.curve.segments
@@ -236,11 +237,14 @@ func sideChain(side []sideCurve) (geometry.Chain, error) {
 			}
 		}
 		segs = append(segs, cs...)
+		for range cs {
+			names = append(names, sc.curve.name)
+		}
 		end = cs[len(cs)-1].At(1)
 	}
 	ch, err := geometry.DiscretiseChain(segs)
 	if err != nil {
-		return ch, side[0].at.wrap(err)
+		return ch, side[0].at.wrap(inMetres(geometry.NameChain(err, names), side[0].at.d.scale))
 	}
 	return ch, nil
 }

@@ -1,6 +1,7 @@
 package geometry
 
 import (
+	"errors"
 	"fmt"
 	"math"
 
@@ -80,7 +81,9 @@ func (o Outline) Discretise() (DiscreteOutline, error) {
 // DiscretiseChain returns the nodes of an ordered run of segments, each
 // starting where the previous one ends (within ClosureTolerance × the
 // run's size), as one open chain: joints once, both far ends included,
-// every edge tagged from its segment.
+// every edge tagged from its segment. Its errors are *ChainError, which
+// name the segments by their place in segs; NameChain names them as the
+// caller knows them.
 func DiscretiseChain(segs []Segment) (Chain, error) {
 	if len(segs) == 0 {
 		return Chain{}, fmt.Errorf("chain has no segments: %w", ErrEmptyLoop)
@@ -90,18 +93,19 @@ func DiscretiseChain(segs []Segment) (Chain, error) {
 	for _, s := range segs {
 		bound = bound.Extend(s.At(0)).Extend(s.At(1))
 	}
-	tol := ClosureTolerance * math.Hypot(bound.Max[0]-bound.Min[0], bound.Max[1]-bound.Min[1])
+	size := math.Hypot(bound.Max[0]-bound.Min[0], bound.Max[1]-bound.Min[1])
+	tol := ClosureTolerance * size
 	for si, s := range segs {
 		if si > 0 {
 			end, start := segs[si-1].At(1), s.At(0)
 			if gap := math.Hypot(end[0]-start[0], end[1]-start[1]); !(gap <= tol) {
-				return Chain{}, fmt.Errorf("chain segment %d (%s) starts at (%g, %g) but segment %d ends at (%g, %g): gap %g exceeds %g: %w",
-					si, s.Kind(), start[0], start[1], si-1, end[0], end[1], gap, tol, ErrNotContinuous)
+				return Chain{}, &ChainError{Index: si, Kind: s.Kind(), PrevKind: segs[si-1].Kind(),
+					End: end, Start: start, Gap: gap, Tol: tol, Size: size, Err: ErrNotContinuous}
 			}
 		}
 		pts, err := DiscretiseSegment(s)
 		if err != nil {
-			return Chain{}, fmt.Errorf("chain segment %d (%s): %w", si, s.Kind(), err)
+			return Chain{}, &ChainError{Index: si, Kind: s.Kind(), Err: err}
 		}
 		edges := len(pts) - 1
 		if si > 0 {
@@ -113,6 +117,76 @@ func DiscretiseChain(segs []Segment) (Chain, error) {
 		}
 	}
 	return c, nil
+}
+
+// ChainError is an error at segment Index (from 0, in the order given) of
+// a chain given to DiscretiseChain: either its nodes cannot be placed (Err
+// is the spacing error), or it does not start where segment Index−1 ends
+// (Err is ErrNotContinuous; End is where segment Index−1 ends, Start where
+// segment Index starts, Gap the distance between them and Tol the largest
+// gap allowed, ClosureTolerance × Size, the diagonal of the chain's
+// bounding box). Lengths are in the outline's units (metres).
+//
+// The geometry package does not know what a case calls its segments:
+// Name and PrevName are empty, and the message says "segment 2", until a
+// caller that knows the names sets them (NameChain).
+type ChainError struct {
+	Index          int
+	Kind, PrevKind string
+	Name, PrevName string
+	End, Start     orb.Point
+	Gap, Tol, Size float64
+	Err            error
+}
+
+func (e *ChainError) Error() string {
+	this := chainSegmentLabel(e.Index, e.Name, e.Kind)
+	if !errors.Is(e.Err, ErrNotContinuous) {
+		return fmt.Sprintf("chain %s: %v", this, e.Err)
+	}
+	prev := chainSegmentLabel(e.Index-1, e.PrevName, e.PrevKind)
+	d := distinctDigits(e.Start, e.End)
+	return fmt.Sprintf("chain %s starts at (%.*g, %.*g) but %s before it ends at (%.*g, %.*g): gap %.4g exceeds the closure tolerance %.3g (%g × the chain's size %.4g); each segment must start where the one before it ends: %v",
+		this, d, e.Start[0], d, e.Start[1], prev, d, e.End[0], d, e.End[1], e.Gap, e.Tol, ClosureTolerance, e.Size, e.Err)
+}
+
+func (e *ChainError) Unwrap() error { return e.Err }
+
+// NameChain returns err with the segments of a *ChainError named:
+// names[i] names segment i of the chain (the names the case gave). Any
+// other error, or names too short, returns err as it is.
+func NameChain(err error, names []string) error {
+	ce, ok := err.(*ChainError)
+	if !ok || ce.Index >= len(names) {
+		return err
+	}
+	named := *ce
+	named.Name = names[ce.Index]
+	if ce.Index > 0 {
+		named.PrevName = names[ce.Index-1]
+	}
+	return &named
+}
+
+// chainSegmentLabel names a chain segment for messages: `segment "roof"
+// (line)` when named, else `segment 2 (line)`.
+func chainSegmentLabel(i int, name, kind string) string {
+	if name != "" {
+		return fmt.Sprintf("segment %q (%s)", name, kind)
+	}
+	return fmt.Sprintf("segment %d (%s)", i, kind)
+}
+
+// distinctDigits returns the number of significant digits, 4 or more,
+// that print two different points differently, so that a message about
+// a small gap does not show the same coordinates twice.
+func distinctDigits(a, b orb.Point) int {
+	for d := 4; d < 17; d++ {
+		if fmt.Sprintf("%.*g %.*g", d, a[0], d, a[1]) != fmt.Sprintf("%.*g %.*g", d, b[0], d, b[1]) {
+			return d
+		}
+	}
+	return 17
 }
 
 // NodeCount returns the number of nodes the loop's discretisation will

@@ -276,3 +276,55 @@ func TestReverseAndScale(t *testing.T) {
 		}
 	}
 }
+
+// A spline through the points of an ellipse at every 15°, computed from
+// angles in radians so that the point at 360° misses the one at 0° by
+// round-off (sin 2π ≈ −2.4e-16), is closed all the same: its last point is
+// the first, it is the spline through the exact points, and by the
+// ellipse's mirror symmetry about the x axis (elementary geometry) its
+// tangent at (a, 0) is vertical at both ends of the parameter range, with
+// no kink at the seam.
+func TestSplineClosesWithinTolerance(t *testing.T) {
+	const a, b = 0.5, 0.5 / 3
+	var pts, exact []orb.Point
+	for k := 0; k <= 24; k++ {
+		th := float64(k) * 15 * math.Pi / 180
+		pts = append(pts, orb.Point{a * math.Cos(th), b * math.Sin(th)})
+		exact = append(exact, orb.Point{a * math.Cos(th), b * math.Sin(th)})
+	}
+	exact[24] = exact[0]
+	if pts[24] == pts[0] {
+		t.Fatalf("the test needs a last point off the first by round-off; both are %v", pts[0])
+	}
+	s, err := NewSpline(pts, Attr{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ref, err := NewSpline(exact, Attr{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !s.Closed() || s.Vertices()[24] != pts[0] {
+		t.Fatalf("spline ending %.3g from its start: closed %v, last point %v", dist(pts[24], pts[0]), s.Closed(), s.Vertices()[24])
+	}
+	for _, f := range []float64{0, 0.13, 0.5, 0.91, 1} {
+		if p, q := s.At(f), ref.At(f); p != q {
+			t.Errorf("At(%g) = %v, the spline through the exact points gives %v", f, p, q)
+		}
+	}
+	for _, u := range []float64{0, s.t[len(s.t)-1]} {
+		_, d := s.eval(u)
+		if math.Abs(d[0]) > 1e-12*math.Abs(d[1]) {
+			t.Errorf("tangent at (a, 0), t = %g: %v, want vertical", u, d)
+		}
+	}
+	// A gap far above round-off (a millionth of the size) is an open spline.
+	pts[24] = orb.Point{a, 1e-6}
+	s, err = NewSpline(pts, Attr{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s.Closed() || s.Vertices()[24] != pts[24] {
+		t.Errorf("spline with a gap of 1e-6: closed %v, last point %v", s.Closed(), s.Vertices()[24])
+	}
+}

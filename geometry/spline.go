@@ -12,7 +12,11 @@ import (
 // (t₀ = 0, tᵢ₊₁ = tᵢ + |Pᵢ₊₁ − Pᵢ|). End conditions: natural (zero second
 // derivative at both ends) for an open spline; periodic (first and second
 // derivatives continuous through the joint) when the first and last points
-// are equal, so a closed spline is smooth all round. Formulas: the
+// are equal, so a closed spline is smooth all round. Equal means within
+// ClosureTolerance × the diagonal of the points' bounding box, as loops
+// close: points computed from angles (the point at 360° of an ellipse,
+// off the one at 0° by round-off) close the spline, and the last point is
+// moved onto the first. Formulas: the
 // second-derivative form of the cubic spline, e.g. de Boor, A Practical
 // Guide to Splines (1978), ch. IV; the same end conditions as
 // scipy.interpolate.CubicSpline's "natural" and "periodic".
@@ -26,19 +30,29 @@ type Spline struct {
 
 // NewSpline returns the cubic spline through pts (at least two points; at
 // least three distinct ones when closed; no two consecutive ones equal).
-// The slice is copied.
+// The slice is copied; a last point within the closure tolerance of the
+// first is replaced by the first (see Spline).
 func NewSpline(pts []orb.Point, a Attr) (*Spline, error) {
 	n := len(pts)
 	if n < 2 {
 		return nil, fmt.Errorf("spline has %d points, needs at least 2: %w", n, ErrSegment)
 	}
 	s := &Spline{pts: append([]orb.Point(nil), pts...), t: make([]float64, n), attr: a}
+	bound := orb.Bound{Min: s.pts[0], Max: s.pts[0]}
 	for i, p := range s.pts {
 		if !finite(p) {
 			return nil, checkPoint(fmt.Sprintf("spline point %d", i), p)
 		}
+		bound = bound.Extend(p)
+	}
+	first, last := s.pts[0], s.pts[n-1]
+	if math.Hypot(last[0]-first[0], last[1]-first[1]) <= ClosureTolerance*math.Hypot(bound.Max[0]-bound.Min[0], bound.Max[1]-bound.Min[1]) {
+		s.pts[n-1] = first
+	}
+	for i, p := range s.pts {
 		if i > 0 {
-			h := math.Hypot(p[0]-pts[i-1][0], p[1]-pts[i-1][1])
+			q := s.pts[i-1]
+			h := math.Hypot(p[0]-q[0], p[1]-q[1])
 			if h == 0 {
 				return nil, fmt.Errorf("spline points %d and %d are both (%g, %g): zero-length interval: %w", i-1, i, p[0], p[1], ErrZeroLength)
 			}
@@ -68,8 +82,8 @@ func NewSpline(pts []orb.Point, a Attr) (*Spline, error) {
 	return s, nil
 }
 
-// Closed reports whether the first and last points are equal (a periodic
-// spline, a whole loop by itself).
+// Closed reports whether the first and last points are equal, after the
+// snap of NewSpline (a periodic spline, a whole loop by itself).
 func (s *Spline) Closed() bool { return s.pts[0] == s.pts[len(s.pts)-1] }
 
 // naturalSecondDerivs solves the tridiagonal system for the second derivatives

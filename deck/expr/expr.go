@@ -21,7 +21,9 @@
 // cos, tan (radians), sind, cosd, tand (degrees), asin, acos, atan, atan2,
 // sqrt, exp, log (natural), log10, abs, floor, ceil, round, min, max (one or
 // more arguments), rad (degrees to radians), deg (radians to degrees) and
-// if(condition, then, else).
+// if(condition, then, else). The degree functions are exact at whole
+// multiples of 90° (sind(180) is 0, not 1.2e-16), and tand at an odd
+// multiple of 90° is an error, as sqrt(-1) is.
 //
 // Evaluation is strict: a name that is not defined, a division by zero, or a
 // result that is not a finite number is an error that names the expression
@@ -311,43 +313,127 @@ func (n *binaryNode) eval(src string, vars map[string]float64) (float64, error) 
 type function struct {
 	minArgs, maxArgs int // maxArgs < 0: any number
 	f                func(a []float64) float64
+	// domain says where the function is defined, for the message when it
+	// returns NaN ("" when NaN can only come from a NaN argument).
+	domain string
 }
 
 func f1(f func(float64) float64) function {
-	return function{1, 1, func(a []float64) float64 { return f(a[0]) }}
+	return function{minArgs: 1, maxArgs: 1, f: func(a []float64) float64 { return f(a[0]) }}
+}
+
+// f1d is f1 with the function's domain, for its error message.
+func f1d(f func(float64) float64, domain string) function {
+	fn := f1(f)
+	fn.domain = domain
+	return fn
 }
 
 const degree = math.Pi / 180
+
+// degreeQuadrant reduces x degrees to a quadrant q ∈ {−2, …, 2} and a
+// remainder r ∈ [−45°, 45°] in radians, x ≡ 90q + r (mod 360), with no
+// rounding before the conversion to radians: math.Mod is exact, and the
+// subtractions of 360 and of 90q are exact by Sterbenz's lemma (the
+// operands lie within a factor 2 of each other; Goldberg 1991, What every
+// computer scientist should know about floating-point arithmetic, from
+// memory). So a whole multiple of 90° gives r = 0 exactly, and the
+// functions below are exact there, as is common practice for trigonometric
+// functions of degrees. Angles within ±45° are left as they are (q = 0),
+// so their values are those of the plain conversion.
+func degreeQuadrant(x float64) (q int, r float64) {
+	d := math.Mod(x, 360) // in (−360, 360), exact
+	switch {
+	case d > 180:
+		d -= 360
+	case d < -180:
+		d += 360
+	}
+	if math.Abs(d) > 45 {
+		q = int(math.Round(d / 90))
+		d -= 90 * float64(q)
+	}
+	return q, d * degree
+}
+
+// sind is the sine of x degrees, exact at whole multiples of 90°.
+func sind(x float64) float64 {
+	q, r := degreeQuadrant(x)
+	var v float64
+	switch q {
+	case 0:
+		v = math.Sin(r)
+	case 1:
+		v = math.Cos(r)
+	case -1:
+		v = -math.Cos(r)
+	default: // ±2: half a turn
+		v = -math.Sin(r)
+	}
+	return v + 0 // −0 (sin of −0 or of a half turn) reads as 0
+}
+
+// cosd is the cosine of x degrees, exact at whole multiples of 90°.
+func cosd(x float64) float64 {
+	q, r := degreeQuadrant(x)
+	var v float64
+	switch q {
+	case 0:
+		v = math.Cos(r)
+	case 1:
+		v = -math.Sin(r)
+	case -1:
+		v = math.Sin(r)
+	default:
+		v = -math.Cos(r)
+	}
+	return v + 0
+}
+
+// tand is the tangent of x degrees, exact at whole multiples of 180°, and
+// NaN (so an evaluation error) at odd multiples of 90°, where the tangent
+// is infinite: a case that asks for it has made a mistake, and an error
+// there is plainer than an infinite length further on.
+func tand(x float64) float64 {
+	q, r := degreeQuadrant(x)
+	if q%2 == 0 {
+		return math.Tan(r) + 0
+	}
+	if r == 0 {
+		return math.NaN()
+	}
+	return -1 / math.Tan(r)
+}
 
 var functions = map[string]function{
 	"sin":   f1(math.Sin),
 	"cos":   f1(math.Cos),
 	"tan":   f1(math.Tan),
-	"sind":  f1(func(x float64) float64 { return math.Sin(x * degree) }),
-	"cosd":  f1(func(x float64) float64 { return math.Cos(x * degree) }),
-	"tand":  f1(func(x float64) float64 { return math.Tan(x * degree) }),
-	"asin":  f1(math.Asin),
-	"acos":  f1(math.Acos),
+	"sind":  f1(sind),
+	"cosd":  f1(cosd),
+	"tand":  f1d(tand, "the tangent is infinite at odd multiples of 90°"),
+	"asin":  f1d(math.Asin, "asin needs an argument from −1 to 1"),
+	"acos":  f1d(math.Acos, "acos needs an argument from −1 to 1"),
 	"atan":  f1(math.Atan),
-	"sqrt":  f1(math.Sqrt),
+	"sqrt":  f1d(math.Sqrt, "sqrt needs an argument ≥ 0"),
 	"exp":   f1(math.Exp),
-	"log":   f1(math.Log),
-	"log10": f1(math.Log10),
+	"log":   f1d(math.Log, "log needs an argument > 0"),
+	"log10": f1d(math.Log10, "log10 needs an argument > 0"),
 	"abs":   f1(math.Abs),
 	"floor": f1(math.Floor),
 	"ceil":  f1(math.Ceil),
 	"round": f1(math.Round),
 	"rad":   f1(func(x float64) float64 { return x * degree }),
 	"deg":   f1(func(x float64) float64 { return x / degree }),
-	"atan2": {2, 2, func(a []float64) float64 { return math.Atan2(a[0], a[1]) }},
-	"min": {1, -1, func(a []float64) float64 {
+	"atan2": {minArgs: 2, maxArgs: 2, f: func(a []float64) float64 { return math.Atan2(a[0], a[1]) }},
+	"min": {minArgs: 1, maxArgs: -1, f: func(a []float64) float64 {
 		m := a[0]
 		for _, v := range a[1:] {
 			m = math.Min(m, v)
 		}
 		return m
 	}},
-	"max": {1, -1, func(a []float64) float64 {
+	"max": {minArgs: 1, maxArgs: -1, f: func(a []float64) float64 {
 		m := a[0]
 		for _, v := range a[1:] {
 			m = math.Max(m, v)
@@ -384,9 +470,24 @@ func (n *callNode) eval(src string, vars map[string]float64) (float64, error) {
 	}
 	v := fn.f(vals)
 	if math.IsNaN(v) {
-		return 0, &Error{Src: src, Col: n.pos + 1, Msg: fmt.Sprintf("%s(%s) is not defined", n.name, joinNums(vals))}
+		msg := fmt.Sprintf("%s(%s) is not defined", n.name, joinNums(vals))
+		if fn.domain != "" && allFinite(vals) {
+			msg += ": " + fn.domain
+		}
+		return 0, &Error{Src: src, Col: n.pos + 1, Msg: msg}
 	}
 	return v, nil
+}
+
+// allFinite reports whether no value is NaN or infinite: only then can a
+// NaN result be blamed on the function's domain.
+func allFinite(v []float64) bool {
+	for _, x := range v {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return false
+		}
+	}
+	return true
 }
 
 func joinNums(v []float64) string {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 
 	"github.com/paulmach/orb"
 
@@ -42,17 +43,19 @@ type sideSample struct {
 // conform: equal node counts and every node within Tol of its partner,
 // otherwise the error names the two blocks and sides and gives the counts,
 // or the largest mismatch and where it is. The exception is two sides that
-// both carry boundary tags on every edge and do not conform: they are two
-// boundaries that run close (as the wall and the outer side of a thin
-// block), not an interface. Two sides of one block may be
-// shared (the seam of an O-grid). Shared nodes become one mesh node (the
-// first block's position is kept), so interfaces become interior faces and
-// are listed in Mesh.Interfaces.
+// both carry boundary tags on every edge, do not conform and do not end
+// where each other ends: they are two boundaries that run close (as the
+// wall and the outer side of a thin block), not an interface. Two sides of
+// one block may be shared (the seam of an O-grid). Shared nodes become one
+// mesh node (the first block's position is kept), so interfaces become
+// interior faces and are listed in Mesh.Interfaces.
 //
-// Every side that is not shared must carry a boundary tag on each edge, and
+// Every side that is not shared must carry a boundary tag on each edge, no
+// two sides that are not shared may run along each other for a stretch (a
+// side meeting only part of another, or two sides along one line with
+// different nodes, is a non-conforming join and an error naming both), and
 // no node of one block may touch a node of another except through a shared
-// side (a side meeting only part of another is a non-conforming join and an
-// error). Mesh nodes are numbered block by block in (i, j) order, skipping
+// side. Mesh nodes are numbered block by block in (i, j) order, skipping
 // nodes already placed; cells block by block, i fastest; boundary tags in
 // order of first appearance.
 func Assemble(blocks []*Block, opt AssembleOptions) (*mesh.Mesh, error) {
@@ -72,6 +75,9 @@ func Assemble(blocks []*Block, opt AssembleOptions) (*mesh.Mesh, error) {
 	}
 	ifaces, partner, err := findShared(blocks, tol)
 	if err != nil {
+		return nil, err
+	}
+	if err := checkOverlaps(blocks, partner, tol); err != nil {
 		return nil, err
 	}
 	parent := make([]int32, offset[len(blocks)])
@@ -145,7 +151,7 @@ func Assemble(blocks []*Block, opt AssembleOptions) (*mesh.Mesh, error) {
 			for e, tag := range blk.Tags[s] {
 				if tag == "" {
 					p := blk.At(nodeIJ(blk, s, e))
-					return nil, fmt.Errorf("structured: block %q %s side is not shared with any block, and its edge %d (from (%g, %g)) has no boundary tag", blk.Name, s, e, p[0], p[1])
+					return nil, fmt.Errorf("structured: block %q %s side is not shared with any block, and its edge %d (from (%.4g, %.4g)) has no boundary tag", blk.Name, s, e, p[0], p[1])
 				}
 				t, ok := tagIndex[tag]
 				if !ok {
@@ -253,7 +259,7 @@ func findShared(blocks []*Block, tol float64) ([]mesh.BlockInterface, []int, err
 		}
 		sx, sy := &sides[c.x], &sides[c.y]
 		if err := conform(blocks, sx, sy, c.rev, tol); err != nil {
-			if tagged(blocks, sx.ref) && tagged(blocks, sy.ref) {
+			if tagged(blocks, sx.ref) && tagged(blocks, sy.ref) && !sameEnds(sx, sy, c.rev, tol) {
 				// Two boundary sides that merely run close: not shared.
 				continue
 			}
@@ -327,12 +333,23 @@ func sameCurve(a, b *sideSample) (rev bool, mismatch float64, ok bool) {
 	return true, bwd / L, bwd <= 0.05*L
 }
 
+// sameEnds reports whether two sides end where each other ends (in the
+// direction sameCurve found), each end within tol.
+func sameEnds(a, b *sideSample, rev bool, tol float64) bool {
+	b0, b1 := b.pts[0], b.pts[len(b.pts)-1]
+	if rev {
+		b0, b1 = b1, b0
+	}
+	return dist(a.pts[0], b0) <= tol && dist(a.pts[len(a.pts)-1], b1) <= tol
+}
+
 // conform checks that two sides recognised as shared match node for node.
 func conform(blocks []*Block, a, b *sideSample, rev bool, tol float64) error {
 	na, nb := len(a.pts), len(b.pts)
+	p0, p1 := a.pts[0], a.pts[na-1]
 	if na != nb {
-		return fmt.Errorf("structured: %s (%d nodes) and %s (%d nodes) meet along the same curve but differ by %d nodes; shared sides need equal node counts",
-			refName(blocks, a.ref), na, refName(blocks, b.ref), nb, abs(na-nb))
+		return fmt.Errorf("structured: %s (%d nodes) and %s (%d nodes) lie along the same curve, from (%.4g, %.4g) to (%.4g, %.4g), but differ by %d nodes; sides that meet must share their nodes: equal counts, each node on its partner",
+			refName(blocks, a.ref), na, refName(blocks, b.ref), nb, p0[0], p0[1], p1[0], p1[1], abs(na-nb))
 	}
 	worst, at := 0.0, 0
 	for k := 0; k < na; k++ {
@@ -352,10 +369,166 @@ func conform(blocks []*Block, a, b *sideSample, rev bool, tol float64) error {
 		ba, bb := blocks[a.ref.block], blocks[b.ref.block]
 		ia, ja := nodeIJ(ba, a.ref.side, at)
 		ib, jb := nodeIJ(bb, b.ref.side, kb)
-		return fmt.Errorf("structured: %s and %s are shared but do not conform: node (%d, %d) at (%g, %g) and node (%d, %d) at (%g, %g) are %.3g apart, more than the tolerance %.3g",
-			refName(blocks, a.ref), refName(blocks, b.ref), ia, ja, a.pts[at][0], a.pts[at][1], ib, jb, b.pts[kb][0], b.pts[kb][1], worst, tol)
+		d := distinctPointDigits(a.pts[at], b.pts[kb])
+		return fmt.Errorf("structured: %s and %s (%d nodes each) lie along the same curve, from (%.4g, %.4g) to (%.4g, %.4g), but their nodes do not match: the worst, node (%d, %d) at (%.*g, %.*g) and node (%d, %d) at (%.*g, %.*g), are %.4g apart, more than the tolerance %.3g; sides that meet must share their nodes",
+			refName(blocks, a.ref), refName(blocks, b.ref), na, p0[0], p0[1], p1[0], p1[1],
+			ia, ja, d, a.pts[at][0], d, a.pts[at][1], ib, jb, d, b.pts[kb][0], d, b.pts[kb][1], worst, tol)
 	}
 	return nil
+}
+
+// distinctPointDigits returns the number of significant digits, 4 or
+// more, that print two different points differently, so that a message
+// about a small offset does not show the same coordinates twice.
+func distinctPointDigits(a, b orb.Point) int {
+	for d := 4; d < 17; d++ {
+		if fmt.Sprintf("%.*g %.*g", d, a[0], d, a[1]) != fmt.Sprintf("%.*g %.*g", d, b[0], d, b[1]) {
+			return d
+		}
+	}
+	return 17
+}
+
+// sidePath is a block side as a polyline, with the bounding box of the
+// whole side and of each run of pathChunk edges, so that finding whether
+// a point lies on the side takes few edge tests.
+type sidePath struct {
+	ref    sideRef
+	pts    []orb.Point
+	box    orb.Bound
+	chunks []orb.Bound // chunk c holds edges pathChunk·c to pathChunk·(c+1) − 1
+}
+
+const pathChunk = 16
+
+func newSidePath(r sideRef, pts []orb.Point) sidePath {
+	p := sidePath{ref: r, pts: pts, box: orb.Bound{Min: pts[0], Max: pts[0]}}
+	for lo := 0; lo+1 < len(pts); lo += pathChunk {
+		hi := min(lo+pathChunk, len(pts)-1)
+		b := orb.Bound{Min: pts[lo], Max: pts[lo]}
+		for k := lo + 1; k <= hi; k++ {
+			b = b.Extend(pts[k])
+		}
+		p.chunks = append(p.chunks, b)
+		p.box = p.box.Union(b)
+	}
+	return p
+}
+
+// near reports whether q lies within tol of the side's polyline.
+func (p *sidePath) near(q orb.Point, tol float64) bool {
+	if !nearBound(p.box, q, tol) {
+		return false
+	}
+	for c, b := range p.chunks {
+		if !nearBound(b, q, tol) {
+			continue
+		}
+		for k := c * pathChunk; k < min((c+1)*pathChunk, len(p.pts)-1); k++ {
+			if segmentDist(q, p.pts[k], p.pts[k+1]) <= tol {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// nearBound reports whether q lies within tol of the box b (a necessary
+// condition for lying within tol of what the box holds).
+func nearBound(b orb.Bound, q orb.Point, tol float64) bool {
+	return q[0] >= b.Min[0]-tol && q[0] <= b.Max[0]+tol && q[1] >= b.Min[1]-tol && q[1] <= b.Max[1]+tol
+}
+
+// segmentDist is the distance from q to the segment from a to b: to the
+// foot of the perpendicular when it falls on the segment, else to the
+// nearer end (elementary geometry).
+func segmentDist(q, a, b orb.Point) float64 {
+	dx, dy := b[0]-a[0], b[1]-a[1]
+	t := 0.0
+	if l2 := dx*dx + dy*dy; l2 > 0 {
+		t = math.Max(0, math.Min(1, ((q[0]-a[0])*dx+(q[1]-a[1])*dy)/l2))
+	}
+	return math.Hypot(q[0]-a[0]-t*dx, q[1]-a[1]-t*dy)
+}
+
+// alongRun returns the first run of consecutive edges of a, from node k0
+// to node k1, that lie on b: each edge longer than tol, with its two ends
+// and its midpoint within tol of b.
+func alongRun(a, b *sidePath, tol float64) (k0, k1 int, ok bool) {
+	on := func(k int) bool {
+		p, q := a.pts[k], a.pts[k+1]
+		return dist(p, q) > tol && b.near(p, tol) && b.near(q, tol) && b.near(orb.Point{(p[0] + q[0]) / 2, (p[1] + q[1]) / 2}, tol)
+	}
+	for k := 0; k+1 < len(a.pts); k++ {
+		if on(k) {
+			k1 = k + 1
+			for k1+1 < len(a.pts) && on(k1) {
+				k1++
+			}
+			return k, k1, true
+		}
+	}
+	return 0, 0, false
+}
+
+// checkOverlaps reports two block sides, not joined as shared, that run
+// along each other for a stretch (see alongRun): blocks that meet along a
+// line other than side to side with matching nodes. It finds them on
+// straight stretches and wherever the two sides' polylines coincide;
+// curved sides discretised differently are found by findShared when they
+// end where each other ends, and otherwise by checkTouching at the nodes
+// they share.
+func checkOverlaps(blocks []*Block, partner []int, tol float64) error {
+	var paths []sidePath
+	for b, blk := range blocks {
+		for s := mesh.South; s <= mesh.West; s++ {
+			if partner[4*b+int(s)] < 0 {
+				paths = append(paths, newSidePath(sideRef{b, s}, blk.SidePoints(s)))
+			}
+		}
+	}
+	for x := range paths {
+		for y := x + 1; y < len(paths); y++ {
+			a, b := &paths[x], &paths[y]
+			if a.box.Min[0] > b.box.Max[0]+tol || b.box.Min[0] > a.box.Max[0]+tol || a.box.Min[1] > b.box.Max[1]+tol || b.box.Min[1] > a.box.Max[1]+tol {
+				continue // too far apart to touch
+			}
+			if k0, k1, ok := alongRun(a, b, tol); ok {
+				return overlapError(blocks, a, b, k0, k1, tol)
+			}
+			if k0, k1, ok := alongRun(b, a, tol); ok {
+				return overlapError(blocks, b, a, k0, k1, tol)
+			}
+		}
+	}
+	return nil
+}
+
+// overlapError describes sides a and b running along each other from node
+// k0 to node k1 of a: where, how many nodes each has there, and which of
+// them the stretch covers only in part.
+func overlapError(blocks []*Block, a, b *sidePath, k0, k1 int, tol float64) error {
+	stretch := newSidePath(a.ref, a.pts[k0:k1+1])
+	nb := 0
+	for _, p := range b.pts {
+		if stretch.near(p, tol) {
+			nb++
+		}
+	}
+	var part []string
+	if k1-k0+1 < len(a.pts) {
+		part = append(part, refName(blocks, a.ref))
+	}
+	if nb < len(b.pts) {
+		part = append(part, refName(blocks, b.ref))
+	}
+	why := "with nodes that do not match"
+	if len(part) > 0 {
+		why = "that stretch is only part of " + strings.Join(part, " and of ")
+	}
+	p0, p1 := a.pts[k0], a.pts[k1]
+	return fmt.Errorf("structured: %s and %s run along each other from (%.4g, %.4g) to (%.4g, %.4g), with %d and %d nodes there, but are not joined as a shared side: %s; blocks must meet side to side, each side meeting one whole side of one other block, node for node",
+		refName(blocks, a.ref), refName(blocks, b.ref), p0[0], p0[1], p1[0], p1[1], k1-k0+1, nb, why)
 }
 
 func find(parent []int32, x int32) int32 {
@@ -440,7 +613,7 @@ func checkTouching(blocks []*Block, offset []int, global []int32, nodes []orb.Po
 				}
 				w1, w2 := where[g], where[o]
 				b1, b2 := blocks[w1[0]], blocks[w2[0]]
-				return fmt.Errorf("structured: node (%d, %d) of block %q and node (%d, %d) of block %q both lie at (%g, %g) but are not joined by a shared side; blocks must meet side to side with matching nodes",
+				return fmt.Errorf("structured: node (%d, %d) of block %q and node (%d, %d) of block %q both lie at (%.4g, %.4g) but are not joined by a shared side; blocks must meet side to side with matching nodes",
 					w1[1]%b1.NI, w1[1]/b1.NI, b1.Name, w2[1]%b2.NI, w2[1]/b2.NI, b2.Name, p[0], p[1])
 			}
 		}

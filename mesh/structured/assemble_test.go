@@ -191,14 +191,14 @@ func TestAssembleOGridSeam(t *testing.T) {
 func TestAssembleBadInput(t *testing.T) {
 	t.Run("interface counts", func(t *testing.T) {
 		_, err := Assemble(nozzleBlocks(t, 11, 9, 10), AssembleOptions{})
-		wantErr(t, err, `block "inlet" east side (9 nodes)`, `block "throat" west side (10 nodes)`, "differ by 1")
+		wantErr(t, err, `block "inlet" east side (9 nodes)`, `block "throat" west side (10 nodes)`, "lie along the same curve, from (1, 0) to (1, 0.4)", "differ by 1")
 	})
 	t.Run("interface positions", func(t *testing.T) {
 		blocks := nozzleBlocks(t, 11, 9, 0)
 		k := blocks[1].SideNode(mesh.West, 4)
 		blocks[1].Y[k] += 1e-5
 		_, err := Assemble(blocks, AssembleOptions{})
-		wantErr(t, err, `block "inlet" east side and block "throat" west side are shared but do not conform`, "node (10, 4)", "node (0, 4)", "1e-05 apart")
+		wantErr(t, err, `block "inlet" east side and block "throat" west side (9 nodes each) lie along the same curve`, "node (10, 4)", "node (0, 4)", "1e-05 apart")
 	})
 	t.Run("untagged", func(t *testing.T) {
 		blocks := nozzleBlocks(t, 11, 9, 0)
@@ -218,7 +218,9 @@ func TestAssembleBadInput(t *testing.T) {
 			return b
 		}
 		_, err := Assemble([]*Block{sq("left", 0, 0, 1, 1, 3, 3), sq("low", 1, 0, 2, 0.5, 3, 2), sq("high", 1, 0.5, 2, 1, 3, 2)}, AssembleOptions{})
-		wantErr(t, err, "not joined by a shared side", `block "left"`, "(1, 0)")
+		// low's west side lies along the lower half of left's east side.
+		wantErr(t, err, `block "left" east side and block "low" west side run along each other from (1, 0) to (1, 0.5)`, "with 2 and 2 nodes there",
+			`that stretch is only part of block "left" east side;`)
 	})
 	t.Run("clockwise block", func(t *testing.T) {
 		b := NewBlock("flipped", 2, 2)
@@ -293,5 +295,81 @@ func TestAssembleThinBlocks(t *testing.T) {
 	want := mesh.BlockInterface{A: 0, B: 1, SideA: mesh.North, SideB: mesh.South} // both run west to east
 	if len(m.Interfaces) != 1 || m.Interfaces[0] != want {
 		t.Errorf("interfaces %+v, want %+v", m.Interfaces, want)
+	}
+}
+
+// rect returns a block over [x0, x1] × [y0, y1] with every side tagged
+// (free cuts carry their curve's name as a tag in a case) and the given
+// arc-length fractions along its south and north sides.
+func rect(t *testing.T, name string, x0, y0, x1, y1 float64, south, north []float64, nj int) *Block {
+	t.Helper()
+	b, err := TFI(BlockSides{Name: name,
+		South: line(orb.Point{x0, y0}, orb.Point{x1, y0}, south, name+"_s"),
+		East:  line(orb.Point{x1, y0}, orb.Point{x1, y1}, uniform(nj), name+"_e"),
+		North: reversed(line(orb.Point{x0, y1}, orb.Point{x1, y1}, north, name+"_n")),
+		West:  line(orb.Point{x0, y1}, orb.Point{x0, y0}, uniform(nj), name+"_w")})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b
+}
+
+// Two blocks stacked on the line y = 0.02 whose sides there are tagged and
+// end where each other ends, but do not match node for node: they are
+// named with their sides and counts, or the worst offset, and not as two
+// boundaries that run close nor as a touching corner.
+func TestAssembleSidesAlongOneLine(t *testing.T) {
+	t.Run("counts", func(t *testing.T) {
+		lower := rect(t, "lower", 0, 0, 0.4, 0.02, uniform(121), uniform(121), 5)
+		upper := rect(t, "upper", 0, 0.02, 0.4, 0.06, uniform(131), uniform(131), 5)
+		_, err := Assemble([]*Block{upper, lower}, AssembleOptions{})
+		wantErr(t, err, `block "upper" south side (131 nodes) and block "lower" north side (121 nodes) lie along the same curve, from (0, 0.02) to (0.4, 0.02)`, "differ by 10 nodes")
+	})
+	t.Run("spacing", func(t *testing.T) {
+		// Uniform fractions k/120 against (k/120)²: the largest offset is
+		// 0.4·max(f − f²) = 0.4/4 = 0.1, at f = ½, node 60 (elementary
+		// calculus).
+		sq := uniform(121)
+		for k := range sq {
+			sq[k] *= sq[k]
+		}
+		lower := rect(t, "lower", 0, 0, 0.4, 0.02, uniform(121), uniform(121), 5)
+		upper := rect(t, "upper", 0, 0.02, 0.4, 0.06, sq, uniform(121), 5)
+		_, err := Assemble([]*Block{upper, lower}, AssembleOptions{})
+		wantErr(t, err, `block "upper" south side and block "lower" north side (121 nodes each) lie along the same curve`,
+			"node (60, 0) at (0.1, 0.02) and node (60, 4) at (0.2, 0.02), are 0.1 apart")
+	})
+	t.Run("arc", func(t *testing.T) {
+		// Two sectors of an annulus meeting on the arc r = 2 with 21 and 25
+		// nodes.
+		sector := func(name string, r0, r1 float64, n int) *Block {
+			b, err := TFI(BlockSides{Name: name,
+				South: line(orb.Point{r0, 0}, orb.Point{r1, 0}, uniform(5), name+"_s"),
+				East:  arc(orb.Point{}, r1, 0, math.Pi/2, n, name+"_e"),
+				North: line(orb.Point{0, r1}, orb.Point{0, r0}, uniform(5), name+"_n"),
+				West:  arc(orb.Point{}, r0, math.Pi/2, 0, n, name+"_w")})
+			if err != nil {
+				t.Fatal(err)
+			}
+			return b
+		}
+		_, err := Assemble([]*Block{sector("inner", 1, 2, 21), sector("outer", 2, 3, 25)}, AssembleOptions{})
+		wantErr(t, err, `block "inner" east side (21 nodes) and block "outer" west side (25 nodes) lie along the same curve`, "differ by 4 nodes")
+	})
+}
+
+// A block standing on part of another's side with no node in common: its
+// south side runs along the middle of the other's north side. Without the
+// overlap check the two would pass as separate boundaries on one line.
+func TestAssemblePartOfASide(t *testing.T) {
+	base := rect(t, "base", 0, 0, 2, 1, uniform(4), uniform(4), 3) // north nodes at x = 0, 2/3, 4/3, 2
+	top := rect(t, "top", 0.5, 1, 1.5, 2, uniform(3), uniform(3), 3)
+	_, err := Assemble([]*Block{base, top}, AssembleOptions{})
+	wantErr(t, err, `block "base" north side and block "top" south side run along each other from (0.6667, 1) to (1.333, 1)`,
+		`that stretch is only part of block "base" north side and of block "top" south side`)
+	// Set apart by a millionth, the two are boundaries that do not meet.
+	top = rect(t, "top", 0.5, 1+1e-6, 1.5, 2, uniform(3), uniform(3), 3)
+	if _, err := Assemble([]*Block{base, top}, AssembleOptions{}); err != nil {
+		t.Errorf("blocks a millionth apart: %v", err)
 	}
 }
