@@ -161,7 +161,7 @@ func (c *Case) buildMesh() (*mesh.Mesh, string, []string, error) {
 		m, notes, err := c.buildUnstructured()
 		return m, "unstructured", notes, err
 	}
-	m, notes, err := c.Mesh.buildStructured()
+	m, notes, err := c.buildStructured()
 	return m, "structured", notes, err
 }
 

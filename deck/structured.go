@@ -312,6 +312,22 @@ func (gs *growSpec) build() ([]*structured.Block, string, error) {
 	return blocks, note, nil
 }
 
+// buildStructured builds the case's structured mesh (see
+// meshSpec.buildStructured) and checks, before anything is written, that
+// it fills the outline the case gives (see checkCover); the notes are the
+// build's, then the check's.
+func (c *Case) buildStructured() (*mesh.Mesh, []string, error) {
+	m, notes, err := c.Mesh.buildStructured()
+	if err != nil {
+		return nil, nil, err
+	}
+	more, err := c.checkCover(m)
+	if err != nil {
+		return nil, nil, err
+	}
+	return m, append(notes, more...), nil
+}
+
 // buildStructured meshes the blocks by transfinite interpolation (then
 // elliptic smoothing where asked), grows the hyperbolic grids, and joins
 // them all into one face-based mesh. Notes say how smoothing and marching
@@ -359,7 +375,7 @@ func (ms *meshSpec) buildStructured() (*mesh.Mesh, []string, error) {
 	}
 	m, err := structured.Assemble(blocks, structured.AssembleOptions{})
 	if err != nil {
-		return nil, nil, ms.at.wrap(err)
+		return nil, nil, ms.at.wrap(inMetres(err, ms.at.d.scale))
 	}
 	return m, notes, nil
 }
