@@ -6,7 +6,7 @@ import "math"
 type partial struct {
 	count, warned, failed int
 	// thin counts the failed cells that are thin (see ThinAspect), for
-	// the metrics of thinMetrics.
+	// the metrics of thinMetric.
 	thin                 int
 	min, max, sum, sumsq float64
 	worst                []Located
