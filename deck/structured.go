@@ -475,7 +475,7 @@ func smoothNote(block string, r structured.SmoothResult) string {
 		s += fmt.Sprintf("; first-cell height within %.2g%% of the request (mean %.2g%%)", 100*r.HeightError, 100*r.MeanHeightError)
 	}
 	if r.AngleError > 0 {
-		s += fmt.Sprintf("; wall angle within %.2g° of 90° (mean %.2g°)", r.AngleError, r.MeanAngleError)
+		s += fmt.Sprintf("; wall angle within %.2g° of 90° at the inner nodes of its orthogonal sides (mean %.2g°), %.3g° at their ends, where the next side of the block (an interface or another boundary) leaves them", r.AngleError, r.MeanAngleError, r.EndAngleError)
 	}
 	return s
 }

@@ -99,6 +99,13 @@ type SmoothResult struct {
 	// 90° (degrees) of the first grid line off the orthogonality-controlled
 	// sides, over their interior nodes.
 	AngleError, MeanAngleError float64
+	// EndAngleError is the largest departure from 90° (degrees) at the two
+	// end nodes of those sides, where the grid line off the side is the
+	// block's next side: an interface or another boundary, whose angle
+	// with the side the control does not set (the corner of the outline,
+	// or where a shared side smoothed across the interface meets the
+	// wall). 0 without orthogonality control.
+	EndAngleError float64
 }
 
 // Smooth improves the block in place by elliptic grid generation, starting
@@ -633,7 +640,8 @@ func quadArea(b *Block, i, j int) float64 {
 func (s *smoother) wallFrame(sd mesh.Side, k int) (dx, dy, tx, ty, nx, ny float64) {
 	b := s.b
 	w := b.SideNode(sd, k)
-	a, c := b.SideNode(sd, k-1), b.SideNode(sd, k+1)
+	// At the side's ends the tangent is one-sided.
+	a, c := b.SideNode(sd, max(k-1, 0)), b.SideNode(sd, min(k+1, b.SideLen(sd)-1))
 	var in int
 	switch sd {
 	case mesh.South:
@@ -706,12 +714,21 @@ func (s *smoother) feedback() float64 {
 func clamp(v, lim float64) float64 { return math.Max(-lim, math.Min(lim, v)) }
 
 // wallErrors measures the first-cell heights and the angles at the
-// controlled sides.
-func (s *smoother) wallErrors() (hmax, hmean, amax, amean float64) {
+// controlled sides: over their interior nodes, and (the angle) at their
+// two end nodes (see SmoothResult).
+func (s *smoother) wallErrors() (hmax, hmean, amax, amean, emax float64) {
 	var nh, na int
 	for side, c := range s.sides {
 		sd := mesh.Side(side)
 		n := s.b.SideLen(sd)
+		if c.Orthogonal {
+			for _, k := range [2]int{0, n - 1} {
+				dx, dy, tx, ty, nx, ny := s.wallFrame(sd, k)
+				if tx != 0 || ty != 0 {
+					emax = math.Max(emax, math.Abs(math.Atan2(dx*tx+dy*ty, dx*nx+dy*ny))*180/math.Pi)
+				}
+			}
+		}
 		for k := 1; k+1 < n; k++ {
 			dx, dy, tx, ty, nx, ny := s.wallFrame(sd, k)
 			if c.FirstHeight > 0 {

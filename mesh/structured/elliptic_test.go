@@ -459,3 +459,35 @@ func TestWorkGroups(t *testing.T) {
 		t.Errorf("200 nodes in %d groups", len(g))
 	}
 }
+
+// TestSmoothEndAngle: a parallelogram block whose west and east sides
+// leave the orthogonal south wall at 60° keeps its sides fixed, so the
+// grid line off the wall at the wall's two end nodes is those sides
+// themselves, 30° from the normal (elementary geometry), which
+// EndAngleError reports, while the inner nodes are brought close to 90°.
+func TestSmoothEndAngle(t *testing.T) {
+	d := orb.Point{math.Cos(math.Pi / 3), math.Sin(math.Pi / 3)}
+	sides := BlockSides{Name: "slant",
+		South: line(orb.Point{0, 0}, orb.Point{2, 0}, uniform(21), "floor"),
+		East:  line(orb.Point{2, 0}, orb.Point{2 + d[0], d[1]}, uniform(11), "out"),
+		North: line(orb.Point{2 + d[0], d[1]}, d, uniform(21), "roof"),
+		West:  line(d, orb.Point{0, 0}, uniform(11), "in"),
+	}
+	b, err := TFI(sides)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var opt SmoothOptions
+	opt.Sides[mesh.South] = SideControl{Orthogonal: true, FirstHeight: 0.02}
+	opt.MaxIterations = 20000
+	res, err := Smooth(b, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(res.EndAngleError-30) > 1e-9 {
+		t.Errorf("end angle error %.12g°, want 30°", res.EndAngleError)
+	}
+	if !(res.AngleError < res.EndAngleError) {
+		t.Errorf("inner angle error %g° not below the ends' %g°", res.AngleError, res.EndAngleError)
+	}
+}

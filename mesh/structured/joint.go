@@ -98,7 +98,7 @@ func SmoothBlocks(blocks []*Block, opts []SmoothOptions) ([]SmoothResult, error)
 	var first error
 	for b, s := range sm {
 		res[b].Damped = s.damped
-		res[b].HeightError, res[b].MeanHeightError, res[b].AngleError, res[b].MeanAngleError = s.wallErrors()
+		res[b].HeightError, res[b].MeanHeightError, res[b].AngleError, res[b].MeanAngleError, res[b].EndAngleError = s.wallErrors()
 		if n, i, j := inverted(blocks[b]); n > 0 && first == nil {
 			first = fmt.Errorf("structured: block %q: smoothing could not untangle the starting grid: %d cells are still inverted after %d iterations, the first is cell (%d, %d); refine the sides or give a better starting grid", blocks[b].Name, n, res[b].Iterations, i, j)
 		}
