@@ -315,7 +315,7 @@ func (gs *growSpec) build() ([]*structured.Block, string, error) {
 // buildStructured builds the case's structured mesh (see
 // meshSpec.buildStructured) and checks, before anything is written, that
 // it fills the outline the case gives (see checkCover); the notes are the
-// build's, then the check's.
+// build's, the check's, then those on the block sides (sideNotes).
 func (c *Case) buildStructured() (*mesh.Mesh, []string, error) {
 	m, notes, err := c.Mesh.buildStructured()
 	if err != nil {
@@ -325,7 +325,8 @@ func (c *Case) buildStructured() (*mesh.Mesh, []string, error) {
 	if err != nil {
 		return nil, nil, err
 	}
-	return m, append(notes, more...), nil
+	notes = append(notes, more...)
+	return m, append(notes, c.sideNotes(m)...), nil
 }
 
 // buildStructured meshes the blocks by transfinite interpolation (then
