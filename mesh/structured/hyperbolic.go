@@ -583,8 +583,13 @@ func march(pts []orb.Point, periodic bool, heights []float64, opt MarchOptions, 
 		}
 		if !ok {
 			i := convexLayer(x0, y0, x1, y1, periodic)
+			depth := sum(heights[:k+1])
+			if j, gap, near := facingFront(x0, y0, i, periodic, depth); near {
+				return nil, nil, fmt.Errorf("layer %d of %d (height %.3g, %.3g from the wall) cannot advance without folding the cell at i = %d near (%.4g, %.4g): the front there is %.3g from its own node i = %d at (%.4g, %.4g), grown from another part of the wall that faces it (across a gap, or round a concave corner), and the two grow into each other; lower the outer distance or the number of layers so that the grid stays within half the gap, or mesh the gap by blocks or with the unstructured mesher",
+					k+1, nk-1, ds, depth, i, x0[i], y0[i], gap, j, x0[j], y0[j])
+			}
 			return nil, nil, fmt.Errorf("layer %d of %d (height %.3g, %.3g from the wall) cannot advance without folding the cell at i = %d near (%g, %g), even with 32 times the dissipation; lower the first height or growth, use fewer layers, or refine the wall there",
-				k+1, nk-1, ds, sum(heights[:k+1]), i, x0[i], y0[i])
+				k+1, nk-1, ds, depth, i, x0[i], y0[i])
 		}
 		if i, j, px, py, hit := frontCrossing(x0, y0, x1, y1, periodic); hit {
 			return nil, nil, fmt.Errorf("layer %d of %d (height %.3g, %.3g from the wall) runs into the grid near (%g, %g): its cell at i = %d would overlap the one at i = %d, across a gap or cavity narrower than the grid is deep; lower the outer distance or the number of layers, or mesh that region by blocks or with the unstructured mesher",
@@ -592,6 +597,41 @@ func march(pts []orb.Point, periodic bool, heights []float64, opt MarchOptions, 
 		}
 	}
 	return xs, ys, nil
+}
+
+// facingFront looks, for the front node i of a grid grown depth from the
+// wall, for the nearest front node j more than 2·depth from it along the
+// front (outside the stretch of front around node i). It reports that
+// node and its distance when it is nearer than 2·depth: two parts of the
+// wall that face each other across a gap (a slot or a cavity) or round a
+// concave corner, no more than about four times the grid's depth apart,
+// whose fronts then meet, rather than a fold of the front on itself.
+func facingFront(x, y []float64, i int, periodic bool, depth float64) (int, float64, bool) {
+	n := len(x)
+	// Arc length along the front from node i, both ways.
+	along := make([]float64, n)
+	for k := i + 1; k < n; k++ {
+		along[k] = along[k-1] + math.Hypot(x[k]-x[k-1], y[k]-y[k-1])
+	}
+	for k := i - 1; k >= 0; k-- {
+		along[k] = along[k+1] + math.Hypot(x[k+1]-x[k], y[k+1]-y[k])
+	}
+	if periodic {
+		total := along[n-1] + along[0] + math.Hypot(x[0]-x[n-1], y[0]-y[n-1])
+		for k := range along {
+			along[k] = math.Min(along[k], total-along[k])
+		}
+	}
+	best, bj := math.Inf(1), -1
+	for k := range x {
+		if along[k] <= 2*depth {
+			continue // the front's own stretch around node i
+		}
+		if d := math.Hypot(x[k]-x[i], y[k]-y[i]); d < best {
+			best, bj = d, k
+		}
+	}
+	return bj, best, bj >= 0 && best < 2*depth
 }
 
 func sum(v []float64) float64 {

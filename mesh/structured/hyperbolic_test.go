@@ -397,3 +397,24 @@ func TestMarchFrontMeetsItself(t *testing.T) {
 		t.Errorf("met at (%g, %g), not in the mouth: %v", x, y, err)
 	}
 }
+
+// TestFacingFront: on a front made of two parallel lines 0.5 apart (a
+// slot's two walls, the grid grown 0.3 deep), node 2 of the lower line
+// finds the upper line's node straight across it, 0.5 away, less than
+// 2 × 0.3: facing; on a straight front nothing is near.
+func TestFacingFront(t *testing.T) {
+	var x, y []float64
+	for k := 0; k <= 10; k++ { // lower wall, left to right
+		x, y = append(x, 0.1*float64(k)), append(y, 0)
+	}
+	for k := 10; k >= 0; k-- { // upper wall, right to left
+		x, y = append(x, 0.1*float64(k)), append(y, 0.5)
+	}
+	j, gap, near := facingFront(x, y, 2, false, 0.3)
+	if !near || j != 21-2 || math.Abs(gap-0.5) > 1e-12 {
+		t.Errorf("slot: node %d at %g (near %v), want node 19 at 0.5", j, gap, near)
+	}
+	if _, _, near := facingFront(x[:11], y[:11], 2, false, 0.3); near {
+		t.Errorf("a straight front reports a facing part")
+	}
+}
