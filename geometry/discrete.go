@@ -10,6 +10,13 @@ import "github.com/paulmach/orb"
 type Chain struct {
 	Points []orb.Point
 	Tags   []string
+	// Smooth[k] reports whether the boundary runs smoothly through point
+	// k: both its edges are chords of one curved segment (an arc, a
+	// spline, a NACA surface), whose curve goes on between the points.
+	// It is false at the chain's ends, at the joints between segments
+	// and along lines and polylines, whose vertices are corners; nil
+	// means false everywhere.
+	Smooth []bool
 }
 
 // DiscreteLoop is a discretised closed loop: the closing edge from the last

@@ -115,8 +115,28 @@ func DiscretiseChain(segs []Segment) (Chain, error) {
 		for range edges {
 			c.Tags = append(c.Tags, s.Attr().Tag)
 		}
+		// The segment's first point (the joint, or the chain's start) and
+		// its last are not smooth; its inner points are if it is curved.
+		if si == 0 {
+			c.Smooth = append(c.Smooth, false)
+		}
+		for k := 1; k < edges; k++ {
+			c.Smooth = append(c.Smooth, Curved(s))
+		}
+		c.Smooth = append(c.Smooth, false)
 	}
 	return c, nil
+}
+
+// Curved reports whether a segment is a curve that runs smoothly between
+// the points it is discretised at (an arc, a spline or a NACA surface),
+// rather than straight pieces (a line, a polyline).
+func Curved(s Segment) bool {
+	switch s.(type) {
+	case *Arc, *Spline, *nacaSurface:
+		return true
+	}
+	return false
 }
 
 // ChainError is an error at segment Index (from 0, in the order given) of

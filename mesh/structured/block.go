@@ -22,6 +22,11 @@ type Block struct {
 	// Tags[mesh.South][i] tags the edge from (i, 0) to (i+1, 0). An empty
 	// tag marks a side that must be shared with another block.
 	Tags [4][]string
+	// Smooth holds, for each node of each side in the same order, whether
+	// the side's curve runs smoothly through it (geometry.Chain.Smooth),
+	// so that a side smoothed with sliding nodes keeps them on the curve;
+	// nil for a side with no such nodes.
+	Smooth [4][]bool
 }
 
 // NewBlock returns a block of NI × NJ nodes at the origin with empty tags.
@@ -99,6 +104,7 @@ func (b *Block) Clone() *Block {
 	c := &Block{Name: b.Name, NI: b.NI, NJ: b.NJ, X: append([]float64(nil), b.X...), Y: append([]float64(nil), b.Y...)}
 	for s := range b.Tags {
 		c.Tags[s] = append([]string(nil), b.Tags[s]...)
+		c.Smooth[s] = append([]bool(nil), b.Smooth[s]...)
 	}
 	return c
 }

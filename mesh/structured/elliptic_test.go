@@ -338,6 +338,11 @@ func TestSmoothSlidingCurvedSide(t *testing.T) {
 		North: chainOf(top, "roof"),
 		West:  line(orb.Point{0, 1}, orb.Point{0, 0}, uniform(16), "in"),
 	}
+	// The roof is a curve through its nodes (as an arc or spline is).
+	sides.North.Smooth = make([]bool, len(top))
+	for k := 1; k+1 < len(top); k++ {
+		sides.North.Smooth[k] = true
+	}
 	northAngle := func(b *Block) float64 {
 		sum := 0.0
 		for i := 1; i+1 < b.NI; i++ {

@@ -17,15 +17,19 @@ import (
 // in the spacing where the chords between the nodes cut below it by
 // s²/(8R) (a node slid a tenth of a 5 mm spacing along a 0.1 m radius
 // would leave the wall by about 3 µm on the chord, by nanometres on the
-// cubic). Where the side turns by more than sideCorner at a node, the node
-// is a corner of the side (two straight segments of the outline) and the
-// tangents on either side of it are the chords' own, so the curve is the
-// straight chord there; along a straight side the cubic is the line
-// itself.
+// cubic). The cubic is taken only through the nodes where the outline's
+// curve runs on (Block.Smooth: inner nodes of an arc, a spline or a NACA
+// surface) and that turn by no more than sideCorner; at every other node
+// (a joint between two segments, a vertex of a line or polyline, a sharp
+// turn) the tangents on either side are the chords' own, so the curve is
+// the straight chord there and a straight segment stays straight.
 type slider struct {
 	side mesh.Side
 	poly []orb.Point // the side as it was, in increasing index
-	cum  []float64   // arc length at each polyline point
+	// smooth[k] says whether the outline's curve runs smoothly through
+	// node k (Block.Smooth); nil means nowhere.
+	smooth []bool
+	cum    []float64 // arc length at each polyline point
 	// tanOut[e] and tanIn[e] are the curve's tangents (d/ds) at the start
 	// and the end of segment e, from poly[e] to poly[e+1].
 	tanOut, tanIn []orb.Point
@@ -55,24 +59,35 @@ func (sl *slider) fit() {
 	for e := 0; e+1 < n; e++ {
 		sl.tanOut[e], sl.tanIn[e] = chord(e), chord(e)
 	}
+	// The smooth nodes, where the cubic runs through with the
+	// chord-length difference as its tangent.
+	smooth := make([]bool, n)
 	for k := 1; k+1 < n; k++ {
 		u, v := chord(k-1), chord(k)
-		if math.Abs(math.Atan2(u[0]*v[1]-u[1]*v[0], u[0]*v[0]+u[1]*v[1])) > sideCorner {
-			continue // a corner: the chords' own tangents
+		if k >= len(sl.smooth) || !sl.smooth[k] || math.Abs(math.Atan2(u[0]*v[1]-u[1]*v[0], u[0]*v[0]+u[1]*v[1])) > sideCorner {
+			continue // a corner or a straight piece: the chords' own tangents
 		}
+		smooth[k] = true
 		a, b := sl.poly[k-1], sl.poly[k+1]
 		d := sl.cum[k+1] - sl.cum[k-1]
 		t := orb.Point{(b[0] - a[0]) / d, (b[1] - a[1]) / d}
 		sl.tanIn[k-1], sl.tanOut[k] = t, t
-		// At an end of the side, beside a node that is no corner, the
-		// tangent of the parabola through the end's three nodes, so that
-		// the end segments follow a curve as the inner ones do.
-		if k == 1 {
-			sl.tanOut[0] = endTangent(sl.poly[0], sl.poly[1], sl.poly[2], sl.cum[1]-sl.cum[0], sl.cum[2]-sl.cum[1])
+	}
+	// At a node that is not smooth (an end of the side, a joint between
+	// segments) beside a smooth one, the segment towards it is still a
+	// chord of the curve: its tangent there is that of the parabola
+	// through the node and the curve's next two, so that it follows the
+	// curve as the inner segments do.
+	for k := range n {
+		if smooth[k] {
+			continue
 		}
-		if k == n-2 {
-			t := endTangent(sl.poly[n-1], sl.poly[n-2], sl.poly[n-3], sl.cum[n-1]-sl.cum[n-2], sl.cum[n-2]-sl.cum[n-3])
-			sl.tanIn[n-2] = orb.Point{-t[0], -t[1]}
+		if k+2 < n && smooth[k+1] {
+			sl.tanOut[k] = endTangent(sl.poly[k], sl.poly[k+1], sl.poly[k+2], sl.cum[k+1]-sl.cum[k], sl.cum[k+2]-sl.cum[k+1])
+		}
+		if k >= 2 && smooth[k-1] {
+			t := endTangent(sl.poly[k], sl.poly[k-1], sl.poly[k-2], sl.cum[k]-sl.cum[k-1], sl.cum[k-1]-sl.cum[k-2])
+			sl.tanIn[k-1] = orb.Point{-t[0], -t[1]}
 		}
 	}
 }
@@ -90,7 +105,7 @@ func endTangent(p0, p1, p2 orb.Point, h1, h2 float64) orb.Point {
 
 func newSlider(b *Block, side mesh.Side) *slider {
 	ni := b.NI
-	sl := &slider{side: side, poly: b.SidePoints(side)}
+	sl := &slider{side: side, poly: b.SidePoints(side), smooth: b.Smooth[side]}
 	sl.fit()
 	sl.s = append([]float64(nil), sl.cum...)
 	switch side {

@@ -48,6 +48,7 @@ func TFI(s BlockSides) (*Block, error) {
 	ni, nj := len(S.Points), len(W.Points)
 	b := NewBlock(s.Name, ni, nj)
 	b.Tags[mesh.South], b.Tags[mesh.East], b.Tags[mesh.North], b.Tags[mesh.West] = S.Tags, E.Tags, N.Tags, W.Tags
+	b.Smooth[mesh.South], b.Smooth[mesh.East], b.Smooth[mesh.North], b.Smooth[mesh.West] = S.Smooth, E.Smooth, N.Smooth, W.Smooth
 
 	sS, sN, tW, tE := fractions(S.Points), fractions(N.Points), fractions(W.Points), fractions(E.Points)
 	p00, p10, p01, p11 := S.Points[0], S.Points[ni-1], N.Points[0], N.Points[ni-1]
@@ -142,6 +143,11 @@ func orient(s BlockSides) ([4]geometry.Chain, error) {
 	// be reversed too, if that is what makes it meet the east side.
 	for k := range in {
 		out[k] = geometry.Chain{Points: append([]orb.Point(nil), in[k].Points...), Tags: append([]string(nil), in[k].Tags...)}
+		if len(in[k].Smooth) == len(in[k].Points) {
+			out[k].Smooth = append([]bool(nil), in[k].Smooth...)
+		} else {
+			out[k].Smooth = make([]bool, len(in[k].Points))
+		}
 	}
 	sw, se := out[0].Points[0], out[0].Points[len(out[0].Points)-1]
 	e0, e1 := out[1].Points[0], out[1].Points[len(out[1].Points)-1]
@@ -194,6 +200,9 @@ func reverse(c *geometry.Chain) {
 	}
 	for a, z := 0, len(c.Tags)-1; a < z; a, z = a+1, z-1 {
 		c.Tags[a], c.Tags[z] = c.Tags[z], c.Tags[a]
+	}
+	for a, z := 0, len(c.Smooth)-1; a < z; a, z = a+1, z-1 {
+		c.Smooth[a], c.Smooth[z] = c.Smooth[z], c.Smooth[a]
 	}
 }
 
