@@ -97,6 +97,9 @@ type coverage struct {
 	names map[geometry.Segment]string
 	// bodies holds the indices of the loops a grid grows from as a whole.
 	bodies map[int]bool
+	// alongArea bounds the area by which the faces along the segments of
+	// along may differ from the segments' own chords (see newCoverage).
+	alongArea float64
 }
 
 // newCoverage finds what the case's blocks and grown grids use of the
@@ -149,12 +152,18 @@ func newCoverage(c *Case, m *mesh.Mesh) (*coverage, error) {
 			if bnd == nil {
 				bnd = newBoundaryIndex(m)
 			}
-			nodes, mids, sag, err := segmentSamples(s)
+			nodes, mids, sag, kappa, err := segmentCurve(s)
 			if err != nil {
 				return nil, ls.segAt[k].wrap(err)
 			}
-			if tags, ok := bnd.along(nodes, mids, geometry.ClosureTolerance*cv.size+sag); ok {
+			if tags, ok := bnd.along(nodes, mids, geometry.ClosureTolerance*cv.size+sag, kappa); ok {
 				cv.along[s] = tags
+				// The area between the segment's chords and the faces
+				// along it, which may divide the same curve otherwise:
+				// within the curve's length times the larger sagitta of
+				// the two, (2/3) of it each side (a parabolic segment's
+				// area, elementary geometry).
+				cv.alongArea += s.Length() * (sag + bnd.sagAlong(nodes, kappa))
 			}
 		}
 	}
@@ -356,7 +365,7 @@ func (cv *coverage) areas(m *mesh.Mesh) (have, want, tol float64, err error) {
 			}
 		}
 	}
-	return neumaierSum(m.Geo.CellArea), want, tol, nil
+	return neumaierSum(m.Geo.CellArea), want, tol + cv.alongArea, nil
 }
 
 // neumaierSum adds xs with Neumaier's improvement of Kahan's compensated
@@ -380,19 +389,29 @@ func neumaierSum(xs []float64) float64 {
 // distance of those halfway points from the chord between the two nodes.
 // A segment kept at its own vertices is straight between them.
 func segmentSamples(s geometry.Segment) (nodes, mids []orb.Point, sag float64, err error) {
+	nodes, mids, sag, _, err = segmentCurve(s)
+	return nodes, mids, sag, err
+}
+
+// segmentCurve is segmentSamples, with the largest curvature of the
+// segment as its chords show it, κ = 8 s / L² for a chord of length L
+// whose halfway point lies s off it (the sagitta of a circular arc, s ≈
+// κ L²/8; elementary geometry), so that a caller can bound how far the
+// chords of another division of the same curve lie from it.
+func segmentCurve(s geometry.Segment) (nodes, mids []orb.Point, sag, kappa float64, err error) {
 	sp := s.Attr().Spacing
 	if sp.KeepsVertices() {
 		if nodes, err = geometry.DiscretiseSegment(s); err != nil {
-			return nil, nil, 0, err
+			return nil, nil, 0, 0, err
 		}
 		for k := 0; k+1 < len(nodes); k++ {
 			mids = append(mids, orb.Point{(nodes[k][0] + nodes[k+1][0]) / 2, (nodes[k][1] + nodes[k+1][1]) / 2})
 		}
-		return nodes, mids, 0, nil
+		return nodes, mids, 0, 0, nil
 	}
 	f, err := sp.Fractions(s.Length())
 	if err != nil {
-		return nil, nil, 0, err
+		return nil, nil, 0, 0, err
 	}
 	nodes = make([]orb.Point, len(f))
 	for k, fk := range f {
@@ -401,9 +420,13 @@ func segmentSamples(s geometry.Segment) (nodes, mids []orb.Point, sag float64, e
 	for k := 0; k+1 < len(f); k++ {
 		mid := s.At((f[k] + f[k+1]) / 2)
 		mids = append(mids, mid)
-		sag = math.Max(sag, pointSegment(mid, nodes[k], nodes[k+1]))
+		sk := pointSegment(mid, nodes[k], nodes[k+1])
+		sag = math.Max(sag, sk)
+		if l := dist(nodes[k], nodes[k+1]); l > 0 {
+			kappa = math.Max(kappa, 8*sk/(l*l))
+		}
 	}
-	return nodes, mids, sag, nil
+	return nodes, mids, sag, kappa, nil
 }
 
 // grownGrid is one grown grid and its blocks in the mesh.
@@ -677,6 +700,19 @@ type boundaryIndex struct {
 	tag []string // the tag of each face, "" for none
 }
 
+// sagAlong is the largest sagitta, kappa L²/8, of the faces nearest to
+// the points.
+func (bi *boundaryIndex) sagAlong(pts []orb.Point, kappa float64) float64 {
+	s := 0.0
+	for _, p := range pts {
+		if _, e := bi.nearest(p, nil); e >= 0 {
+			l := dist(bi.a[e], bi.b[e])
+			s = math.Max(s, kappa*l*l/8)
+		}
+	}
+	return s
+}
+
 func newBoundaryIndex(m *mesh.Mesh) *boundaryIndex {
 	nb := m.NumBoundary()
 	a, b := make([]orb.Point, nb), make([]orb.Point, nb)
@@ -696,17 +732,28 @@ func newBoundaryIndex(m *mesh.Mesh) *boundaryIndex {
 // within tol of a boundary face, and returns the tags of the faces
 // nearest the halfway points, sorted (the nodes at the ends meet the
 // neighbouring segments' faces too).
-func (bi *boundaryIndex) along(nodes, mids []orb.Point, tol float64) ([]string, bool) {
+func (bi *boundaryIndex) along(nodes, mids []orb.Point, tol, kappa float64) ([]string, bool) {
+	// Within tol of the nearest face, or of the curve of curvature kappa
+	// through the face's ends, which lies up to kappa L²/8 off a face of
+	// length L (the face may divide the same curve otherwise).
+	near := func(p orb.Point) (int, bool) {
+		d, e := bi.nearest(p, nil)
+		if e < 0 {
+			return e, false
+		}
+		l := dist(bi.a[e], bi.b[e])
+		return e, d <= tol+kappa*l*l/8
+	}
 	for _, p := range nodes {
-		if d, _ := bi.nearest(p, nil); !(d <= tol) {
+		if _, ok := near(p); !ok {
 			return nil, false
 		}
 	}
 	seen := map[string]bool{}
 	var tags []string
 	for _, p := range mids {
-		d, e := bi.nearest(p, nil)
-		if !(d <= tol) {
+		e, ok := near(p)
+		if !ok {
 			return nil, false
 		}
 		if t := bi.tag[e]; !seen[t] {

@@ -432,3 +432,46 @@ func TestEdgeIndex(t *testing.T) {
 		t.Errorf("nearest to the bottom = %g (edge %d), want 0.75 (edge 0)", d, e)
 	}
 }
+
+// TestCoverCurveDividedOtherwise: a duct whose roof, a circular arc of
+// radius 3.9 through (0, 1), (1.5, 1.3) and (3, 1), is meshed by two
+// blocks whose north sides are two free arcs on the same circle, divided
+// into their own 15 edges each, while the outline's roof has 20, 30 or 60
+// edges of its own: the roof lies along the mesh's boundary within the
+// chords' sagittas (κ L²/8 for a chord of length L on a curve of
+// curvature κ, elementary geometry), and the areas agree within the area
+// between the two divisions, so every division is accepted.
+func TestCoverCurveDividedOtherwise(t *testing.T) {
+	const text = `name: split
+parameters: {ROOF: 31}
+geometry:
+  loops:
+    - name: duct
+      start: [0, 0]
+      segments:
+        - {name: floor, line: [3, 0], tag: wall, spacing: {count: 31}}
+        - {name: right, line: [3, 1], tag: outlet, spacing: {count: 11}}
+        - {name: roof, arc: {through: [1.5, 1.3], to: [0, 1]}, tag: wall, spacing: {count: ROOF}}
+        - {name: left, line: [0, 0], tag: inlet, spacing: {count: 11}}
+  curves:
+    - {name: f1, start: [0, 0], segments: [{line: [1.5, 0], tag: wall, spacing: {count: 16}}]}
+    - {name: f2, start: [1.5, 0], segments: [{line: [3, 0], tag: wall, spacing: {count: 16}}]}
+    - {name: mid, start: [1.5, 0], segments: [{line: [1.5, 1.3], spacing: {count: 11}}]}
+    - {name: r1, start: [0, 1], segments: [{arc: {through: [0.75, -2.6 + sqrt(15.21 - 0.5625)], to: [1.5, 1.3]}, tag: wall, spacing: {count: 16}}]}
+    - {name: r2, start: [1.5, 1.3], segments: [{arc: {through: [2.25, -2.6 + sqrt(15.21 - 0.5625)], to: [3, 1]}, tag: wall, spacing: {count: 16}}]}
+mesh:
+  structured:
+    blocks:
+      - {name: a, south: f1, east: mid, north: r1, west: left}
+      - {name: b, south: f2, east: right, north: r2, west: mid}
+`
+	for _, roof := range []float64{21, 31, 61} {
+		c, err := Parse("split.yaml", []byte(text), LoadOptions{Params: map[string]float64{"ROOF": roof}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, _, err := c.buildStructured(); err != nil {
+			t.Errorf("roof of %g nodes: %v", roof, err)
+		}
+	}
+}
