@@ -102,7 +102,7 @@ func cellPass(m *mesh.Mesh, cf *cellFaces, ff *faceFields, lim *Limits, status [
 				failed := p.failed
 				p.scan(&metricDefs[k], bounds[k], lim.WorstCells, v, b, status)
 				if thinMetric[k] && p.failed > failed {
-					p.thin += countThin(v, aspect, bounds[k].Fail)
+					p.thin += countThin(v, aspect, maxAngle, bounds[k].Fail, bounds[mMaxAngle].Warn)
 				}
 			}
 		}
@@ -111,9 +111,9 @@ func cellPass(m *mesh.Mesh, cf *cellFaces, ff *faceFields, lim *Limits, status [
 }
 
 // ThinAspect is the aspect ratio from which a cell counts as thin in the
-// report (MetricSummary.FailedThin): a cell ten times as long as it is
-// high, as wall layers and stretched structured cells are (common
-// practice).
+// report (MetricSummary.FailedThin), if its angles pass: a cell ten times
+// as long as it is high, as wall layers and stretched structured cells
+// are (common practice).
 const ThinAspect = 10
 
 // thinMetric marks the metrics measured from cell centroids across faces,
@@ -122,15 +122,18 @@ const ThinAspect = 10
 // so these values grow large by construction (see WriteText).
 var thinMetric = [numCellMetrics]bool{mNonOrth: true, mSkewness: true, mGradient: true}
 
-// countThin counts the values of v past fail whose cells' aspect ratio is
-// ThinAspect or more. It is kept out of cellPass's loop, which calls it
-// only for a tile with failures, so that the loop stays as lean as it was.
+// countThin counts the values of v past fail whose cells are thin: an
+// aspect ratio of ThinAspect or more, and no angle past angleWarn, the
+// max_angle warn limit (a long cell of sound angles, not a sliver, whose
+// near-flat corner is a defect in its own right). It is kept out of
+// cellPass's loop, which calls it only for a tile with failures, so that
+// the loop stays as lean as it was.
 //
 //go:noinline
-func countThin(v, aspect []float64, fail float64) int {
+func countThin(v, aspect, maxAngle []float64, fail, angleWarn float64) int {
 	n := 0
 	for i, x := range v {
-		n += b2i(x > fail && aspect[i] >= ThinAspect)
+		n += b2i(x > fail && aspect[i] >= ThinAspect && maxAngle[i] <= angleWarn)
 	}
 	return n
 }

@@ -46,8 +46,9 @@ type MetricSummary struct {
 	Failed int `json:"failed"`
 	// FailedThin counts, for the metrics measured from the cell centroids
 	// across faces (non_orthogonality, skewness, gradient_error), the
-	// failed cells whose aspect ratio is ThinAspect or more (see
-	// WriteText's note on them); 0 for the other metrics.
+	// failed cells whose aspect ratio is ThinAspect or more and whose
+	// largest angle passes (see WriteText's note on them); 0 for the
+	// other metrics.
 	FailedThin int `json:"failed_thin,omitempty"`
 	// Worst lists the worst cells (nodes), worst first, ties by index.
 	Worst []Located `json:"worst"`

@@ -367,7 +367,7 @@ func TestThinCellsCounted(t *testing.T) {
 	if err := WriteText(&b, r); err != nil {
 		t.Fatal(err)
 	}
-	if line := fmt.Sprintf("skewness: %d of the %d failing cells have an aspect ratio of 10 or more", 2*ny, 2*ny); !strings.Contains(b.String(), line) {
+	if line := fmt.Sprintf("skewness: %d of the %d failing cells have an aspect ratio of 10 or more, and angles that pass", 2*ny, 2*ny); !strings.Contains(b.String(), line) {
 		t.Errorf("the text report lacks %q:\n%s", line, b.String())
 	}
 	// A square grid's few failures, if any, are not thin.
@@ -379,5 +379,25 @@ func TestThinCellsCounted(t *testing.T) {
 		if ms.FailedThin != 0 {
 			t.Errorf("square grid: %s counts %d thin failures", ms.Name, ms.FailedThin)
 		}
+	}
+}
+
+// TestSliverNotCountedThin: a sliver triangle (0, 0), (10, 0), (5, 0.1),
+// its largest angle 180° − 2 atan(0.1/5) = 177.7° (elementary geometry),
+// fails non-orthogonality on its short sides and is long, but its angles
+// fail too: it is not counted among the thin cells the report excuses.
+func TestSliverNotCountedThin(t *testing.T) {
+	m := build(t, []orb.Point{{0, 0}, {10, 0}, {5, 0.1}}, [][]int32{{0, 1, 2}}, true)
+	r, err := Evaluate(m, everyday(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	mx, _ := r.Metric("max_angle")
+	if want := 180 - 2*math.Atan(0.1/5)*180/math.Pi; math.Abs(float64(mx.Max)-want) > 1e-9 {
+		t.Errorf("largest angle %.12g°, want %.12g°", float64(mx.Max), want)
+	}
+	no, _ := r.Metric("non_orthogonality")
+	if no.Failed != 1 || no.FailedThin != 0 {
+		t.Errorf("non-orthogonality: %d failed, %d of them counted thin; want 1 and none", no.Failed, no.FailedThin)
 	}
 }

@@ -47,7 +47,7 @@ func WriteText(w io.Writer, r *Report) error {
 			fmt.Fprintf(b, "\nthin cells\n")
 			thin = true
 		}
-		fmt.Fprintf(b, "  %s: %d of the %d failing cells have an aspect ratio of %d or more\n", s.Name, s.FailedThin, s.Failed, ThinAspect)
+		fmt.Fprintf(b, "  %s: %d of the %d failing cells have an aspect ratio of %d or more, and angles that pass\n", s.Name, s.FailedThin, s.Failed, ThinAspect)
 	}
 	if thin {
 		fmt.Fprintf(b, "  A thin cell's centroid lies far from its short faces compared with their length, so a slight\n"+
