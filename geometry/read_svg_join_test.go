@@ -117,7 +117,7 @@ func TestReadSVGDocumentStrokeRefusals(t *testing.T) {
 <line x1="0" y1="10" x2="10" y2="10"/>`),
 			`SVG line element 1 (line 3) has no data-tag or id, while the other pieces of its loop are tagged "u": give it a data-tag or an id (as it stands its edges would take the loop's default tag "outer")`},
 		{"an empty data-tag", doc(`<line id="a" data-tag=" " x1="0" y1="0" x2="1" y2="0"/>`),
-			`SVG line element 0 (line 2, id "a"): data-tag is empty`},
+			`SVG line element (line 2, id "a"): data-tag is empty`},
 		{"a polyline without points", doc(`<polyline id="a"/>`), `SVG polyline element 0 (line 2, id "a"): polyline has no points attribute`},
 	} {
 		_, err := ReadSVGDocument(strings.NewReader(c.doc), SVGOptions{})
@@ -152,5 +152,35 @@ func TestReadSVGDocumentStrokesTransformed(t *testing.T) {
 	}
 	if len(corners) != 2 || corners[0][0] != 100 || corners[1][0] != 100 {
 		t.Errorf("outlet runs %v, want along x = 100", corners)
+	}
+}
+
+// TestReadSVGGroupTags: a group's data-tag tags the elements inside it
+// that have none of their own, before their ids (a drawing program names
+// every path itself, path101, ...), and an element's own data-tag wins
+// over its group's. The 100 × 50 box has walls of 100 + 100 and ends of
+// 50 + 50 (elementary geometry).
+func TestReadSVGGroupTags(t *testing.T) {
+	const doc = `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 100 50">
+  <g id="layer1" data-tag="wall">
+    <path id="path101" d="M 0,0 L 100,0"/>
+    <g id="sub"><path id="path102" d="M 100,50 L 0,50"/></g>
+    <path id="path103" data-tag="outlet" d="M 100,0 L 100,50"/>
+  </g>
+  <path id="inlet" d="M 0,50 L 0,0"/>
+</svg>`
+	o, err := ReadSVGDocument(strings.NewReader(doc), SVGOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := map[string]float64{"wall": 200, "outlet": 50, "inlet": 50}
+	got := tagLengths(o)
+	if len(got) != len(want) {
+		t.Errorf("tags %v, want %v", got, want)
+	}
+	for tag, l := range want {
+		if math.Abs(got[tag]-l) > 1e-12 {
+			t.Errorf("tag %q: length %g, want %g", tag, got[tag], l)
+		}
 	}
 }

@@ -23,7 +23,8 @@ import (
 // an application's own data, from memory; ids must be unique in a
 // document, a data-tag need not be, so two strokes may both be "wall");
 // within a loop joined from pieces, either every piece has a tag or none
-// has. The transform attributes of an element and of the groups
+// has. A group's data-tag tags the edges of the elements inside it that
+// have none of their own (before their ids). The transform attributes of an element and of the groups
 // around it are applied (SVG 1.1 §7.6: matrix, translate, scale, rotate,
 // skewX and skewY, a list applied right to left, a group's before its
 // parent's), the curves flattened so that they stay within the tolerance
@@ -38,6 +39,7 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 	var subs []svgSubpath
 	var matrices []*svgMatrix // per open element: its transform to the document, nil for none
 	var hidden []bool         // per open element: inside content not drawn in place
+	var inherited []string    // per open element: the data-tag it or a group around it gives, or ""
 	shapes := 0
 	for {
 		tok, err := dec.Token()
@@ -71,6 +73,25 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 				m = &own
 			}
 			matrices = append(matrices, m)
+			// An element's edges take its own data-tag, else the nearest
+			// one a group around it gives, else its id.
+			own, given := attrs["data-tag"]
+			if given && strings.TrimSpace(own) == "" {
+				id := ""
+				if attrs["id"] != "" {
+					id = fmt.Sprintf(", id %q", attrs["id"])
+				}
+				return Outline{}, fmt.Errorf("SVG %s element (line %d%s): data-tag is empty; give it the boundary tag of the edges it draws, or leave it out to tag them from the groups around it or by their ids: %w", t.Name.Local, line, id, ErrFormat)
+			}
+			group := ""
+			if len(inherited) > 0 {
+				group = inherited[len(inherited)-1]
+			}
+			if given {
+				inherited = append(inherited, own)
+			} else {
+				inherited = append(inherited, group)
+			}
 			hide := len(hidden) > 0 && hidden[len(hidden)-1] || svgUndrawn[t.Name.Local]
 			hidden = append(hidden, hide)
 			if hide {
@@ -81,14 +102,14 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 			if id := attrs["id"]; id != "" {
 				where += fmt.Sprintf(", id %q", id)
 			}
-			tag, given := attrs["data-tag"]
-			if given {
-				if strings.TrimSpace(tag) == "" {
-					return Outline{}, fmt.Errorf("%s): data-tag is empty; give it the boundary tag of the element's edges, or leave it out to tag them by the id: %w", where, ErrFormat)
-				}
+			tag := attrs["id"]
+			switch {
+			case given:
+				tag = own
 				where += fmt.Sprintf(", data-tag %q", tag)
-			} else {
-				tag = attrs["id"]
+			case group != "":
+				tag = group
+				where += fmt.Sprintf(", data-tag %q from a group", tag)
 			}
 			where += ")"
 			if err != nil {
@@ -112,6 +133,7 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 			if len(matrices) > 0 {
 				matrices = matrices[:len(matrices)-1]
 				hidden = hidden[:len(hidden)-1]
+				inherited = inherited[:len(inherited)-1]
 			}
 		}
 	}
