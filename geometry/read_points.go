@@ -96,11 +96,13 @@ func ReadPointFile(r io.Reader, opt PointOptions) (PointFile, error) {
 	var pf PointFile
 	var pts []orb.Point
 	var lines []int
-	closedAt := 0             // line of the last point if it equals the first
-	var gap, pending pointGap // the first break between two points; the break since the last point
-	var head pointHead        // the title and header lines
-	cols, colsAt := 0, 0      // numbers a line (2 or 3) and the line that set it
-	z, zAt := 0.0, 0          // the plane of three-column files and its first line
+	closedAt := 0                // line of the last point if it equals the first
+	var gap, pending pointGap    // the first break between two points; the break since the last point
+	var head pointHead           // the title and header lines
+	cols, colsAt := 0, 0         // numbers a line (2 or 3) and the line that set it
+	z, zAt := 0.0, 0             // the plane of three-column files and its first line
+	first, counting := 0.0, true // the first column's first value, and whether it counts the points
+	size := 0.0                  // the largest |x| or |y| so far
 	sc := bufio.NewScanner(r)
 	sc.Buffer(make([]byte, 64*1024), 16*1024*1024)
 	for n := 1; sc.Scan(); n++ {
@@ -127,7 +129,10 @@ func ReadPointFile(r io.Reader, opt PointOptions) (PointFile, error) {
 			continue
 		}
 		if !isNumber(fs[0].s) {
-			return PointFile{}, fmt.Errorf("line %d, column %d: %q is not a finite number (a title and a header of column names come only before the first point, on line %d): %w", n, fs[0].col, fs[0].s, lines[0], ErrFormat)
+			return PointFile{}, fmt.Errorf("line %d, column %d: %q is not a finite number (a title and a header of column names come only before the first point, on line %d)%s: %w", n, fs[0].col, fs[0].s, lines[0], quoteHint(text), ErrFormat)
+		}
+		if c := emptyField(text); c > 0 {
+			return PointFile{}, fmt.Errorf("line %d, column %d: an empty field between two separators: a number is missing; every line holds x y (or x y z): %w", n, c, ErrFormat)
 		}
 		if c := decimalComma(text); c > 0 {
 			return PointFile{}, fmt.Errorf("line %d, column %d: %q looks written with decimal commas, which are not read: write decimal points (0.5, not 0,5); a comma, like a semicolon, white space or a tab, separates numbers: %w", n, c, strings.TrimSpace(text), ErrFormat)
@@ -147,15 +152,29 @@ func ReadPointFile(r io.Reader, opt PointOptions) (PointFile, error) {
 		for k, f := range fs {
 			x, err := strconv.ParseFloat(f.s, 64)
 			if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
-				return PointFile{}, fmt.Errorf("line %d, column %d: %q is not a finite number: %w", n, f.col, f.s, ErrFormat)
+				return PointFile{}, fmt.Errorf("line %d, column %d: %q is not a finite number%s: %w", n, f.col, f.s, quoteHint(text), ErrFormat)
 			}
 			v[k] = x
 		}
+		// Whether the first column so far counts the points 1, 2, 3, ...
+		// (or from 0), as a spreadsheet's index column does.
+		counting = counting && v[0] == math.Trunc(v[0]) && (len(pts) == 0 && (v[0] == 0 || v[0] == 1) || len(pts) > 0 && v[0] == first+float64(len(pts)))
+		if len(pts) == 0 {
+			first = v[0]
+		}
+		size = math.Max(size, math.Max(math.Abs(v[0]), math.Abs(v[1])))
 		if cols == 3 {
+			// z the same on every line, within round-off of the
+			// coordinates' size (a plane exported from 3D may carry
+			// 1e-17 beside 0).
 			if zAt == 0 {
 				z, zAt = v[2], n
-			} else if v[2] != z {
-				return PointFile{}, fmt.Errorf("line %d, column %d: z = %g differs from z = %g on line %d; a file of x y z points is read as a plane drawing, so z must be the same on every line: %w", n, fs[2].col, v[2], z, zAt, ErrFormat)
+			} else if math.Abs(v[2]-z) > 1e-9*math.Max(size, math.Abs(z)) {
+				hint := ""
+				if counting {
+					hint = "; the first column counts the points (1, 2, 3, ...): leave it out, so that the columns are x y (or x y z)"
+				}
+				return PointFile{}, fmt.Errorf("line %d, column %d: z = %g differs from z = %g on line %d; a file of x y z points is read as a plane drawing, so z must be the same on every line%s: %w", n, fs[2].col, v[2], z, zAt, hint, ErrFormat)
 			}
 		}
 		p := orb.Point{v[0], v[1]}
@@ -230,6 +249,37 @@ func pointFields(text string) []pointField {
 		i = j
 	}
 	return fs
+}
+
+// quoteHint says, for a line with quotation marks, that they are not
+// read (as a spreadsheet may write "0","0"), and is "" otherwise.
+func quoteHint(text string) string {
+	if strings.ContainsAny(text, "\"'") {
+		return "; quotation marks are not read: save the numbers without them"
+	}
+	return ""
+}
+
+// emptyField returns the column of the second of two commas or
+// semicolons with nothing but white space between them inside a line
+// ("1,,0"), a field left empty, and 0 when there is none; separators at
+// the end of a line, which spreadsheets write, are not fields.
+func emptyField(text string) int {
+	text = strings.TrimRight(text, " \t\r,;")
+	last := -1
+	for i := 0; i < len(text); i++ {
+		switch c := text[i]; {
+		case c == ',' || c == ';':
+			if last >= 0 {
+				return i + 1
+			}
+			last = i
+		case c == ' ' || c == '\t':
+		default:
+			last = -1
+		}
+	}
+	return 0
 }
 
 // isNumber reports whether s is a finite number.
@@ -320,7 +370,7 @@ func (h *pointHead) read(n int, text string, fs []pointField) error {
 		if h.at > 0 {
 			what = fmt.Sprintf("the header on line %d", h.at)
 		}
-		return fmt.Errorf("line %d, column %d: %q is not a point, and comes after %s; %s: %w", n, fs[0].col, strings.TrimSpace(text), what, form, ErrFormat)
+		return fmt.Errorf("line %d, column %d: %q is not a point, and comes after %s; %s%s: %w", n, fs[0].col, strings.TrimSpace(text), what, form, quoteHint(text), ErrFormat)
 	}
 	if isPointHeader(text) {
 		cols, err := h.header(n, text)
@@ -331,7 +381,7 @@ func (h *pointHead) read(n int, text string, fs []pointField) error {
 		return nil
 	}
 	if !hasWord(text) {
-		return fmt.Errorf("line %d, column %d: %q is not a point, nor a title (which holds a word of two letters or more), nor a header of column names; %s: %w", n, fs[0].col, strings.TrimSpace(text), form, ErrFormat)
+		return fmt.Errorf("line %d, column %d: %q is not a point, nor a title (which holds a word of two letters or more), nor a header of column names; %s%s: %w", n, fs[0].col, strings.TrimSpace(text), form, quoteHint(text), ErrFormat)
 	}
 	h.titleAt = n
 	h.title = strings.Trim(strings.TrimSpace(strings.TrimRight(text, " \t\r,;")), `"`)
@@ -398,9 +448,9 @@ func (e *UnitError) Error() string {
 	if e.ReadAt == 0 {
 		return fmt.Sprintf("line %d, column %d: the file gives its coordinates in %s, but the numbers of this file are read in the unit of the case that uses it, which is not checked against the file's: remove %q from the file and state the unit in the case: %v: %v", e.Line, e.Column, e.Unit, e.Unit, ErrUnit, ErrFormat)
 	}
-	how := fmt.Sprintf("%g times too small", e.Metres/e.ReadAt)
+	how := fmt.Sprintf("%.4g times too small", e.Metres/e.ReadAt)
 	if e.ReadAt > e.Metres {
-		how = fmt.Sprintf("%g times too large", e.ReadAt/e.Metres)
+		how = fmt.Sprintf("%.4g times too large", e.ReadAt/e.Metres)
 	}
 	return fmt.Sprintf("line %d, column %d: the file gives its coordinates in %s (%g m), but they are being read at %g m to the unit, which would make the outline %s: %v: %v",
 		e.Line, e.Column, e.Unit, e.Metres, e.ReadAt, how, ErrUnit, ErrFormat)

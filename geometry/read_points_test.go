@@ -265,3 +265,25 @@ func readPoints(r io.Reader, a Attr, close bool) (*Polyline, bool, error) {
 	}
 	return f.Polyline, f.Closed, nil
 }
+
+// TestReadPointsSpreadsheetForms: what a spreadsheet writes. A z that
+// differs from the first by round-off (1e-17 beside coordinates of 1) is
+// the same plane; an empty field, quoted numbers and a leading column
+// that counts the points are refused, each saying so.
+func TestReadPointsSpreadsheetForms(t *testing.T) {
+	square := "0 0 0\n1 0 1e-17\n1 1 0\n0 1 -1e-17\n"
+	f, err := ReadPointFile(strings.NewReader(square), PointOptions{Close: true})
+	if err != nil || len(f.Polyline.Vertices()) != 5 {
+		t.Errorf("z within round-off: got %v", err)
+	}
+	for _, c := range []struct{ name, text, says string }{
+		{"an empty field", "x,y\n0,0\n1,,0\n1,1\n", "line 3, column 3: an empty field between two separators"},
+		{"quoted numbers", "x,y\n\"0\",\"0\"\n", "quotation marks are not read"},
+		{"a point-number column", "Point,X,Y\n1,0,0\n2,1,0\n3,1,0.5\n", "the first column counts the points (1, 2, 3, ...): leave it out"},
+	} {
+		_, err := ReadPointFile(strings.NewReader(c.text), PointOptions{Close: true})
+		if !errors.Is(err, ErrFormat) || !strings.Contains(err.Error(), c.says) {
+			t.Errorf("%s: got %v, want an error saying %q", c.name, err, c.says)
+		}
+	}
+}
