@@ -146,6 +146,26 @@ func fanSpacing(s []float64, theta float64) float64 {
 //
 // The result has the same loops and tags, the added points in loop
 // order with user[i] set (see pslg.where); without corners it is g.
+// sameStacks reports whether two layer requests grow stacks of about the
+// same heights near the wall, so that one graded spacing serves both:
+// first heights within a factor 1.5 of each other and growth ratios
+// within 5% (the layers of the two walls then differ in height by no
+// more than neighbouring cells of one stack grow in a couple of layers;
+// our own bound, checked on the step with 0.5 and 0.4 mm first heights).
+func sameStacks(a, b Layers) bool {
+	ha, hb := math.Max(a.FirstHeight, b.FirstHeight), math.Min(a.FirstHeight, b.FirstHeight)
+	ga, gb := growthOf(a), growthOf(b)
+	return ha <= 1.5*hb && math.Abs(ga-gb) <= 0.05*math.Max(ga, gb)
+}
+
+// growthOf is a request's layer growth ratio, its default when not given.
+func growthOf(l Layers) float64 {
+	if l.Growth == 0 {
+		return DefaultGrowth
+	}
+	return l.Growth
+}
+
 func gradeCorners(g *pslg, opt Options, specOf []int) (*pslg, []tieCorner, error) {
 	wall := func(e int32) int { return specOf[g.edgeTag[e]] }
 	hs := make([][]float64, len(opt.Layers))
@@ -222,6 +242,12 @@ func gradeCorners(g *pslg, opt Options, specOf []int) (*pslg, []tieCorner, error
 		}
 		turn := turnAt(p)
 		k := kind{turn: turn, spec: spec}
+		if !sameStacks(opt.Layers[vin], opt.Layers[vout]) {
+			// Two layer requests of different heights meet here: spacing
+			// graded for one of them gives the other's cells near-flat
+			// corners, so the corner keeps the spacing it has.
+			continue
+		}
 		switch {
 		case turn < -fanTurn:
 			_, theta := fanPlan(turn, fanMaxStep)

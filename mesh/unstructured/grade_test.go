@@ -488,3 +488,23 @@ func TestGradingLimit(t *testing.T) {
 		}
 	}
 }
+
+// TestSameStacks: corners between two layer requests are graded only
+// when their stacks are about the same: 0.5 and 0.4 mm first heights at
+// growth 1.2 are (the step's two requests above pass the everyday
+// limits), 50 µm and 1 µm are not, nor growths of 1.2 and 1.3.
+func TestSameStacks(t *testing.T) {
+	for _, c := range []struct {
+		a, b Layers
+		want bool
+	}{
+		{Layers{FirstHeight: 5e-4, Growth: 1.2}, Layers{FirstHeight: 4e-4, Growth: 1.2}, true},
+		{Layers{FirstHeight: 5e-5, Growth: 1.2}, Layers{FirstHeight: 1e-6, Growth: 1.2}, false},
+		{Layers{FirstHeight: 5e-4, Growth: 1.2}, Layers{FirstHeight: 5e-4, Growth: 1.3}, false},
+		{Layers{FirstHeight: 5e-4}, Layers{FirstHeight: 5e-4, Growth: DefaultGrowth}, true},
+	} {
+		if got := sameStacks(c.a, c.b); got != c.want {
+			t.Errorf("sameStacks(%+v, %+v) = %v, want %v", c.a, c.b, got, c.want)
+		}
+	}
+}
