@@ -184,3 +184,17 @@ func TestReadSVGGroupTags(t *testing.T) {
 		}
 	}
 }
+
+// TestReadSVGUseRefused: a use element draws a copy of another (SVG 1.1
+// §5.6, from memory); the copy is refused, naming it, rather than lost.
+func TestReadSVGUseRefused(t *testing.T) {
+	const doc = `<svg xmlns="http://www.w3.org/2000/svg" xmlns:xlink="http://www.w3.org/1999/xlink" viewBox="0 0 100 50">
+  <rect id="box" x="0" y="0" width="100" height="50"/>
+  <defs><circle id="hole" cx="0" cy="0" r="5"/></defs>
+  <use xlink:href="#hole" x="30" y="25"/>
+</svg>`
+	_, err := ReadSVGDocument(strings.NewReader(doc), SVGOptions{})
+	if !errors.Is(err, ErrFormat) || !strings.Contains(err.Error(), `SVG use element (line 4) draws a copy of "#hole"`) {
+		t.Errorf("got %v, want the use element refused", err)
+	}
+}

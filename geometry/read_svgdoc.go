@@ -97,6 +97,17 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 			if hide {
 				continue
 			}
+			if t.Name.Local == "use" {
+				// A use element draws a copy of another element, which
+				// would be lost unread: refuse it rather than drop it.
+				ref := attrs["href"]
+				for _, a := range t.Attr {
+					if a.Name.Local == "href" {
+						ref = a.Value
+					}
+				}
+				return Outline{}, fmt.Errorf("SVG use element (line %d) draws a copy of %q, which cvdeck does not read: replace the copy by the shape itself (in a drawing program, unlink the clone): %w", line, ref, ErrFormat)
+			}
 			d, isShape, err := shapePathData(t.Name.Local, attrs)
 			where := fmt.Sprintf("SVG %s element %d (line %d", t.Name.Local, shapes, line)
 			if id := attrs["id"]; id != "" {

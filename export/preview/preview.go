@@ -215,10 +215,11 @@ func build(in Input) (*scene, error) {
 	}
 	views := []drawnView{{"overview", drawInterior(s, m, overview, 0, MaxInteriorFaces, meshLine, lineWidth)}}
 	drawBoundary(s, m, colours, overview, MaxBoundaryFaces, 0, 2.2)
-	blocks := drawBlocks(s, m, overview, s.viewClip(overview))
 	// Flagged cells go on top of the lines: they are what the picture
-	// is for.
+	// is for; the block outlines and their marks over them, so that
+	// flagged cells do not hide them.
 	binned := drawFlagged(s, m, in.Status, overview, 0, MaxFlaggedCells, false)
+	blocks := drawBlocks(s, m, overview, s.viewClip(overview))
 	if counts[Warn]+counts[Fail] <= MaxFlaggedCells {
 		drawMarkers(s, m, in.Status, overview)
 	}
@@ -235,8 +236,8 @@ func build(in Input) (*scene, error) {
 		s.rect(near.b, &white, &zoomFrame, 1.5)
 		views = append(views, drawnView{"near the bodies", drawInterior(s, m, near, clip, maxBodiesFaces, meshLine, lineWidth)})
 		drawBoundary(s, m, colours, near, MaxBoundaryFaces, clip, 1.8)
-		blocks = drawBlocks(s, m, near, clip) || blocks
 		binned = drawFlagged(s, m, in.Status, near, clip, MaxFlaggedCells, false) || binned
+		blocks = drawBlocks(s, m, near, clip) || blocks
 		s.text(near.b.x, near.b.y-8, 12, start, ink, true, "near the bodies: the boundaries inside the domain and their surroundings")
 		frameOn(s, overview, near, "B")
 		bottom = drawFooter(s, near)
