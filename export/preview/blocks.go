@@ -1,6 +1,8 @@
 package preview
 
 import (
+	"slices"
+
 	"cvdeck/mesh"
 )
 
@@ -51,15 +53,26 @@ func drawBlocks(s *scene, m *mesh.Mesh, v view, clip int) bool {
 	inView := func(x, y float64) bool {
 		return x >= v.b.x && x <= v.b.x+v.b.w && y >= v.b.y && y <= v.b.y+v.b.h
 	}
+	// A name that would overlap one already placed (the pieces of a
+	// grid split round a small body) is left out rather than smeared.
+	var placed []box
 	for _, b := range m.Blocks {
 		p := m.Nodes[b.Node[0]]
 		if x, y := v.px(p[0], p[1]); inView(x, y) {
 			s.add(shape{kind: polygon, pts: ring(x, y, 3, 8), fill: &blockLine, clip: clip})
 		}
 		c := m.Nodes[b.Node[(b.NJ/2)*b.NI+b.NI/2]]
-		if x, y := v.px(c[0], c[1]); b.Name != "" && inView(x, y) {
-			s.text(x, y+4, 11, middle, blockLine, true, b.Name)
+		x, y := v.px(c[0], c[1])
+		if b.Name == "" || !inView(x, y) {
+			continue
 		}
+		w := textWidth(b.Name, 11)
+		lb := box{x - w/2 - 2, y - 8, w + 4, 14}
+		if slices.ContainsFunc(placed, func(o box) bool { return overlaps(o, lb) }) {
+			continue
+		}
+		placed = append(placed, lb)
+		s.text(x, y+4, 11, middle, blockLine, true, b.Name)
 	}
 	return len(pts) > 0
 }
@@ -76,4 +89,9 @@ func segmentTo(m *mesh.Mesh, v view, pts *[]float64, prev, next int32) int32 {
 		}
 	}
 	return next
+}
+
+// overlaps reports whether two boxes share any area.
+func overlaps(a, b box) bool {
+	return a.x < b.x+b.w && b.x < a.x+a.w && a.y < b.y+b.h && b.y < a.y+a.h
 }

@@ -668,21 +668,18 @@ func TestHistogramsFillThePage(t *testing.T) {
 	if len(hists) != len(in.Metrics) {
 		t.Fatalf("%d histogram frames for %d metrics", len(hists), len(in.Metrics))
 	}
-	overlap := func(a, b box) bool {
-		return a.x < b.x+b.w && b.x < a.x+a.w && a.y < b.y+b.h && b.y < a.y+a.h
-	}
 	low, below := 0.0, 0
 	for i, h := range hists {
 		if h.x < 0 || h.x+h.w > float64(s.w) || h.y < 0 || h.y+h.h > float64(s.h) {
 			t.Errorf("histogram %d at %+v is off the %d × %d canvas", i, h, s.w, s.h)
 		}
 		for j := range i {
-			if overlap(h, hists[j]) {
+			if overlaps(h, hists[j]) {
 				t.Errorf("histograms %d and %d overlap: %+v, %+v", j, i, hists[j], h)
 			}
 		}
 		for _, v := range views {
-			if overlap(h, v) {
+			if overlaps(h, v) {
 				t.Errorf("histogram %d at %+v overlaps the view at %+v", i, h, v)
 			}
 		}
@@ -753,6 +750,18 @@ func TestBlockOutlines(t *testing.T) {
 	}
 	if !legend || len(names) != 2 {
 		t.Errorf("legend %v, names %v: want the Blocks entry and both names", legend, names)
+	}
+	// A second name at the same place (a block listed twice) is left out.
+	m.Blocks = append(m.Blocks, m.Blocks[0])
+	m.Blocks[2].Name = "again"
+	s, err = build(testInput(m))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, sh := range s.shapes {
+		if sh.kind == label && sh.text == "again" {
+			t.Errorf("a block name drawn over another's")
+		}
 	}
 	m.Blocks = nil
 	s, err = build(testInput(m))
