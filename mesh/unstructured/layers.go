@@ -996,7 +996,7 @@ func (r StopReason) String() string {
 	case StopFold:
 		return "cells would fold (come out inverted or not convex)"
 	case StopOverlap:
-		return "the layers would overlap layers grown from another part of the walls"
+		return "the layers would overlap layers grown from another part of the walls (across a gap, or at a corner where another wall's layers meet them)"
 	case StopNeighbour:
 		return "a neighbouring wall asks for fewer layers (neighbours differ by at most one)"
 	case StopCorner:
