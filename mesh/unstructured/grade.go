@@ -99,7 +99,9 @@ func fanSpacing(s []float64, theta float64) float64 {
 // corners of layered walls (Options.Layers), so that the layer cells
 // there stay within the everyday quality limits, and the concave corners
 // whose layers are tied. The corners are the points between two layered
-// wall edges that are
+// wall edges whose stacks match (sameStacks: a corner between stacks of
+// different heights keeps its spacing, since spacing graded for one
+// gives the other's cells near-flat corners) that are
 //
 //   - convex by more than fanTurn, where the layers fan out: the spacing
 //     beside the fan is fanSpacing of the fan's step, so the fan's
