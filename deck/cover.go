@@ -26,7 +26,9 @@ import (
 //     as a straight wall can lie along a grown grid's start or end line:
 //     then its nodes, and its curve halfway between them, lie on boundary
 //     faces (within the outline's closure tolerance plus the segment's
-//     sagitta). Its faces take the tags of what made them, which a note
+//     sagitta and the faces' own, κL²/8 for a face of length L on the
+//     segment's curvature κ, since the faces may divide the curve
+//     otherwise). Its faces take the tags of what made them, which a note
 //     gives when they are not the segment's own.
 //   - With blocks, the outline is the region to mesh: every segment of
 //     every loop must be used or lie along the boundary, and the cells'
@@ -337,8 +339,10 @@ func (cv *coverage) openTags(m *mesh.Mesh) string {
 // along a side's polyline (by up to about one edge) cuts off, or fills
 // in, at most the triangle of the polyline's corner it passes, whose
 // area is half the cross product of the corner's two edges; twice their
-// sum over every sliding side is allowed. A missing block is far larger
-// than all of this in any real case.
+// sum over every sliding side is allowed; and, for each segment that lies
+// along the boundary divided otherwise, its length times the larger of
+// its chords' and the faces' sagittas (alongArea). A missing block is far
+// larger than all of this in any real case.
 func (cv *coverage) areas(m *mesh.Mesh) (have, want, tol float64, err error) {
 	want = cv.disc.Area()
 	nodes := 0
