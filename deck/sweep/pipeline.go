@@ -78,7 +78,7 @@ func NewPipeline(f *File) *Pipeline {
 func (p *Pipeline) LoadBase(f *File) (BaseCase, error) {
 	c, err := deck.Load(p.Base, deck.LoadOptions{})
 	if err != nil {
-		return BaseCase{}, &Error{File: f.Path, Msg: "the base case as written does not load", Err: err}
+		return BaseCase{}, &Error{File: f.Path, Msg: fmt.Sprintf("the base case as written does not load (it is %s: base is taken from the sweep file's folder, %s)", p.Base, filepath.Dir(f.Path)), Err: err}
 	}
 	defined := map[string]bool{}
 	for _, n := range c.ParamOrder {
