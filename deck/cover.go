@@ -424,7 +424,7 @@ func segmentCurve(s geometry.Segment) (nodes, mids []orb.Point, sag, kappa float
 	for k := 0; k+1 < len(f); k++ {
 		mid := s.At((f[k] + f[k+1]) / 2)
 		mids = append(mids, mid)
-		sk := pointSegment(mid, nodes[k], nodes[k+1])
+		sk := geometry.SegmentDistance(mid, nodes[k], nodes[k+1])
 		sag = math.Max(sag, sk)
 		if l := dist(nodes[k], nodes[k+1]); l > 0 {
 			kappa = math.Max(kappa, 8*sk/(l*l))
@@ -852,7 +852,7 @@ func (x *edgeIndex) nearest(p orb.Point, keep func(e int) bool) (float64, int) {
 				if keep != nil && !keep(int(e)) {
 					continue
 				}
-				if d := pointSegment(p, x.a[e], x.b[e]); d < best {
+				if d := geometry.SegmentDistance(p, x.a[e], x.b[e]); d < best {
 					best, edge = d, int(e)
 				}
 			}
@@ -863,14 +863,4 @@ func (x *edgeIndex) nearest(p orb.Point, keep func(e int) bool) (float64, int) {
 		}
 	}
 	return best, edge
-}
-
-// pointSegment returns the distance from p to the segment from a to b.
-func pointSegment(p, a, b orb.Point) float64 {
-	dx, dy := b[0]-a[0], b[1]-a[1]
-	u := 0.0
-	if l2 := dx*dx + dy*dy; l2 > 0 {
-		u = math.Max(0, math.Min(1, ((p[0]-a[0])*dx+(p[1]-a[1])*dy)/l2))
-	}
-	return math.Hypot(p[0]-a[0]-u*dx, p[1]-a[1]-u*dy)
 }

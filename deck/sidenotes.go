@@ -40,7 +40,10 @@ func (c *Case) sideNotes(m *mesh.Mesh) []string {
 			continue
 		}
 		for side := mesh.South; side <= mesh.West; side++ {
-			pts := blockSide(m, b, side)
+			var pts []orb.Point
+			for _, v := range b.SideNodes(side) {
+				pts = append(pts, m.Nodes[v])
+			}
 			turn, at := 0.0, -1
 			jump, jat := 0.0, -1
 			for k := 1; k+1 < len(pts); k++ {
@@ -67,30 +70,4 @@ func (c *Case) sideNotes(m *mesh.Mesh) []string {
 		}
 	}
 	return notes
-}
-
-// blockSide returns the node positions along one side of a block, in
-// increasing index.
-func blockSide(m *mesh.Mesh, b mesh.Block, side mesh.Side) []orb.Point {
-	var pts []orb.Point
-	at := func(i, j int) { pts = append(pts, m.Nodes[b.Node[j*b.NI+i]]) }
-	switch side {
-	case mesh.South, mesh.North:
-		j := 0
-		if side == mesh.North {
-			j = b.NJ - 1
-		}
-		for i := 0; i < b.NI; i++ {
-			at(i, j)
-		}
-	default:
-		i := 0
-		if side == mesh.East {
-			i = b.NI - 1
-		}
-		for j := 0; j < b.NJ; j++ {
-			at(i, j)
-		}
-	}
-	return pts
 }

@@ -165,7 +165,7 @@ func (e *ChainError) Error() string {
 		return fmt.Sprintf("chain %s: %v", this, e.Err)
 	}
 	prev := chainSegmentLabel(e.Index-1, e.PrevName, e.PrevKind)
-	d := distinctDigits(e.Start, e.End)
+	d := DistinctDigits(e.Start, e.End)
 	return fmt.Sprintf("chain %s starts at (%.*g, %.*g) but %s before it ends at (%.*g, %.*g): gap %.4g exceeds the closure tolerance %.3g (%g × the chain's size %.4g); each segment must start where the one before it ends: %v",
 		this, d, e.Start[0], d, e.Start[1], prev, d, e.End[0], d, e.End[1], e.Gap, e.Tol, ClosureTolerance, e.Size, e.Err)
 }
@@ -195,18 +195,6 @@ func chainSegmentLabel(i int, name, kind string) string {
 		return fmt.Sprintf("segment %q (%s)", name, kind)
 	}
 	return fmt.Sprintf("segment %d (%s)", i, kind)
-}
-
-// distinctDigits returns the number of significant digits, 4 or more,
-// that print two different points differently, so that a message about
-// a small gap does not show the same coordinates twice.
-func distinctDigits(a, b orb.Point) int {
-	for d := 4; d < 17; d++ {
-		if fmt.Sprintf("%.*g %.*g", d, a[0], d, a[1]) != fmt.Sprintf("%.*g %.*g", d, b[0], d, b[1]) {
-			return d
-		}
-	}
-	return 17
 }
 
 // NodeCount returns the number of nodes the loop's discretisation will

@@ -404,7 +404,7 @@ func flattenSVG(cur orb.Point, s svgSeg, tol float64, budget *int, where string)
 // It stops halving at depth 20 or once out holds more than limit points
 // (the caller then refuses the result).
 func flattenCubic(p0, p1, p2, p3 orb.Point, tol float64, depth int, out *[]orb.Point, limit int) {
-	if depth >= 20 || len(*out) > limit || (distToSegment(p1, p0, p3) <= tol && distToSegment(p2, p0, p3) <= tol) {
+	if depth >= 20 || len(*out) > limit || (SegmentDistance(p1, p0, p3) <= tol && SegmentDistance(p2, p0, p3) <= tol) {
 		*out = append(*out, p3)
 		return
 	}
@@ -414,17 +414,6 @@ func flattenCubic(p0, p1, p2, p3 orb.Point, tol float64, depth int, out *[]orb.P
 	m := mid(d, e)
 	flattenCubic(p0, a, d, m, tol, depth+1, out, limit)
 	flattenCubic(m, e, c, p3, tol, depth+1, out, limit)
-}
-
-// distToSegment returns the distance from p to the segment ab.
-func distToSegment(p, a, b orb.Point) float64 {
-	dx, dy := b[0]-a[0], b[1]-a[1]
-	l2 := dx*dx + dy*dy
-	t := 0.0
-	if l2 > 0 {
-		t = math.Max(0, math.Min(1, ((p[0]-a[0])*dx+(p[1]-a[1])*dy)/l2))
-	}
-	return math.Hypot(p[0]-a[0]-t*dx, p[1]-a[1]-t*dy)
 }
 
 // svgArc is an elliptical arc in centre parametrisation (SVG 1.1 F.6.3).

@@ -100,6 +100,29 @@ type Block struct {
 	FirstCell int32
 }
 
+// SideNodes returns the mesh nodes along one side of the block, in
+// increasing i (south, north) or j (east, west).
+func (b Block) SideNodes(s Side) []int32 {
+	var out []int32
+	switch s {
+	case South, North:
+		j := 0
+		if s == North {
+			j = b.NJ - 1
+		}
+		out = append(out, b.Node[j*b.NI:(j+1)*b.NI]...)
+	default:
+		i := 0
+		if s == East {
+			i = b.NI - 1
+		}
+		for j := range b.NJ {
+			out = append(out, b.Node[j*b.NI+i])
+		}
+	}
+	return out
+}
+
 // Side names one side of a structured block: the line of nodes with j = 0
 // (South), i = NI-1 (East), j = NJ-1 (North) or i = 0 (West).
 type Side uint8

@@ -359,31 +359,27 @@ func degreeQuadrant(x float64) (q int, r float64) {
 // sind is the sine of x degrees, exact at whole multiples of 90°.
 func sind(x float64) float64 {
 	q, r := degreeQuadrant(x)
-	var v float64
-	switch q {
-	case 0:
-		v = math.Sin(r)
-	case 1:
-		v = math.Cos(r)
-	case -1:
-		v = -math.Cos(r)
-	default: // ±2: half a turn
-		v = -math.Sin(r)
-	}
-	return v + 0 // −0 (sin of −0 or of a half turn) reads as 0
+	return quarterSin(q, r)
 }
 
-// cosd is the cosine of x degrees, exact at whole multiples of 90°.
+// cosd is the cosine of x degrees, exact at whole multiples of 90°:
+// cos(q·90° + r) = sin((q+1)·90° + r).
 func cosd(x float64) float64 {
 	q, r := degreeQuadrant(x)
+	return quarterSin(q+1, r)
+}
+
+// quarterSin is sin(q·90° + r), r in radians, from the sine or cosine
+// of r by the quarter turn q (any whole number); −0 reads as 0.
+func quarterSin(q int, r float64) float64 {
 	var v float64
-	switch q {
+	switch (q%4 + 4) % 4 {
 	case 0:
-		v = math.Cos(r)
-	case 1:
-		v = -math.Sin(r)
-	case -1:
 		v = math.Sin(r)
+	case 1:
+		v = math.Cos(r)
+	case 2:
+		v = -math.Sin(r)
 	default:
 		v = -math.Cos(r)
 	}

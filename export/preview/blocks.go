@@ -31,21 +31,18 @@ func drawBlocks(s *scene, m *mesh.Mesh, v view, clip int) bool {
 	}
 	stride := max(1, (total+maxBlockSegments-1)/maxBlockSegments)
 	var pts []float64
-	side := func(b mesh.Block, n int, at func(k int) int32) {
-		prev := int32(-1)
-		for k := 0; k < n; k += stride {
-			prev = segmentTo(m, v, &pts, prev, at(k))
-		}
-		if (n-1)%stride != 0 {
-			segmentTo(m, v, &pts, prev, at(n-1))
-		}
-	}
 	for _, b := range m.Blocks {
-		node := func(i, j int) int32 { return b.Node[j*b.NI+i] }
-		side(b, b.NI, func(k int) int32 { return node(k, 0) })
-		side(b, b.NI, func(k int) int32 { return node(k, b.NJ-1) })
-		side(b, b.NJ, func(k int) int32 { return node(0, k) })
-		side(b, b.NJ, func(k int) int32 { return node(b.NI-1, k) })
+		for s := mesh.South; s <= mesh.West; s++ {
+			nodes := b.SideNodes(s)
+			n := len(nodes)
+			prev := int32(-1)
+			for k := 0; k < n; k += stride {
+				prev = segmentTo(m, v, &pts, prev, nodes[k])
+			}
+			if (n-1)%stride != 0 {
+				segmentTo(m, v, &pts, prev, nodes[n-1])
+			}
+		}
 	}
 	if len(pts) > 0 {
 		s.add(shape{kind: segments, pts: pts, stroke: &blockLine, width: 1.2, dashed: true, clip: clip})

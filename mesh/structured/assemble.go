@@ -8,6 +8,7 @@ import (
 
 	"github.com/paulmach/orb"
 
+	"cvdeck/geometry"
 	"cvdeck/mesh"
 )
 
@@ -369,24 +370,12 @@ func conform(blocks []*Block, a, b *sideSample, rev bool, tol float64) error {
 		ba, bb := blocks[a.ref.block], blocks[b.ref.block]
 		ia, ja := nodeIJ(ba, a.ref.side, at)
 		ib, jb := nodeIJ(bb, b.ref.side, kb)
-		d := distinctPointDigits(a.pts[at], b.pts[kb])
+		d := geometry.DistinctDigits(a.pts[at], b.pts[kb])
 		return fmt.Errorf("structured: %s and %s (%d nodes each) lie along the same curve, from (%.4g, %.4g) to (%.4g, %.4g), but their nodes do not match: the worst, node (%d, %d) at (%.*g, %.*g) and node (%d, %d) at (%.*g, %.*g), are %.4g apart, more than the tolerance %.3g; sides that meet must share their nodes",
 			refName(blocks, a.ref), refName(blocks, b.ref), na, p0[0], p0[1], p1[0], p1[1],
 			ia, ja, d, a.pts[at][0], d, a.pts[at][1], ib, jb, d, b.pts[kb][0], d, b.pts[kb][1], worst, tol)
 	}
 	return nil
-}
-
-// distinctPointDigits returns the number of significant digits, 4 or
-// more, that print two different points differently, so that a message
-// about a small offset does not show the same coordinates twice.
-func distinctPointDigits(a, b orb.Point) int {
-	for d := 4; d < 17; d++ {
-		if fmt.Sprintf("%.*g %.*g", d, a[0], d, a[1]) != fmt.Sprintf("%.*g %.*g", d, b[0], d, b[1]) {
-			return d
-		}
-	}
-	return 17
 }
 
 // sidePath is a block side as a polyline, with the bounding box of the
@@ -425,7 +414,7 @@ func (p *sidePath) near(q orb.Point, tol float64) bool {
 			continue
 		}
 		for k := c * pathChunk; k < min((c+1)*pathChunk, len(p.pts)-1); k++ {
-			if segmentDist(q, p.pts[k], p.pts[k+1]) <= tol {
+			if geometry.SegmentDistance(q, p.pts[k], p.pts[k+1]) <= tol {
 				return true
 			}
 		}
@@ -437,18 +426,6 @@ func (p *sidePath) near(q orb.Point, tol float64) bool {
 // condition for lying within tol of what the box holds).
 func nearBound(b orb.Bound, q orb.Point, tol float64) bool {
 	return q[0] >= b.Min[0]-tol && q[0] <= b.Max[0]+tol && q[1] >= b.Min[1]-tol && q[1] <= b.Max[1]+tol
-}
-
-// segmentDist is the distance from q to the segment from a to b: to the
-// foot of the perpendicular when it falls on the segment, else to the
-// nearer end (elementary geometry).
-func segmentDist(q, a, b orb.Point) float64 {
-	dx, dy := b[0]-a[0], b[1]-a[1]
-	t := 0.0
-	if l2 := dx*dx + dy*dy; l2 > 0 {
-		t = math.Max(0, math.Min(1, ((q[0]-a[0])*dx+(q[1]-a[1])*dy)/l2))
-	}
-	return math.Hypot(q[0]-a[0]-t*dx, q[1]-a[1]-t*dy)
 }
 
 // alongRun returns the first run of consecutive edges of a, from node k0
