@@ -1120,13 +1120,8 @@ func layerReports(g *pslg, opt Options, hs [][]float64, rays []ray, raysAt [][2]
 		n := a.n
 		p, q := nodes[a.nodes[n]], nodes[b.nodes[n]]
 		f := math.Hypot(q[0]-p[0], q[1]-p[1])
-		cell := []orb.Point{nodes[a.nodes[n-1]], nodes[b.nodes[n-1]], q, p}
-		area := 0.0
-		for c := range cell {
-			u, v := cell[c], cell[(c+1)%len(cell)]
-			area += u[0]*v[1] - v[0]*u[1]
-		}
-		area = math.Abs(area) / 2
+		area, _ := mesh.PolygonAreaCentroid(nodes, []int32{a.nodes[n-1], b.nodes[n-1], b.nodes[n], a.nodes[n]})
+		area = math.Abs(area)
 		rep := &reps[a.spec]
 		rep.FrontMin, rep.FrontMax = math.Min(rep.FrontMin, f), math.Max(rep.FrontMax, f)
 		if e := math.Sqrt(3) / 4 * f * f / area; area > 0 {
