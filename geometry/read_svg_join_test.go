@@ -198,3 +198,34 @@ func TestReadSVGUseRefused(t *testing.T) {
 		t.Errorf("got %v, want the use element refused", err)
 	}
 }
+
+// TestReadSVGHiddenNotRead: elements a viewer does not show are not read
+// (SVG 1.1 §11.5: display none takes the element and everything inside
+// out of rendering; visibility is inherited, hidden or collapse hides an
+// element, a child may set visible again; a style declaration overrides
+// the presentation attribute, §6.4). The drawing is a 100 × 50 box, area
+// 5000, with one visible hole of 10 × 10 among hidden ones.
+func TestReadSVGHiddenNotRead(t *testing.T) {
+	const doc = `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 100 50">
+  <rect id="box" x="0" y="0" width="100" height="50"/>
+  <rect id="off" x="5" y="5" width="4" height="4" display="none"/>
+  <g style="fill:none; display : None">
+    <rect id="layer" x="20" y="5" width="4" height="4"/>
+  </g>
+  <g visibility="hidden">
+    <rect id="unseen" x="30" y="5" width="4" height="4"/>
+    <rect id="hole" x="40" y="20" width="10" height="10" style="visibility:visible"/>
+  </g>
+  <rect id="styled" x="60" y="5" width="4" height="4" display="inline" style="display:none"/>
+</svg>`
+	o, err := ReadSVGDocument(strings.NewReader(doc), SVGOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(o.Inner) != 1 || o.Inner[0].Segments[0].Attr().Tag != "hole" {
+		t.Fatalf("%d inner loops, want the one visible hole", len(o.Inner))
+	}
+	if a := outlineArea(t, o); math.Abs(a-4900) > 1e-9 {
+		t.Errorf("area %g, want 5000 − 100", a)
+	}
+}

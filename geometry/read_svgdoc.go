@@ -32,13 +32,18 @@ import (
 // coordinates are never silently misplaced. Shapes a viewer never draws where they
 // stand, inside defs, symbol, marker, pattern, clipPath or mask elements
 // (SVG 1.1 §5.3, §5.5, §11.6, §13.3, §14.3, §14.4: their content is only
-// drawn when referenced), are not read. Errors name the element, its
+// drawn when referenced), are not read, nor are elements a viewer does
+// not show: display none, with everything inside (§11.5, the way drawing
+// programs hide a layer), and visibility hidden or collapse, which
+// elements inside inherit unless they set visibility visible (§11.5).
+// Errors name the element, its
 // index among the shapes read and its line in the document.
 func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 	dec := xml.NewDecoder(r)
 	var subs []svgSubpath
 	var matrices []*svgMatrix // per open element: its transform to the document, nil for none
-	var hidden []bool         // per open element: inside content not drawn in place
+	var hidden []bool         // per open element: inside content not drawn in place, or not displayed
+	var visible []bool        // per open element: its visibility, which its children inherit
 	var inherited []string    // per open element: the data-tag it or a group around it gives, or ""
 	shapes := 0
 	for {
@@ -92,9 +97,17 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 			} else {
 				inherited = append(inherited, group)
 			}
-			hide := len(hidden) > 0 && hidden[len(hidden)-1] || svgUndrawn[t.Name.Local]
+			hide := len(hidden) > 0 && hidden[len(hidden)-1] || svgUndrawn[t.Name.Local] || svgProperty(attrs, "display") == "none"
 			hidden = append(hidden, hide)
-			if hide {
+			shown := len(visible) == 0 || visible[len(visible)-1]
+			switch svgProperty(attrs, "visibility") {
+			case "visible":
+				shown = true
+			case "hidden", "collapse":
+				shown = false
+			}
+			visible = append(visible, shown)
+			if hide || !shown {
 				continue
 			}
 			if t.Name.Local == "use" {
@@ -144,6 +157,7 @@ func ReadSVGDocument(r io.Reader, opt SVGOptions) (Outline, error) {
 			if len(matrices) > 0 {
 				matrices = matrices[:len(matrices)-1]
 				hidden = hidden[:len(hidden)-1]
+				visible = visible[:len(visible)-1]
 				inherited = inherited[:len(inherited)-1]
 			}
 		}
@@ -240,6 +254,20 @@ func parseSVGTransform(list string) (svgMatrix, error) {
 		return m, fmt.Errorf("the transform flattens the drawing to a line or a point (determinant 0): %w", ErrFormat)
 	}
 	return m, nil
+}
+
+// svgProperty returns the value of a presentation property of an element,
+// lower-cased and trimmed: from its style attribute when it is set there,
+// else from the attribute of the same name (SVG 1.1 §6.4: a style
+// declaration overrides the presentation attribute), "" when unset.
+func svgProperty(attrs map[string]string, name string) string {
+	v := attrs[name]
+	for _, decl := range strings.Split(attrs["style"], ";") {
+		if k, val, ok := strings.Cut(decl, ":"); ok && strings.TrimSpace(k) == name {
+			v = val
+		}
+	}
+	return strings.ToLower(strings.TrimSpace(v))
 }
 
 // svgUndrawn are the elements whose content is drawn only where another

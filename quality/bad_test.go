@@ -333,3 +333,92 @@ func TestOverlappingPatches(t *testing.T) {
 		t.Errorf("separate patches: %+v", ps)
 	}
 }
+
+// A 2 × 2 patch of unit squares laid wholly inside a 4 × 4 grid, with
+// nodes of its own: every cell is positive and every boundary closed and
+// tagged, and no boundary crosses another, yet the patch's ground is
+// covered twice. Just beyond each of the patch's 8 boundary faces lies a
+// cell of the grid (winding number 1 there, hand geometry), so overlap
+// names the 8 faces and their patch cells; the grid's own boundary is
+// clean.
+func TestPatchInsideGrid(t *testing.T) {
+	nodes := gridNodes(4, 4, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0)
+	cells := quadCells(4, 4, false)
+	base := int32(len(nodes))
+	nodes = append(nodes, gridNodes(2, 2, orb.Point{1.3, 1.3}, orb.Point{1, 0}, orb.Point{0, 1}, 0)...)
+	for _, c := range quadCells(2, 2, false) {
+		cells = append(cells, []int32{c[0] + base, c[1] + base, c[2] + base, c[3] + base})
+	}
+	r := evaluate(t, build(t, nodes, cells, true))
+	if ps := problems(r, CheckCrossing); len(ps) != 0 {
+		t.Fatalf("boundary_crossing %+v: the test wants boundaries that do not cross", ps)
+	}
+	ps := problems(r, CheckOverlap)
+	if len(ps) != 8 || r.Verdict != Fail {
+		t.Fatalf("overlap %d problems, verdict %s, want the patch's 8 boundary faces", len(ps), r.Verdict)
+	}
+	for _, p := range ps {
+		if p.Cell < 16 || r.CellStatus[p.Cell] != Fail {
+			t.Errorf("overlap names cell %d (status %s), want a failed patch cell: %s", p.Cell, r.CellStatus[p.Cell], p.Message)
+		}
+		if !strings.Contains(p.Message, "covered 1 more time(s)") {
+			t.Errorf("message %q", p.Message)
+		}
+	}
+	// Moved clear of the grid, the patch is a second, valid region.
+	for k := base; k < int32(len(nodes)); k++ {
+		nodes[k][0] += 10
+	}
+	if ps := problems(evaluate(t, build(t, nodes, cells, true)), CheckOverlap); len(ps) != 0 {
+		t.Errorf("separate patch: %+v", ps)
+	}
+}
+
+// A square [0, 2]² beside two squares to its right whose shared node is
+// moved from (2, 1) into the big cell, to (1.5, 1): the boundary pinches
+// at (2, 0) and (2, 2) and crosses nowhere, but the small cells reach
+// into the big one. The ground beyond the big cell's right face and
+// beyond the small cells' slanted faces is covered (hand geometry), so
+// overlap names the big cell and both small ones.
+func TestNodeMovedIntoNeighbour(t *testing.T) {
+	nodes := []orb.Point{{0, 0}, {2, 0}, {2, 2}, {0, 2}, {4, 0}, {4, 1}, {4, 2}, {1.5, 1}}
+	cells := [][]int32{{0, 1, 2, 3}, {1, 4, 5, 7}, {7, 5, 6, 2}}
+	r := evaluate(t, build(t, nodes, cells, true))
+	if ps := problems(r, CheckCrossing); len(ps) != 0 {
+		t.Fatalf("boundary_crossing %+v", ps)
+	}
+	named := map[int]bool{}
+	for _, p := range problems(r, CheckOverlap) {
+		named[p.Cell] = true
+	}
+	if len(named) != 3 || r.Verdict != Fail {
+		t.Errorf("overlap names cells %v, verdict %s; want 0, 1 and 2", named, r.Verdict)
+	}
+}
+
+// A channel 4 × 2 of unit squares with a zero-thickness internal wall
+// along y = 1 from x = 1 to x = 3, its middle node doubled so that the
+// cells above and below it are not joined: the two sides of the wall are
+// boundary faces on the same points run opposite ways, each with the
+// other side's cell beyond it, covered once: no overlap. The doubled node
+// is what duplicate_node reports, and the only finding.
+func TestCrackIsNoOverlap(t *testing.T) {
+	nodes := gridNodes(4, 2, orb.Point{0, 0}, orb.Point{1, 0}, orb.Point{0, 1}, 0)
+	cells := quadCells(4, 2, false)
+	// An upper copy of the wall's middle node (2, 1), node 7 of the
+	// 5 × 3 grid; the end nodes (1, 1) and (3, 1) stay shared.
+	nodes = append(nodes, orb.Point{2, 1})
+	for _, c := range cells[5:7] { // the upper cells over x ∈ [1, 3]
+		for k, v := range c {
+			if v == 7 {
+				c[k] = 15
+			}
+		}
+	}
+	r := evaluate(t, build(t, nodes, cells, true))
+	for _, c := range r.Connectivity {
+		if want := b2i(c.Name == CheckDuplicate); c.Count != want {
+			t.Errorf("check %s found %d problems, want %d: %+v", c.Name, c.Count, want, c.Problems)
+		}
+	}
+}

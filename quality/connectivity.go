@@ -20,16 +20,14 @@ const (
 	CheckUnused      = "unused_node"       // every node belongs to a cell
 	CheckHanging     = "hanging_node"      // no node lies inside another cell's face
 	CheckCrossing    = "boundary_crossing" // no two boundary faces cross or touch away from a shared node
+	CheckOverlap     = "overlap"           // no ground covered by two cells: nothing lies just beyond a boundary face
 )
 
-// Why boundary_crossing rules out overlapping cells: when every cell is
-// positive and consistently oriented and the faces pair up, the cells map
-// the mesh onto the plane without folding locally, and with simple,
-// mutually disjoint boundary loops every point inside is then covered
-// exactly once (the winding number of the boundary is 1 there and the
-// cover's degree equals it). Cells that overlap without any inverted cell
-// (a grid marched into itself, two patches laid over each other) always
-// leave their mark on the boundary as a crossing.
+// Cells lying over each other without any inverted cell (a grid marched
+// into itself, a patch laid over another, a node moved into a neighbouring
+// cell) leave their mark on the boundary: as a crossing (boundary_crossing)
+// or, where the boundary does not cross itself, as cells beyond a boundary
+// face (overlap, see checkOverlap).
 
 // Duplicate nodes are looked for among the boundary nodes: two copies of a
 // node that should be one leave a crack, and the faces along a crack are
@@ -39,7 +37,7 @@ const (
 // Coincident nodes of one cell show as zero-length faces or degenerate
 // cells, and unreferenced copies as unused nodes.
 var checkNames = []string{CheckFaceCells, CheckCellFaces, CheckOrientation, CheckBoundaryTag,
-	CheckWatertight, CheckCrossing, CheckZeroFace, CheckDuplicate, CheckUnused, CheckHanging}
+	CheckWatertight, CheckCrossing, CheckOverlap, CheckZeroFace, CheckDuplicate, CheckUnused, CheckHanging}
 
 // Problem is one connectivity defect, located by the cell, face and node it
 // concerns (-1 where it concerns none) and the position (X, Y) where to look.
@@ -92,6 +90,16 @@ func (c *connectivity) add(p Problem) {
 	if p.Cell >= 0 {
 		c.cells = append(c.cells, int32(p.Cell))
 	}
+}
+
+// result returns the result of the named check.
+func (c *connectivity) result(name string) *CheckResult {
+	for i := range c.results {
+		if c.results[i].Name == name {
+			return &c.results[i]
+		}
+	}
+	panic("quality: no check " + name)
 }
 
 // merge appends the findings of o after those of c.

@@ -350,6 +350,9 @@ func (e *Evaluator) Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 		bclosure = boundaryClosure(m)
 		checkNodes(m, first, &e.balance, bclosure, lim.Closure.Fail, cn)
 		checkCrossing(m, cn)
+		if cn.result(CheckCrossing).Count == 0 {
+			checkOverlap(m, cn) // a crossing is an overlap already said
+		}
 		if hmin := ff.shortest(); !math.IsInf(hmin, 0) {
 			r.DuplicateDistance = lim.DuplicateTolerance * hmin
 		}
