@@ -40,9 +40,10 @@ type CheckResult struct {
 // Check reads a mesh that cvdeck may not have made (a VTK unstructured
 // grid, .vtu or legacy .vtk, a VTK polygon mesh, .vtp or legacy POLYDATA
 // .vtk, or CGNS .cgns) and checks it against the limits of the patches,
-// applied in order (none: the default profile). Boundary faces that carry
-// no tag go into DefaultTag with a warning, so that only geometry and
-// connectivity decide the verdict. A failed check is a *CheckFailure
+// applied in order (none: the default profile). When no boundary face
+// carries a tag, they all go into DefaultTag with a warning, so that only
+// geometry and connectivity decide the verdict; in a mesh tagged in part,
+// the untagged faces fail boundary_tag. A failed check is a *CheckFailure
 // together with the result. The report carries no per-cell arrays (see
 // quality.Evaluator.NoFields): a check prints its summary.
 //
@@ -103,7 +104,10 @@ func CheckAndWrite(path, dir string, patches ...quality.Patch) (*CheckResult, er
 			res.Notes = append(res.Notes, fmt.Sprintf("boundary tags taken from %s (%s)", side, note))
 		}
 	}
-	if lo, hi := m.UntaggedRange(); hi > lo {
+	// Only a mesh that carries no tags at all is checked with its boundary
+	// as one tag; in a mesh tagged in part, the faces left out are defects
+	// of its tagging, which boundary_tag reports.
+	if lo, hi := m.UntaggedRange(); hi > lo && hi-lo == m.NumBoundary() {
 		if m, err = tagUntagged(m); err != nil {
 			return nil, err
 		}
@@ -128,7 +132,7 @@ func CheckAndWrite(path, dir string, patches ...quality.Patch) (*CheckResult, er
 		res.Notes = append(res.Notes, fmt.Sprintf("the mesh with its per-cell metrics is in %s (%s)", dir, strings.Join(CheckFiles, ", ")))
 	}
 	if res.Report.Verdict == quality.Fail {
-		return res, &CheckFailure{Failed: res.Report.FailedCells}
+		return res, &CheckFailure{Failed: res.Report.FailedCells, Failures: res.Report.Failures()}
 	}
 	return res, nil
 }

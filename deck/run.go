@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"runtime"
 	"sort"
+	"strings"
 	"sync"
 
 	"cvdeck/bc"
@@ -62,15 +63,19 @@ type Result struct {
 // CheckFailure is returned, together with a Result, when the deck was
 // written but a quality check failed: the command line exits 1.
 type CheckFailure struct {
-	Dir    string
-	Failed int
+	Dir string
+	// Failed is the number of failed cells, Failures what fails
+	// (quality.Report.Failures).
+	Failed   int
+	Failures []string
 }
 
 func (e *CheckFailure) Error() string {
+	what := strings.Join(e.Failures, ", ")
 	if e.Dir == "" {
-		return fmt.Sprintf("the mesh fails its checks: %d cells fail their limits (see the report above)", e.Failed)
+		return fmt.Sprintf("the mesh fails its checks (%s): see the report", what)
 	}
-	return fmt.Sprintf("the deck is written to %s, but %d cells fail their limits: see quality.json or the report above", e.Dir, e.Failed)
+	return fmt.Sprintf("the deck is written to %s, but the mesh fails its checks (%s): see the report or the deck's quality.json", e.Dir, what)
 }
 
 // Run meshes a loaded case, assigns its boundary conditions, checks the
@@ -149,7 +154,7 @@ func Run(c *Case, outDir string, opts RunOptions) (res *Result, err error) {
 		}
 	}
 	if rep.Verdict == quality.Fail {
-		return res, &CheckFailure{Dir: outDir, Failed: rep.FailedCells}
+		return res, &CheckFailure{Dir: outDir, Failed: rep.FailedCells, Failures: rep.Failures()}
 	}
 	return res, nil
 }

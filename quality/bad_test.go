@@ -46,6 +46,9 @@ func TestFoldedCell(t *testing.T) {
 	if got := failedCells(t, r, "area"); !slices.Equal(got, []int{4}) {
 		t.Errorf("cells failing area: %v, want [4]", got)
 	}
+	if got := r.Failures(); len(got) == 0 || got[0] != "area: 1 cell" {
+		t.Errorf("Failures() = %q, want area: 1 cell first", got)
+	}
 	if a := field(t, r, "area")[4]; !near(a, -0.2, 1e-15) {
 		t.Errorf("area of cell 4 = %g, want -0.2", a)
 	}
@@ -294,6 +297,10 @@ func TestEmptyAndUnused(t *testing.T) {
 	ps := problems(r, CheckUnused)
 	if len(ps) != 1 || ps[0].Node != 4 || r.Verdict != Fail {
 		t.Errorf("unused: %+v, verdict %s", ps, r.Verdict)
+	}
+	// No cell fails, so the one-line verdict must name the check.
+	if got := r.Failures(); !slices.Equal(got, []string{"unused_node: 1 defect"}) {
+		t.Errorf("Failures() = %q", got)
 	}
 }
 

@@ -111,7 +111,9 @@ func cellPass(m *mesh.Mesh, cf *cellFaces, ff *faceFields, lim *Limits, status [
 }
 
 // ThinAspect is the aspect ratio from which a cell counts as thin in the
-// report (MetricSummary.FailedThin), if its angles pass: a cell ten times
+// report (MetricSummary.FailedThin), if its largest angle is within the
+// max_angle warn limit (a long cell, not a sliver; its smallest angle is
+// small by construction when it is a triangle): a cell ten times
 // as long as it is high, as wall layers and stretched structured cells
 // are (common practice).
 const ThinAspect = 10

@@ -289,6 +289,30 @@ func (r *Report) Metric(name string) (MetricSummary, bool) {
 	return MetricSummary{}, false
 }
 
+// Failures lists what fails, for a one-line verdict: each metric with
+// failing cells or nodes ("skewness: 12 cells") and each failed
+// connectivity check ("unused_node: 1 defect"), in report order.
+func (r *Report) Failures() []string {
+	var out []string
+	plural := func(n int, what string) string {
+		if n == 1 {
+			return "1 " + what
+		}
+		return fmt.Sprintf("%d %ss", n, what)
+	}
+	for _, s := range r.Metrics {
+		if s.Failed > 0 {
+			out = append(out, s.Name+": "+plural(s.Failed, s.Per))
+		}
+	}
+	for _, c := range r.Connectivity {
+		if c.Status == Fail {
+			out = append(out, c.Name+": "+plural(c.Count, "defect"))
+		}
+	}
+	return out
+}
+
 // Evaluate is the package's Evaluate in e's memory; see Evaluator.
 func (e *Evaluator) Evaluate(m *mesh.Mesh, lim Limits) (*Report, error) {
 	if lim == (Limits{}) {

@@ -367,7 +367,7 @@ func TestThinCellsCounted(t *testing.T) {
 	if err := WriteText(&b, r); err != nil {
 		t.Fatal(err)
 	}
-	if line := fmt.Sprintf("skewness: %d of the %d failing cells have an aspect ratio of 10 or more, and angles that pass", 2*ny, 2*ny); !strings.Contains(b.String(), line) {
+	if line := fmt.Sprintf("skewness: %d of the %d failing cells have an aspect ratio of 10 or more and a largest angle within its warn limit (long cells, not slivers)", 2*ny, 2*ny); !strings.Contains(b.String(), line) {
 		t.Errorf("the text report lacks %q:\n%s", line, b.String())
 	}
 	// A square grid's few failures, if any, are not thin.
@@ -399,5 +399,25 @@ func TestSliverNotCountedThin(t *testing.T) {
 	no, _ := r.Metric("non_orthogonality")
 	if no.Failed != 1 || no.FailedThin != 0 {
 		t.Errorf("non-orthogonality: %d failed, %d of them counted thin; want 1 and none", no.Failed, no.FailedThin)
+	}
+}
+
+// TestPositionDigits: worst-cell positions keep six significant digits
+// near the origin and gain digits far from it, down to the resolution
+// asked (decimal arithmetic by hand: 1000000.123456 to 1e-4 needs 11
+// digits).
+func TestPositionDigits(t *testing.T) {
+	for _, c := range []struct {
+		x, res float64
+		want   string
+	}{
+		{0.984795123, 1e-3, "0.984795"},
+		{1000000.123456, 1e-4, "1000000.1235"},
+		{-2.5e6, 0.01, "-2500000"},
+		{0.5, math.Inf(1), "0.5"},
+	} {
+		if got := position(c.x, c.res); got != c.want {
+			t.Errorf("position(%v, %v) = %q, want %q", c.x, c.res, got, c.want)
+		}
 	}
 }

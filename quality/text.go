@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 )
 
@@ -47,7 +48,7 @@ func WriteText(w io.Writer, r *Report) error {
 			fmt.Fprintf(b, "\nthin cells\n")
 			thin = true
 		}
-		fmt.Fprintf(b, "  %s: %d of the %d failing cells have an aspect ratio of %d or more, and angles that pass\n", s.Name, s.FailedThin, s.Failed, ThinAspect)
+		fmt.Fprintf(b, "  %s: %d of the %d failing cells have an aspect ratio of %d or more and a largest angle within its warn limit (long cells, not slivers)\n", s.Name, s.FailedThin, s.Failed, ThinAspect)
 	}
 	if thin {
 		fmt.Fprintf(b, "  A thin cell's centroid lies far from its short faces compared with their length, so a slight\n"+
@@ -95,6 +96,12 @@ func WriteText(w io.Writer, r *Report) error {
 		fmt.Fprintln(b)
 	}
 
+	// Positions are written to a hundredth of the typical cell size, so
+	// that cells far from the origin can still be told apart.
+	res := math.Inf(1)
+	if a, ok := r.Metric("area"); ok {
+		res = math.Sqrt(math.Abs(float64(a.Mean))) / 100
+	}
 	header := false
 	for _, s := range r.Metrics {
 		if s.Warned+s.Failed == 0 {
@@ -110,10 +117,22 @@ func WriteText(w io.Writer, r *Report) error {
 		}
 		fmt.Fprintf(b, "  %s\n", s.Name)
 		for _, l := range s.Worst {
-			fmt.Fprintf(b, "      %s %d at (%.6g, %.6g): %s\n", what, l.Index, l.X, l.Y, num(float64(l.Value)))
+			fmt.Fprintf(b, "      %s %d at (%s, %s): %s\n", what, l.Index, position(l.X, res), position(l.Y, res), num(float64(l.Value)))
 		}
 	}
 	return b.Flush()
+}
+
+// position formats a coordinate with 6 significant digits, or as many
+// more as resolve res (up to all 17 a float64 has).
+func position(x, res float64) string {
+	digits := 6
+	if ax := math.Abs(x); res > 0 && ax > res {
+		// The leading digit's place down to the place of res's leading
+		// digit, both included.
+		digits = min(max(digits, int(math.Floor(math.Log10(ax))-math.Floor(math.Log10(res)))+1), 17)
+	}
+	return strconv.FormatFloat(x, 'g', digits, 64)
 }
 
 // limitText shows the thresholds of a metric as "> warn / > fail" (or with
