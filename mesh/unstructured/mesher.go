@@ -123,7 +123,7 @@ func MeshWithReport(out geometry.DiscreteOutline, opt Options) (*mesh.Mesh, *Rep
 			big.Limit = limit
 			return nil, nil, err
 		case errors.Is(err, errTooMany):
-			return nil, nil, fmt.Errorf("unstructured: %w", refineError(errTooMany, limit))
+			return nil, nil, fmt.Errorf("unstructured: %w", refineError(err, limit))
 		case plan != nil:
 			return nil, nil, fmt.Errorf("unstructured: meshing the region left by the boundary layers (their top is loop points there; use fewer or thinner layers): %w", err)
 		}

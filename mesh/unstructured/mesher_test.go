@@ -269,6 +269,10 @@ func TestMeshErrors(t *testing.T) {
 		{"tags missing", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{{Points: []orb.Point{{0, 0}, {1, 0}, {0, 1}}, Tags: []string{"a"}}}}, Options{}, "loop 0 has 3 points and 1 tags"},
 		{"bad angle", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{sq(0, 0, 1, false)}}, Options{MinAngle: 40}, "minimum angle 40°"},
 		{"too many cells", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{sq(0, 0, 1, false)}}, Options{MaxSize: 0.001, MaxCells: 1000}, "above the limit of 1000"},
+		// A wedge of 0.0001° at the origin: the cells shrink toward its
+		// tip without end, and the message names the corner.
+		{"sliver corner", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{polyLoop([]orb.Point{{0, 0}, {1, 0}, {math.Cos(1e-4 * math.Pi / 180), math.Sin(1e-4 * math.Pi / 180)}}, 0.05, "a")}},
+			Options{MaxSize: 0.05, MaxCells: 50000}, "sharpest corner, 0.0001° at (0, 0)"},
 		{"unknown region tag", geometry.DiscreteOutline{Loops: []geometry.DiscreteLoop{sq(0, 0, 1, false)}}, Options{Regions: []Region{{Shape: NearTag, Tag: "x", Size: 0.1}}}, `no boundary edge is tagged "x"`},
 	}
 	for _, c := range cases {

@@ -59,11 +59,15 @@ type refiner struct {
 	vh []float32
 	// sharp[i] is true at outline point i when its interior angle is below
 	// 60°.
-	sharp  []bool
-	triQ   []int32
-	segQ   []segRef
-	maxTri int
-	minLen float64 // segments shorter than this are not split
+	sharp []bool
+	// sharpest is the smallest interior angle of the outline (radians)
+	// and sharpestAt where it is, for the message when the cells run out.
+	sharpest   float64
+	sharpestAt orb.Point
+	triQ       []int32
+	segQ       []segRef
+	maxTri     int
+	minLen     float64 // segments shorter than this are not split
 	// frozen is the tag index of segments that may not be split (the
 	// boundary layers' front), or noSeg.
 	frozen int16
@@ -90,6 +94,7 @@ func newRefiner(tr *triangulation, g *pslg, size *sizeField, minAngle float64, m
 		r.vh[i] = float32(size.at(tr.pts[i]))
 	}
 	r.sharp = make([]bool, n)
+	r.sharpest = math.Inf(1)
 	b := orb.MultiPoint(g.pts).Bound()
 	r.minLen = 1e-12 * math.Max(b.Max[0]-b.Min[0], b.Max[1]-b.Min[1])
 	for i := range g.pts {
@@ -104,6 +109,9 @@ func newRefiner(tr *triangulation, g *pslg, size *sizeField, minAngle float64, m
 			ang += 2 * math.Pi
 		}
 		r.sharp[i] = ang < math.Pi/3
+		if ang < r.sharpest {
+			r.sharpest, r.sharpestAt = ang, p
+		}
 	}
 	return r
 }
@@ -117,7 +125,7 @@ func (r *refiner) run() error {
 	}
 	for {
 		if tr.numTri() > int32(r.maxTri) {
-			return errTooMany
+			return &tooManyError{r.sharpest, r.sharpestAt}
 		}
 		if n := len(r.segQ); n > 0 {
 			s := r.segQ[n-1]
@@ -491,10 +499,35 @@ func (tr *triangulation) walkTo(t int32, p orb.Point) (loc, hit int32) {
 	return -1, -1
 }
 
-// refineError wraps a refinement failure with the limit that stopped it.
+// tooManyError is errTooMany with the outline's sharpest corner: the
+// refinement shrinks cells toward the tip of a corner (Shewchuk 2002,
+// "Delaunay refinement algorithms for triangular mesh generation", on
+// small input angles; from memory), so a corner of a fraction of a degree,
+// often a slip of the drawing, can take any number of cells.
+type tooManyError struct {
+	angle float64 // radians
+	at    orb.Point
+}
+
+func (e *tooManyError) Error() string        { return errTooMany.Error() }
+func (e *tooManyError) Is(target error) bool { return target == errTooMany }
+
+// sharpSuspect is the corner angle (degrees) below which the message on
+// running out of cells names the outline's sharpest corner as a likely
+// cause: corners from 5° down are rare by design and leave triangles of
+// angles no better than the corner's at their tip (common practice).
+const sharpSuspect = 5
+
+// refineError wraps a refinement failure with the limit that stopped it,
+// and the outline's sharpest corner when it is below sharpSuspect.
 func refineError(err error, maxTri int) error {
-	if errors.Is(err, errTooMany) {
-		return fmt.Errorf("refinement would exceed %d cells; raise the cell limit or the sizes: %w", maxTri, err)
+	if !errors.Is(err, errTooMany) {
+		return err
 	}
-	return err
+	var tm *tooManyError
+	if errors.As(err, &tm) && tm.angle*180/math.Pi < sharpSuspect {
+		return fmt.Errorf("refinement would exceed %d cells; the outline's sharpest corner, %.3g° at (%.9g, %.9g), may be why, since cells shrink toward its tip: round the corner off or cut it square, or raise the cell limit or the sizes: %w",
+			maxTri, tm.angle*180/math.Pi, tm.at[0], tm.at[1], errTooMany)
+	}
+	return fmt.Errorf("refinement would exceed %d cells; raise the cell limit or the sizes: %w", maxTri, errTooMany)
 }
