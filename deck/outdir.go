@@ -64,7 +64,11 @@ func checkOutDir(dir string, inputs []string, what string) error {
 // inputPaths returns the paths of the files the case read, the case file
 // first.
 func (c *Case) inputPaths() []string {
+	// A bare sketch's case is made in memory: its file is the sketch.
 	paths := []string{c.File}
+	if c.sketch != "" {
+		paths[0] = c.sketch
+	}
 	for _, in := range c.Inputs {
 		p := in.Path
 		if !filepath.IsAbs(p) {

@@ -269,3 +269,21 @@ func TestGasSutherlandConstants(t *testing.T) {
 		}
 	}
 }
+
+// A bare sketch run into the folder that holds it is refused naming the
+// sketch, the file at risk, not the label of the case made in memory.
+func TestSketchInsideOutputFolder(t *testing.T) {
+	dir := t.TempDir()
+	sketch := filepath.Join(dir, "plate.geojson")
+	if err := os.WriteFile(sketch, []byte(`{"type": "Polygon", "coordinates": [[[0, 0], [1, 0], [1, 1], [0, 1], [0, 0]]]}`), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	c, err := SketchCase(sketch, SketchOptions{Size: 0.1}, LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = Run(c, dir, RunOptions{})
+	if !errors.Is(err, ErrInput) || !strings.Contains(err.Error(), sketch+" lies inside") {
+		t.Errorf("got %v, want the sketch named", err)
+	}
+}

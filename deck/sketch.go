@@ -35,9 +35,13 @@ func IsSketch(path string) bool {
 // sketchRead says how to read a sketch file.
 type sketchRead struct {
 	scale float64  // metres per file unit
-	flipY bool     // SVG drawings grow y downwards
+	flipY bool     // negate y, for any format (SVG drawings grow y downwards)
 	tags  []string // SVG: tag of each loop, in path order
 }
+
+// utf8BOM is the byte-order mark some editors write at the start of a
+// UTF-8 file (U+FEFF encoded).
+var utf8BOM = []byte("\ufeff")
 
 // readSketch reads a sketch file into one validated, oriented outline in
 // metres. A GeoJSON or WKT file must hold exactly one polygon (with any
@@ -46,7 +50,14 @@ type sketchRead struct {
 // strokes joined end to end into loops, each element's data-tag or id
 // tagging its edges; a point file is one closed polyline, its title (if
 // any) the loop's name and a unit in its header checked against r.scale.
+//
+// A UTF-8 byte-order mark at the start is dropped first, so that every
+// reader sees the same text (an SVG document would otherwise be taken
+// for path data, and JSON refuses it). r.flipY negates y in every format:
+// the SVG reader does it itself; the outlines of the others, all lines,
+// are mirrored afterwards by flipOutline.
 func readSketch(path string, data []byte, r sketchRead) (geometry.Outline, error) {
+	data = bytes.TrimPrefix(data, utf8BOM)
 	kind := sketchKinds[strings.ToLower(filepath.Ext(path))]
 	var outs []geometry.Outline
 	var err error
@@ -97,12 +108,84 @@ func readSketch(path string, data []byte, r sketchRead) (geometry.Outline, error
 		return geometry.Outline{}, fmt.Errorf("%s holds %d polygons; a case meshes one outline (one outer loop with any number of holes)", path, len(outs))
 	}
 	o := outs[0]
+	if r.flipY && kind != "svg" {
+		if o, err = flipOutline(o); err != nil {
+			return o, fmt.Errorf("%s: %w", path, err)
+		}
+	}
 	if r.scale != 1 {
 		if o, err = o.Scaled(r.scale); err != nil {
 			return o, fmt.Errorf("%s: %w", path, err)
 		}
 	}
 	return o, nil
+}
+
+// flipOutline mirrors an outline of lines and polylines in the x axis
+// (y to −y), as SVGOptions.FlipY does for a drawing, and orients it
+// again: mirroring turns every loop the other way round. Any other kind
+// of segment (an arc, a spline) is refused, naming it: the sketch readers
+// make none but lines and polylines, and mirroring another kind needs
+// that kind's own geometry.
+func flipOutline(o geometry.Outline) (geometry.Outline, error) {
+	flip := func(li int, l geometry.Loop) (geometry.Loop, error) {
+		r := l
+		r.Segments = make([]geometry.Segment, len(l.Segments))
+		for si, s := range l.Segments {
+			var err error
+			switch sg := s.(type) {
+			case *geometry.Line:
+				r.Segments[si], err = geometry.NewLine(sg.A[0], -sg.A[1], sg.B[0], -sg.B[1], sg.Attr())
+			case *geometry.Polyline:
+				pts := slices.Clone(sg.Vertices())
+				for k := range pts {
+					pts[k][1] = -pts[k][1]
+				}
+				r.Segments[si], err = geometry.NewPolyline(pts, sg.Attr())
+			default:
+				return r, fmt.Errorf("flip y: segment %d of loop %d (%q) is of kind %q; only lines and polylines can be flipped: %w", si, li, l.Name, s.Kind(), geometry.ErrFormat)
+			}
+			if err != nil {
+				return r, fmt.Errorf("flip y: segment %d of loop %d (%q): %w", si, li, l.Name, err)
+			}
+		}
+		return r, nil
+	}
+	var f geometry.Outline
+	var err error
+	if f.Outer, err = flip(0, o.Outer); err != nil {
+		return o, err
+	}
+	for i, l := range o.Inner {
+		fl, err := flip(i+1, l)
+		if err != nil {
+			return o, err
+		}
+		f.Inner = append(f.Inner, fl)
+	}
+	n, err := f.Normalise()
+	if err != nil {
+		return o, fmt.Errorf("flip y: %w", err)
+	}
+	return n, nil
+}
+
+// sketchTagsRefusal says, for a sketch file's path, why a tags list does
+// not apply to it and where its format carries its tags instead; "" for
+// an SVG sketch, whose loops tags names.
+func sketchTagsRefusal(path string) string {
+	const lead = "tags (the tag of each loop, in path order) applies to SVG sketches only; "
+	switch sketchKinds[strings.ToLower(filepath.Ext(path))] {
+	case "svg":
+		return ""
+	case "geojson":
+		return lead + "a GeoJSON sketch tags its edges in its feature's properties: \"tag\" for every edge of the feature, \"edge_tags\": [{\"polygon\": 0, \"ring\": 0, \"from\": 0, \"to\": 2, \"tag\": \"wall\"}] for ranges of edges (edge k from position k to k+1 of the ring)"
+	case "wkt":
+		return lead + "a WKT sketch carries no tags: its loops are tagged outer, inner1, inner2, ... in text order; to tag edges, write the sketch as GeoJSON with the properties \"tag\" and \"edge_tags\""
+	case "points":
+		return lead + "an x-y point file is one loop whose edges are tagged outer (a title line names the loop); to tag edges apart, write the sketch as GeoJSON with the property \"edge_tags\""
+	}
+	return lead + "cvdeck reads sketches as " + SketchExtensions()
 }
 
 // unitAdvice adds to a point file's unit disagreement (geometry.UnitError)
@@ -132,11 +215,13 @@ func SketchExtensions() string {
 //	geometry:
 //	  file: data/fins.geojson   # relative to the case file
 //	  scale: 1                  # extra factor on the file's coordinates (after units)
-//	  flip_y: false             # SVG: flip the y axis
-//	  tags: [duct, fin]         # SVG: the tag of each loop, in path order
+//	  flip_y: false             # flip the y axis (any format; SVG drawings grow y downwards)
+//	  tags: [duct, fin]         # SVG only: the tag of each loop, in path order
 //	  spacing: {size: 2}        # the spacing of every edge (case units)
 //
-// The file's coordinates are in the case's units.
+// The file's coordinates are in the case's units. tags is refused for
+// the other formats, which carry their tags in the file or none (see
+// sketchTagsRefusal), rather than ignored.
 func decodeSketchRef(c *Case, g *geometrySpec, o *object, fv value) error {
 	rel, err := fv.str()
 	if err != nil {
@@ -156,6 +241,9 @@ func decodeSketchRef(c *Case, g *geometrySpec, o *object, fv value) error {
 		}
 	}
 	if v, ok := o.get("tags"); ok {
+		if why := sketchTagsRefusal(rel); why != "" {
+			return v.errf("%s", why)
+		}
 		if r.tags, err = v.strings(); err != nil {
 			return err
 		}
@@ -200,27 +288,20 @@ func decodeSketchRef(c *Case, g *geometrySpec, o *object, fv value) error {
 
 // respace gives every segment that has no spacing law of its own the
 // spacing sp, or, on a curve (a polyline of a sketch: a flattened SVG
-// curve, a point file), more edges where sp would cut across its bends
-// (curveEdges).
+// curve), more edges where sp would cut across its bends (curveEdges).
+// A polyline is first cut at its sharp vertices (sharpVertices), the
+// cusps and kinks of a drawing, which stay nodes: nodes placed by arc
+// length along the whole polyline would cut the corner off there. sp
+// then spaces each piece as a segment of its own.
 func respace(o geometry.Outline, sp geometry.Spacing) geometry.Outline {
 	fix := func(l geometry.Loop) geometry.Loop {
-		r := geometry.Loop{Name: l.Name, Flipped: l.Flipped, Segments: make([]geometry.Segment, len(l.Segments))}
-		for i, s := range l.Segments {
-			a := s.Attr()
-			if a.Spacing.KeepsVertices() {
-				a.Spacing = sp
-				if v, ok := s.(interface{ Vertices() []orb.Point }); ok {
-					if n := curveEdges(v.Vertices()); n > 0 {
-						if e, err := sp.Edges(s.Length()); err == nil && float64(n) > e {
-							if c, err := geometry.Count(n + 1); err == nil {
-								a.Spacing = c
-							}
-						}
-					}
-				}
-				s = s.WithAttr(a)
+		r := geometry.Loop{Name: l.Name, Flipped: l.Flipped, Segments: make([]geometry.Segment, 0, len(l.Segments))}
+		for _, s := range l.Segments {
+			if !s.Attr().Spacing.KeepsVertices() {
+				r.Segments = append(r.Segments, s)
+				continue
 			}
-			r.Segments[i] = s
+			r.Segments = append(r.Segments, spacePieces(s, sp)...)
 		}
 		return r
 	}
@@ -231,12 +312,95 @@ func respace(o geometry.Outline, sp geometry.Spacing) geometry.Outline {
 	return out
 }
 
+// spacePieces gives the segment s, which keeps its own vertices, the
+// spacing sp: a polyline is cut at its sharp vertices into pieces, each a
+// line (two vertices) or a polyline given sp or, where sp would cut
+// across its bends, as many equal edges as curveEdges asks for. Another
+// segment (a line; a spline of a case, were one given) is given sp or
+// curveEdges' count whole, as is a polyline whose pieces cannot be made
+// (which a valid polyline's cannot fail).
+func spacePieces(s geometry.Segment, sp geometry.Spacing) []geometry.Segment {
+	a := s.Attr()
+	a.Spacing = sp
+	whole := func() []geometry.Segment {
+		if v, ok := s.(interface{ Vertices() []orb.Point }); ok {
+			a.Spacing = curveSpacing(v.Vertices(), s.Length(), sp)
+		}
+		return []geometry.Segment{s.WithAttr(a)}
+	}
+	pl, ok := s.(*geometry.Polyline)
+	if !ok {
+		return whole()
+	}
+	pts := pl.Vertices()
+	cuts := append(append([]int{0}, sharpVertices(pts)...), len(pts)-1)
+	var out []geometry.Segment
+	for k := 0; k+1 < len(cuts); k++ {
+		piece := pts[cuts[k] : cuts[k+1]+1]
+		if len(piece) == 2 {
+			l, err := geometry.NewLine(piece[0][0], piece[0][1], piece[1][0], piece[1][1], a)
+			if err != nil {
+				return whole()
+			}
+			out = append(out, l)
+			continue
+		}
+		p, err := geometry.NewPolyline(piece, a)
+		if err != nil {
+			return whole()
+		}
+		pa := a
+		pa.Spacing = curveSpacing(piece, p.Length(), sp)
+		out = append(out, p.WithAttr(pa))
+	}
+	return out
+}
+
+// curveSpacing returns sp, or, where sp would cut across the bends of
+// the curve through pts (of the given length), as many equal edges as
+// curveEdges asks for.
+func curveSpacing(pts []orb.Point, length float64, sp geometry.Spacing) geometry.Spacing {
+	if n := curveEdges(pts); n > 0 {
+		if e, err := sp.Edges(length); err == nil && float64(n) > e {
+			if c, err := geometry.Count(n + 1); err == nil {
+				return c
+			}
+		}
+	}
+	return sp
+}
+
+// sharpVertices returns the interior vertices of the polyline pts at
+// which its direction turns by more than maxFaceTurn, in order. Between
+// such vertices the polyline samples a smooth curve finely enough for
+// the sketches' curve rule (no face turning by more than 10°), so nodes
+// may be placed anywhere along it; at one, the direction jumps by more
+// than one face of the mesh may turn, so any node placement that left
+// the vertex out would cut across the drawing there, shortening a cusp
+// or rounding a kink (the tip of a cusp inside one Bézier, where the
+// curve doubles back, turns by nearly 180°). Keeping them costs no node
+// the curve rule would not ask for: a curve flattened coarsely enough to
+// turn by more than 10° at a vertex needs every one of its vertices.
+func sharpVertices(pts []orb.Point) []int {
+	var sharp []int
+	for i := 1; i+1 < len(pts); i++ {
+		ux, uy := pts[i][0]-pts[i-1][0], pts[i][1]-pts[i-1][1]
+		vx, vy := pts[i+1][0]-pts[i][0], pts[i+1][1]-pts[i][1]
+		if math.Abs(math.Atan2(ux*vy-uy*vx, ux*vx+uy*vy)) > maxFaceTurn {
+			sharp = append(sharp, i)
+		}
+	}
+	return sharp
+}
+
 // Curve resolution of sketches: a face of a curved boundary turns by at
 // most maxFaceTurn, 10° (36 faces round a circle), so that a curve keeps
 // its shape and area when the sketch's size is coarse beside its radius
 // (common practice for walls; a finer size is kept). A vertex of a
 // polyline turning by more than featureTurn, 60°, is a corner of the
-// drawing, not a sample of a curve, and does not count.
+// drawing, not a sample of a curve, and does not count in curveEdges;
+// respace keeps every vertex turning by more than maxFaceTurn as a node
+// anyway (sharpVertices), so its pieces have none.
 const (
 	maxFaceTurn = 10 * math.Pi / 180
 	featureTurn = 60 * math.Pi / 180
@@ -292,7 +456,8 @@ type SketchOptions struct {
 	MinAngle, Growth float64
 	// Scale multiplies the sketch's coordinates to give metres.
 	Scale float64
-	// FlipY flips the y axis (SVG).
+	// FlipY flips the y axis, in every sketch format (SVG drawings grow
+	// y downwards; a GeoJSON, WKT or x-y file may come from one).
 	FlipY bool
 }
 
@@ -372,6 +537,12 @@ func sketchCaseText(path, rel string, so SketchOptions) (string, error) {
 	o, err := readSketch(path, data, sketchRead{scale: so.Scale, flipY: so.FlipY})
 	if err != nil {
 		return "", fmt.Errorf("%w: %w", ErrInput, unitAdvice(err, 0))
+	}
+	// A cell larger than the whole sketch cannot be meant: it is a
+	// mistaken unit (--size in millimetres with --scale 0.001, say), and
+	// would mesh the sketch with its corners alone.
+	if extent := outlineSize(o); so.Size > extent {
+		return "", fmt.Errorf("%w: --size %g m is larger than the whole sketch %s, which spans %.4g m corner to corner (the diagonal of its bounding box, read at --scale %g m per unit); --size is in metres after --scale: give it below that, e.g. %.3g (a fiftieth of the sketch, as `cvdeck init --from` picks)", ErrInput, so.Size, filepath.Base(path), extent, so.Scale, extent/50)
 	}
 	name := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 	var b strings.Builder
@@ -477,19 +648,34 @@ func yamlKey(tag string) string {
 	return tag
 }
 
-// outlineSize is the diagonal of the outer loop's bounding box, sampled at
-// its segments' ends and midpoints.
+// outlineSize is the diagonal of the outer loop's bounding box, taken
+// over the vertices of its lines and polylines (exact for them) and the
+// ends and midpoints of other segments (an arc's box may be a little
+// larger).
 func outlineSize(o geometry.Outline) float64 {
 	var lo, hi [2]float64
 	first := true
+	add := func(p orb.Point) {
+		if first {
+			lo, hi, first = p, p, false
+		}
+		lo = [2]float64{min(lo[0], p[0]), min(lo[1], p[1])}
+		hi = [2]float64{max(hi[0], p[0]), max(hi[1], p[1])}
+	}
 	for _, s := range o.Outer.Segments {
-		for _, f := range []float64{0, 0.5, 1} {
-			p := s.At(f)
-			if first {
-				lo, hi, first = p, p, false
+		switch sg := s.(type) {
+		case *geometry.Line:
+			add(sg.A)
+			add(sg.B)
+			continue
+		case *geometry.Polyline:
+			for _, p := range sg.Vertices() {
+				add(p)
 			}
-			lo = [2]float64{min(lo[0], p[0]), min(lo[1], p[1])}
-			hi = [2]float64{max(hi[0], p[0]), max(hi[1], p[1])}
+			continue
+		}
+		for _, f := range []float64{0, 0.5, 1} {
+			add(s.At(f))
 		}
 	}
 	return dist(lo, hi)

@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"math"
 
 	"github.com/paulmach/orb"
 )
@@ -42,12 +43,20 @@ type gjProperties struct {
 // outline, in document order, its exterior ring the outer loop and its
 // holes the inner loops, one line segment per ring edge, tagged from the
 // feature's "tag" and "edge_tags" properties (see gjProperties) or by
-// default "outer", "inner1", ... Features whose geometry bounds no area
-// (points, lines, null) are skipped. Coordinates are taken as plane
-// coordinates; a third (altitude) value is ignored.
+// default "outer", "inner1", ...; an "edge_tags" range naming a polygon
+// the feature does not have is refused. A feature with no geometry (null,
+// RFC 7946 §3.2) is skipped, and so is a Point or MultiPoint, which
+// marks a place and draws no edge; a LineString or MultiLineString is
+// refused, naming where it is, rather than left out of the outline
+// unseen: a line drawn to mark an inlet would otherwise be lost, where
+// "edge_tags" is the way to tag edges. Coordinates are taken as plane coordinates: a third (altitude)
+// value must be the same at every position of the text, the plane of a
+// drawing exported from a 3D program, and is then dropped; an altitude
+// that varies is refused, since the drawing would not be plane.
 func ReadGeoJSON(data []byte) ([]Outline, error) {
 	var outs []Outline
-	if err := readGeoJSONObject(data, data, "GeoJSON", PolygonTags{}, &outs); err != nil {
+	r := &gjReader{doc: data}
+	if err := r.object(data, "GeoJSON", PolygonTags{}, nil, &outs); err != nil {
 		return nil, err
 	}
 	if len(outs) == 0 {
@@ -56,15 +65,38 @@ func ReadGeoJSON(data []byte) ([]Outline, error) {
 	return outs, nil
 }
 
-func readGeoJSONObject(doc, raw []byte, where string, tags PolygonTags, outs *[]Outline) error {
+// gjReader reads one GeoJSON document: doc is its whole text, for
+// locating messages, and the rest is the altitude seen so far, which
+// every position with a third value must share.
+type gjReader struct {
+	doc    []byte
+	hasZ   bool    // a position with an altitude has been read
+	z      float64 // its altitude
+	zWhere string  // where it was, for messages
+	size   float64 // the largest |x| or |y| read so far, the round-off scale for z
+}
+
+// object reads the GeoJSON object raw, named where in messages, tagging
+// its polygons by tags (a Feature's own properties replace them) and
+// appending their outlines to outs. polys, when not nil, is raised to one
+// more than the largest polygon index (within a MultiPolygon; 0 for a
+// Polygon) read, so that a Feature can refuse an edge_tags range naming a
+// polygon it does not have.
+func (r *gjReader) object(raw []byte, where string, tags PolygonTags, polys *int, outs *[]Outline) error {
+	doc := r.doc
 	var g gjObject
 	if err := json.Unmarshal(raw, &g); err != nil {
 		return jsonError(doc, raw, where, err)
 	}
+	seen := func(n int) {
+		if polys != nil {
+			*polys = max(*polys, n)
+		}
+	}
 	switch g.Type {
 	case "FeatureCollection":
 		for i, f := range g.Features {
-			if err := readGeoJSONObject(doc, f, fmt.Sprintf("%s feature %d", where, i), tags, outs); err != nil {
+			if err := r.object(f, fmt.Sprintf("%s feature %d", where, i), tags, nil, outs); err != nil {
 				return err
 			}
 		}
@@ -73,13 +105,28 @@ func readGeoJSONObject(doc, raw []byte, where string, tags PolygonTags, outs *[]
 		if err != nil {
 			return err
 		}
-		if len(g.Geometry) == 0 || string(g.Geometry) == "null" {
-			return nil
+		n := 0
+		if len(g.Geometry) > 0 && string(g.Geometry) != "null" {
+			if err := r.object(g.Geometry, where, t, &n, outs); err != nil {
+				return err
+			}
 		}
-		return readGeoJSONObject(doc, g.Geometry, where, t, outs)
+		for k, e := range t.Edges {
+			if e.Polygon >= 0 && e.Polygon < n {
+				continue
+			}
+			has := "no geometry"
+			switch {
+			case n == 1:
+				has = "polygon 0 only (\"polygon\" counts the polygons of a MultiPolygon)"
+			case n > 1:
+				has = fmt.Sprintf("polygons 0 to %d", n-1)
+			}
+			return fmt.Errorf("%s%s: edge tag range %d names polygon %d, but the feature has %s: %w", where, atOffset(doc, g.Properties), k, e.Polygon, has, ErrFormat)
+		}
 	case "GeometryCollection":
 		for i, m := range g.Geometries {
-			if err := readGeoJSONObject(doc, m, fmt.Sprintf("%s geometry %d", where, i), tags, outs); err != nil {
+			if err := r.object(m, fmt.Sprintf("%s geometry %d", where, i), tags, polys, outs); err != nil {
 				return err
 			}
 		}
@@ -88,7 +135,7 @@ func readGeoJSONObject(doc, raw []byte, where string, tags PolygonTags, outs *[]
 		if err := decodeCoords(doc, g.Coordinates, where, &c); err != nil {
 			return err
 		}
-		p, err := toPolygon(c, where)
+		p, err := r.polygon(c, where+" (Polygon)")
 		if err != nil {
 			return err
 		}
@@ -96,6 +143,7 @@ func readGeoJSONObject(doc, raw []byte, where string, tags PolygonTags, outs *[]
 		if err != nil {
 			return err
 		}
+		seen(1)
 		*outs = append(*outs, o)
 	case "MultiPolygon":
 		var c [][][][]float64
@@ -103,18 +151,25 @@ func readGeoJSONObject(doc, raw []byte, where string, tags PolygonTags, outs *[]
 			return err
 		}
 		for i, pc := range c {
-			p, err := toPolygon(pc, fmt.Sprintf("%s polygon %d", where, i))
+			w := fmt.Sprintf("%s (MultiPolygon) polygon %d", where, i)
+			p, err := r.polygon(pc, w)
 			if err != nil {
 				return err
 			}
-			o, err := polygonOutline(p, tags, i, fmt.Sprintf("%s (MultiPolygon) polygon %d", where, i), geojsonRingRule)
+			o, err := polygonOutline(p, tags, i, w, geojsonRingRule)
 			if err != nil {
 				return err
 			}
 			*outs = append(*outs, o)
 		}
-	case "Point", "MultiPoint", "LineString", "MultiLineString":
-		// Bounds no area: not part of an outline.
+		seen(len(c))
+	case "Point", "MultiPoint":
+		// A point marks a place (a label, a probe) and draws no edge:
+		// nothing of the outline is lost without it.
+	case "LineString", "MultiLineString":
+		return fmt.Errorf("%s%s: a %s bounds no area; a sketch is read from its Polygon and MultiPolygon geometries only, and cvdeck refuses the others rather than leave them out. "+
+			"To tag edges of the polygon (an inlet, a wall), give the polygon's feature the property \"edge_tags\": [{\"ring\": 0, \"from\": 2, \"to\": 2, \"tag\": \"inlet\"}] "+
+			"(edge k runs from position k to position k+1 of the ring) and remove the %s: %w", where, atOffset(doc, raw), g.Type, g.Type, ErrFormat)
 	case "":
 		return fmt.Errorf("%s%s: object has no \"type\" member: %w", where, atOffset(doc, raw), ErrFormat)
 	default:
@@ -135,19 +190,33 @@ func decodeCoords[T any](doc, raw []byte, where string, c *T) error {
 	return nil
 }
 
-// toPolygon turns decoded positions into an orb.Polygon; positions of
-// three or more numbers keep their first two.
-func toPolygon(c [][][]float64, where string) (orb.Polygon, error) {
+// polygon turns decoded positions into an orb.Polygon of their first two
+// numbers. A third number (RFC 7946 §3.1.1: altitude or elevation) must
+// be the same at every position of the document, within round-off of
+// the coordinates' size (a plane exported from 3D may carry 1e-17 beside
+// 0, as x-y point files allow); positions without one are taken to lie
+// in that plane. Further numbers, whose meaning RFC 7946 leaves
+// unspecified, are ignored.
+func (r *gjReader) polygon(c [][][]float64, where string) (orb.Polygon, error) {
 	p := make(orb.Polygon, len(c))
 	for ri, ring := range c {
-		r := make(orb.Ring, len(ring))
+		pr := make(orb.Ring, len(ring))
 		for k, pos := range ring {
 			if len(pos) < 2 {
 				return nil, fmt.Errorf("%s ring %d position %d has %d numbers, a position needs at least 2: %w", where, ri, k, len(pos), ErrFormat)
 			}
-			r[k] = orb.Point{pos[0], pos[1]}
+			r.size = max(r.size, math.Abs(pos[0]), math.Abs(pos[1]))
+			if len(pos) >= 3 {
+				at := fmt.Sprintf("%s ring %d position %d", where, ri, k)
+				if !r.hasZ {
+					r.hasZ, r.z, r.zWhere = true, pos[2], at
+				} else if math.Abs(pos[2]-r.z) > 1e-9*max(r.size, math.Abs(r.z)) {
+					return nil, fmt.Errorf("%s: altitude %g differs from altitude %g at %s; cvdeck reads a plane drawing, so a third coordinate must be the same at every position (or left out): %w", at, pos[2], r.z, r.zWhere, ErrFormat)
+				}
+			}
+			pr[k] = orb.Point{pos[0], pos[1]}
 		}
-		p[ri] = r
+		p[ri] = pr
 	}
 	return p, nil
 }

@@ -24,7 +24,9 @@ type SVGOptions struct {
 	// open subpaths counts at its first); a missing or empty entry leaves
 	// each piece of the loop its element's data-tag or id
 	// (ReadSVGDocument), or else the default ("outer" for the outer loop,
-	// "inner1", "inner2", ... for the others in path order).
+	// "inner1", "inner2", ... for the others in path order). More tags
+	// than the drawing has loops are refused: the extra ones would tag
+	// nothing, which a miscounted drawing causes.
 	Tags []string
 }
 
@@ -144,6 +146,11 @@ func buildSVG(subs []svgSubpath, opt SVGOptions) (Outline, error) {
 	if !(scale > 0) || math.IsInf(scale, 0) {
 		return Outline{}, fmt.Errorf("SVG path: scale %g must be positive and finite: %w", opt.Scale, ErrFormat)
 	}
+	if len(subs) == 0 {
+		// Empty path data, or a document whose shapes draw nothing: say
+		// so rather than measure the extent of no points.
+		return Outline{}, fmt.Errorf("SVG path: no drawing command (the path data is empty): %w", ErrFormat)
+	}
 	extent := svgExtent(subs)
 	if !(extent > 0) {
 		return Outline{}, fmt.Errorf("SVG path: no closed subpath that draws anything: %w", ErrFormat)
@@ -221,6 +228,13 @@ func buildSVG(subs []svgSubpath, opt SVGOptions) (Outline, error) {
 	}
 	if len(loops) == 0 {
 		return Outline{}, fmt.Errorf("SVG path: no closed subpath that draws anything: %w", ErrFormat)
+	}
+	if len(opt.Tags) > len(loops) {
+		loopWord := "loops"
+		if len(loops) == 1 {
+			loopWord = "loop"
+		}
+		return Outline{}, fmt.Errorf("SVG path: tags gives %d tags; the drawing has %d %s: give at most one tag per loop, in path order (a loop joined from open subpaths counts at its first): %w", len(opt.Tags), len(loops), loopWord, ErrFormat)
 	}
 	outer, outerArea := 0, -1.0
 	for i, l := range loops {

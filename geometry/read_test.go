@@ -29,7 +29,9 @@ func outlineArea(t *testing.T, o Outline) float64 {
 
 // RFC 7946 Appendix A.3 (Polygon without and with a hole), A.6
 // (MultiPolygon) and §1.5 (FeatureCollection with a Point, a LineString
-// and a Polygon); areas against the closed forms of their squares.
+// and a Polygon) without its LineString, which is refused
+// (TestReadGeoJSONRefusesArealess), its Point skipped; areas against the
+// closed forms of their squares.
 func TestReadGeoJSONRFC7946Examples(t *testing.T) {
 	cases := []struct {
 		name  string
@@ -46,8 +48,6 @@ func TestReadGeoJSONRFC7946Examples(t *testing.T) {
 			 [[100.2, 0.2], [100.2, 0.8], [100.8, 0.8], [100.8, 0.2], [100.2, 0.2]]]]}`, []float64{1, 0.64}},
 		{"1.5", `{"type": "FeatureCollection", "features": [
 			{"type": "Feature", "geometry": {"type": "Point", "coordinates": [102.0, 0.5]}, "properties": {"prop0": "value0"}},
-			{"type": "Feature", "geometry": {"type": "LineString", "coordinates": [[102.0, 0.0], [103.0, 1.0], [104.0, 0.0], [105.0, 1.0]]},
-			 "properties": {"prop0": "value0", "prop1": 0.0}},
 			{"type": "Feature", "geometry": {"type": "Polygon", "coordinates": [[[100.0, 0.0], [101.0, 0.0], [101.0, 1.0], [100.0, 1.0], [100.0, 0.0]]]},
 			 "properties": {"prop0": "value0", "prop1": {"this": "that"}}}]}`, []float64{1}},
 	}
@@ -105,6 +105,7 @@ func TestReadGeoJSONTags(t *testing.T) {
 		{`{"type": "Polygon", "coordinates": [[[0, 0], [1, 1], [1, 0], [0, 1], [0, 0]]]}`, "exterior ring 0, edge from vertex 0 to vertex 1 at (0.5, 0.5): meets the edge from vertex 2: loop crosses itself"},
 		{`{"type": "Polygon", "coordinates": [[[0, 0], [1, 0], [1, 1], [0, 1], [0, 0]], [[2, 2], [3, 2], [3, 3], [2, 2]]]}`, "hole ring 1, edge from vertex 0 to vertex 1 at (2, 2): this point lies outside the outer loop"},
 		{`{"type": "Point", "coordinates": [1, 2]}`, "no Polygon or MultiPolygon found"},
+		{`{"type": "FeatureCollection", "features": []}`, "no Polygon or MultiPolygon found"},
 		{`{"type": "Polygonal", "coordinates": []}`, `unknown GeoJSON type "Polygonal"`},
 	}
 	for _, b := range bad {

@@ -23,8 +23,12 @@ func TestWKTSyntaxErrors(t *testing.T) {
 		text string
 		says []string
 	}{
-		// A missing comma: the fourth point's x is read as a third coordinate.
-		{"POLYGON ((0 0, 10 0, 10 10 0 10, 0 0))", []string{"line 1, column 28: ", `expected ',' or ')' after the point (10 10), found "0"`}},
+		// A missing comma: the fourth point's x is read as a third
+		// coordinate; a number after it says which.
+		{"POLYGON ((0 0, 10 0, 10 10 0 10, 0 0))", []string{"line 1, column 28: ", `expected ',' or ')' after the point (10 10), found "0" (is a ',' missing between two points?)`}},
+		// A third coordinate without Z (OGC 06-103r4 §7.2.1: a 3D point
+		// is written after the keyword Z).
+		{"POLYGON ((0 0 1, 4 0 1, 4 2 1, 0 2 1, 0 0 1))", []string{"line 1, column 15: ", `after the point (0 0), found "1" (cvdeck reads points as x y pairs; points with a third coordinate z need the keyword Z, as in POLYGON Z`}},
 		// Unclosed: the end of the text is placed after the last character, not on the newline.
 		{"POLYGON ((0 0, 10 0, 10 10, 0 10, 0 0)\n", []string{"line 1, column 39: ", "or ')' closing the '(' at line 1, column 9, found the end of the text"}},
 		{"POLYGN ((0 0, 10 0, 10 10, 0 10, 0 0))", []string{"line 1, column 1: ", `expected POLYGON, MULTIPOLYGON or GEOMETRYCOLLECTION, found "POLYGN"`}},
@@ -33,7 +37,10 @@ func TestWKTSyntaxErrors(t *testing.T) {
 		{"POLYGON ((0 0, 1e999 0, 1 1, 0 0))", []string{"line 1, column 16: ", "a coordinate must lie within ±1.8e+308", `found "1e999"`}},
 		{"POLYGON (0 0, 1 0, 1 1, 0 0)", []string{"line 1, column 10: ", `expected '(' opening a ring of points "x y, x y, ...", found "0"`}},
 		{"POLYGON ((0 0, 1 0, 1 1, 0 0),)", []string{"line 1, column 31: ", `found ")"`}},
-		{"POLYGON Z ((0 0 0, 1 0 0, 1 1 0, 0 0 0))", []string{"line 1, column 9: ", "expected '(' opening the rings, or EMPTY, after POLYGON", "without Z or M", `found "Z"`}},
+		{"POLYGON M ((0 0 0, 1 0 0, 1 1 0, 0 0 0))", []string{"line 1, column 9: ", "POLYGON M gives each point a measure, which is not a coordinate", `found "M"`}},
+		{"multipolygon zm EMPTY", []string{"line 1, column 14: ", "MULTIPOLYGON ZM gives each point a measure", `found "zm"`}},
+		{"POLYGON Z ((0 0 0, 1 0, 1 1 0, 0 0 0))", []string{"line 1, column 23: ", `expected the z coordinate after x y = 1 0 (a point after Z has three coordinates), found ","`}},
+		{"POLYGON Z ((0 0 0 1, 1 0 0 1, 1 1 0 1, 0 0 0 1))", []string{"line 1, column 19: ", `after the point (0 0 0), found "1" (a point after Z has three coordinates`}},
 		{"POLYGON ((0 0, 1 0, 1 1, 0 0)) POLYGON ((5 5, 6 5, 6 6, 5 5))", []string{"line 1, column 32: ", "expected the end of the text after the geometry", `found "POLYGON"`}},
 		{"", []string{"line 1, column 1: ", "found the end of the text"}},
 		// Several lines, tabs and a Windows line end: columns count characters from 1 on each line.
@@ -55,6 +62,56 @@ func TestWKTSyntaxErrors(t *testing.T) {
 		}
 		if !strings.HasPrefix(err.Error(), c.says[0]) {
 			t.Errorf("%q: error %q does not start with the position %q", c.text, err, c.says[0])
+		}
+	}
+}
+
+// TestWKTZ: OGC 06-103r4 §7.2.1 writes points of three coordinates after
+// the keyword Z. A z the same at every point is the plane of a drawing
+// and is read (the 4 × 2 rectangle less its 1 × 1 hole keeps its area 7,
+// worked by hand; the two squares of the MULTIPOLYGON Z theirs, 1 and
+// 4); a z that varies, within a ring or between polygons, is refused at
+// its token, naming the vertex and where the first z was.
+func TestWKTZ(t *testing.T) {
+	outs, err := ReadWKT("POLYGON Z ((0 0 7.5, 4 0 7.5, 4 2 7.5, 0 2 7.5, 0 0 7.5), (1 0.5 7.5, 1 1.5 7.5, 2 1.5 7.5, 2 0.5 7.5, 1 0.5 7.5))", PolygonTags{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a := outlineArea(t, outs[0]); math.Abs(a-7) > 1e-12 {
+		t.Errorf("POLYGON Z area %g, want 7", a)
+	}
+	outs, err = ReadWKT("GEOMETRYCOLLECTION Z (MULTIPOLYGON Z (((0 0 1, 1 0 1, 1 1 1, 0 1 1, 0 0 1)), ((5 5 1, 7 5 1, 7 7 1, 5 7 1, 5 5 1))))", PolygonTags{})
+	if err != nil || len(outs) != 2 {
+		t.Fatalf("MULTIPOLYGON Z: %d outlines, %v", len(outs), err)
+	}
+	for i, want := range []float64{1, 4} {
+		if a := outlineArea(t, outs[i]); math.Abs(a-want) > 1e-12 {
+			t.Errorf("MULTIPOLYGON Z polygon %d area %g, want %g", i, a, want)
+		}
+	}
+	for _, c := range []struct{ text, says string }{
+		{"POLYGON Z ((0 0 1, 4 0 1, 4 2 3, 0 2 1, 0 0 1))", "line 1, column 31: polygon 0 ring 0 vertex 2: z = 3 differs from z = 1 at line 1, column 17; cvdeck reads a plane drawing"},
+		{"MULTIPOLYGON Z (((0 0 1, 1 0 1, 1 1 1, 0 0 1)),\n ((5 5 2, 6 5 2, 6 6 2, 5 5 2)))", "line 2, column 8: polygon 1 ring 0 vertex 0: z = 2 differs from z = 1 at line 1, column 23"},
+	} {
+		if _, err := ReadWKT(c.text, PolygonTags{}); !errors.Is(err, ErrFormat) || !strings.HasPrefix(err.Error(), c.says) {
+			t.Errorf("%q: got %v, want %q", c.text, err, c.says)
+		}
+	}
+}
+
+// TestWKTNonFinite: NaN and infinities, which strconv.ParseFloat reads
+// as numbers, are refused at their own token, naming the vertex they
+// belong to (counted from 0 in text order, as ReadWKT numbers a ring's
+// vertices and EdgeTag its edges):
+// in "0 0, NaN 0" the NaN is vertex 1, at column 16.
+func TestWKTNonFinite(t *testing.T) {
+	for _, c := range []struct{ text, says string }{
+		{"POLYGON ((0 0, NaN 0, 4 2, 0 2, 0 0))", `line 1, column 16: polygon 0 ring 0 vertex 1: a coordinate must be a finite number, found "NaN"`},
+		{"POLYGON ((0 0, 4 0, 4 2, 0 2, 0 0), (1 1, 2 1, 2 -Inf, 1 1))", `line 1, column 50: polygon 0 ring 1 vertex 2: a coordinate must be a finite number, found "-Inf"`},
+		{"MULTIPOLYGON (((0 0, 1 0, 1 1, 0 0)),\n((5 5, 6 5, 6 6, 5 +Infinity)))", `line 2, column 20: polygon 1 ring 0 vertex 3: a coordinate must be a finite number, found "+Infinity"`},
+	} {
+		if _, err := ReadWKT(c.text, PolygonTags{}); !errors.Is(err, ErrFormat) || !strings.HasPrefix(err.Error(), c.says) {
+			t.Errorf("%q: got %v, want %q", c.text, err, c.says)
 		}
 	}
 }
