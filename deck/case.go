@@ -105,6 +105,12 @@ type Case struct {
 	// sketch is the sketch file when the case was made from one in memory
 	// (SketchCase), "" for a case file.
 	sketch string
+	// yplusNotes are the flat-plate estimate's remarks
+	// (bc.WallSpacing.Notes) on the first-cell heights the case sets from
+	// a y+ (wallHeight); nil when it sets none. They depend on the
+	// reference state and length only, so they are the same for every
+	// such height.
+	yplusNotes []string
 }
 
 // Family is a refinement family of one case (the refine section).

@@ -71,11 +71,20 @@ func (c *Case) manifest(m *mesh.Mesh, kind string, assign *bc.Assignment, rep *q
 			}
 		}
 	}
+	// The estimate's remarks on first-cell heights (each begins
+	// "first-cell height:"), once whether they come from the advice or
+	// from heights the case sets by y+: both are made at the reference
+	// length and give the same remarks.
+	var heightNotes []string
 	if len(walls) > 0 {
-		for _, n := range walls[0].TargetNotes {
-			man.Mesh.Notes = append(man.Mesh.Notes, n) // each begins "first-cell height:"
+		heightNotes = slices.Clone(walls[0].TargetNotes)
+	}
+	for _, n := range c.yplusNotes {
+		if !slices.Contains(heightNotes, n) {
+			heightNotes = append(heightNotes, n)
 		}
 	}
+	man.Mesh.Notes = append(man.Mesh.Notes, heightNotes...)
 	man.Advice = c.advice(m)
 	man.Checks = checkSummary(rep)
 	return man

@@ -160,7 +160,9 @@ func decodeSpacing(v value, c *Case) (geometry.Spacing, error) {
 }
 
 // wallHeight reads a target y+ and returns the first-cell height that gives
-// it in the reference state, at the reference length (bc.FirstCellHeight).
+// it in the reference state, at the reference length (bc.FirstCellHeight),
+// keeping the estimate's remarks (a laminar station, say) for the deck's
+// notes.
 func (c *Case) wallHeight(x value) (float64, error) {
 	yplus, err := x.positive()
 	if err != nil {
@@ -173,6 +175,7 @@ func (c *Case) wallHeight(x value) (float64, error) {
 	if err != nil {
 		return 0, x.wrap(err)
 	}
+	c.yplusNotes = ws.Notes
 	return ws.Height, nil
 }
 
