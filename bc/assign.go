@@ -480,6 +480,19 @@ func resolve(m *mesh.Mesh, gas Gas, flow refFlow, c Condition, vals map[string][
 // pressure 2 % low gives M = 0.246 against the reference static pressure.
 const StateNoteFraction = 0.02
 
+// UnitSlipFactor and TemperatureSlipFactor bound how far a condition's
+// pressure and temperature may lie from the reference state's before
+// referenceNotes asks for their units to be checked: a tenth to ten times
+// the reference pressure, a third to three times its temperature. A
+// total pressure ten times the static one is Mach 2.16 in air and a total
+// temperature three times the static one Mach 3.2 (isentropic relations,
+// NACA Report 1135), beyond what a subsonic boundary sees; a supersonic
+// supply that does is then noted, which it may keep.
+const (
+	UnitSlipFactor        = 10
+	TemperatureSlipFactor = 3
+)
+
 // referenceNotes compares the resolved condition r with the reference
 // state ref and returns the notes Assign attaches; nil without a reference.
 // They are notes, not errors, since a case may mean them (a heated inflow, a
@@ -496,6 +509,13 @@ const StateNoteFraction = 0.02
 //     from the characteristics crossing it, so the kind is chosen by
 //     whether the flow there is subsonic or supersonic, and the reference
 //     (free-stream) Mach number is the first guess at that.
+//   - a pressure or temperature of the condition (static, total or wall)
+//     more than UnitSlipFactor times the reference's, or less than a
+//     UnitSlipFactor-th of it: a factor of 1e5 is a pressure in bar given
+//     for pascals, 1e3 one in kPa, a temperature near 0 one in degrees
+//     Celsius given for kelvins (a practising engineer's common slips),
+//     while no subsonic duct or wind-tunnel case differs from its
+//     reference state by that much.
 func referenceNotes(r Resolved, ref *State) []Note {
 	if ref == nil {
 		return nil
@@ -521,6 +541,22 @@ func referenceNotes(r Resolved, ref *State) []Note {
 			note("%s (more than %g %%); against the reference static pressure %.6g Pa its total pressure gives M = %.4g, where the reference Mach number is %.4g; keep it if this inflow is meant to differ from the free stream",
 				strings.Join(off, ", and "), 100*StateNoteFraction, ref.Pressure, r.Mach, ref.Mach)
 		}
+	}
+	for _, q := range []struct {
+		key, name, unit string
+		ref             float64
+		factor          float64
+	}{
+		{KeyPressure, "pressure", "Pa", ref.Pressure, UnitSlipFactor},
+		{KeyTotalPressure, "total pressure", "Pa", ref.Pressure, UnitSlipFactor},
+		{KeyTemperature, "temperature", "K", ref.Temperature, TemperatureSlipFactor},
+		{KeyTotalTemperature, "total temperature", "K", ref.Temperature, TemperatureSlipFactor},
+	} {
+		v, ok := r.Value(q.key)
+		if !ok || !(q.ref > 0) || v <= q.factor*q.ref && v >= q.ref/q.factor {
+			continue
+		}
+		note("its %s %.6g %s is %.3g times the reference static %s %.6g %s: check its unit (%s in %s)", q.name, v, q.unit, v/q.ref, strings.TrimPrefix(q.name, "total "), q.ref, q.unit, q.name, q.unit)
 	}
 	switch r.Kind {
 	case InflowTotal, InflowVelocity, OutflowPressure:

@@ -443,6 +443,33 @@ func TestAssignNotesInflowTotalAgainstReference(t *testing.T) {
 	}
 }
 
+// A pressure or temperature far from the reference state's, as a unit
+// slip gives, is noted at its tag: a back pressure of 1.01325 "Pa" (one
+// atmosphere in bar) is 1e-5 of the reference 101325 Pa, a wall at 27 "K"
+// (27 °C) 0.094 of 288.15 K; 90 kPa and a 500 K wall are not noted.
+func TestAssignNotesUnitSlips(t *testing.T) {
+	m := channel(t, 6, 3, 3, 1, 0, ductTags)
+	ref := seaLevel(t)
+	conds := ductConditions(ref)
+	conds[1].Values[0].Number[0] = 1.01325
+	conds[2].Values[0].Number[0] = 27
+	a, err := Assign(m, Setup{Reference: ref, Conditions: conds})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := strings.Join(notesOn(a, "outlet"), "\n"); !strings.Contains(got, "its pressure 1.01325 Pa is 1e-05 times the reference static pressure 101325 Pa: check its unit") {
+		t.Errorf("outlet notes %q", got)
+	}
+	if got := strings.Join(notesOn(a, "wall"), "\n"); !strings.Contains(got, "its temperature 27 K is 0.0937 times the reference static temperature 288.15 K") {
+		t.Errorf("wall notes %q", got)
+	}
+	conds[1].Values[0].Number[0] = 90000
+	conds[2].Values[0].Number[0] = 500
+	if a, err = Assign(m, Setup{Reference: ref, Conditions: conds}); err != nil || len(a.Notes) != 0 {
+		t.Errorf("plausible values: notes %v, error %v", a.Notes, err)
+	}
+}
+
 // A subsonic kind under a supersonic reference state, and a supersonic
 // inflow under a subsonic one, are noted, with the reference Mach number.
 func TestAssignNotesRegimeAgainstReference(t *testing.T) {
