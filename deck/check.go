@@ -247,35 +247,168 @@ func ownReport(path string) string {
 	return "check"
 }
 
-// tagFromLines returns m with the tags of boundary lines given by their
-// end points (matched to mesh nodes by exact coordinates, as a deck's
-// boundary.vtp holds the very numbers its mesh.vtu does); see withTags.
-// Lines that are not boundary faces of m are an error; boundary faces no
-// line covers stay untagged.
+// tagFromLines returns m with the tags of boundary lines (see withTags),
+// each line placed on the boundary face of m it lies on, and a note on
+// how; lines that are no boundary face of m are an error, and boundary
+// faces no line covers stay untagged.
+//
+// The lines' end points are matched to m's boundary nodes by exact
+// coordinates, as a deck's boundary.vtp holds the very numbers its
+// mesh.vtu does; but coordinates alone do not tell coincident nodes
+// apart, such as the two sides of a thin plate or the two lips of a
+// crack, whose boundary faces lie on one another and run opposite ways.
+// So a point of the file (by its number, shared by the lines that meet
+// there) is the one node among those at its coordinates that makes every
+// line through it a boundary face of m running as the line runs:
+// forward, as WriteBoundaryVTP writes each face from its first node to
+// its second, where every line whose nodes are plain says so; backward
+// where they all run backward; either way otherwise. The candidates are
+// narrowed line by line until none changes; a point left with none is no
+// boundary node, and one left with several lies where the lines cannot
+// tell coincident nodes apart, and is refused, naming it, rather than
+// tagged by a guess.
+//
+// The face numbers the file gives (vtk.FaceArray, when it has them) must
+// number m's boundary faces, each once: a file that lists a different
+// boundary is an error, as it was written for another mesh. Whether they
+// also number the faces as the tagged mesh does (they do for a file
+// written with the mesh.vtu beside it, whose cells are numbered alike) is
+// said in the note.
 func tagFromLines(m *mesh.Mesh, lines []vtk.BoundaryLine) (*mesh.Mesh, string, error) {
-	node := make(map[[2]float64]int32, m.NumBoundary())
-	for f := m.NumInterior; f < m.NumFaces(); f++ {
-		for _, v := range m.FaceNodes[f] {
-			node[m.Nodes[v]] = v
+	lo, hi := m.NumInterior, m.NumFaces()
+	numbered := len(lines) > 0
+	for _, l := range lines {
+		numbered = numbered && l.Face >= 0
+	}
+	if numbered {
+		if len(lines) != hi-lo {
+			return nil, "", fmt.Errorf("the file lists %d boundary faces (the face numbers of its lines) but the mesh has %d: it was written for another mesh", len(lines), hi-lo)
+		}
+		seen := make([]bool, hi-lo)
+		for k, l := range lines {
+			switch {
+			case l.Face < lo || l.Face >= hi:
+				return nil, "", fmt.Errorf("line %d gives face number %d, but the mesh's boundary faces are numbered %d to %d: the file was written for another mesh", k, l.Face, lo, hi-1)
+			case seen[l.Face-lo]:
+				return nil, "", fmt.Errorf("line %d gives face number %d, which an earlier line gives too: each boundary face is listed once", k, l.Face)
+			}
+			seen[l.Face-lo] = true
+		}
+	}
+	// The boundary nodes at each position, and the boundary faces by their
+	// nodes in the order the faces run.
+	at := make(map[[2]float64][]int32, hi-lo)
+	face := make(map[[2]int32]bool, hi-lo)
+	onBoundary := make([]bool, len(m.Nodes))
+	for f := lo; f < hi; f++ {
+		fn := m.FaceNodes[f]
+		face[fn] = true
+		for _, v := range fn {
+			if !onBoundary[v] {
+				onBoundary[v] = true
+				at[m.Nodes[v]] = append(at[m.Nodes[v]], v)
+			}
+		}
+	}
+	cand := make(map[int][]int32)
+	for k, l := range lines {
+		for _, e := range [2]struct {
+			p  int
+			xy [2]float64
+		}{{l.P, l.A}, {l.Q, l.B}} {
+			if _, ok := cand[e.p]; ok {
+				continue
+			}
+			c := at[e.xy]
+			if len(c) == 0 {
+				return nil, "", fmt.Errorf("line %d from (%g, %g) to (%g, %g): its point %d at (%g, %g) is no boundary node of the mesh", k, l.A[0], l.A[1], l.B[0], l.B[1], e.p, e.xy[0], e.xy[1])
+			}
+			cand[e.p] = slices.Clone(c)
+		}
+	}
+	// Which way the lines run, from those whose ends are plain nodes.
+	fwd, bwd := 0, 0
+	for k, l := range lines {
+		a, b := cand[l.P], cand[l.Q]
+		if len(a) != 1 || len(b) != 1 {
+			continue
+		}
+		switch {
+		case face[[2]int32{a[0], b[0]}]:
+			fwd++
+		case face[[2]int32{b[0], a[0]}]:
+			bwd++
+		default:
+			return nil, "", fmt.Errorf("line %d from (%g, %g) to (%g, %g), between nodes %d and %d, is not a boundary face of the mesh", k, l.A[0], l.A[1], l.B[0], l.B[1], a[0], b[0])
+		}
+	}
+	forward, backward := fwd > 0 || bwd == 0, bwd > 0 || fwd == 0
+	joins := func(a, b int32) bool {
+		return forward && face[[2]int32{a, b}] || backward && face[[2]int32{b, a}]
+	}
+	for changed := true; changed; {
+		changed = false
+		for k, l := range lines {
+			ca, cb := cand[l.P], cand[l.Q]
+			if len(ca) == 1 && len(cb) == 1 {
+				continue
+			}
+			na := slices.DeleteFunc(slices.Clone(ca), func(a int32) bool {
+				return !slices.ContainsFunc(cb, func(b int32) bool { return joins(a, b) })
+			})
+			nb := slices.DeleteFunc(slices.Clone(cb), func(b int32) bool {
+				return !slices.ContainsFunc(na, func(a int32) bool { return joins(a, b) })
+			})
+			if len(na) == 0 || len(nb) == 0 {
+				return nil, "", fmt.Errorf("line %d from (%g, %g) to (%g, %g) is not a boundary face of the mesh: no boundary face joins the nodes there (%v and %v) as the line runs", k, l.A[0], l.A[1], l.B[0], l.B[1], ca, cb)
+			}
+			if len(na) < len(ca) || len(nb) < len(cb) {
+				cand[l.P], cand[l.Q], changed = na, nb, true
+			}
 		}
 	}
 	var adds []namedEdge
+	node := func(p int) int32 { return cand[p][0] }
 	for k, l := range lines {
-		if l.Tag == "" {
-			continue
+		for _, e := range [2]struct {
+			p  int
+			xy [2]float64
+		}{{l.P, l.A}, {l.Q, l.B}} {
+			if c := cand[e.p]; len(c) > 1 {
+				return nil, "", fmt.Errorf("point %d at (%g, %g), an end of line %d (tag %q), could be any of the mesh's nodes %v, which lie there together, and the lines through it do not tell which: its tags cannot be placed without a guess (move the file away to check the mesh untagged)", e.p, e.xy[0], e.xy[1], k, l.Tag, c)
+			}
 		}
-		a, okA := node[l.A]
-		b, okB := node[l.B]
-		if !okA || !okB {
-			return nil, "", fmt.Errorf("line %d from (%g, %g) to (%g, %g) does not join two boundary nodes of the mesh", k, l.A[0], l.A[1], l.B[0], l.B[1])
+		if !joins(node(l.P), node(l.Q)) {
+			return nil, "", fmt.Errorf("line %d from (%g, %g) to (%g, %g), between nodes %d and %d, is not a boundary face of the mesh running as the other lines run", k, l.A[0], l.A[1], l.B[0], l.B[1], node(l.P), node(l.Q))
 		}
-		adds = append(adds, namedEdge{a, b, l.Tag})
+		if l.Tag != "" {
+			adds = append(adds, namedEdge{node(l.P), node(l.Q), l.Tag})
+		}
 	}
 	tagged, err := withTags(m, adds)
 	if err != nil {
 		return nil, "", err
 	}
-	return tagged, fmt.Sprintf("%d tagged lines, %d tags", len(adds), len(tagged.Tags)), nil
+	tags := "tags"
+	if len(tagged.Tags) == 1 {
+		tags = "tag"
+	}
+	note := fmt.Sprintf("%d tagged lines, %d %s", len(adds), len(tagged.Tags), tags)
+	if numbered {
+		moved := 0
+		for _, l := range lines {
+			fn := tagged.FaceNodes[l.Face]
+			if a, b := node(l.P), node(l.Q); fn != [2]int32{a, b} && fn != [2]int32{b, a} {
+				moved++
+			}
+		}
+		if moved == 0 {
+			note += "; its face numbers are the tagged mesh's"
+		} else {
+			note += fmt.Sprintf("; %d of its %d face numbers are not the tagged mesh's (the mesh it was written from numbered its cells otherwise), the tags placed by their nodes", moved, len(lines))
+		}
+	}
+	return tagged, note, nil
 }
 
 // tagUntagged returns m with its untagged boundary faces under DefaultTag

@@ -326,19 +326,26 @@ func firstError(errs []error) error {
 	return nil
 }
 
-// OrientCounterClockwise reverses the node order of every cell of in when
-// every cell of non-zero area runs clockwise (negative signed area) and at
-// least one does, and returns the number of cells it reversed (0 when it
-// left in as it was). A file whose cells are all listed clockwise follows a
-// convention of its own, consistently, and is no defect; readers call this
-// before Build so that such a file is read counter-clockwise, and say so.
-// A mesh where only some cells run clockwise is left as it is, for the
-// checks to name those cells (see Build). Cells are tested in ranges side
+// TurnRound reverses the node order of every cell of in (after its first
+// node: a, b, c, d becomes a, d, c, b) when more of its cells of non-zero
+// area run clockwise (negative signed area) than counter-clockwise, and
+// returns a note saying so, sense (a phrase such as "run clockwise seen
+// from +z (negative signed area)") saying how the clockwise cells ran; ""
+// when it left in as it was. Readers call it before Build.
+//
+// A file whose cells are listed clockwise follows a convention of its own
+// and is no defect; where a few cells disagree with it, they are the odd
+// ones, and turning the mesh round makes them the ones the checks name
+// (as cells of negative area, see Build) rather than the many that follow
+// the file's convention. The majority is by count, not by area: the
+// report counts and names cells, and a count is not swayed by a few large
+// far-field cells against many small ones near a wall. A tie leaves the
+// mesh as the file lists it. Cells are tested and turned in ranges side
 // by side; nothing is allocated but the per-range counts.
-func OrientCounterClockwise(in *Input) int {
+func TurnRound(in *Input, sense string) string {
 	nc := len(in.CellStart) - 1
 	if nc <= 0 {
-		return 0
+		return ""
 	}
 	parts := partBounds(nc)
 	neg, pos := make([]int, len(parts)-1), make([]int, len(parts)-1)
@@ -352,25 +359,31 @@ func OrientCounterClockwise(in *Input) int {
 			}
 		}
 	})
-	n := 0
+	cw, ccw := 0, 0
 	for k := range neg {
-		if pos[k] > 0 {
-			return 0
-		}
-		n += neg[k]
+		cw, ccw = cw+neg[k], ccw+pos[k]
 	}
-	if n == 0 {
-		return 0
+	if cw <= ccw {
+		return ""
 	}
 	inParts(parts, func(_, lo, hi int) {
 		for c := lo; c < hi; c++ {
 			cell := in.CellNodes[in.CellStart[c]:in.CellStart[c+1]]
-			// Reversed after the first node, which stays first:
-			// a, b, c, d becomes a, d, c, b.
 			for i, j := 1, len(cell)-1; i < j; i, j = i+1, j-1 {
 				cell[i], cell[j] = cell[j], cell[i]
 			}
 		}
 	})
-	return nc
+	zero := nc - cw - ccw
+	switch {
+	case ccw == 0 && zero == 0:
+		return fmt.Sprintf("all %d cells %s as the file lists them; their node order is reversed", nc, sense)
+	case ccw == 0:
+		return fmt.Sprintf("all %d cells of non-zero area (%d have none) %s as the file lists them; the node order of every cell is reversed", cw, zero, sense)
+	}
+	note := fmt.Sprintf("%d of the %d cells %s as the file lists them, %d the other way", cw, nc, sense, ccw)
+	if zero > 0 {
+		note += fmt.Sprintf(" and %d have zero area", zero)
+	}
+	return note + fmt.Sprintf(": the mesh is read turned round (every cell's node order reversed), so the %d that ran the other way are the cells the checks name", ccw)
 }

@@ -239,10 +239,12 @@ func TestBuildClockwiseCell(t *testing.T) {
 	}
 }
 
-// TestOrientCounterClockwise: a grid listed clockwise throughout is turned
-// round, cell by cell, to the grid Build makes of it counter-clockwise; a
-// grid with one clockwise cell among others is left as it is.
-func TestOrientCounterClockwise(t *testing.T) {
+// TestTurnRound: a grid listed clockwise throughout is turned round,
+// cell by cell, to the grid Build makes of it counter-clockwise; a grid
+// with one clockwise cell among three is left as it is, and one with one
+// counter-clockwise cell among three is turned, so that the odd cell is
+// the one of negative area.
+func TestTurnRound(t *testing.T) {
 	want, err := Build(grid(3, 2))
 	if err != nil {
 		t.Fatal(err)
@@ -252,8 +254,8 @@ func TestOrientCounterClockwise(t *testing.T) {
 		q := in.CellNodes[in.CellStart[c]:in.CellStart[c+1]]
 		q[1], q[3] = q[3], q[1]
 	}
-	if n := OrientCounterClockwise(&in); n != 6 {
-		t.Fatalf("reversed %d cells, want 6", n)
+	if note := TurnRound(&in, "run clockwise"); note != "all 6 cells run clockwise as the file lists them; their node order is reversed" {
+		t.Fatalf("note %q", note)
 	}
 	got, err := Build(in)
 	if err != nil {
@@ -266,7 +268,24 @@ func TestOrientCounterClockwise(t *testing.T) {
 	q := mixed.CellNodes[4:8]
 	q[1], q[3] = q[3], q[1]
 	before := append([]int32(nil), mixed.CellNodes...)
-	if n := OrientCounterClockwise(&mixed); n != 0 || !reflect.DeepEqual(mixed.CellNodes, before) {
-		t.Errorf("a mix: reversed %d cells, nodes %v; want none, %v", n, mixed.CellNodes, before)
+	if note := TurnRound(&mixed, "run clockwise"); note != "" || !reflect.DeepEqual(mixed.CellNodes, before) {
+		t.Errorf("one clockwise cell of three: note %q, nodes %v; want none, %v", note, mixed.CellNodes, before)
+	}
+	for _, c := range []int{0, 2} {
+		q := mixed.CellNodes[4*c : 4*c+4]
+		q[1], q[3] = q[3], q[1]
+	}
+	q[1], q[3] = q[3], q[1]
+	if note := TurnRound(&mixed, "run clockwise"); !strings.Contains(note, "2 of the 3 cells run clockwise as the file lists them, 1 the other way") {
+		t.Errorf("two clockwise cells of three: note %q", note)
+	}
+	m, err := Build(mixed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for c, a := range m.Geo.CellArea {
+		if (a < 0) != (c == 1) {
+			t.Errorf("cell %d area %g after turning round; want only cell 1 negative", c, a)
+		}
 	}
 }

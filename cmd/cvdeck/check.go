@@ -17,25 +17,39 @@ func newCheckCommand(g *globals) *cobra.Command {
 	var limits, profile, out string
 	cmd := &cobra.Command{
 		Use:   "check FILE...",
-		Short: "Check an existing mesh (.vtu, .vtk, .vtp or .cgns), made by cvdeck or not",
+		Short: "Check an existing mesh (.vtu, .vtk, .vtp, .vts, .vtm or .cgns), made by cvdeck or not",
 		Long: `check reads a mesh file — a VTK unstructured grid (XML .vtu or legacy .vtk)
 or polygon mesh (XML .vtp or legacy POLYDATA .vtk) with triangles, quads or
 polygons (line cells are boundary faces, tagged by a "boundary_tag" or "tag"
-cell array; vertex cells are skipped), or a CGNS file — and runs every quality
-metric, the connectivity checks and the conservation audit on it. A 2D case
+cell array; vertex cells are skipped), a VTK structured grid (.vts) or a
+multiblock index of them (.vtm, whose blocks are joined into one mesh where
+they touch, their cells numbered on block after block, with a note giving
+each block's cells), or a CGNS file — and runs every quality
+metric, the connectivity checks and the conservation audit on it. A mesh on
+a plane x, y or z = constant is read in the two coordinates that vary (a
+coordinate that spreads by rounding only, within 1e-12 of the largest
+coordinate, counts as constant), and one whose cells mostly run clockwise
+is read turned round, each with a note. A 2D case
 stored the way 3D solvers take one is read as its lower plane: in VTK a slab
 one cell thick of hexahedra, voxels or wedges (side quads are its boundary
 faces), in CGNS structured zones one node plane or one cell thick or an
 unstructured zone of HEXA_8 and PENTA_6 one cell thick; a note says what was
 left out with the front and back (patches, BCs and their tags), and for CGNS
-another gives the BC type the file records for each tag. The report ends with
+another gives the BC type the file records for each tag. CGNS zones that touch
+without connectivity (structured zones, or the unstructured zones of a 2D
+base) are joined into one mesh, with a note. The report ends with
 the boundary faces of each tag, so that you can see which tags the file
 brought.
 
 A mesh inside a deck (a quality.json beside it) is graded with the limits the
 deck records, so the check gives the deck's verdict; --limits applies on top of
-them and --profile starts afresh from a named profile. Boundary faces with no
-tag are checked as one tag "boundary", with a warning.
+them and --profile starts afresh from a named profile. A deck's mesh.vtu,
+mesh.vtk or blocks.vtm takes its tags from the boundary.vtp beside it, each
+line placed on the boundary face it joins the way the face runs, so that
+coincident nodes (the two sides of a thin plate) keep their own tags; a line
+that could lie on either of two coincident faces is refused, not guessed. A mesh with no tags
+at all is checked with its boundary as one tag "boundary", with a warning; in
+a mesh tagged in part, the untagged faces fail boundary_tag.
 
 With -o DIR the check also writes the folder DIR (replacing it as a whole, as
 mesh -o does; not the folder the mesh file is in) so that bad cells can be

@@ -25,8 +25,9 @@ import (
 // The file's first base must have cell dimension 2 (physical dimension 2,
 // or 3 with the nodes on one plane x, y or z = constant: see planeAxis;
 // a mesh on x or y = c is read in the two coordinates that vary, with a
-// note, as the VTK reader reads one) and hold either one unstructured
-// zone or one or more structured zones; or it is a 3D base holding a 2D
+// note, as the VTK reader reads one) and hold either one or more
+// unstructured zones (several are joined where they touch: see
+// joinUnstructured) or one or more structured zones; or it is a 3D base holding a 2D
 // case the way 3D solvers take one: structured zones one node plane
 // thick, or one cell thick in k (see structured below), or one
 // unstructured zone one cell thick (HEXA_8 and PENTA_6 between two planes
@@ -315,12 +316,10 @@ func (r *reader) read() (*mesh.Mesh, error) {
 	switch {
 	case nstruct == int(nz):
 		return r.structured(int(nz))
-	case r.thin && nz > 1:
-		return nil, fmt.Errorf("%s is a 3D base with %d unstructured zones; cvdeck reads one unstructured zone", bp, nz)
-	case nstruct == 0 && nz == 1:
-		return r.unstructured(1)
+	case r.thin && nstruct == 0 && nz > 1:
+		return nil, fmt.Errorf("%s is a 3D base with %d unstructured zones; cvdeck reads a slab one cell thick from one unstructured zone (several unstructured zones it joins in a base of cell dimension 2 only)", bp, nz)
 	case nstruct == 0:
-		return nil, fmt.Errorf("%s has %d unstructured zones; cvdeck reads one unstructured zone, or structured zones", bp, nz)
+		return r.unstructured(int(nz))
 	default:
 		return nil, fmt.Errorf("%s mixes %d structured and %d unstructured zones; cvdeck reads one kind", bp, nstruct, int(nz)-nstruct)
 	}

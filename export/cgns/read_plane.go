@@ -14,58 +14,123 @@ import (
 // nil in a base of physical dimension 2 or a zone without CoordinateZ.
 type xyz struct{ x, y, z []float64 }
 
-// zStep returns the 0-based index of the first node whose z differs from
-// node 0's, −1 if every node has the same z exactly (as a plane mesh
-// written on z = c has) or the zone has no z.
-func (c xyz) zStep() int {
-	for i, v := range c.z {
-		if v != c.z[0] {
-			return i
+// spreadOf returns the 0-based indices of the least and greatest of v
+// (0 and 0 for none).
+func spreadOf(v []float64) (lo, hi int) {
+	for i, x := range v {
+		if x < v[lo] {
+			lo = i
+		} else if x > v[hi] {
+			hi = i
 		}
 	}
-	return -1
+	return lo, hi
 }
 
-// planeAxis returns the coordinate plane the nodes of the zones cs lie on,
-// as the axis whose coordinate is constant there (0 for x, 1 for y, 2 for
-// z): z if every zone's nodes share one z exactly (each zone its own, as
-// the reader has always taken them), else y or x if every node's lies
-// within mesh.PlaneTolerance of the largest coordinate magnitude of the first
-// node's, the same test in the same order as the VTK reader's; −1 if none
-// does (a tilted plane, or not a plane).
-func planeAxis(cs []xyz) int {
-	flat := true
+// meanOf is the mean of v, summed about v[0] so that large coordinates
+// lose nothing to the sum; v[0] itself when every value equals it.
+func meanOf(v []float64) float64 {
+	sum := 0.0
+	for _, x := range v {
+		sum += x - v[0]
+	}
+	return v[0] + sum/float64(len(v))
+}
+
+// onPlane is the coordinate plane the nodes of a base's zones lie on (see
+// planeAxis): the axis whose coordinate is constant (0 for x, 1 for y, 2
+// for z, −1 for none), the coordinate there (for x and y the mean of
+// every node's; z is each zone's own), the largest spread of the nodes'
+// coordinates on that axis (within one zone for z), tol, the largest
+// spread taken as rounding, and zone, the zone of the largest z spread.
+type onPlane struct {
+	axis       int
+	at, spread float64
+	tol        float64
+	zone       int
+}
+
+// planeAxis finds the coordinate plane the nodes of the zones cs lie on:
+// z if every zone's nodes share one z (each zone its own, as the reader
+// has always taken them), else y or x if every node's does; a coordinate
+// is shared when it spreads over at most mesh.PlaneTolerance times the
+// largest coordinate magnitude of any node. That is the VTK reader's test
+// in the same order with the same constant (see its planeOf3 for why the
+// tolerance scales with the magnitude): a spread within it is rounding,
+// and the coordinate is set to its mean (for z, each zone's own), so that
+// the readers after it see one plane exactly. Axis −1: none is shared (a
+// tilted plane, or not a plane).
+func planeAxis(cs []xyz) onPlane {
 	extent := 0.0
 	for _, c := range cs {
-		flat = flat && c.zStep() < 0
 		for _, a := range [][]float64{c.x, c.y, c.z} {
 			for _, v := range a {
 				extent = max(extent, math.Abs(v))
 			}
 		}
 	}
+	pl := onPlane{axis: -1, tol: mesh.PlaneTolerance * extent}
+	flat, zs := true, 0.0
+	for k, c := range cs {
+		if len(c.z) == 0 {
+			continue
+		}
+		lo, hi := spreadOf(c.z)
+		if d := c.z[hi] - c.z[lo]; !(d <= zs) {
+			zs, pl.zone = d, k
+		}
+		flat = flat && c.z[hi]-c.z[lo] <= pl.tol
+	}
 	if flat {
-		return 2
+		pl.axis, pl.spread = 2, zs
+		for _, c := range cs {
+			if len(c.z) > 0 && zs > 0 {
+				mean := meanOf(c.z)
+				for i := range c.z {
+					c.z[i] = mean
+				}
+			}
+		}
+		return pl
 	}
 	for _, axis := range []int{1, 0} {
-		first, same := math.NaN(), true
+		coord := func(c xyz) []float64 { return [2][]float64{c.x, c.y}[axis] }
+		lo, hi := math.Inf(1), math.Inf(-1)
 		for _, c := range cs {
-			a := c.x
-			if axis == 1 {
-				a = c.y
+			for _, v := range coord(c) {
+				lo, hi = min(lo, v), max(hi, v)
 			}
-			for _, v := range a {
-				if math.IsNaN(first) {
-					first = v
+		}
+		if !(hi-lo <= pl.tol) {
+			continue
+		}
+		pl.axis, pl.spread, pl.at = axis, hi-lo, coord(cs[0])[0]
+		if pl.spread > 0 {
+			var all []float64
+			for _, c := range cs {
+				all = append(all, coord(c)...)
+			}
+			pl.at = meanOf(all)
+			for _, c := range cs {
+				a := coord(c)
+				for i := range a {
+					a[i] = pl.at
 				}
-				same = same && math.Abs(v-first) <= mesh.PlaneTolerance*extent
 			}
 		}
-		if same {
-			return axis
-		}
+		return pl
 	}
-	return -1
+	return pl
+}
+
+// spreadNote is the phrase a note on the plane adds when the nodes'
+// coordinates on its axis were not all equal, worded as the VTK
+// reader's; "" when they were equal.
+func (pl onPlane) spreadNote() string {
+	if pl.spread == 0 {
+		return ""
+	}
+	return fmt.Sprintf(" (the points' %s spread over %.3g, within the %.3g that rounding gives: taken as one plane at their mean)", [3]string{"x", "y", "z"}[pl.axis], pl.spread, pl.tol)
 }
 
 // points returns the nodes of c on the plane of axis (see planeAxis) as
@@ -95,14 +160,22 @@ func planeView(axis int) string {
 	return [3]string{"+x", "−y", "+z"}[axis]
 }
 
-// mappedNote is the note on a mesh read from the plane x = at (axis 0) or
-// y = at (axis 1), worded as the VTK reader's.
-func mappedNote(axis int, at float64) string {
+// mappedNote is the note on a mesh read from the plane pl, x = c (axis
+// 0) or y = c (axis 1), worded as the VTK reader's.
+func mappedNote(pl onPlane) string {
+	axis := pl.axis
 	name, u, v := "x", "y", "z"
 	if axis == 1 {
 		name, u = "y", "x"
 	}
-	return fmt.Sprintf("a plane mesh on %s = %.9g, read as 2D with (%s, %s) taken as (x, y), seen from %s (%s dropped; files written from it, such as check -o's, are in that (x, y) plane)", name, at, u, v, planeView(axis), name)
+	at := pl.at
+	if pl.spread > 0 {
+		// Rounded to the decade of the spread, below which its digits are
+		// the sum's rounding, as the VTK reader's note rounds it.
+		q := math.Pow(10, math.Floor(math.Log10(pl.spread)))
+		at = math.Round(at/q)*q + 0
+	}
+	return fmt.Sprintf("a plane mesh on %s = %.9g%s, read as 2D with (%s, %s) taken as (x, y), seen from %s (%s dropped; files written from it, such as check -o's, are in that (x, y) plane)", name, at, pl.spreadNote(), u, v, planeView(axis), name)
 }
 
 // planeVector is the 3D vector t in the (x, y) of the plane of axis, as
@@ -118,24 +191,34 @@ func planeVector(axis int, t [3]float64) [2]float64 {
 }
 
 // plane finds the coordinate plane the zones' nodes lie on (see
-// planeAxis), records it in r.axis with a note when it is not z = c, and
-// returns each zone's nodes as 2D points; paths name the zones in errors.
-// Nodes on no one such plane are an error naming the first zone whose z
-// varies.
+// planeAxis), records it in r.axis with a note when it is not z = c or
+// the nodes' coordinate spread by rounding, and returns each zone's nodes
+// as 2D points; paths name the zones in errors. Nodes on no one such
+// plane are an error naming the zone whose z spreads most, its nodes of
+// least and greatest z, and the spread against the tolerance.
 func (r *reader) plane(paths []string, cs []xyz) ([][]orb.Point, error) {
-	r.axis = planeAxis(cs)
-	if r.axis < 0 {
-		// Not on z = c: some zone's z varies.
-		k := slices.IndexFunc(cs, func(c xyz) bool { return c.zStep() >= 0 })
-		i := cs[k].zStep()
-		return nil, fmt.Errorf("%s/GridCoordinates/CoordinateZ varies (node %d has z = %g, node 1 has %g), and the nodes share no one x or y either; cvdeck reads plane 2D meshes lying in a plane x, y or z = constant", paths[k], i+1, cs[k].z[i], cs[k].z[0])
-	}
-	if r.axis < 2 {
-		at := cs[0].x[0]
-		if r.axis == 1 {
-			at = cs[0].y[0]
+	for k, c := range cs {
+		for a, v := range [][]float64{c.x, c.y, c.z} {
+			if i := slices.IndexFunc(v, func(x float64) bool { return math.IsNaN(x) || math.IsInf(x, 0) }); i >= 0 {
+				return nil, fmt.Errorf("%s/GridCoordinates/Coordinate%s: node %d is %g; coordinates must be finite", paths[k], [3]string{"X", "Y", "Z"}[a], i+1, v[i])
+			}
 		}
-		r.notes = append(r.notes, mappedNote(r.axis, at))
+	}
+	pl := planeAxis(cs)
+	r.axis = pl.axis
+	switch {
+	case r.axis < 0:
+		c := cs[pl.zone]
+		lo, hi := spreadOf(c.z)
+		return nil, fmt.Errorf("%s/GridCoordinates/CoordinateZ spreads over %.3g (node %d has z = %g, node %d has %g), more than the %.3g that rounding gives, and the nodes' x and y spread as far: they lie on no plane x, y or z = constant (a tilted plane, or a 3D surface); cvdeck reads plane 2D meshes lying in a plane x, y or z = constant", paths[pl.zone], c.z[hi]-c.z[lo], lo+1, c.z[lo], hi+1, c.z[hi], pl.tol)
+	case r.axis < 2:
+		r.notes = append(r.notes, mappedNote(pl))
+	case pl.spread > 0:
+		where := ""
+		if len(cs) > 1 {
+			where = " (most in " + paths[pl.zone] + ")"
+		}
+		r.notes = append(r.notes, fmt.Sprintf("a plane mesh on z = constant, read as 2D (z dropped): the nodes' z spread over up to %.3g within a zone%s, within the %.3g that rounding gives, and each zone is taken as one plane at their mean", pl.spread, where, pl.tol))
 	}
 	out := make([][]orb.Point, len(cs))
 	for k, c := range cs {

@@ -7,7 +7,10 @@ import "C"
 
 import (
 	"fmt"
+	"math"
+	"slices"
 	"sort"
+	"strings"
 
 	"github.com/paulmach/orb"
 
@@ -38,71 +41,121 @@ func (s *elemSection) element(e int) (C.ElementType_t, []int32) {
 	}
 }
 
-// unstructured reads unstructured zone z (see Read).
-func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
+// uzone is one unstructured zone as read: its cells and the boundary
+// edges its BCs and periodic connections tag, in the zone's own 0-based
+// node numbers (those the mesh keeps, for a slab), and the periodic
+// connections it added to the reader's, from periodic on.
+type uzone struct {
+	name, path string
+	c          xyz
+	secs       []elemSection
+	in         mesh.Input
+	found      []taggedEdges
+	periodic   int
+}
+
+// unstructured reads the nz unstructured zones of the base (see Read):
+// one zone as it stands, or several of a base of cell dimension 2 joined
+// into one mesh where they touch (see joinUnstructured).
+func (r *reader) unstructured(nz int) (*mesh.Mesh, error) {
+	zones := make([]uzone, nz)
+	for k := range zones {
+		if err := r.unstructuredHead(C.int(k+1), &zones[k]); err != nil {
+			return nil, err
+		}
+	}
+	if r.thin {
+		uz := &zones[0]
+		sl, err := newSlab(uz.path, uz.c.points(2), uz.c.z)
+		if err != nil {
+			return nil, err
+		}
+		if uz.in, err = sl.cells(uz.secs); err != nil {
+			return nil, err
+		}
+		r.orientZone(uz, "have negative volume by the CGNS node-order conventions (their faces on the lower plane run clockwise seen from +z)")
+		left, err := r.zoneFaces(1, uz, sl.faceEdge(uz.secs), func(v int32) int32 { return sl.index[v-1] }, sl.patch(uz.secs))
+		if err != nil {
+			return nil, err
+		}
+		what := fmt.Sprintf("zone %s, a slab one cell thick between z = %g and z = %g, read as its lower plane", uz.name, sl.lo, sl.hi)
+		r.notes = append(r.notes, planeNote(what, left))
+		return r.buildTagged(uz.in, uz.found, uz.path)
+	}
+	paths, cs := make([]string, nz), make([]xyz, nz)
+	for k, uz := range zones {
+		paths[k], cs[k] = uz.path, uz.c
+	}
+	nodes, err := r.plane(paths, cs)
+	if err != nil {
+		return nil, err
+	}
+	for k := range zones {
+		uz := &zones[k]
+		if uz.in, err = planarCells(uz.path, uz.secs, nodes[k]); err != nil {
+			return nil, err
+		}
+		r.orientZone(uz, "run clockwise seen from "+planeView(r.axis)+" (negative signed area)")
+		noPatch := func(int32) bool { return false }
+		if _, err := r.zoneFaces(C.int(k+1), uz, planarBarOf(uz.secs), func(v int32) int32 { return v - 1 }, noPatch); err != nil {
+			return nil, err
+		}
+	}
+	if nz == 1 {
+		return r.buildTagged(zones[0].in, zones[0].found, zones[0].path)
+	}
+	return r.joinUnstructured(zones)
+}
+
+// unstructuredHead reads the name, coordinates and element sections of
+// unstructured zone z into uz, the sections sorted by element number and
+// checked not to overlap.
+func (r *reader) unstructuredHead(z C.int, uz *uzone) error {
 	size := make([]int32, 3)
 	zn, err := r.zoneName(z, size)
 	if err != nil {
-		return nil, err
+		return err
 	}
-	zp := "/" + r.base + "/" + zn
+	uz.name, uz.path = zn, "/"+r.base+"/"+zn
 	nn := int(size[0])
 	if nn < 3 {
-		return nil, fmt.Errorf("%s has %d nodes; a mesh needs at least 3", zp, nn)
+		return fmt.Errorf("%s has %d nodes; a mesh needs at least 3", uz.path, nn)
 	}
-	c, err := r.coords(z, zp, size[:1], nn, r.thin)
-	if err != nil {
-		return nil, err
+	if uz.c, err = r.coords(z, uz.path, size[:1], nn, r.thin); err != nil {
+		return err
 	}
-	secs, err := r.sections(z, zp)
+	secs, err := r.sections(z, uz.path)
 	if err != nil {
-		return nil, err
+		return err
 	}
 	sort.SliceStable(secs, func(a, b int) bool { return secs[a].start < secs[b].start })
 	for i := 1; i < len(secs); i++ {
 		if secs[i].start <= secs[i-1].end {
-			return nil, fmt.Errorf("%s (elements %d..%d) overlaps %s (elements %d..%d); element numbers must be unique in a zone",
+			return fmt.Errorf("%s (elements %d..%d) overlaps %s (elements %d..%d); element numbers must be unique in a zone",
 				secs[i].path, secs[i].start, secs[i].end, secs[i-1].path, secs[i-1].start, secs[i-1].end)
 		}
 	}
+	uz.secs = secs
+	return nil
+}
 
-	// node maps a file node number (1-based) to the mesh's, −1 for a node
-	// the mesh leaves out; barOf gives the mesh nodes of a face element.
-	var in mesh.Input
-	var barOf func(id int32) ([2]int32, bool)
-	node := func(v int32) int32 { return v - 1 }
-	patch := func(id int32) bool { return false } // a slab's front or back face
-	var slabLo, slabHi float64
-	if r.thin {
-		sl, err := newSlab(zp, c.points(2), c.z)
-		if err != nil {
-			return nil, err
-		}
-		if in, err = sl.cells(secs); err != nil {
-			return nil, err
-		}
-		barOf = sl.faceEdge(secs)
-		node = func(v int32) int32 { return sl.index[v-1] }
-		patch = sl.patch(secs)
-		slabLo, slabHi = sl.lo, sl.hi
-	} else {
-		nodes, err := r.plane([]string{zp}, []xyz{c})
-		if err != nil {
-			return nil, err
-		}
-		if in, err = planarCells(zp, secs, nodes[0]); err != nil {
-			return nil, err
-		}
-		barOf = planarBarOf(secs)
+// orientZone turns the cells of uz round when most of them run clockwise
+// (see mesh.TurnRound; sense says how, as a phrase), with a note naming the
+// zone.
+func (r *reader) orientZone(uz *uzone, sense string) {
+	if note := mesh.TurnRound(&uz.in, "of "+uz.path+" "+sense); note != "" {
+		r.notes = append(r.notes, note)
 	}
-	if n := mesh.OrientCounterClockwise(&in); n > 0 {
-		what := "run clockwise seen from " + planeView(r.axis) + " (negative signed area)"
-		if r.thin {
-			what = "have negative volume by the CGNS node-order conventions (their faces on the lower plane run clockwise seen from +z)"
-		}
-		r.notes = append(r.notes, fmt.Sprintf("all %d cells of %s %s as the file lists them; their node order is reversed", n, zp, what))
-	}
+}
 
+// zoneFaces reads the BCs and periodic connections of zone z (uz, its
+// cells read) into uz.found: barOf gives the mesh nodes of a face element,
+// node maps a 1-based file node to the mesh's (−1 for one the mesh leaves
+// out), and patch says whether an element is a front or back face of a
+// slab. It returns the BCs on the front and back of a slab, left out.
+func (r *reader) zoneFaces(z C.int, uz *uzone, barOf func(id int32) ([2]int32, bool), node func(v int32) int32, patch func(id int32) bool) ([]string, error) {
+	zp, nn := uz.path, len(uz.c.x)
+	in := uz.in
 	bcs, err := r.bocos(z, zp, 1)
 	if err != nil {
 		return nil, err
@@ -193,16 +246,13 @@ func (r *reader) unstructured(z C.int) (*mesh.Mesh, error) {
 			found = append(found, t)
 		}
 	}
-	conns, err := r.unstructuredConns(z, zp, zn, barOf)
+	uz.periodic = len(r.periodic)
+	conns, err := r.unstructuredConns(z, zp, uz.name, barOf)
 	if err != nil {
 		return nil, err
 	}
-	found = append(found, conns...)
-	if r.thin {
-		what := fmt.Sprintf("zone %s, a slab one cell thick between z = %g and z = %g, read as its lower plane", zn, slabLo, slabHi)
-		r.notes = append(r.notes, planeNote(what, left))
-	}
-	return r.buildTagged(in, found, zp)
+	uz.found = append(found, conns...)
+	return left, nil
 }
 
 // sections reads every Elements_t node of zone z.
@@ -348,4 +398,183 @@ func findElement(secs []elemSection, id int32) (C.ElementType_t, []int32, bool) 
 	}
 	typ, vs := secs[k].element(int(id - secs[k].start))
 	return typ, vs, true
+}
+
+// joinUnstructured joins the unstructured zones of a base of cell
+// dimension 2 into one mesh, as the structured reader joins zones that
+// touch without connectivity (see mergeTouching): the zones' cells follow
+// one another in zone order, and nodes on the boundaries of two different
+// zones that coincide, within mergeTolerance of the local face length (the
+// shortest cell edge meeting the node in its own zone; mesh.JoinCoincident
+// finds them), become one node, numbered where it first appears. A zone's
+// own coincident nodes are not merged: they are its defect, for the
+// checks to name. The faces of BCs on boundaries so made interior are left
+// out, with a note naming the BCs and zones; a note says which cells came
+// from which zone, and how many nodes were merged between which zones.
+// (The file's GridConnectivity_t between zones is not read: only periodic
+// connections of a zone to itself are, see unstructuredConns.)
+func (r *reader) joinUnstructured(zones []uzone) (*mesh.Mesh, error) {
+	first := make([]int32, len(zones)+1)
+	for k, uz := range zones {
+		if int64(first[k])+int64(len(uz.in.Nodes)) > maxIndex {
+			return nil, fmt.Errorf("%s: the zones hold more than %d nodes", uz.path, maxIndex)
+		}
+		first[k+1] = first[k] + int32(len(uz.in.Nodes))
+	}
+	total := first[len(zones)]
+	parent := make([]int32, total)
+	for i := range parent {
+		parent[i] = int32(i)
+	}
+	find := func(x int32) int32 {
+		for parent[x] != x {
+			parent[x] = parent[parent[x]]
+			x = parent[x]
+		}
+		return x
+	}
+	// Each zone's boundary edges (on one of its cells only), and its side
+	// nodes with their tolerances.
+	bounds := make([][][2]int32, len(zones))
+	var sides []mesh.SideNode
+	for k := range zones {
+		in := &zones[k].in
+		count := map[[2]int32]int{}
+		h := make([]float64, len(in.Nodes))
+		for i := range h {
+			h[i] = math.Inf(1)
+		}
+		edges := func(visit func(a, b int32)) {
+			for c := range len(in.CellStart) - 1 {
+				cell := in.CellNodes[in.CellStart[c]:in.CellStart[c+1]]
+				for i, a := range cell {
+					visit(a, cell[(i+1)%len(cell)])
+				}
+			}
+		}
+		edges(func(a, b int32) {
+			count[edgeKey(a, b)]++
+			l := math.Hypot(in.Nodes[a][0]-in.Nodes[b][0], in.Nodes[a][1]-in.Nodes[b][1])
+			h[a], h[b] = min(h[a], l), min(h[b], l)
+		})
+		side := make([]bool, len(in.Nodes))
+		edges(func(a, b int32) {
+			if count[edgeKey(a, b)] == 1 {
+				bounds[k] = append(bounds[k], [2]int32{a, b})
+				side[a], side[b] = true, true
+			}
+		})
+		for v, on := range side {
+			if on {
+				sides = append(sides, mesh.SideNode{ID: first[k] + int32(v), Block: k, P: in.Nodes[v], Tol: mergeTolerance * h[v]})
+			}
+		}
+	}
+	merged := 0
+	var pairs [][2]int
+	mesh.JoinCoincident(sides, func(c, o mesh.SideNode) {
+		if c.Block == o.Block {
+			return
+		}
+		a, b := find(c.ID), find(o.ID)
+		if a == b {
+			return
+		}
+		parent[max(a, b)] = min(a, b)
+		merged++
+		if pr := [2]int{min(c.Block, o.Block), max(c.Block, o.Block)}; !slices.Contains(pairs, pr) {
+			pairs = append(pairs, pr)
+		}
+	})
+	newID := make([]int32, total)
+	var in mesh.Input
+	for k, uz := range zones {
+		for v, p := range uz.in.Nodes {
+			g := first[k] + int32(v)
+			if root := find(g); root != g {
+				newID[g] = newID[root]
+				continue
+			}
+			newID[g] = int32(len(in.Nodes))
+			in.Nodes = append(in.Nodes, p)
+		}
+	}
+	id := func(k int, v int32) int32 { return newID[first[k]+v] }
+	in.CellStart = []int32{0}
+	ranges := make([]string, len(zones))
+	for k, uz := range zones {
+		c0 := len(in.CellStart) - 1
+		for c := range len(uz.in.CellStart) - 1 {
+			cell := uz.in.CellNodes[uz.in.CellStart[c]:uz.in.CellStart[c+1]]
+			n0 := len(in.CellNodes)
+			for _, v := range cell {
+				if slices.Contains(in.CellNodes[n0:], id(k, v)) {
+					return nil, fmt.Errorf("%s: cell %d of the zone has two nodes that the merge of coincident nodes where zones touch makes one", uz.path, c)
+				}
+				in.CellNodes = append(in.CellNodes, id(k, v))
+			}
+			in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
+		}
+		ranges[k] = fmt.Sprintf("%d–%d %s", c0, len(in.CellStart)-2, uz.name)
+	}
+	// The zones each boundary edge lies on, once per zone: an edge on two
+	// is interior to the joined mesh.
+	on := map[[2]int32][]int{}
+	for k, es := range bounds {
+		for _, e := range es {
+			key := edgeKey(id(k, e[0]), id(k, e[1]))
+			on[key] = append(on[key], k)
+		}
+	}
+	var found []taggedEdges
+	var interior []string
+	for k, uz := range zones {
+		for _, t := range uz.found {
+			kept := taggedEdges{tag: t.tag, edges: make([][2]int32, 0, len(t.edges))}
+			var against []string
+			for _, e := range t.edges {
+				a := [2]int32{id(k, e[0]), id(k, e[1])}
+				zs := on[edgeKey(a[0], a[1])]
+				if len(zs) < 2 {
+					kept.edges = append(kept.edges, a)
+					continue
+				}
+				for _, o := range zs {
+					if o != k && !slices.Contains(against, zones[o].name) {
+						against = append(against, zones[o].name)
+					}
+				}
+			}
+			if n := len(t.edges) - len(kept.edges); n > 0 {
+				interior = append(interior, fmt.Sprintf("tag %s of zone %s (%d of its %d faces, against %s)", t.tag, uz.name, n, len(t.edges), strings.Join(against, " and ")))
+			}
+			if len(kept.edges) > 0 || len(t.edges) == 0 {
+				found = append(found, kept)
+			}
+		}
+		end := len(r.periodic)
+		if k+1 < len(zones) {
+			end = zones[k+1].periodic
+		}
+		for p := uz.periodic; p < end; p++ {
+			for i, f := range r.periodic[p].faces {
+				r.periodic[p].faces[i] = [2][2]int32{{id(k, f[0][0]), id(k, f[0][1])}, {id(k, f[1][0]), id(k, f[1][1])}}
+			}
+		}
+	}
+	names := make([]string, len(pairs))
+	for k, pr := range pairs {
+		names[k] = zones[pr[0]].name + " and " + zones[pr[1]].name
+	}
+	note := fmt.Sprintf("%d unstructured zones joined into one mesh, their cells in zone order (cells %s)", len(zones), strings.Join(ranges, ", "))
+	if merged > 0 {
+		note += fmt.Sprintf(": %d coincident nodes merged where zones touch (within %g of the local face length), between %s", merged, mergeTolerance, strings.Join(names, ", "))
+	} else {
+		note += ": no nodes of different zones coincide, so the zones do not touch"
+	}
+	r.notes = append(r.notes, note)
+	if len(interior) > 0 {
+		r.notes = append(r.notes, "BCs on zone boundaries that the coincident-node merge joins, left out there as those faces are interior: "+strings.Join(interior, ", "))
+	}
+	return r.buildTagged(in, found, "/"+r.base)
 }

@@ -32,8 +32,9 @@ var tagArrayNames = []string{"boundary_tag", TagArray}
 // ReadFileNotes). Boundary faces without a tag (no tag array, no lines,
 // or lines that leave part of the boundary out) stay untagged: see
 // mesh.Mesh.UntaggedRange. The nodes must lie in one plane z = c (z is
-// dropped), or x = c or y = c (see mapPlane); a file whose cells all run
-// clockwise is read turned round (see mesh.OrientCounterClockwise), and a
+// dropped), or x = c or y = c (see mapPlane), to within rounding (see
+// planeOf3); a file whose cells mostly run clockwise is read turned round
+// (see turnRound), and a
 // legacy file named .vtu or .vtp, or an XML one named .vtk, is read as
 // what it holds; each with a note.
 //
@@ -217,6 +218,9 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 	if err := g.checkCells(); err != nil {
 		return nil, err
 	}
+	if err := finitePoints(g.file, g.points); err != nil {
+		return nil, err
+	}
 	if sl, ok, err := g.slab(); err != nil || ok {
 		if err != nil {
 			return nil, err
@@ -225,20 +229,17 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 	}
 	in := mesh.Input{Nodes: hugepage.Make[orb.Point](np)}
 	view := "+z"
-	switch axis := planeAxis(g.points); axis {
+	pl := planeOf3(g.points)
+	switch pl.axis {
 	case -1:
-		i := 1
-		for g.points[3*i+2] == g.points[2] {
-			i++
-		}
-		return nil, fmt.Errorf("%s: point %d has z = %g but point 0 has z = %g, and the points share no one x or y either; cvdeck reads plane 2D meshes lying in a plane x, y or z = constant, or slabs one cell thick of hexahedra, voxels or wedges", g.file, i, g.points[3*i+2], g.points[2])
+		return nil, fmt.Errorf("%s: %s; cvdeck reads plane 2D meshes lying in a plane x, y or z = constant, or slabs one cell thick of hexahedra, voxels or wedges", g.file, pl.refusal())
 	case 2:
-		if z := g.points[2]; z != 0 {
-			g.notes = append(g.notes, fmt.Sprintf("a plane mesh on z = %g, read as 2D (z dropped)", z))
+		if pl.at != 0 || pl.spread > 0 {
+			g.notes = append(g.notes, fmt.Sprintf("a plane mesh on z = %s%s, read as 2D (z dropped)", pl.atText(), pl.spreadNote()))
 		}
 	default:
 		var note string
-		note, view = mapPlane(g.points, axis)
+		note, view = mapPlane(g.points, pl)
 		g.notes = append(g.notes, note)
 	}
 	inRanges(np, func(_, lo, hi int) {
@@ -249,9 +250,7 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 	if err := g.planeCells(&in); err != nil {
 		return nil, err
 	}
-	g.orient(&in, func(n int) string {
-		return fmt.Sprintf("all %d cells run clockwise seen from %s (negative signed area) as the file lists them", n, view)
-	})
+	g.orient(&in, "run clockwise seen from "+view+" (negative signed area)")
 	m, err := mesh.Build(in)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", g.file, err)
@@ -259,45 +258,142 @@ func (g *grid) toMesh() (*mesh.Mesh, error) {
 	return m, nil
 }
 
-// planeAxis returns the axis (0 for x, 1 for y, 2 for z) whose coordinate
-// every point of pts (x, y, z each) shares: z if every z is equal (exactly,
-// as a plane mesh of VTK files usually is), else y or x if every point's
-// lies within mesh.PlaneTolerance of the largest coordinate magnitude of the
-// first point's; −1 if none does (a tilted plane, or not a plane).
-func planeAxis(pts []float64) int {
-	same := func(a int, tol float64) bool {
-		c := pts[a]
-		for i := a; i < len(pts); i += 3 {
-			if math.Abs(pts[i]-c) > tol {
-				return false
-			}
+// plane3 is the coordinate plane that points in 3D lie on (see planeOf3):
+// the axis whose coordinate is constant (0 for x, 1 for y, 2 for z; −1
+// for none), the plane's coordinate at (the mean of the points'), and
+// spread, how far apart the points' coordinates on that axis are (0 when
+// they are equal). tol is the largest spread taken as one plane, and for
+// axis −1, lo and hi name the points (0-based) of least and greatest z.
+type plane3 struct {
+	axis       int
+	at, spread float64
+	tol        float64
+	lo, hi     int
+	zlo, zhi   float64
+}
+
+// finitePoints returns an error naming the first point of pts (x, y, z
+// each) with a coordinate that is NaN or infinite (file names the file),
+// nil if there is none: no plane, area or check means anything there.
+func finitePoints(file string, pts []float64) error {
+	for i, v := range pts {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			k := i / 3
+			return fmt.Errorf("%s: point %d is at (%g, %g, %g); coordinates must be finite", file, k, pts[3*k], pts[3*k+1], pts[3*k+2])
 		}
-		return true
 	}
-	if same(2, 0) {
-		return 2
-	}
+	return nil
+}
+
+// planeOf3 finds the coordinate plane that pts (x, y, z each) lie on,
+// trying z, then y, then x: the first axis whose coordinates spread over
+// at most mesh.PlaneTolerance times the largest coordinate magnitude of
+// any point, and sets every point's coordinate on that axis to their mean,
+// so that the readers after it see one plane exactly.
+//
+// The tolerance is relative to the largest magnitude, not to the mesh's
+// extent, because rounding is: a coordinate computed near c (by a
+// rotation, a change of units) is off by a few units in the last place of
+// the values it came from, about 2.2e-16 of them, so 1e-12 allows some
+// 4500 such units while a tilt or a curve any real surface has, 1e-12 of
+// its size, is far beyond it. A spread within it is rounding, not shape.
+// The CGNS reader makes the same test with the same constant.
+func planeOf3(pts []float64) plane3 {
 	extent := 0.0
 	for _, v := range pts {
 		extent = max(extent, math.Abs(v))
 	}
-	for _, a := range []int{1, 0} {
-		if same(a, mesh.PlaneTolerance*extent) {
-			return a
+	n := len(pts) / 3
+	pl := plane3{axis: -1, tol: mesh.PlaneTolerance * extent}
+	for _, a := range []int{2, 1, 0} {
+		lo, hi := 0, 0
+		for i := 1; i < n; i++ {
+			if v := pts[3*i+a]; v < pts[3*lo+a] {
+				lo = i
+			} else if v > pts[3*hi+a] {
+				hi = i
+			}
 		}
+		spread := pts[3*hi+a] - pts[3*lo+a]
+		if a == 2 {
+			pl.lo, pl.hi, pl.zlo, pl.zhi = lo, hi, pts[3*lo+a], pts[3*hi+a]
+		}
+		if !(spread <= pl.tol) {
+			continue
+		}
+		pl.axis, pl.spread, pl.at = a, spread, pts[a]
+		if spread > 0 {
+			// The mean, summed about the first point's value so that
+			// large coordinates lose nothing to the sum.
+			c, sum := pts[a], 0.0
+			for i := range n {
+				sum += pts[3*i+a] - c
+			}
+			pl.at = c + sum/float64(n)
+			inRanges(n, func(_, lo, hi int) {
+				for i := lo; i < hi; i++ {
+					pts[3*i+a] = pl.at
+				}
+			})
+		}
+		return pl
 	}
-	return -1
+	return pl
 }
 
-// mapPlane rewrites pts (x, y, z each), whose points lie on the plane of
-// axis 0 (x = c) or 1 (y = c), so that the two coordinates that vary come
-// first and the constant one last: (y, z, x) for x = c, seen from +x, and
-// (x, z, y) for y = c, seen from −y, both right-handed (x̂ × ẑ = −ŷ,
-// ŷ × ẑ = x̂), so that a cell counter-clockwise in the new (x, y) is
-// counter-clockwise seen from that side. It returns the note saying so
-// and the side the mesh is seen from.
-func mapPlane(pts []float64, axis int) (note, view string) {
-	c := pts[axis]
+// atText is the plane's coordinate as a note gives it: in full when the
+// points all had it, else their mean as far as the spread lets it be
+// known (see shownAt), to 9 digits.
+func (pl plane3) atText() string {
+	if pl.spread > 0 {
+		return strconv.FormatFloat(shownAt(pl.at, pl.spread), 'g', 9, 64)
+	}
+	return strconv.FormatFloat(pl.at, 'g', -1, 64)
+}
+
+// shownAt is the mean at of coordinates that spread over spread > 0,
+// rounded to the decade of the spread, below which its digits are the
+// sum's rounding (the mean of ±1e-16 is 0, not 2.5e-32): what a note
+// gives. The CGNS reader's notes round it alike.
+func shownAt(at, spread float64) float64 {
+	q := math.Pow(10, math.Floor(math.Log10(spread)))
+	return math.Round(at/q)*q + 0 // + 0 turns −0 into 0
+}
+
+// shown is the plane's coordinate as a note gives it: see shownAt.
+func (pl plane3) shown() float64 {
+	if pl.spread > 0 {
+		return shownAt(pl.at, pl.spread)
+	}
+	return pl.at
+}
+
+// spreadNote is the phrase a note on the plane adds when the points'
+// coordinates on its axis were not all equal: how far they spread and
+// that the plane was taken at their mean; "" when they were equal.
+func (pl plane3) spreadNote() string {
+	if pl.spread == 0 {
+		return ""
+	}
+	return fmt.Sprintf(" (the points' %s spread over %.3g, within the %.3g that rounding gives: taken as one plane at their mean)", [3]string{"x", "y", "z"}[pl.axis], pl.spread, pl.tol)
+}
+
+// refusal says why points on no coordinate plane (axis −1) are not read:
+// their z spread, by the points of least and greatest z, and that x and
+// y spread as far.
+func (pl plane3) refusal() string {
+	return fmt.Sprintf("the points' z runs from %g (point %d) to %g (point %d), a spread of %.3g, more than the %.3g that rounding gives, and their x and y spread as far: they lie on no plane x, y or z = constant (a tilted plane, or a 3D surface)", pl.zlo, pl.lo, pl.zhi, pl.hi, pl.zhi-pl.zlo, pl.tol)
+}
+
+// mapPlane rewrites pts (x, y, z each), whose points lie on the plane pl
+// of axis 0 (x = c) or 1 (y = c), so that the two coordinates that vary
+// come first and the constant one last: (y, z, x) for x = c, seen from
+// +x, and (x, z, y) for y = c, seen from −y, both right-handed
+// (x̂ × ẑ = −ŷ, ŷ × ẑ = x̂), so that a cell counter-clockwise in the new
+// (x, y) is counter-clockwise seen from that side. It returns the note
+// saying so and the side the mesh is seen from.
+func mapPlane(pts []float64, pl plane3) (note, view string) {
+	axis := pl.axis
 	u, v, name, view := 1, 2, "x", "+x"
 	if axis == 1 {
 		u, v, name, view = 0, 2, "y", "−y"
@@ -309,16 +405,16 @@ func mapPlane(pts []float64, axis int) (note, view string) {
 			p[0], p[1], p[2] = p[u], p[v], p[axis]
 		}
 	})
-	return fmt.Sprintf("a plane mesh on %s = %.9g, read as 2D with (%s, %s) taken as (x, y), seen from %s (%s dropped; files written from it, such as check -o's, are in that (x, y) plane)", name, c, uv[u], uv[v], view, name), view
+	return fmt.Sprintf("a plane mesh on %s = %.9g%s, read as 2D with (%s, %s) taken as (x, y), seen from %s (%s dropped; files written from it, such as check -o's, are in that (x, y) plane)", name, pl.shown(), pl.spreadNote(), uv[u], uv[v], view, name), view
 }
 
-// orient turns the cells of in counter-clockwise when every one of them
-// (of non-zero area) runs clockwise, with a note that says so after what
-// (such as "all 12 cells run clockwise seen from +z"); see
-// mesh.OrientCounterClockwise.
-func (g *grid) orient(in *mesh.Input, what func(n int) string) {
-	if n := mesh.OrientCounterClockwise(in); n > 0 {
-		g.notes = append(g.notes, what(n)+"; their node order is reversed")
+// orient turns the cells of in round (see mesh.TurnRound) when most of them,
+// by count, run clockwise (sense says how, as a phrase such as "run
+// clockwise seen from +z (negative signed area)"), with a note that says
+// so and how many ran the other way.
+func (g *grid) orient(in *mesh.Input, sense string) {
+	if note := mesh.TurnRound(in, sense); note != "" {
+		g.notes = append(g.notes, note)
 	}
 }
 

@@ -131,9 +131,7 @@ func (g *grid) slabMesh(sl slabPlanes) (*mesh.Mesh, error) {
 		in.CellStart = append(in.CellStart, int32(len(in.CellNodes)))
 	}
 	g.numberingNote(func(t int64) bool { return t == cellHex || t == cellVoxel || t == cellWedge }, "boundary face and line", "3D")
-	g.orient(&in, func(n int) string {
-		return fmt.Sprintf("all %d cells have negative volume by the VTK node-order conventions (their faces on the lower plane run clockwise seen from +z)", n)
-	})
+	g.orient(&in, "have negative volume by the VTK node-order conventions (their faces on the lower plane run clockwise seen from +z)")
 	m, err := mesh.Build(in)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", g.file, err)

@@ -214,7 +214,7 @@ func TestReadErrors(t *testing.T) {
 		{piece("0 1 2 0 1", "3 5", "5 3", `<CellData><DataArray type="Float32" Name="tag" format="ascii">0 1</DataArray></CellData>`), `tag array "tag" holds floating-point values`},
 		{piece("0 1 2 0 3", "3 5", "5 3", `<CellData><DataArray type="Int32" Name="tag" format="ascii">-1 0</DataArray></CellData>`), "is not an edge of any cell"},
 		{piece("0 1 2 0 2 3 0 2", "3 6 8", "5 5 3", `<CellData><DataArray type="Int32" Name="tag" format="ascii">-1 -1 0</DataArray></CellData>`), "Cells/types has 3 values for NumberOfCells=2"},
-		{strings.Replace(piece("0 1 2 0 1 2 3", "3 7", "5 9", ""), "1 1 0 0 1 0", "1 1 0 0 1 0.5", 1), "point 3 has z = 0.5"},
+		{strings.Replace(piece("0 1 2 0 1 2 3", "3 7", "5 9", ""), "1 1 0 0 1 0", "1 1 0 0 1 0.5", 1), "the points' z runs from 0 (point 0) to 0.5 (point 3)"},
 		{strings.Replace(head, "VTKFile type", `VTKFile compressor="vtkLZ4DataCompressor" type`, 1) + "</VTKFile>", `compressor "vtkLZ4DataCompressor" is not supported`},
 		{strings.Replace(piece("0 1 2 0 1 2 3", "3 7", "5 9", ""), `format="ascii">0 1 2 0`, `format="binary">AAAA`, 1), "Cells/connectivity"},
 	} {

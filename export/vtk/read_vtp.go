@@ -2,6 +2,7 @@ package vtk
 
 import (
 	"fmt"
+	"math"
 
 	"github.com/paulmach/orb"
 
@@ -9,24 +10,46 @@ import (
 )
 
 // BoundaryLine is one line cell of a boundary polydata file: its two end
-// points and its tag ("" for untagged).
+// points, their numbers P and Q among the file's points (two lines that
+// share a number share that point; coincident points of different numbers
+// may be different mesh nodes, as on the two sides of a thin plate), its
+// tag ("" for untagged) and Face, the line's FaceArray value (the face
+// number in the mesh the file was written from, as WriteBoundaryVTP
+// writes it), −1 when the file has no such array.
 type BoundaryLine struct {
 	A, B orb.Point
+	P, Q int
 	Tag  string
+	Face int
 }
 
 // ReadBoundaryVTP reads the line cells of an XML PolyData (.vtp) file, as
 // WriteBoundaryVTP writes them or the VTK library does, with the tag of
 // each line from the cell arrays the mesh readers use (boundary_tag or
 // tag: a String array of names, or an integer array indexing the FieldData
-// String array tag_names). Polylines are split into their segments, which
-// share the polyline's tag. Errors name the file and the part at fault;
-// as with ReadVTU, a file that is not whole is an error.
+// String array tag_names) and its face number from the integer cell array
+// FaceArray when there is one. Polylines are split into their segments,
+// which share the polyline's tag and have no face number (the array
+// numbers whole cells). Errors name the file and the part at fault; as
+// with ReadVTU, a file that is not whole is an error.
 func ReadBoundaryVTP(data []byte, name string) ([]BoundaryLine, error) {
-	g, nl, err := readPiece(data, name, "PolyData", "NumberOfLines", "Lines", "connectivity", "offsets")
+	x, p, g, err := readHead(data, name, "PolyData")
 	if err != nil {
 		return nil, err
 	}
+	nl, err := x.count(p, "NumberOfLines")
+	if err != nil {
+		return nil, err
+	}
+	cells := p.child("Lines")
+	if cells == nil {
+		return nil, fmt.Errorf("%s: Piece has no Lines element", name)
+	}
+	arrays, err := x.cellArrays(cells, []string{"connectivity", "offsets"})
+	if err != nil {
+		return nil, err
+	}
+	g.conn, g.offsets = arrays["connectivity"], arrays["offsets"]
 	if len(g.offsets) != nl {
 		return nil, fmt.Errorf("%s: Lines/offsets has %d values for NumberOfLines=%d", name, len(g.offsets), nl)
 	}
@@ -39,11 +62,29 @@ func ReadBoundaryVTP(data []byte, name string) ([]BoundaryLine, error) {
 	if err != nil {
 		return nil, err
 	}
+	var face []int64
+	named, err := x.readNamed(p.child("CellData"), []string{FaceArray})
+	if err != nil {
+		return nil, err
+	}
+	if a := find(named, FaceArray); a != nil {
+		if a.ints == nil || a.comps > 1 || len(a.ints) != nl {
+			return nil, fmt.Errorf("%s: cell array %q has %d values in %d components for %d lines; it needs one integer per line (the line's face number in the mesh)", name, FaceArray, a.length(), max(a.comps, 1), nl)
+		}
+		face = a.ints
+	}
 	var out []BoundaryLine
 	start := int64(0)
 	for c, end := range g.offsets {
 		if end < start+2 || end > int64(len(g.conn)) {
 			return nil, fmt.Errorf("%s: line %d has offsets %d..%d; a line needs at least 2 of the %d connectivity entries", name, c, start, end, len(g.conn))
+		}
+		f := -1
+		if face != nil && end == start+2 {
+			if face[c] < 0 || face[c] > math.MaxInt32 {
+				return nil, fmt.Errorf("%s: line %d has %s %d; a face number is from 0 to %d", name, c, FaceArray, face[c], math.MaxInt32)
+			}
+			f = int(face[c])
 		}
 		for k := start; k+1 < end; k++ {
 			a, b := g.conn[k], g.conn[k+1]
@@ -51,9 +92,12 @@ func ReadBoundaryVTP(data []byte, name string) ([]BoundaryLine, error) {
 				return nil, fmt.Errorf("%s: line %d refers to point %d or %d; points run from 0 to %d", name, c, a, b, np-1)
 			}
 			out = append(out, BoundaryLine{
-				A:   orb.Point{g.points[3*a], g.points[3*a+1]},
-				B:   orb.Point{g.points[3*b], g.points[3*b+1]},
-				Tag: tagOf(c),
+				A:    orb.Point{g.points[3*a], g.points[3*a+1]},
+				B:    orb.Point{g.points[3*b], g.points[3*b+1]},
+				P:    int(a),
+				Q:    int(b),
+				Tag:  tagOf(c),
+				Face: f,
 			})
 		}
 		start = end

@@ -127,6 +127,7 @@ func readVTM(data []byte, path string) (*mesh.Mesh, []string, error) {
 			if err != nil {
 				return err
 			}
+			pl.label = file
 			planes = append(planes, pl)
 		}
 		return nil
@@ -137,8 +138,17 @@ func readVTM(data []byte, path string) (*mesh.Mesh, []string, error) {
 	if len(planes) == 0 {
 		return nil, nil, fmt.Errorf("%s: lists no structured grid files; nothing to check", path)
 	}
+	// The blocks' planes may differ by rounding, as one block's points may
+	// (see planeOf3): by the same tolerance.
+	reach := 0.0
+	for _, pl := range planes {
+		reach = max(reach, math.Abs(pl.z))
+		for _, p := range pl.xy {
+			reach = max(reach, math.Abs(p[0]), math.Abs(p[1]))
+		}
+	}
 	for _, pl := range planes[1:] {
-		if pl.z != planes[0].z {
+		if math.Abs(pl.z-planes[0].z) > mesh.PlaneTolerance*reach {
 			return nil, nil, fmt.Errorf("%s: block %s lies on z = %g but block %s on z = %g; the blocks of a 2D mesh lie in one plane", path, pl.file, pl.z, planes[0].file, planes[0].z)
 		}
 	}
@@ -147,8 +157,28 @@ func readVTM(data []byte, path string) (*mesh.Mesh, []string, error) {
 		return nil, nil, err
 	}
 	notes = append(notes, blockNotes(planes)...)
+	if len(planes) == 1 {
+		notes = append(notes, fmt.Sprintf("1 block: %d coincident nodes merged where it meets itself (within %g of the local face length)", merged, mergeTolerance))
+		return m, notes, nil
+	}
 	notes = append(notes, fmt.Sprintf("%d blocks joined into one mesh: %d coincident nodes merged (within %g of the local face length)", len(planes), merged, mergeTolerance))
+	notes = append(notes, cellRanges(planes))
 	return m, notes, nil
+}
+
+// cellRanges is the note saying which cells of the joined mesh each block
+// gave: its cells follow the previous block's, so that a cell number of
+// the report can be traced to its block and, in the block, to its (i, j)
+// index, i fastest.
+func cellRanges(planes []*nodePlane) string {
+	parts := make([]string, len(planes))
+	c := 0
+	for b, pl := range planes {
+		n := (pl.nu - 1) * (pl.nv - 1)
+		parts[b] = fmt.Sprintf("%d–%d %s (%d × %d cells)", c, c+n-1, pl.label, pl.nu-1, pl.nv-1)
+		c += n
+	}
+	return "the blocks' cells are numbered on, block after block, each its first grid index fastest: cells " + strings.Join(parts, ", ")
 }
 
 // blockNotes gives the blocks' notes once each, naming the blocks a note
@@ -179,6 +209,7 @@ func blockNotes(planes []*nodePlane) []string {
 // a node deep (or, for a slab, two nodes deep) in (i, j, k) order.
 type nodePlane struct {
 	file   string
+	label  string // the file as the .vtm index names it
 	nu, nv int
 	xy     []orb.Point
 	z      float64  // the plane's z: the lower plane's for a slab
@@ -227,12 +258,20 @@ func parseVTS(data []byte, name string) (*nodePlane, error) {
 	}
 	// A grid in the plane x = c or y = c is read as ReadFile reads a plane
 	// mesh there: its coordinates mapped (see mapPlane), after which it is
-	// a grid on one z.
-	axis := planeAxis(pts)
-	if axis != 0 && axis != 1 {
-		return planeOf(name, p.attr["Extent"], n, pts)
+	// a grid on one z. A plane whose coordinate spreads by rounding is
+	// first made exact (see planeOf3).
+	if err := finitePoints(name, pts); err != nil {
+		return nil, err
 	}
-	note, _ := mapPlane(pts, axis)
+	on := planeOf3(pts)
+	if on.axis != 0 && on.axis != 1 {
+		pl, err := planeOf(name, p.attr["Extent"], n, pts)
+		if err == nil && on.axis == 2 && on.spread > 0 {
+			pl.notes = []string{fmt.Sprintf("a plane mesh on z = %s%s, read as 2D (z dropped)", on.atText(), on.spreadNote())}
+		}
+		return pl, err
+	}
+	note, _ := mapPlane(pts, on)
 	pl, err := planeOf(name, p.attr["Extent"], n, pts)
 	if err != nil {
 		return nil, err

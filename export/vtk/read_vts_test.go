@@ -166,12 +166,14 @@ if not w.Write(): raise SystemExit('write failed')
 r = vtk.vtkXMLMultiBlockDataReader(); r.SetFileName(out + '/joined.vtm'); r.Update()
 a = vtk.vtkAppendFilter(); a.MergePointsOn()
 it = r.GetOutput().NewIterator(); it.InitTraversal()
+blocks = []
 while not it.IsDoneWithTraversal():
-    a.AddInputData(it.GetCurrentDataObject()); it.GoToNextItem()
+    d = it.GetCurrentDataObject(); blocks.append(d.GetNumberOfCells())
+    a.AddInputData(d); it.GoToNextItem()
 a.Update()
 f = vtk.vtkCellSizeFilter(); f.SetInputData(a.GetOutput()); f.ComputeAreaOn(); f.Update()
 area = vtk_to_numpy(f.GetOutput().GetCellData().GetArray('Area')).tolist()
-print(json.dumps({'points': a.GetOutput().GetNumberOfPoints(), 'cells': a.GetOutput().GetNumberOfCells(), 'area': area}))
+print(json.dumps({'points': a.GetOutput().GetNumberOfPoints(), 'cells': a.GetOutput().GetNumberOfCells(), 'area': area, 'blocks': blocks}))
 `
 
 // TestReadVTMWrittenByVTK: a multiblock file the VTK library wrote (its
@@ -179,13 +181,17 @@ print(json.dumps({'points': a.GetOutput().GetNumberOfPoints(), 'cells': a.GetOut
 // library's merged point count (vtkAppendFilter, MergePoints), its cell
 // count and its total area (vtkCellSizeFilter, 1e-12 relative); the
 // interfaces become interior faces, so the boundary is the outline of the
-// union alone.
+// union alone. The cells are numbered on block after block as the VTK
+// library appends them: cell k has the area of the library's cell k (to
+// 1e-12 relative), and the note on the cell ranges gives each block the
+// cell count the library reads from it.
 func TestReadVTMWrittenByVTK(t *testing.T) {
 	dir := t.TempDir()
 	var got struct {
 		Points int       `json:"points"`
 		Cells  int       `json:"cells"`
 		Area   []float64 `json:"area"`
+		Blocks []int     `json:"blocks"`
 	}
 	runPython(t, vtkMultiblockScript, &got, dir)
 	m, notes, err := ReadFileNotes(filepath.Join(dir, "joined.vtm"))
@@ -214,9 +220,24 @@ func TestReadVTMWrittenByVTK(t *testing.T) {
 	if nb := m.NumBoundary(); nb != 7+3+3+(7-2)+6 {
 		t.Errorf("%d boundary faces, want 24", nb)
 	}
+	for c, a := range m.Geo.CellArea {
+		if c < len(got.Area) && relErr(a, got.Area[c]) > 1e-12 {
+			t.Errorf("cell %d has area %.17g, the VTK library's cell %d %.17g", c, a, c, got.Area[c])
+		}
+	}
+	// The block files as the VTK library's writer names them, and the
+	// sizes of the script's blocks (5 × 4, 4 × 4 and 3 × 3 nodes).
+	var ranges []string
+	first := 0
+	for b, n := range got.Blocks {
+		size := [3]string{"4 × 3", "3 × 3", "2 × 2"}[b]
+		ranges = append(ranges, fmt.Sprintf("%d–%d joined/joined_%d.vts (%s cells)", first, first+n-1, b, size))
+		first += n
+	}
 	want := []string{
 		"its cells run clockwise seen from +z in the grid's index order; their node order is reversed (" + filepath.Join(dir, "joined", "joined_2.vts") + ")",
 		"3 blocks joined into one mesh: 7 coincident nodes merged (within 1e-06 of the local face length)",
+		"the blocks' cells are numbered on, block after block, each its first grid index fastest: cells " + strings.Join(ranges, ", "),
 	}
 	if strings.Join(notes, "\n") != strings.Join(want, "\n") {
 		t.Errorf("notes %q, want %q", notes, want)
