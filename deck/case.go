@@ -10,6 +10,7 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"runtime/debug"
@@ -111,6 +112,9 @@ type Case struct {
 	// reference state and length only, so they are the same for every
 	// such height.
 	yplusNotes []string
+	// tagAt is the first place in the case file that gives each boundary
+	// tag to a segment or a grid boundary (see noteTag).
+	tagAt map[string]value
 }
 
 // Family is a refinement family of one case (the refine section).
@@ -210,7 +214,7 @@ func Parse(path string, data []byte, opts LoadOptions) (*Case, error) {
 		return nil, err
 	}
 	if v, ok := top.get("boundaries"); ok {
-		if c.Boundaries, err = decodeBoundaries(v); err != nil {
+		if c.Boundaries, err = decodeBoundaries(c, v); err != nil {
 			return nil, err
 		}
 	}
@@ -232,7 +236,7 @@ func Parse(path string, data []byte, opts LoadOptions) (*Case, error) {
 			return nil, err
 		}
 	}
-	if c.Outputs, err = decodeOutputs(top); err != nil {
+	if c.Outputs, err = decodeOutputs(c, top); err != nil {
 		return nil, err
 	}
 	if err := top.done(); err != nil {
@@ -277,6 +281,11 @@ func (c *Case) readInput(at value, rel string) ([]byte, string, error) {
 	return data, p, nil
 }
 
+// MaxFamilyLevels is the most levels of a refinement family, in a case
+// file or a sweep file: at ratio 2 the eighth level has 2^14 = 16384
+// times the cells of the first.
+const MaxFamilyLevels = 8
+
 // decodeFamily reads a refinement family, refine: {levels: 3, ratio: 2}:
 // level 1 as written and each next level ratio times finer in every
 // direction. Celik et al. (2008, J. Fluids Eng. 130, 078001) ask for a
@@ -291,12 +300,14 @@ func decodeFamily(v value) (*Family, error) {
 		return nil, err
 	}
 	f := &Family{}
-	if f.Levels, err = lv.count(2); err != nil {
+	n, err := lv.number()
+	if err != nil {
 		return nil, err
 	}
-	if f.Levels > 8 {
-		return nil, lv.errf("at most 8 levels, got %d", f.Levels)
+	if n != math.Trunc(n) || n < 2 || n > MaxFamilyLevels {
+		return nil, lv.errf("must be a whole number from 2 to %d, got %g", MaxFamilyLevels, n)
 	}
+	f.Levels = int(n)
 	rv, err := o.need("ratio")
 	if err != nil {
 		return nil, err
@@ -305,7 +316,7 @@ func decodeFamily(v value) (*Family, error) {
 		return nil, err
 	}
 	if !(f.Ratio > 1) || f.Ratio > 4 {
-		return nil, rv.errf("the refinement ratio is above 1 and at most 4, got %g", f.Ratio)
+		return nil, rv.errf("the refinement ratio must be above 1 and at most 4, got %g", f.Ratio)
 	}
 	return f, o.done()
 }

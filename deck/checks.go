@@ -2,6 +2,8 @@ package deck
 
 import (
 	"fmt"
+	"strconv"
+	"strings"
 
 	"cvdeck/export/manifest"
 	"cvdeck/quality"
@@ -18,12 +20,40 @@ type checkSpec struct {
 //	checks:
 //	  profile: tight
 //	  non_orthogonality: {warn: 50, fail: 70}
+//
+// quality.DecodePatch's errors begin with the place they concern,
+// "file:line:column: ", which is taken apart into the InputError's own
+// fields (so that the file is named once); an error without one is
+// placed at the checks section.
 func decodeChecks(v value) (*checkSpec, error) {
 	p, err := quality.DecodePatch(v.n, v.d.file)
 	if err != nil {
-		return nil, &InputError{File: v.d.file, Msg: err.Error(), Err: err}
+		ie := &InputError{File: v.d.file, Line: v.n.Line, Col: v.n.Column, Path: v.path, Msg: err.Error(), Err: err}
+		if line, col, msg, ok := splitPlace(err.Error(), v.d.file); ok {
+			ie.Line, ie.Col, ie.Msg = line, col, msg
+		}
+		return nil, ie
 	}
 	return &checkSpec{patch: p}, nil
+}
+
+// splitPlace takes "file:line:column: message" apart, for the given file;
+// ok is false when s does not start so.
+func splitPlace(s, file string) (line, col int, msg string, ok bool) {
+	rest, found := strings.CutPrefix(s, file+":")
+	if !found {
+		return 0, 0, "", false
+	}
+	parts := strings.SplitN(rest, ":", 3)
+	if len(parts) != 3 || !strings.HasPrefix(parts[2], " ") {
+		return 0, 0, "", false
+	}
+	line, err1 := strconv.Atoi(parts[0])
+	col, err2 := strconv.Atoi(parts[1])
+	if err1 != nil || err2 != nil || line < 1 || col < 1 {
+		return 0, 0, "", false
+	}
+	return line, col, parts[2][1:], true
 }
 
 // checkSummary condenses the quality report for the manifest.

@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/paulmach/orb"
+	"gopkg.in/yaml.v3"
 
 	"cvdeck/bc"
 )
@@ -15,6 +16,10 @@ import (
 type boundarySpec struct {
 	conditions []bc.Condition
 	at         value
+	// tagAt is the first place in the case file that gives each boundary
+	// tag (Case.tagAt), where an error about a tag without a condition
+	// points.
+	tagAt map[string]value
 }
 
 // where formats a value's place for the bc package's messages.
@@ -31,13 +36,15 @@ func (v value) where() string { return fmt.Sprintf("%s:%d:%d", v.d.file, v.n.Lin
 //
 // Pressures are in Pa, temperatures in K, velocities in m/s whatever the
 // case units; a periodic translation and tolerance are lengths in case
-// units. Which values a kind takes is listed in the README.
-func decodeBoundaries(v value) (*boundarySpec, error) {
+// units. Which values a kind takes is listed in the README. The case's
+// geometry and mesh sections come first, so that c.tagAt knows where each
+// tag is given.
+func decodeBoundaries(c *Case, v value) (*boundarySpec, error) {
 	o, err := v.object()
 	if err != nil {
 		return nil, err
 	}
-	bs := &boundarySpec{at: v}
+	bs := &boundarySpec{at: v, tagAt: c.tagAt}
 	for _, tag := range o.keys {
 		cv, _ := o.get(tag)
 		co, err := cv.object()
@@ -79,12 +86,15 @@ func decodeBoundaries(v value) (*boundarySpec, error) {
 			}
 			switch key {
 			case bc.KeyDirection, bc.KeyVelocity, bc.KeyTranslation:
+				if n := x.n; n.Kind != yaml.SequenceNode && (n.Kind != yaml.AliasNode || n.Alias.Kind != yaml.SequenceNode) {
+					return nil, x.errf("%s is a vector %s, found %s", key, vectorForm[key], kindName(n))
+				}
 				items, err := x.list()
 				if err != nil {
 					return nil, err
 				}
 				if len(items) != 2 {
-					return nil, x.errf("%s is a vector [x, y]; found %d values", key, len(items))
+					return nil, x.errf("%s is a vector %s; found %d values", key, vectorForm[key], len(items))
 				}
 				for _, it := range items {
 					f, err := it.number()
@@ -108,6 +118,14 @@ func decodeBoundaries(v value) (*boundarySpec, error) {
 		bs.conditions = append(bs.conditions, cond)
 	}
 	return bs, nil
+}
+
+// vectorForm says how each vector value of a condition is written and in
+// what units.
+var vectorForm = map[string]string{
+	bc.KeyVelocity:    "[vx, vy] in m/s (whatever the case units)",
+	bc.KeyDirection:   "[x, y], the flow direction (its length does not matter)",
+	bc.KeyTranslation: "[dx, dy] in case units, from this tag to its partner",
 }
 
 // referenceSpec is the decoded reference section.
@@ -330,8 +348,12 @@ func (e ConditionErrors) Error() string {
 func (e ConditionErrors) Unwrap() []error { return append([]error{ErrInput}, e...) }
 
 // locate gives every error of bc.Assign a case-file place: errors about a
-// condition carry their own; errors about a tag that has no condition are
-// placed at the boundaries section, where the condition belongs.
+// condition carry their own; an error about a tag that has no condition
+// is placed where the case first gives the tag (tagAt: a segment, a loop,
+// a grown grid's boundary or a sketch file), so that a misspelt or
+// forgotten name can be seen there, and says to add it under boundaries;
+// other errors without a place (untagged faces) are placed at the
+// boundaries section.
 func (bs *boundarySpec) locate(err error) error {
 	var list []error
 	if j, ok := err.(interface{ Unwrap() []error }); ok {
@@ -345,6 +367,10 @@ func (bs *boundarySpec) locate(err error) error {
 		if errors.As(e, &be) && be.Where == "" {
 			c := *be
 			c.Where = bs.at.where()
+			if at, ok := bs.tagAt[be.Tag]; ok && be.Tag != "" {
+				c.Where = at.where()
+				c.Msg += fmt.Sprintf(" (under boundaries, %s: {kind: ...})", be.Tag)
+			}
 			e = &c
 		}
 		out = append(out, e)

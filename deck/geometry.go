@@ -3,6 +3,7 @@ package deck
 import (
 	"errors"
 	"fmt"
+	"slices"
 	"sort"
 	"strings"
 
@@ -64,6 +65,13 @@ func decodeGeometry(c *Case, v value) (*geometrySpec, error) {
 		if err := decodeSketchRef(c, g, o, fv); err != nil {
 			return nil, err
 		}
+		// The sketch file gives its edges their tags: errors about a tag
+		// point at the file key.
+		for _, l := range g.loops {
+			for _, seg := range l.segments {
+				c.noteTag(seg.Attr().Tag, fv)
+			}
+		}
 	} else {
 		lv, err := o.need("loops")
 		if err != nil {
@@ -102,6 +110,67 @@ func decodeGeometry(c *Case, v value) (*geometrySpec, error) {
 		return nil, err
 	}
 	return g, nil
+}
+
+// noteTag records at as the place in the case file that gives a boundary
+// tag, unless an earlier place gives it already: an error about the tag as
+// a whole, such as a tag without a boundary condition, is reported at the
+// first segment (or grid boundary) that carries it, where the name can be
+// read and checked. A zero at (no place) or an empty tag records nothing.
+func (c *Case) noteTag(tag string, at value) {
+	if tag == "" || at.n == nil {
+		return
+	}
+	if c.tagAt == nil {
+		c.tagAt = map[string]value{}
+	}
+	if _, ok := c.tagAt[tag]; !ok {
+		c.tagAt[tag] = at
+	}
+}
+
+// tags returns the outline's boundary tags in the order they first
+// appear, loop by loop: each segment's tag, or for a segment with none
+// its loop's name, "outer", "inner1", ... (the tags geometry.Outline's
+// Discretise gives the edges, and so the mesh's).
+func (g *geometrySpec) tags() []string {
+	var out []string
+	seen := map[string]bool{}
+	for i, l := range g.shape.Loops() {
+		def := l.Name
+		if def == "" {
+			def = "outer"
+			if i > 0 {
+				def = fmt.Sprintf("inner%d", i)
+			}
+		}
+		for _, seg := range l.Segments {
+			t := seg.Attr().Tag
+			if t == "" {
+				t = def
+			}
+			if !seen[t] {
+				seen[t] = true
+				out = append(out, t)
+			}
+		}
+	}
+	return out
+}
+
+// checkTag refuses, at v, a tag that no boundary of the outline carries,
+// naming the outline's tags and the nearest of them; what says what the
+// tag is for ("for the region to be near").
+func (g *geometrySpec) checkTag(v value, tag, what string) error {
+	tags := g.tags()
+	if slices.Contains(tags, tag) {
+		return nil
+	}
+	hint := ""
+	if s := closest(tag, tags); s != "" {
+		hint = fmt.Sprintf("; did you mean %q?", s)
+	}
+	return v.errf("no boundary of the outline is tagged %q %s%s (the outline's tags: %s)", tag, what, hint, strings.Join(tags, ", "))
 }
 
 // addCurve registers a named curve, refusing a second use of a name.
@@ -147,7 +216,7 @@ func decodeLoop(c *Case, g *geometrySpec, v value, index int) (loopSpec, error) 
 			return l, err
 		}
 	}
-	defTag, defSpacing, err := decodeDefaults(c, o, "")
+	def, err := decodeDefaults(c, o, "", value{})
 	if err != nil {
 		return l, err
 	}
@@ -164,7 +233,7 @@ func decodeLoop(c *Case, g *geometrySpec, v value, index int) (loopSpec, error) 
 	case "":
 		return l, v.errf("a loop needs segments (with a start point) or one of the shapes circle, rectangle, naca")
 	case "segments":
-		named, err := decodeStartedChain(c, g, o, defTag, defSpacing)
+		named, err := decodeStartedChain(c, g, o, def)
 		if err != nil {
 			return l, err
 		}
@@ -174,7 +243,7 @@ func decodeLoop(c *Case, g *geometrySpec, v value, index int) (loopSpec, error) 
 		}
 	default:
 		sv, _ := o.get(shape)
-		segs, named, err := decodeLoopShape(c, shape, sv, o, defTag, defSpacing)
+		segs, named, err := decodeLoopShape(c, shape, sv, o, def)
 		if err != nil {
 			return l, err
 		}
@@ -212,11 +281,11 @@ func decodeCurve(c *Case, g *geometrySpec, v value) error {
 	if err != nil {
 		return err
 	}
-	defTag, defSpacing, err := decodeDefaults(c, o, name)
+	def, err := decodeDefaults(c, o, name, nv)
 	if err != nil {
 		return err
 	}
-	named, err := decodeStartedChain(c, g, o, defTag, defSpacing)
+	named, err := decodeStartedChain(c, g, o, def)
 	if err != nil {
 		return err
 	}
@@ -230,30 +299,40 @@ func decodeCurve(c *Case, g *geometrySpec, v value) error {
 	return g.addCurve(cs)
 }
 
+// defaults are what a loop or curve gives the segments that name none of
+// their own: a tag, with the place in the case file that gives it (see
+// Case.noteTag; zero when there is no tag), and a spacing (nil: none).
+type defaults struct {
+	tag     string
+	tagAt   value
+	spacing *geometry.Spacing
+}
+
 // decodeDefaults reads the tag and spacing a loop or curve gives the
-// segments that name none of their own; defTag is the tag when it gives
-// none either.
-func decodeDefaults(c *Case, o *object, defTag string) (string, *geometry.Spacing, error) {
+// segments that name none of their own; tag, written at tagAt, is the tag
+// when it gives none either (a free curve's name, "" for a loop).
+func decodeDefaults(c *Case, o *object, tag string, tagAt value) (defaults, error) {
+	def := defaults{tag: tag, tagAt: tagAt}
 	var err error
 	if tv, ok := o.get("tag"); ok {
-		if defTag, err = tv.str(); err != nil {
-			return "", nil, err
+		if def.tag, err = tv.str(); err != nil {
+			return def, err
 		}
+		def.tagAt = tv
 	}
-	var defSpacing *geometry.Spacing
 	if sv, ok := o.get("spacing"); ok {
 		sp, err := decodeSpacing(sv, c)
 		if err != nil {
-			return "", nil, err
+			return def, err
 		}
-		defSpacing = &sp
+		def.spacing = &sp
 	}
-	return defTag, defSpacing, nil
+	return def, nil
 }
 
 // decodeStartedChain reads the start point and the segments of a loop or
 // curve (see decodeChain) and registers every named segment as a curve.
-func decodeStartedChain(c *Case, g *geometrySpec, o *object, defTag string, defSpacing *geometry.Spacing) ([]namedSegment, error) {
+func decodeStartedChain(c *Case, g *geometrySpec, o *object, def defaults) ([]namedSegment, error) {
 	sv, err := o.need("start")
 	if err != nil {
 		return nil, err
@@ -266,7 +345,7 @@ func decodeStartedChain(c *Case, g *geometrySpec, o *object, defTag string, defS
 	if err != nil {
 		return nil, err
 	}
-	named, err := decodeChain(c, start, list, defTag, defSpacing)
+	named, err := decodeChain(c, start, list, def)
 	if err != nil {
 		return nil, err
 	}

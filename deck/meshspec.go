@@ -73,7 +73,7 @@ func decodeMesh(c *Case, v value) (*meshSpec, error) {
 	case hasS && hasU:
 		return nil, uv.errf("a mesh is structured or unstructured, not both")
 	case hasU:
-		if ms.unstructured, err = decodeUnstructured(uv); err != nil {
+		if ms.unstructured, err = decodeUnstructured(c, uv); err != nil {
 			return nil, err
 		}
 		return ms, o.done()

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -141,6 +142,43 @@ func (o *object) get(key string) (value, bool) {
 		return value{}, false
 	}
 	return value{o.d, n, o.join(key)}, true
+}
+
+// keyAt returns the key node of key, which the object must have, as a
+// value: errors about the key itself (a name it may not take, a key that
+// contradicts another) point at the key rather than at its value.
+func (o *object) keyAt(key string) value {
+	o.asked[key] = true
+	for i, k := range o.keys {
+		if k == key {
+			return value{o.d, o.n.Content[2*i], o.join(key)}
+		}
+	}
+	return value{o.d, o.n, o.join(key)}
+}
+
+// either reads a choice between two keys that say one thing two ways
+// (first_height or yplus, count or thickness): it returns the key given,
+// with its value, or "" when neither is. Both given is an error at the key
+// written second, "give one of a and b, not both", followed by why (what
+// each of them sets), so that the message points at a key to remove rather
+// than reading as if neither were there.
+func (o *object) either(a, b, why string) (string, value, error) {
+	va, hasA := o.get(a)
+	vb, hasB := o.get(b)
+	switch {
+	case hasA && hasB:
+		second := b
+		if slices.Index(o.keys, a) > slices.Index(o.keys, b) {
+			second = a
+		}
+		return "", value{}, o.keyAt(second).errf("give one of %s and %s, not both: %s", a, b, why)
+	case hasA:
+		return a, va, nil
+	case hasB:
+		return b, vb, nil
+	}
+	return "", value{}, nil
 }
 
 // need returns the value of a required key.

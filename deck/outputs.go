@@ -2,7 +2,10 @@ package deck
 
 import (
 	"fmt"
+	"slices"
 	"strings"
+
+	"gopkg.in/yaml.v3"
 )
 
 // Formats are the deck outputs a run can write.
@@ -22,11 +25,14 @@ type outputSpec struct {
 //	  formats: [cgns, vtu, vtk, vtk-binary, vts, preview, png, manifest]
 //
 // vtu also writes boundary.vtp; vts writes one structured grid per block
-// and a multiblock index (structured meshes only); preview is preview.svg,
-// png preview.png; manifest is deck.yaml. quality.json and deck.yaml are
-// always written (deck.yaml carries the caution statement and the record a
-// check of the deck needs), so manifest may be named or left out alike.
-func decodeOutputs(top *object) (outputSpec, error) {
+// and a multiblock index (structured meshes only, so that it is refused at
+// its entry for an unstructured mesh: decodeOutputs comes after the mesh
+// section); preview is preview.svg, png preview.png; manifest is
+// deck.yaml. quality.json and deck.yaml are always written (deck.yaml
+// carries the caution statement and the record a check of the deck
+// needs), so manifest may be named or left out alike. An entry may also
+// be a comma-separated list, as --format takes; errors point at the entry.
+func decodeOutputs(c *Case, top *object) (outputSpec, error) {
 	out := outputSpec{formats: DefaultFormats}
 	v, ok := top.get("outputs")
 	if !ok {
@@ -37,15 +43,52 @@ func decodeOutputs(top *object) (outputSpec, error) {
 		return out, err
 	}
 	if fv, ok := o.get("formats"); ok {
-		list, err := fv.strings()
-		if err != nil {
-			return out, err
+		entries := []value{fv}
+		if fv.n.Kind != yaml.ScalarNode {
+			if entries, err = fv.list(); err != nil {
+				return out, err
+			}
+		}
+		var list []string
+		for _, it := range entries {
+			s, err := it.str()
+			if err != nil {
+				return out, err
+			}
+			for _, f := range strings.Split(s, ",") {
+				f = strings.TrimSpace(f)
+				if msg := formatProblem(f); msg != "" {
+					return out, it.errf("%s", msg)
+				}
+				if f == "vts" && c.Mesh != nil && c.Mesh.unstructured != nil {
+					return out, it.errf("%s", vtsUnstructured)
+				}
+			}
+			list = append(list, s)
 		}
 		if out.formats, err = ParseFormats(list); err != nil {
-			return out, fv.wrap(err)
+			return out, fv.errf("%s", strings.TrimPrefix(err.Error(), ErrInput.Error()+": "))
 		}
 	}
 	return out, o.done()
+}
+
+// vtsUnstructured says why the vts format does not go with an unstructured
+// mesh.
+const vtsUnstructured = "the vts format writes the blocks of a structured mesh, and this case's mesh is unstructured: choose vtu or vtk"
+
+// formatProblem says what is wrong with one format name, "" when it is
+// one of Formats or empty (an empty piece of a comma-separated list, which
+// ParseFormats skips).
+func formatProblem(f string) string {
+	if f == "" || slices.Contains(Formats, f) {
+		return ""
+	}
+	hint := ""
+	if c := closest(f, Formats); c != "" {
+		hint = fmt.Sprintf("; did you mean %q?", c)
+	}
+	return fmt.Sprintf("unknown output format %q%s (formats: %s)", f, hint, strings.Join(Formats, ", "))
 }
 
 // ParseFormats checks a list of format names (from the case file or
@@ -60,16 +103,8 @@ func ParseFormats(list []string) ([]string, error) {
 			if f == "" {
 				continue
 			}
-			known := false
-			for _, k := range Formats {
-				known = known || k == f
-			}
-			if !known {
-				hint := ""
-				if c := closest(f, Formats); c != "" {
-					hint = fmt.Sprintf("; did you mean %q?", c)
-				}
-				return nil, fmt.Errorf("%w: unknown output format %q%s (formats: %s)", ErrInput, f, hint, strings.Join(Formats, ", "))
+			if msg := formatProblem(f); msg != "" {
+				return nil, fmt.Errorf("%w: %s", ErrInput, msg)
 			}
 			if !seen[f] {
 				seen[f] = true

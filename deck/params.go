@@ -30,8 +30,18 @@ func resolveParams(d *decoder, sec *value, overrides map[string]float64) (map[st
 		}
 		for _, k := range o.keys {
 			v, _ := o.get(k)
-			if !expr.ValidName(k) || expr.IsReserved(k) {
-				return nil, nil, v.errf("%q cannot name a parameter: use letters, digits and underscores, starting with a letter, and not a function or constant name", k)
+			// A bad name is the key's fault, so the error points at it.
+			switch {
+			case !expr.ValidName(k):
+				return nil, nil, o.keyAt(k).errf("%q cannot name a parameter: use letters, digits and underscores, starting with a letter", k)
+			case expr.IsReserved(k):
+				what := "a function name or a word (and, or, not, if) of expressions"
+				if x, err := expr.Parse(k); err == nil {
+					if f, err := x.Eval(nil); err == nil {
+						what = fmt.Sprintf("a built-in constant of expressions, %.6g", f)
+					}
+				}
+				return nil, nil, o.keyAt(k).errf("%q cannot name a parameter: it is %s; choose another name", k, what)
 			}
 			s, err := v.scalar()
 			if err != nil {

@@ -95,8 +95,10 @@ func Run(c *Case, outDir string, opts RunOptions) (res *Result, err error) {
 	if opts.MaxCells > 0 {
 		c.Mesh.maxCells = opts.MaxCells
 	}
+	// The case's own formats are checked against its mesh as it is read
+	// (decodeOutputs), at the entry; those given to the run are here.
 	if hasFormat(formats, "vts") && c.Mesh.unstructured != nil {
-		return nil, fmt.Errorf("%w: the vts format writes the blocks of a structured mesh, and this case's mesh is unstructured: choose vtu or vtk", ErrInput)
+		return nil, fmt.Errorf("%w: --format vts: %s", ErrInput, vtsUnstructured)
 	}
 	if err := checkOutDir(outDir, c.inputPaths(), "deck"); err != nil {
 		return nil, err

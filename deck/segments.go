@@ -34,7 +34,7 @@ type namedSegment struct {
 // Every segment may carry a name (to refer to it from the mesh section), a
 // tag (default: the enclosing tag) and a spacing (default: the enclosing
 // spacing).
-func decodeChain(c *Case, start orb.Point, list value, defTag string, defSpacing *geometry.Spacing) ([]namedSegment, error) {
+func decodeChain(c *Case, start orb.Point, list value, def defaults) ([]namedSegment, error) {
 	items, err := list.list()
 	if err != nil {
 		return nil, err
@@ -66,7 +66,7 @@ func decodeChain(c *Case, start orb.Point, list value, defTag string, defSpacing
 		if err := o.done(); err != nil {
 			return nil, err
 		}
-		attr, name, err := decodeAttr(c, o, defTag, defSpacing)
+		attr, name, err := decodeAttr(c, o, def)
 		if err != nil {
 			return nil, err
 		}
@@ -184,8 +184,10 @@ func decodeArc(cur orb.Point, shape value, attr geometry.Attr) (geometry.Segment
 	return a, nil
 }
 
-// decodeAttr reads a segment's name, tag and spacing.
-func decodeAttr(c *Case, o *object, defTag string, defSpacing *geometry.Spacing) (geometry.Attr, string, error) {
+// decodeAttr reads a segment's name, tag and spacing, the tag and spacing
+// defaulting to those of its loop or curve; the place that gives the
+// segment its tag is noted (Case.noteTag).
+func decodeAttr(c *Case, o *object, def defaults) (geometry.Attr, string, error) {
 	var a geometry.Attr
 	name := ""
 	var err error
@@ -194,21 +196,24 @@ func decodeAttr(c *Case, o *object, defTag string, defSpacing *geometry.Spacing)
 			return a, "", err
 		}
 	}
-	a.Tag = defTag
+	a.Tag = def.tag
+	at := def.tagAt
 	if v, ok := o.get("tag"); ok {
 		if a.Tag, err = v.str(); err != nil {
 			return a, "", err
 		}
+		at = v
 	}
 	if a.Tag == "" {
 		return a, "", o.errf("the segment needs a boundary tag (tag: name), here or on its loop")
 	}
+	c.noteTag(a.Tag, at)
 	if v, ok := o.get("spacing"); ok {
 		if a.Spacing, err = decodeSpacing(v, c); err != nil {
 			return a, "", err
 		}
-	} else if defSpacing != nil {
-		a.Spacing = *defSpacing
+	} else if def.spacing != nil {
+		a.Spacing = *def.spacing
 	}
 	return a, name, nil
 }

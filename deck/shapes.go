@@ -14,7 +14,7 @@ import (
 // where each part ({...}: name, tag, spacing) overrides the loop's tag and
 // spacing for that side or surface, and a name makes it a curve the mesh
 // section can refer to.
-func decodeLoopShape(c *Case, shape string, v value, loop *object, defTag string, defSpacing *geometry.Spacing) ([]geometry.Segment, []namedSegment, error) {
+func decodeLoopShape(c *Case, shape string, v value, loop *object, def defaults) ([]geometry.Segment, []namedSegment, error) {
 	o, err := v.object()
 	if err != nil {
 		return nil, nil, err
@@ -22,20 +22,21 @@ func decodeLoopShape(c *Case, shape string, v value, loop *object, defTag string
 	part := func(key string) (geometry.Attr, string, error) {
 		pv, ok := o.get(key)
 		if !ok {
-			if defTag == "" {
+			if def.tag == "" {
 				return geometry.Attr{}, "", v.errf("the %s needs a boundary tag: give the loop a tag, or %s: {tag: name}", shape, key)
 			}
-			a := geometry.Attr{Tag: defTag}
-			if defSpacing != nil {
-				a.Spacing = *defSpacing
+			a := geometry.Attr{Tag: def.tag}
+			if def.spacing != nil {
+				a.Spacing = *def.spacing
 			}
+			c.noteTag(def.tag, def.tagAt)
 			return a, "", nil
 		}
 		po, err := pv.object()
 		if err != nil {
 			return geometry.Attr{}, "", err
 		}
-		a, name, err := decodeAttr(c, po, defTag, defSpacing)
+		a, name, err := decodeAttr(c, po, def)
 		if err != nil {
 			return a, "", err
 		}

@@ -64,16 +64,17 @@ func decodeSmooth(c *Case, v value) (*smoothSpec, error) {
 				sc.Mode = structured.Slide
 			}
 		}
-		if x, ok := so.get("first_height"); ok {
+		key, x, err := so.either("first_height", "first_yplus", "each sets the height of the cells at the side")
+		if err != nil {
+			return nil, err
+		}
+		switch key {
+		case "first_height":
 			if sc.FirstHeight, err = x.positiveLength(); err != nil {
 				return nil, err
 			}
 			sc.FirstHeight /= c.Refine
-		}
-		if x, ok := so.get("first_yplus"); ok {
-			if sc.FirstHeight > 0 {
-				return nil, x.errf("give first_height or first_yplus, not both")
-			}
+		case "first_yplus":
 			h, err := c.wallHeight(x)
 			if err != nil {
 				return nil, err
@@ -151,19 +152,21 @@ func decodeGrow(c *Case, v value, index int) (growSpec, error) {
 		return gs, fv.errf("%q is an open curve; an %s-grid grows round a loop (shape: open grows off an open wall)", name, gs.shape)
 	}
 	r := c.Refine
-	hv, hasH := o.get("first_height")
-	yv, hasY := o.get("first_yplus")
-	switch {
-	case hasH && !hasY:
+	key, hv, err := o.either("first_height", "first_yplus", "each sets the height of the first cell off the body")
+	if err != nil {
+		return gs, err
+	}
+	switch key {
+	case "first_height":
 		if gs.opt.FirstHeight, err = hv.positiveLength(); err != nil {
 			return gs, err
 		}
-	case hasY && !hasH:
-		if gs.opt.FirstHeight, err = c.wallHeight(yv); err != nil {
+	case "first_yplus":
+		if gs.opt.FirstHeight, err = c.wallHeight(hv); err != nil {
 			return gs, err
 		}
 	default:
-		return gs, v.errf("a grown grid needs first_height or first_yplus, one of them")
+		return gs, v.errf("a grown grid needs the first cell height: first_height (case units) or first_yplus (with a reference state), one of them")
 	}
 	gs.opt.FirstHeight /= r
 	if x, ok := o.get("growth"); ok {
@@ -191,6 +194,7 @@ func decodeGrow(c *Case, v value, index int) (growSpec, error) {
 	if gs.opt.OuterTag, err = tv.str(); err != nil {
 		return gs, err
 	}
+	c.noteTag(gs.opt.OuterTag, tv)
 	if gs.shape != "o" {
 		for _, k := range []struct {
 			key string
@@ -203,6 +207,7 @@ func decodeGrow(c *Case, v value, index int) (growSpec, error) {
 			if *k.dst, err = x.str(); err != nil {
 				return gs, err
 			}
+			c.noteTag(*k.dst, x)
 		}
 	}
 	if x, ok := o.get("dissipation"); ok {

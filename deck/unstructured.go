@@ -4,7 +4,10 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
+
+	"gopkg.in/yaml.v3"
 
 	"cvdeck/mesh"
 	"cvdeck/mesh/unstructured"
@@ -36,21 +39,33 @@ type unstructuredSpec struct {
 //	    - {tags: [cylinder], first_height: 0.05, growth: 1.2, count: 12}
 //	    - {tags: [wing], yplus: 1, growth: 1.15, thickness: 5}
 //
-// Boundary cell sizes come from the outline's spacing laws.
-func decodeUnstructured(v value) (*unstructuredSpec, error) {
+// Boundary cell sizes come from the outline's spacing laws. What the
+// mesher would refuse is refused here, at the key concerned: a min_angle
+// above 0 and at most unstructured.MaxMinAngle, a growth from 1 to
+// unstructured.MaxGrowth, a region's near tag and a layer request's tags that the
+// outline has (c.Geometry, decoded before the mesh), and the layers'
+// bounds (see decodeLayers); the mesher's own checks are a backstop, whose
+// errors can only be placed at the unstructured section as a whole.
+func decodeUnstructured(c *Case, v value) (*unstructuredSpec, error) {
 	o, err := v.object()
 	if err != nil {
 		return nil, err
 	}
 	us := &unstructuredSpec{at: v}
 	if x, ok := o.get("min_angle"); ok {
-		if us.opt.MinAngle, err = x.positive(); err != nil {
+		if us.opt.MinAngle, err = x.number(); err != nil {
 			return nil, err
+		}
+		if !(us.opt.MinAngle > 0 && us.opt.MinAngle <= unstructured.MaxMinAngle) {
+			return nil, x.errf("the minimum angle is above 0 and at most %g degrees (Delaunay refinement ends in practice up to about 33°, Shewchuk 2002), got %g", unstructured.MaxMinAngle, us.opt.MinAngle)
 		}
 	}
 	if x, ok := o.get("growth"); ok {
-		if us.opt.Growth, err = x.positive(); err != nil {
+		if us.opt.Growth, err = x.number(); err != nil {
 			return nil, err
+		}
+		if !(us.opt.Growth >= 1 && us.opt.Growth <= unstructured.MaxGrowth) {
+			return nil, x.errf("the size growth ratio away from the boundary is from 1 (cells as small as the boundary's throughout) to %g, got %g", unstructured.MaxGrowth, us.opt.Growth)
 		}
 	}
 	if x, ok := o.get("max_size"); ok {
@@ -69,7 +84,7 @@ func decodeUnstructured(v value) (*unstructuredSpec, error) {
 			return nil, err
 		}
 		for _, it := range items {
-			r, err := decodeRegion(it)
+			r, err := decodeRegion(c, it)
 			if err != nil {
 				return nil, err
 			}
@@ -83,7 +98,7 @@ func decodeUnstructured(v value) (*unstructuredSpec, error) {
 			return nil, err
 		}
 		for _, it := range items {
-			l, yplus, err := decodeLayers(it)
+			l, yplus, err := decodeLayers(c, it)
 			if err != nil {
 				return nil, err
 			}
@@ -95,7 +110,13 @@ func decodeUnstructured(v value) (*unstructuredSpec, error) {
 	return us, o.done()
 }
 
-func decodeRegion(v value) (unstructured.Region, error) {
+// regionShapes are the keys of a refinement region's shape, one of which
+// each region gives.
+var regionShapes = []string{"box", "circle", "near"}
+
+// decodeRegion reads one refinement region (see decodeUnstructured); a
+// near region's tag must be one of the outline's.
+func decodeRegion(c *Case, v value) (unstructured.Region, error) {
 	var r unstructured.Region
 	o, err := v.object()
 	if err != nil {
@@ -168,6 +189,9 @@ func decodeRegion(v value) (unstructured.Region, error) {
 		if r.Tag, err = nv.str(); err != nil {
 			return r, err
 		}
+		if err := c.Geometry.checkTag(nv, r.Tag, "for the region to be near"); err != nil {
+			return r, err
+		}
 		dv, err := o.need("distance")
 		if err != nil {
 			return r, err
@@ -179,13 +203,28 @@ func decodeRegion(v value) (unstructured.Region, error) {
 	} else {
 		o.known("distance")
 	}
-	if shapes != 1 {
+	switch {
+	case shapes > 1:
+		var given []string
+		for _, k := range o.keys {
+			if slices.Contains(regionShapes, k) {
+				given = append(given, k)
+			}
+		}
+		return r, o.keyAt(given[1]).errf("a refinement region has one shape: give one of box, circle and near, not both %s and %s (a second region, another item of the list, takes the other)", given[0], given[1])
+	case shapes == 0:
 		return r, v.errf("a refinement region is one of box: {from, to}, circle: {centre, radius} or near: TAG with distance")
 	}
 	return r, o.done()
 }
 
-func decodeLayers(v value) (unstructured.Layers, *value, error) {
+// decodeLayers reads one boundary-layer request (see decodeUnstructured):
+// its tags, each one of the outline's; the first cell height as
+// first_height or yplus (returned, for the reference state to turn into a
+// height when the mesh is built), one of them; a growth from 1 to
+// unstructured.MaxLayerGrowth; and count (1 to unstructured.MaxLayerCount) or thickness (at least
+// first_height), one of them.
+func decodeLayers(c *Case, v value) (unstructured.Layers, *value, error) {
 	var l unstructured.Layers
 	o, err := v.object()
 	if err != nil {
@@ -198,34 +237,56 @@ func decodeLayers(v value) (unstructured.Layers, *value, error) {
 	if l.Tags, err = tv.strings(); err != nil {
 		return l, nil, err
 	}
-	var yplus *value
-	fv, hasFirst := o.get("first_height")
-	yv, hasY := o.get("yplus")
-	switch {
-	case hasFirst && !hasY:
-		if l.FirstHeight, err = fv.positiveLength(); err != nil {
+	for i, tag := range l.Tags {
+		at := tv
+		if tv.n.Kind == yaml.SequenceNode {
+			at = value{tv.d, tv.n.Content[i], fmt.Sprintf("%s[%d]", tv.path, i)}
+		}
+		if err := c.Geometry.checkTag(at, tag, "for the layers to grow from"); err != nil {
 			return l, nil, err
 		}
-	case hasY && !hasFirst:
-		yplus = &yv
+	}
+	var yplus *value
+	key, hv, err := o.either("first_height", "yplus", "each sets the height of the first layer")
+	if err != nil {
+		return l, nil, err
+	}
+	switch key {
+	case "first_height":
+		if l.FirstHeight, err = hv.positiveLength(); err != nil {
+			return l, nil, err
+		}
+	case "yplus":
+		yplus = &hv
 	default:
 		return l, nil, v.errf("boundary layers need the first cell height: first_height (case units) or yplus (with a reference state), one of them")
 	}
 	if gv, ok := o.get("growth"); ok {
-		if l.Growth, err = gv.positive(); err != nil {
+		if l.Growth, err = gv.number(); err != nil {
 			return l, nil, err
+		}
+		if !(l.Growth >= 1 && l.Growth <= unstructured.MaxLayerGrowth) {
+			return l, nil, gv.errf("the height ratio of consecutive layers is from 1 (layers of equal height) to %g, got %g", float64(unstructured.MaxLayerGrowth), l.Growth)
 		}
 	}
-	cv, hasCount := o.get("count")
-	kv, hasThick := o.get("thickness")
-	switch {
-	case hasCount && !hasThick:
-		if l.Count, err = cv.count(1); err != nil {
+	key, nv, err := o.either("count", "thickness", "the layers stop at the count or at the thickness")
+	if err != nil {
+		return l, nil, err
+	}
+	switch key {
+	case "count":
+		if l.Count, err = nv.count(1); err != nil {
 			return l, nil, err
 		}
-	case hasThick && !hasCount:
-		if l.Thickness, err = kv.positiveLength(); err != nil {
+		if l.Count > unstructured.MaxLayerCount {
+			return l, nil, nv.errf("at most %d layers in one request, got %d", unstructured.MaxLayerCount, l.Count)
+		}
+	case "thickness":
+		if l.Thickness, err = nv.positiveLength(); err != nil {
 			return l, nil, err
+		}
+		if l.FirstHeight > 0 && l.Thickness < l.FirstHeight {
+			return l, nil, nv.errf("the layers' thickness, %g, is less than their first height, %g (case units): not even one layer fits", l.Thickness/v.d.scale, l.FirstHeight/v.d.scale)
 		}
 	default:
 		return l, nil, v.errf("boundary layers need count (the number of layers) or thickness (their total height), one of them")

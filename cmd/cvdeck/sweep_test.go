@@ -331,7 +331,7 @@ func TestSweepListChecksTheBase(t *testing.T) {
 	missing := filepath.Join(dir, "missing.yaml")
 	os.WriteFile(missing, []byte("base: nozzle-missing.yaml\nparameters:\n  throat_h: [30, 40]\n"), 0o644)
 	code, stdout, stderr := cvdeck(t, "sweep", missing, "--list")
-	if code != 2 || stdout != "" || !strings.Contains(stderr, "missing.yaml: the base case as written does not load") {
+	if code != 2 || stdout != "" || !strings.Contains(stderr, "missing.yaml:1:7: the base case as written does not load") {
 		t.Errorf("missing base: exit %d\n%s%s", code, stdout, stderr)
 	}
 	base, _ := filepath.Abs(sampleSweep("nozzle.yaml"))

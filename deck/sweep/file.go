@@ -13,8 +13,13 @@
 //	  cells_x: 120                           # one value: fixed for the whole sweep
 //	constraints:                             # combinations for which any is false are dropped
 //	  - thickness * 100 + angle <= 20
+//	  - span / chord < 4                     # also the base case's other parameters, derived ones included
 //	refine: {levels: 3, ratio: 2}            # a coarse-to-fine family for each combination
 //	name: "t{thickness}_a{angle}"            # optional folder-name pattern
+//
+// A single value, a bare number or a one-element list, fixes a parameter
+// for the whole sweep under either combine: a zip walks the lists of more
+// than one value together and repeats the fixed values beside them.
 //
 // Unknown keys are errors that say the file, line and column.
 package sweep
@@ -45,6 +50,9 @@ type File struct {
 	Path string
 	// Base is the base case path, resolved against the sweep file's folder.
 	Base string
+	// BasePos is where the sweep file names the base case, for the errors
+	// about it (a missing file); zero for a File made in code.
+	BasePos Pos
 	// Zip is true when the parameter lists are combined element by element
 	// instead of as a full product.
 	Zip bool
@@ -53,18 +61,38 @@ type File struct {
 	Params []Param
 	// Constraints drop the combinations for which any of them is false (0).
 	Constraints []Constraint
+	// ConstraintsPos is the place of the constraints key, for the errors
+	// about the constraints as a whole.
+	ConstraintsPos Pos
 	// Refine is the refinement family made of every combination, or nil.
 	Refine *Refine
 	// NamePattern is the folder-name pattern, "" for the default
 	// name=value list; {name} stands for a parameter's value.
 	NamePattern string
+	// NamePos is the place of the name pattern.
+	NamePos Pos
 }
 
-// Param is one swept parameter and its values.
+// Param is one swept parameter and its values. A parameter with one value
+// is fixed for the whole sweep, under a zip too.
 type Param struct {
 	Name   string
 	Values []float64
-	Pos    Pos
+	// Pos is the place of the parameter's name.
+	Pos Pos
+	// ValuePos is the place of each value, so that an error about one
+	// value (a repeat) points at it: a list's items, or the range mapping
+	// for every value of a range. It may be nil (a Param made in code).
+	ValuePos []Pos
+}
+
+// valuePos returns the place of value i, or of the parameter when the
+// values have no places of their own.
+func (p Param) valuePos(i int) Pos {
+	if i < len(p.ValuePos) {
+		return p.ValuePos[i]
+	}
+	return p.Pos
 }
 
 // Constraint is a condition a combination must meet.
@@ -207,6 +235,7 @@ func (p *fileParser) file(root *yaml.Node) (*File, error) {
 				return p.errf(v, "base must name the case file, e.g. base: case.yaml")
 			}
 			baseNode = v
+			f.BasePos = Pos{v.Line, v.Column}
 			f.Base = s
 			if !filepath.IsAbs(s) {
 				f.Base = filepath.Join(filepath.Dir(p.path), s)
@@ -228,17 +257,18 @@ func (p *fileParser) file(root *yaml.Node) (*File, error) {
 				if !expr.ValidName(name) || expr.IsReserved(name) {
 					return p.errf(k, "%q is not a valid parameter name (a letter or _ then letters, digits or _, and not a constant or function name)", name)
 				}
-				vals, err := p.values(name, v)
+				vals, at, err := p.values(name, v)
 				if err != nil {
 					return err
 				}
-				f.Params = append(f.Params, Param{Name: name, Values: vals, Pos: Pos{k.Line, k.Column}})
+				f.Params = append(f.Params, Param{Name: name, Values: vals, Pos: Pos{k.Line, k.Column}, ValuePos: at})
 				return nil
 			})
 		case "constraints":
 			if v.Kind != yaml.SequenceNode {
 				return p.errf(v, "constraints must be a list of expressions, e.g. [\"thickness < 0.2\"]")
 			}
+			f.ConstraintsPos = Pos{k.Line, k.Column}
 			for _, c := range v.Content {
 				s, err := p.str(c, "a constraint")
 				if err != nil {
@@ -262,6 +292,7 @@ func (p *fileParser) file(root *yaml.Node) (*File, error) {
 				return err
 			}
 			f.NamePattern = s
+			f.NamePos = Pos{v.Line, v.Column}
 			if err := checkPattern(s); err != nil {
 				return p.errf(v, "name pattern %q: %v", s, err)
 			}
@@ -280,42 +311,47 @@ func (p *fileParser) file(root *yaml.Node) (*File, error) {
 	return f, nil
 }
 
-// check verifies what needs the whole file: names in constraints and in
-// the name pattern, zip lengths and the size limit.
+// check verifies what needs the whole file: names in the name pattern,
+// zip lengths, repeated values and the size limit. Constraint names that
+// are not swept are left to Variants, which looks them up among the base
+// case's parameters.
 func (f *File) check(root *yaml.Node, p *fileParser) error {
 	names := map[string]bool{}
 	for _, pr := range f.Params {
 		names[pr.Name] = true
 	}
-	for _, c := range f.Constraints {
-		for _, n := range c.Expr.Names() {
-			if !names[n] {
-				return &Error{File: p.path, Line: c.Pos.Line, Col: c.Pos.Col,
-					Msg: fmt.Sprintf("constraint %q uses %q, which is not a swept parameter (swept: %s)", c.Expr, n, strings.Join(f.paramNames(), ", "))}
-			}
-		}
-	}
 	for _, n := range patternNames(f.NamePattern) {
 		if !names[n] {
-			return &Error{File: p.path, Msg: fmt.Sprintf("name pattern %q uses {%s}, which is not a swept parameter (swept: %s)", f.NamePattern, n, strings.Join(f.paramNames(), ", "))}
+			return f.errAt(f.NamePos, "name pattern %q uses {%s}, which is not a swept parameter (swept: %s)", f.NamePattern, n, strings.Join(f.paramNames(), ", "))
 		}
 	}
-	if f.Zip && len(f.Params) > 1 {
-		first := f.Params[0]
-		for _, pr := range f.Params[1:] {
+	if f.Zip {
+		var first *Param
+		for i := range f.Params {
+			pr := &f.Params[i]
+			if len(pr.Values) == 1 {
+				continue // fixed: repeated beside every element
+			}
+			if first == nil {
+				first = pr
+				continue
+			}
 			if len(pr.Values) != len(first.Values) {
-				return &Error{File: p.path, Line: pr.Pos.Line, Col: pr.Pos.Col,
-					Msg: fmt.Sprintf("combine: zip needs lists of one length, but %s has %d values and %s has %d", pr.Name, len(pr.Values), first.Name, len(first.Values))}
+				return f.errAt(pr.Pos, "combine: zip walks the lists together, so they need one length (a single value is fixed for the whole sweep), but %s has %d values and %s has %d",
+					pr.Name, len(pr.Values), first.Name, len(first.Values))
 			}
 		}
+	}
+	if err := f.checkRepeats(); err != nil {
+		return err
 	}
 	n := 1.0
 	if !f.Zip {
 		for _, pr := range f.Params {
 			n *= float64(len(pr.Values))
 		}
-	} else if len(f.Params) > 0 {
-		n = float64(len(f.Params[0].Values))
+	} else {
+		n = float64(f.zipLength())
 	}
 	if f.Refine != nil {
 		n *= float64(f.Refine.Levels)
@@ -324,6 +360,77 @@ func (f *File) check(root *yaml.Node, p *fileParser) error {
 		return &Error{File: p.path, Msg: fmt.Sprintf("the sweep would make %.0f variants, more than the limit of %d", n, MaxVariants)}
 	}
 	return nil
+}
+
+// zipLength is the number of combinations of a zip: the length of its
+// lists of more than one value, 1 when every parameter is fixed.
+func (f *File) zipLength() int {
+	n := 1
+	for _, p := range f.Params {
+		n = max(n, len(p.Values))
+	}
+	return n
+}
+
+// checkRepeats refuses a value given twice, which would make the same deck
+// twice: in a product a repeat within one parameter's list, in a zip a
+// combination equal to an earlier one. Values are compared by their text
+// in ids (FormatValue), so 1 and 1.0 repeat each other.
+func (f *File) checkRepeats() error {
+	if !f.Zip {
+		for _, p := range f.Params {
+			seen := make(map[string]int, len(p.Values))
+			for i, v := range p.Values {
+				t := FormatValue(v)
+				if j, dup := seen[t]; dup {
+					return f.errAt(p.valuePos(i), "value %d of %s (%s) repeats value %d; each value makes its own decks, so give it once", i+1, p.Name, t, j+1)
+				}
+				seen[t] = i
+			}
+		}
+		return nil
+	}
+	// The error points at the repeating element of the first list of
+	// more than one value (a zip of fixed values only has one combination).
+	var lead *Param
+	for i := range f.Params {
+		if len(f.Params[i].Values) > 1 {
+			lead = &f.Params[i]
+			break
+		}
+	}
+	if lead == nil {
+		return nil
+	}
+	seen := map[string]int{}
+	for i := range lead.Values {
+		c := f.zipCombination(i)
+		t := Canonical(c, 1)
+		if j, dup := seen[t]; dup {
+			return f.errAt(lead.valuePos(i), "combination %d of the zip (%s) repeats combination %d; each combination makes its own decks, so give it once", i+1, describe(c), j+1)
+		}
+		seen[t] = i
+	}
+	return nil
+}
+
+// zipCombination returns element i of a zip: the i-th value of each list,
+// and the value of each fixed parameter.
+func (f *File) zipCombination(i int) []Value {
+	c := make([]Value, len(f.Params))
+	for j, p := range f.Params {
+		v := p.Values[0]
+		if len(p.Values) > 1 {
+			v = p.Values[i]
+		}
+		c[j] = Value{p.Name, v}
+	}
+	return c
+}
+
+// errAt is an error about the sweep file at pos (no place when pos is zero).
+func (f *File) errAt(pos Pos, format string, a ...any) *Error {
+	return &Error{File: f.Path, Line: pos.Line, Col: pos.Col, Msg: fmt.Sprintf(format, a...)}
 }
 
 func (f *File) paramNames() []string {
@@ -345,7 +452,10 @@ func (p *fileParser) str(n *yaml.Node, what string) (string, error) {
 }
 
 // number reads a scalar as a number: a decimal literal or a constant
-// expression such as "pi / 8".
+// expression such as "pi / 8". The sweep file is read before the base
+// case, so a value cannot use parameters (as a --set value cannot); an
+// expression naming one is refused with that reason rather than with the
+// expression package's "not a defined parameter".
 func (p *fileParser) number(n *yaml.Node, what string) (float64, error) {
 	if n.Kind != yaml.ScalarNode {
 		return 0, p.errf(n, "%s must be a number, not a list or mapping", what)
@@ -356,6 +466,11 @@ func (p *fileParser) number(n *yaml.Node, what string) (float64, error) {
 		}
 		return v, nil
 	}
+	if x, err := expr.Parse(n.Value); err == nil {
+		if names := x.Names(); len(names) > 0 {
+			return 0, p.errf(n, "%s is %q, which uses the name %q: a sweep value is a number or an expression of numbers, constants and functions (such as 0.3 / 2 or pi / 8), and it cannot use parameters, the base case's included", what, n.Value, names[0])
+		}
+	}
 	v, err := expr.Eval(n.Value, nil)
 	if err != nil {
 		return 0, &Error{File: p.path, Line: n.Line, Col: n.Column, Msg: fmt.Sprintf("%s is not a number", what), Err: err}
@@ -363,32 +478,42 @@ func (p *fileParser) number(n *yaml.Node, what string) (float64, error) {
 	return v, nil
 }
 
-// values reads a parameter's values: a list, or a range mapping.
-func (p *fileParser) values(name string, n *yaml.Node) ([]float64, error) {
+// values reads a parameter's values, a list, a range mapping or a single
+// number, and the place of each value.
+func (p *fileParser) values(name string, n *yaml.Node) ([]float64, []Pos, error) {
 	switch n.Kind {
 	case yaml.SequenceNode:
 		if len(n.Content) == 0 {
-			return nil, p.errf(n, "parameter %s has an empty list of values", name)
+			return nil, nil, p.errf(n, "parameter %s has an empty list of values", name)
 		}
 		out := make([]float64, len(n.Content))
+		at := make([]Pos, len(n.Content))
 		for i, c := range n.Content {
 			v, err := p.number(c, fmt.Sprintf("value %d of %s", i+1, name))
 			if err != nil {
-				return nil, err
+				return nil, nil, err
 			}
-			out[i] = v
+			out[i], at[i] = v, Pos{c.Line, c.Column}
 		}
-		return out, nil
+		return out, at, nil
 	case yaml.MappingNode:
-		return p.rangeValues(name, n)
+		out, err := p.rangeValues(name, n)
+		if err != nil {
+			return nil, nil, err
+		}
+		at := make([]Pos, len(out))
+		for i := range at {
+			at[i] = Pos{n.Line, n.Column}
+		}
+		return out, at, nil
 	case yaml.ScalarNode:
 		v, err := p.number(n, name)
 		if err != nil {
-			return nil, err
+			return nil, nil, err
 		}
-		return []float64{v}, nil
+		return []float64{v}, []Pos{{n.Line, n.Column}}, nil
 	}
-	return nil, p.errf(n, "parameter %s needs a list of values or a range {from, to, step} or {from, to, count}", name)
+	return nil, nil, p.errf(n, "parameter %s needs a list of values or a range {from, to, step} or {from, to, count}", name)
 }
 
 func (p *fileParser) rangeValues(name string, n *yaml.Node) ([]float64, error) {
@@ -459,6 +584,9 @@ func (p *fileParser) rangeValues(name string, n *yaml.Node) ([]float64, error) {
 			}
 			return []float64{from}, nil
 		}
+		if from == to {
+			return nil, p.errf(has["count"], "count %d for %s repeats one value, from and to are both %v; use count 1 or a single number to fix it", count, name, from)
+		}
 		out := make([]float64, count)
 		for i := range out {
 			t := float64(i) / float64(count-1)
@@ -491,8 +619,8 @@ func (p *fileParser) refine(n *yaml.Node) (*Refine, error) {
 		switch key {
 		case "levels":
 			c, err := strconv.Atoi(v.Value)
-			if err != nil || v.Kind != yaml.ScalarNode || c < 2 || c > 10 {
-				return p.errf(v, "refine levels is %q; it must be a whole number from 2 to 10", v.Value)
+			if err != nil || v.Kind != yaml.ScalarNode || c < 2 || c > deck.MaxFamilyLevels {
+				return p.errf(v, "refine levels is %q; it must be a whole number from 2 to %d", v.Value, deck.MaxFamilyLevels)
 			}
 			r.Levels, hasLevels = c, true
 		case "ratio":

@@ -97,14 +97,22 @@ func TestParseErrorsSayWhere(t *testing.T) {
 		{"base: a.yaml\nparameter:\n  t: [1]\n", `unknown key "parameter"`, 2, 1},
 		{"base: a.yaml\nparameters:\n  t: {from: 0, to: 1, stp: 0.1}\n", `unknown key "stp" in the range of t`, 3, 23},
 		{"base: a.yaml\nrefine: {levels: 3, ratio: 2, base: 1}\n", `unknown key "base" in refine`, 2, 31},
-		{"base: a.yaml\ncombine: zip\nparameters:\n  a: [1, 2]\n  b: [1, 2, 3]\n", "lists of one length", 5, 3},
-		{"base: a.yaml\nparameters:\n  a: [1, 2]\nconstraints: [\"a < b\"]\n", `uses "b", which is not a swept parameter`, 4, 15},
+		{"base: a.yaml\ncombine: zip\nparameters:\n  a: [1, 2]\n  b: [1, 2, 3]\n", "so they need one length (a single value is fixed for the whole sweep), but b has 3 values and a has 2", 5, 3},
+		{"base: a.yaml\ncombine: zip\nparameters:\n  a: [1, 2]\n  f: [7]\n  b: [1, 2, 3]\n", "but b has 3 values and a has 2", 6, 3},
 		{"base: a.yaml\nparameters:\n  a: {from: 0, to: 1, step: -0.1}\n", "does not lead from 0 to 1", 3, 29},
-		{"base: a.yaml\nparameters:\n  a: [1, x]\n", "value 2 of a is not a number", 3, 10},
+		{"base: a.yaml\nparameters:\n  a: [1, x]\n", `value 2 of a is "x", which uses the name "x": a sweep value is a number or an expression of numbers, constants and functions`, 3, 10},
+		{"base: a.yaml\nparameters:\n  a: [1, \"2 *\"]\n", "value 2 of a is not a number", 3, 10},
 		{"base: a.yaml\nparameters:\n  h: {from: 20, to: 30, step: 3}\n", "does not end on 30 from 20 (the last value would be 29)", 3, 31},
 		{"base: a.yaml\nparameters:\n  h: {from: 1, to: 0, step: -0.3}\n", "the last value would be 0.1), the ends are included, so give a step that divides 1,", 3, 29},
 		{"base: a.yaml\nparameters:\n  sin: [1]\n", "not a valid parameter name", 3, 3},
-		{"base: a.yaml\nrefine: {levels: 3, ratio: 1}\n", "must be above 1", 2, 28},
+		{"base: a.yaml\nrefine: {levels: 3, ratio: 1}\n", "refine ratio is 1; it must be above 1 and at most 4", 2, 28},
+		// One range for the levels, the case file's own (2 to 8), in one message.
+		{"base: a.yaml\nrefine: {levels: 0, ratio: 2}\n", `refine levels is "0"; it must be a whole number from 2 to 8`, 2, 18},
+		{"base: a.yaml\nrefine: {levels: 40, ratio: 2}\n", `refine levels is "40"; it must be a whole number from 2 to 8`, 2, 18},
+		{"base: a.yaml\nparameters:\n  t: [1, 2]\nname: \"t{u}\"\n", "name pattern \"t{u}\" uses {u}, which is not a swept parameter (swept: t)", 4, 7},
+		{"base: a.yaml\nparameters:\n  a: [1, 2, 1.0]\n", "value 3 of a (1) repeats value 1", 3, 13},
+		{"base: a.yaml\nparameters:\n  a: {from: 2, to: 2, count: 3}\n", "count 3 for a repeats one value", 3, 30},
+		{"base: a.yaml\ncombine: zip\nparameters:\n  a: [1, 2, 1]\n  b: [5, 6, 5]\n  c: 9\n", "combination 3 of the zip (a=1 b=5 c=9) repeats combination 1", 4, 13},
 		{"parameters:\n  a: [1]\n", "names no base case", 1, 1},
 		{"base: a.yaml\nparameters:\n  a: {from: -1e308, to: 1e308, count: 3}\n", "wider than a float64", 3, 6},
 		{"base: a.yaml\nparameters:\n  a: [1, 2]\n  a: [3]\n", `"a" appears twice`, 4, 3},
@@ -125,18 +133,77 @@ func TestParseErrorsSayWhere(t *testing.T) {
 	}
 }
 
+// TestRepeatedValueIsAnError: a zip repeats a combination only where every
+// list repeats at the same element, so a: [1, 2, 1] beside b: [5, 6, 7]
+// is three decks; a File made in code, which Parse did not check, still
+// meets the backstop in Variants.
 func TestRepeatedValueIsAnError(t *testing.T) {
-	f := mustParse(t, "base: a.yaml\nparameters:\n  a: [1, 2, 1.0]\n")
-	_, err := f.Variants()
-	if err == nil || !strings.Contains(err.Error(), "the variants at indexes 0 and 2 have the same parameter values (a=1)") {
+	f := mustParse(t, "base: a.yaml\ncombine: zip\nparameters:\n  a: [1, 2, 1]\n  b: [5, 6, 7]\n")
+	if vs, err := f.Variants(); err != nil || len(vs) != 3 {
+		t.Errorf("zip with a value repeated in one list: %d variants, %v; want 3", len(vs), err)
+	}
+	g := &File{Path: "s.yaml", Params: []Param{{Name: "a", Values: []float64{1, 2, 1}, Pos: Pos{3, 3}}}}
+	_, err := g.Variants()
+	if err == nil || err.Error() != "s.yaml:3:3: the variants at indexes 0 and 2 have the same parameter values (a=1); remove the repeated value" {
 		t.Errorf("got %v", err)
 	}
 }
 
+// TestConstraintsDroppingEverything: the error points at the constraint
+// that dropped every combination, or at the constraints key when several
+// share them, and counts what each dropped (by hand: a > 5 is false for
+// 1 and 2; in the second file a < 2 drops 2, and a > 1 drops 1).
 func TestConstraintsDroppingEverything(t *testing.T) {
 	f := mustParse(t, "base: a.yaml\nparameters:\n  a: [1, 2]\nconstraints: [a > 5]\n")
-	if _, err := f.Variants(); err == nil || !strings.Contains(err.Error(), "drop every combination") {
+	_, err := f.Variants()
+	if err == nil || err.Error() != `/cases/sweep.yaml:4:15: the constraints drop all 2 combinations; nothing is left to run ("a > 5" drops 2)` {
 		t.Errorf("got %v", err)
+	}
+	f = mustParse(t, "base: a.yaml\nparameters:\n  a: [1, 2]\nconstraints:\n  - a < 2\n  - a > 1\n")
+	_, err = f.Variants()
+	if err == nil || err.Error() != `/cases/sweep.yaml:4:1: the constraints drop all 2 combinations; nothing is left to run ("a < 2" drops 1, "a > 1" drops 1)` {
+		t.Errorf("got %v", err)
+	}
+	f = mustParse(t, "base: a.yaml\nparameters:\n  a: 1\nconstraints: [a > 5]\n")
+	if _, err = f.Variants(); err == nil || !strings.Contains(err.Error(), "drop the one combination") {
+		t.Errorf("got %v", err)
+	}
+}
+
+// TestZipFixesSingleValues: the README says a single number fixes a
+// parameter for the whole sweep; under a zip it is repeated beside the
+// lists, and so is a one-element list (as under a product, where the two
+// are the same). The expected combinations are written out by hand.
+func TestZipFixesSingleValues(t *testing.T) {
+	f := mustParse(t, `
+base: nozzle.yaml
+combine: zip
+parameters:
+  throat_h: [20, 25, 30]
+  exit_ratio: 1.4
+  cells_y: [24]
+  cells_x: {from: 60, to: 90, count: 3}
+`)
+	vs, err := f.Variants()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []string
+	for _, v := range vs {
+		got = append(got, describe(v.Params))
+	}
+	want := []string{
+		"throat_h=20 exit_ratio=1.4 cells_y=24 cells_x=60",
+		"throat_h=25 exit_ratio=1.4 cells_y=24 cells_x=75",
+		"throat_h=30 exit_ratio=1.4 cells_y=24 cells_x=90",
+	}
+	if !reflect.DeepEqual(got, want) {
+		t.Errorf("zip gave %v, want %v", got, want)
+	}
+	// Only fixed values: one combination.
+	f = mustParse(t, "base: a.yaml\ncombine: zip\nparameters:\n  a: 1\n  b: [2]\n")
+	if vs, err := f.Variants(); err != nil || len(vs) != 1 || describe(vs[0].Params) != "a=1 b=2" {
+		t.Errorf("zip of fixed values: %v, %v", vs, err)
 	}
 }
 

@@ -13,7 +13,7 @@ func FuzzParse(f *testing.F) {
 	f.Add([]byte(fakeSweep))
 	f.Add([]byte("base: a.yaml\ncombine: zip\nparameters:\n  a: [1, 2]\n  b: {from: 0, to: 1, count: 2}\nname: \"../{a}\"\n"))
 	f.Add([]byte("base: a.yaml\nparameters:\n  a: {from: 0, to: 1e300, step: 1e-300}\n"))
-	f.Add([]byte("base: a.yaml\nrefine: {levels: 10, ratio: 4}\nconstraints: [\"1/0\"]\n"))
+	f.Add([]byte("base: a.yaml\nrefine: {levels: 8, ratio: 4}\nconstraints: [\"1/0\"]\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		file, err := Parse("fuzz.yaml", data)
 		if err != nil {

@@ -74,11 +74,12 @@ func NewPipeline(f *File) *Pipeline {
 }
 
 // LoadBase loads the base case as written and verifies that it defines every
-// swept parameter.
+// swept parameter. A base case that does not load is an error at the sweep
+// file's base key, carrying the case's own error.
 func (p *Pipeline) LoadBase(f *File) (BaseCase, error) {
 	c, err := deck.Load(p.Base, deck.LoadOptions{})
 	if err != nil {
-		return BaseCase{}, &Error{File: f.Path, Msg: fmt.Sprintf("the base case as written does not load (it is %s: base is taken from the sweep file's folder, %s)", p.Base, filepath.Dir(f.Path)), Err: err}
+		return BaseCase{}, &Error{File: f.Path, Line: f.BasePos.Line, Col: f.BasePos.Col, Msg: fmt.Sprintf("the base case as written does not load (it is %s: base is taken from the sweep file's folder, %s)", p.Base, filepath.Dir(f.Path)), Err: err}
 	}
 	defined := map[string]bool{}
 	for _, n := range c.ParamOrder {

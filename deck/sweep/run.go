@@ -208,11 +208,14 @@ func (e *FailedError) ExitCode() int { return 1 }
 // was stopped (opt.Stop closed or ctx cancelled); the summary is written
 // in every case.
 func Run(ctx context.Context, f *File, outDir string, r Runner, opt Options) (*Summary, error) {
-	all, err := f.Variants()
+	// The base case first: constraints may use its parameters, and a case
+	// that does not load is better reported by deck.Load than by the
+	// constraints' reading of its parameters section.
+	base, err := r.LoadBase(f)
 	if err != nil {
 		return nil, err
 	}
-	base, err := r.LoadBase(f)
+	all, err := f.Variants()
 	if err != nil {
 		return nil, err
 	}

@@ -4,9 +4,12 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
+	"path/filepath"
 	"sort"
 	"strconv"
 	"strings"
+
+	"cvdeck/deck/expr"
 )
 
 // Variant is one deck of a sweep: a combination of parameter values at one
@@ -89,9 +92,11 @@ func ID(canonical string) string {
 
 // Variants expands the sweep file into its variants, in order: with a
 // product the first parameter varies slowest, with a zip the lists are
-// walked together; combinations that fail a constraint are dropped; each
-// remaining combination gives Levels variants, coarse to fine, when the
-// file has a refinement family.
+// walked together (a fixed parameter repeated beside them); combinations
+// that fail a constraint are dropped; each remaining combination gives
+// Levels variants, coarse to fine, when the file has a refinement family.
+// A constraint that uses a parameter the sweep does not vary reads the
+// base case's parameters section (see baseParams).
 func (f *File) Variants() ([]Variant, error) {
 	combos, err := f.combinations()
 	if err != nil {
@@ -115,9 +120,19 @@ func (f *File) Variants() ([]Variant, error) {
 			}
 			v := Variant{Index: len(out), Params: c, Level: l, Refine: factor, Family: family}
 			v.ID = ID(Canonical(c, factor))
+			// Parse refuses repeated values with their place (checkRepeats);
+			// this catches a File made in code, and two different
+			// combinations whose ids collide, which must not share a folder.
 			if prev, dup := seen[v.ID]; dup {
-				return nil, &Error{File: f.Path, Msg: fmt.Sprintf("the variants at indexes %d and %d have the same parameter values (%s); remove the repeated value",
-					prev, v.Index, strings.TrimSpace(strings.ReplaceAll(Canonical(c, factor), "\n", " ")))}
+				what := "have the same parameter values (" + strings.TrimSpace(strings.ReplaceAll(Canonical(c, factor), "\n", " ")) + "); remove the repeated value"
+				if Canonical(out[prev].Params, out[prev].Refine) != Canonical(c, factor) {
+					what = "have different values but the same id " + v.ID + "; change one value slightly"
+				}
+				var at Pos
+				if len(f.Params) > 0 {
+					at = f.Params[0].Pos
+				}
+				return nil, f.errAt(at, "the variants at indexes %d and %d %s", prev, v.Index, what)
 			}
 			seen[v.ID] = v.Index
 			v.Name = f.folderName(v)
@@ -135,12 +150,8 @@ func (f *File) combinations() ([][]Value, error) {
 	case len(f.Params) == 0:
 		all = [][]Value{nil}
 	case f.Zip:
-		for i := range f.Params[0].Values {
-			c := make([]Value, len(f.Params))
-			for j, p := range f.Params {
-				c[j] = Value{p.Name, p.Values[i]}
-			}
-			all = append(all, c)
+		for i := range f.zipLength() {
+			all = append(all, f.zipCombination(i))
 		}
 	default:
 		idx := make([]int, len(f.Params))
@@ -168,14 +179,26 @@ func (f *File) combinations() ([][]Value, error) {
 	if len(f.Constraints) == 0 {
 		return all, nil
 	}
+	base, err := f.constraintBase()
+	if err != nil {
+		return nil, err
+	}
+	dropped := make([]int, len(f.Constraints)) // combinations each constraint is the first to drop
 	kept := all[:0]
 	for _, c := range all {
 		vars := make(map[string]float64, len(c))
 		for _, v := range c {
 			vars[v.Name] = v.Value
 		}
+		if base != nil {
+			vars, err = base.resolve(vars)
+			if err != nil {
+				return nil, &Error{File: f.Path, Line: f.ConstraintsPos.Line, Col: f.ConstraintsPos.Col,
+					Msg: fmt.Sprintf("the base case's parameters the constraints use cannot be evaluated for %s", describe(c)), Err: err}
+			}
+		}
 		ok := true
-		for _, k := range f.Constraints {
+		for i, k := range f.Constraints {
 			r, err := k.Expr.Eval(vars)
 			if err != nil {
 				return nil, &Error{File: f.Path, Line: k.Pos.Line, Col: k.Pos.Col,
@@ -183,6 +206,7 @@ func (f *File) combinations() ([][]Value, error) {
 			}
 			if r == 0 {
 				ok = false
+				dropped[i]++
 				break
 			}
 		}
@@ -191,9 +215,75 @@ func (f *File) combinations() ([][]Value, error) {
 		}
 	}
 	if len(kept) == 0 {
-		return nil, &Error{File: f.Path, Msg: "the constraints drop every combination; nothing is left to run"}
+		// Point at the one constraint that dropped them all, or at the
+		// constraints key when several share the blame.
+		at := f.ConstraintsPos
+		var parts []string
+		for i, k := range f.Constraints {
+			if dropped[i] == len(all) {
+				at = k.Pos
+			}
+			if dropped[i] > 0 {
+				parts = append(parts, fmt.Sprintf("%q drops %d", k.Expr, dropped[i]))
+			}
+		}
+		what := fmt.Sprintf("all %d combinations", len(all))
+		if len(all) == 1 {
+			what = "the one combination"
+		}
+		return nil, f.errAt(at, "the constraints drop %s; nothing is left to run (%s)", what, strings.Join(parts, ", "))
 	}
 	return kept, nil
+}
+
+// constraintBase returns the base case's parameters when a constraint uses
+// a name the sweep does not vary (nil when none does), and refuses a name
+// that is neither swept nor a parameter of the base case, at the
+// constraint that uses it.
+func (f *File) constraintBase() (*baseParams, error) {
+	swept := map[string]bool{}
+	for _, p := range f.Params {
+		swept[p.Name] = true
+	}
+	var base *baseParams
+	for _, c := range f.Constraints {
+		for _, n := range c.Expr.Names() {
+			if swept[n] {
+				continue
+			}
+			if base == nil {
+				b, err := readBaseParams(f)
+				if err != nil {
+					return nil, err
+				}
+				base = b
+			}
+			if !base.has(n) {
+				hint := ""
+				known := append([]string(nil), base.sec.Names()...)
+				for _, p := range f.Params {
+					known = append(known, p.Name)
+				}
+				if m := closestName(n, known); m != "" {
+					hint = fmt.Sprintf("; did you mean %q?", m)
+				}
+				return nil, f.errAt(c.Pos, "constraint %q uses %q, which is neither swept nor a parameter of the base case %s%s (swept: %s; the base case's parameters: %s)",
+					c.Expr, n, filepath.Base(f.Base), hint, strings.Join(f.paramNames(), ", "), base.names())
+			}
+		}
+	}
+	return base, nil
+}
+
+// closestName returns the name within two edits of s (case aside), or "".
+func closestName(s string, names []string) string {
+	best, bestD := "", 3
+	for _, n := range names {
+		if d := expr.EditDistance(strings.ToLower(s), strings.ToLower(n)); d < bestD || d == bestD && n < best {
+			best, bestD = n, d
+		}
+	}
+	return best
 }
 
 func describe(c []Value) string {

@@ -16,6 +16,12 @@ const (
 	DefaultMinAngle = 25.0
 	// MaxMinAngle is the largest minimum-angle target accepted.
 	MaxMinAngle = 33.0
+	// MaxGrowth is the largest cell-size growth ratio accepted.
+	MaxGrowth = 10.0
+	// MaxLayerGrowth is the largest height ratio of consecutive boundary
+	// layers accepted, and MaxLayerCount the most layers of one request.
+	MaxLayerGrowth = 3.0
+	MaxLayerCount  = 200
 	// DefaultGrowth is the cell-size growth ratio away from walls (common
 	// practice: 1.1 to 1.3).
 	DefaultGrowth = 1.2
@@ -123,8 +129,8 @@ func (o Options) withDefaults() (Options, error) {
 	if o.Growth == 0 {
 		o.Growth = DefaultGrowth
 	}
-	if !(o.Growth >= 1 && o.Growth <= 10) {
-		return o, fmt.Errorf("growth ratio %v: must be between 1 and 10", o.Growth)
+	if !(o.Growth >= 1 && o.Growth <= MaxGrowth) {
+		return o, fmt.Errorf("growth ratio %v: must be between 1 and %v", o.Growth, MaxGrowth)
 	}
 	if o.MaxSize < 0 || math.IsNaN(o.MaxSize) {
 		return o, fmt.Errorf("maximum size %v: must be positive, or 0 for no limit", o.MaxSize)
@@ -169,10 +175,10 @@ func (o Options) withDefaults() (Options, error) {
 			return o, fmt.Errorf("layers %d: no wall tags given", i)
 		case !(l.FirstHeight > 0) || math.IsInf(l.FirstHeight, 0):
 			return o, fmt.Errorf("layers %d (tags %v): first-cell height %v must be positive", i, l.Tags, l.FirstHeight)
-		case !(l.Growth >= 1 && l.Growth <= 3):
-			return o, fmt.Errorf("layers %d (tags %v): growth ratio %v must be between 1 and 3", i, l.Tags, l.Growth)
-		case l.Count < 0 || l.Count > 200:
-			return o, fmt.Errorf("layers %d (tags %v): count %d must be between 0 and 200", i, l.Tags, l.Count)
+		case !(l.Growth >= 1 && l.Growth <= MaxLayerGrowth):
+			return o, fmt.Errorf("layers %d (tags %v): growth ratio %v must be between 1 and %v", i, l.Tags, l.Growth, MaxLayerGrowth)
+		case l.Count < 0 || l.Count > MaxLayerCount:
+			return o, fmt.Errorf("layers %d (tags %v): count %d must be between 0 and %d", i, l.Tags, l.Count, MaxLayerCount)
 		case l.Count == 0 && !(l.Thickness >= l.FirstHeight):
 			return o, fmt.Errorf("layers %d (tags %v): give a count, or a total thickness of at least the first height %v (got %v)", i, l.Tags, l.FirstHeight, l.Thickness)
 		}
