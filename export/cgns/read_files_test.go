@@ -7,12 +7,10 @@ import (
 	"testing"
 )
 
-// readerFilesC writes, through the CGNS library's own calls, the files of
-// the reader tests on planes other than z = c, slabs whose elements start
-// on a side face, and zones that touch with BCs on the sides they share
-// (each described where it is written). Nodes are numbered i fastest,
-// then j, then k, as SIDS orders structured zones.
-const readerFilesC = `#include <stdio.h>
+// cFilesPrelude begins the C programs that write test files through the
+// CGNS library: ck stops on a library error, naming the call, and
+// open_file opens a new file in the folder dir (the program's argument).
+const cFilesPrelude = `#include <stdio.h>
 #include <stdlib.h>
 #include <cgnslib.h>
 
@@ -32,7 +30,30 @@ static int open_file(const char *name) {
     ck(cg_open(path, CG_MODE_WRITE, &fn), path);
     return fn;
 }
+`
 
+// writeCFiles compiles the C program src (what names it in failures)
+// against the CGNS library with the C compiler cgo uses and runs it on a
+// new folder, returning the folder of the files it wrote.
+func writeCFiles(t *testing.T, src, what string) string {
+	t.Helper()
+	dir := t.TempDir()
+	path := filepath.Join(dir, "files.c")
+	if err := os.WriteFile(path, []byte(src), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if out, err := exec.Command(compileC(t, path, what), dir).CombinedOutput(); err != nil {
+		t.Fatalf("run %s: %v\n%s", what, err, out)
+	}
+	return dir
+}
+
+// readerFilesC writes, through the CGNS library's own calls, the files of
+// the reader tests on planes other than z = c, slabs whose elements start
+// on a side face, and zones that touch with BCs on the sides they share
+// (each described where it is written). Nodes are numbered i fastest,
+// then j, then k, as SIDS orders structured zones.
+const readerFilesC = cFilesPrelude + `
 static void coords(int fn, int B, int Z, double *x, double *y, double *z) {
     int C;
     ck(cg_coord_write(fn, B, Z, RealDouble, "CoordinateX", x, &C), "x");
@@ -200,21 +221,10 @@ int main(int argc, char **argv) {
 }
 `
 
-// readerFiles compiles readerFilesC against the CGNS library with the C
-// compiler cgo uses and runs it, returning the folder of the files it
-// wrote.
+// readerFiles writes the files of readerFilesC and returns their folder.
 func readerFiles(t *testing.T) string {
 	t.Helper()
-	dir := t.TempDir()
-	src := filepath.Join(dir, "files.c")
-	if err := os.WriteFile(src, []byte(readerFilesC), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	bin := compileC(t, src, "the reader test files' writer")
-	if out, err := exec.Command(bin, dir).CombinedOutput(); err != nil {
-		t.Fatalf("run the reader test files' writer: %v\n%s", err, out)
-	}
-	return dir
+	return writeCFiles(t, readerFilesC, "the reader test files' writer")
 }
 
 // gridFileC writes structured zones given as text through the CGNS

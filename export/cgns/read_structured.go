@@ -793,6 +793,29 @@ func sideFaces(zones []szone, id func(g int32) int32) map[[2]int32][]int {
 // check; exactly coincident nodes always merge.
 const mergeTolerance = 1e-6
 
+// joinZoneSides merges, into the union-find parent (find its lookup), the
+// side nodes of different zones that mesh.JoinCoincident finds
+// coincident, and returns how many merges it made and the pairs of zones
+// (by index, lower first) they joined. Nodes of one zone are left to its
+// own connectivity (a zone's seam is its connectivity's business).
+func joinZoneSides(sides []mesh.SideNode, parent []int32, find func(int32) int32) (merged int, pairs [][2]int) {
+	mesh.JoinCoincident(sides, func(c, o mesh.SideNode) {
+		if c.Block == o.Block {
+			return
+		}
+		a, b := find(c.ID), find(o.ID)
+		if a == b {
+			return
+		}
+		parent[max(a, b)] = min(a, b)
+		merged++
+		if pr := [2]int{min(c.Block, o.Block), max(c.Block, o.Block)}; !slices.Contains(pairs, pr) {
+			pairs = append(pairs, pr)
+		}
+	})
+	return merged, pairs
+}
+
 // mergeTouching merges the nodes on the sides of different zones that
 // coincide (within mergeTolerance of the local face length) but that the
 // 1-to-1 connectivity has not joined, into the union-find parent (find
@@ -807,22 +830,7 @@ func mergeTouching(zones []szone, parent []int32, find func(int32) int32) string
 		s := &zones[zi]
 		sides = mesh.SideNodes(sides, s.nodes, s.ni, s.nj, s.first, zi, mergeTolerance)
 	}
-	merged := 0
-	var pairs [][2]int
-	mesh.JoinCoincident(sides, func(c, o mesh.SideNode) {
-		if c.Block == o.Block {
-			return // a zone's own seam is its connectivity's business
-		}
-		a, b := find(c.ID), find(o.ID)
-		if a == b {
-			return
-		}
-		parent[max(a, b)] = min(a, b)
-		merged++
-		if pr := [2]int{min(c.Block, o.Block), max(c.Block, o.Block)}; !slices.Contains(pairs, pr) {
-			pairs = append(pairs, pr)
-		}
-	})
+	merged, pairs := joinZoneSides(sides, parent, find)
 	if merged == 0 {
 		return ""
 	}

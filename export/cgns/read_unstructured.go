@@ -470,22 +470,7 @@ func (r *reader) joinUnstructured(zones []uzone) (*mesh.Mesh, error) {
 			}
 		}
 	}
-	merged := 0
-	var pairs [][2]int
-	mesh.JoinCoincident(sides, func(c, o mesh.SideNode) {
-		if c.Block == o.Block {
-			return
-		}
-		a, b := find(c.ID), find(o.ID)
-		if a == b {
-			return
-		}
-		parent[max(a, b)] = min(a, b)
-		merged++
-		if pr := [2]int{min(c.Block, o.Block), max(c.Block, o.Block)}; !slices.Contains(pairs, pr) {
-			pairs = append(pairs, pr)
-		}
-	})
+	merged, pairs := joinZoneSides(sides, parent, find)
 	newID := make([]int32, total)
 	var in mesh.Input
 	for k, uz := range zones {

@@ -3,8 +3,6 @@ package cgns
 import (
 	"fmt"
 	"math"
-	"os"
-	"os/exec"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -14,27 +12,7 @@ import (
 // zonesFilesC writes, through the CGNS library's own calls, the files of
 // the tests below (each described where it is written). Nodes of a zone of
 // 3 × 3 are numbered 1 + i + 3 j.
-const zonesFilesC = `#include <stdio.h>
-#include <stdlib.h>
-#include <cgnslib.h>
-
-static const char *dir;
-
-static void ck(int rc, const char *what) {
-    if (rc) {
-        fprintf(stderr, "%s: %s\n", what, cg_get_error());
-        exit(1);
-    }
-}
-
-static int open_file(const char *name) {
-    char path[4096];
-    int fn;
-    snprintf(path, sizeof path, "%s/%s", dir, name);
-    ck(cg_open(path, CG_MODE_WRITE, &fn), path);
-    return fn;
-}
-
+const zonesFilesC = cFilesPrelude + `
 static cgsize_t ccw[16] = {1, 2, 5, 4, 2, 3, 6, 5, 4, 5, 8, 7, 5, 6, 9, 8};
 static cgsize_t cw[16] = {1, 4, 5, 2, 2, 5, 6, 3, 4, 7, 8, 5, 5, 8, 9, 6};
 
@@ -124,19 +102,10 @@ int main(int argc, char **argv) {
 }
 `
 
-// zonesFiles compiles zonesFilesC against the CGNS library and runs it,
-// returning the folder of the files it wrote.
+// zonesFiles writes the files of zonesFilesC and returns their folder.
 func zonesFiles(t *testing.T) string {
 	t.Helper()
-	dir := t.TempDir()
-	src := filepath.Join(dir, "zones.c")
-	if err := os.WriteFile(src, []byte(zonesFilesC), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	if out, err := exec.Command(compileC(t, src, "the zone test files' writer"), dir).CombinedOutput(); err != nil {
-		t.Fatalf("run the zone test files' writer: %v\n%s", err, out)
-	}
-	return dir
+	return writeCFiles(t, zonesFilesC, "the zone test files' writer")
 }
 
 // TestReadUnstructuredZones: two unstructured zones of 2 × 2 unit quads
